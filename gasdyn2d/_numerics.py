@@ -1,0 +1,299 @@
+"""Shared internal numerics: argument checking, broadcasting, NaN policy, units.
+
+This is the one internal module the relation modules share. Nothing here is
+public API; the public unit boundary of each relation is built from these
+pieces so that every function checks, converts and reports in the same way.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import sys
+import warnings
+
+import numpy as np
+import pint
+
+from .errors import InvalidInputError, ProbablyDegreesWarning
+
+_PACKAGE_DIR = os.path.dirname(os.path.abspath(__file__))
+_ERROR_MODES = ("raise", "nan")
+
+
+# --------------------------------------------------------------------------- units
+
+
+def is_quantity(value) -> bool:
+    """True for a pint Quantity of any registry."""
+    return isinstance(value, pint.Quantity)
+
+
+def ureg():
+    """pint's application registry (looked up on every call, never modified)."""
+    return pint.get_application_registry()
+
+
+_DIMENSIONS = {
+    "dimensionless": "[]",
+    "angle": "[]",
+    "pressure": "[pressure]",
+    "temperature": "[temperature]",
+    "length": "[length]",
+    "velocity": "[length] / [time]",
+    "density": "[mass] / [length] ** 3",
+    "gas_constant": "[length] ** 2 / [time] ** 2 / [temperature]",
+}
+_SI_UNITS = {
+    "dimensionless": "dimensionless",
+    "angle": "radian",
+    "pressure": "pascal",
+    "temperature": "kelvin",
+    "length": "meter",
+    "velocity": "meter / second",
+    "density": "kilogram / meter ** 3",
+    "gas_constant": "joule / kilogram / kelvin",
+}
+
+
+def to_si(value, name: str, kind: str):
+    """Convert ``value`` (number, sequence, ndarray or Quantity) to a float ndarray in SI.
+
+    Returns ``(array, unit)`` where ``unit`` is the Quantity's unit (or ``None``
+    for a plain number), so that angular results can be returned in the unit the
+    caller used.
+    """
+    if is_quantity(value):
+        try:
+            magnitude = value.to(_SI_UNITS[kind]).magnitude
+        except pint.DimensionalityError:
+            raise InvalidInputError(
+                f"{name} has units of {value.units:~} ({value.dimensionality}); "
+                f"expected {kind} ({_DIMENSIONS[kind]}). Give {name} in a {kind} unit "
+                f"or as a plain number in {_SI_UNITS[kind]}."
+            ) from None
+        unit = value.units
+    else:
+        magnitude = value
+        unit = None
+    try:
+        array = np.asarray(magnitude, dtype=float)
+    except (TypeError, ValueError):
+        raise InvalidInputError(
+            f"{name} must be a real number or an array of real numbers; got {value!r}."
+        ) from None
+    if kind == "angle" and unit is None:
+        _warn_if_degrees(array, name)
+    return array, unit
+
+
+def _warn_if_degrees(array: np.ndarray, name: str) -> None:
+    with np.errstate(invalid="ignore"):
+        big = np.abs(array) > 2.0 * math.pi
+    if np.any(big):
+        first = array[big].flat[0]
+        warnings.warn(
+            f"{name} = {first:g} is larger than 2π as a plain number; plain angles are in "
+            f"radians, so this was probably meant in degrees. Pass np.radians({first:g}) "
+            f"or a Quantity such as {first:g} * ureg.deg.",
+            ProbablyDegreesWarning,
+            stacklevel=caller_stacklevel(),
+        )
+
+
+def caller_stacklevel() -> int:
+    """The ``stacklevel`` that points a warning at the first frame outside gasdyn2d."""
+    frame = sys._getframe(1)
+    level = 1
+    while frame is not None and os.path.dirname(
+        os.path.abspath(frame.f_code.co_filename)
+    ).startswith(_PACKAGE_DIR):
+        frame = frame.f_back
+        level += 1
+    return level
+
+
+def angle_out(value, unit):
+    """Attach an angle unit to a radian result when the caller used Quantities."""
+    if unit is None:
+        return value
+    return ureg().Quantity(value, "radian").to(unit)
+
+
+def quantity_out(value, si_unit: str, unit):
+    """Attach ``si_unit`` and convert to the caller's ``unit`` when they used Quantities."""
+    if unit is None:
+        return value
+    return ureg().Quantity(value, si_unit).to(unit)
+
+
+# ----------------------------------------------------------------- shapes and NaNs
+
+
+def broadcast(**arrays):
+    """Broadcast named arrays together, with an error that names them if they do not fit."""
+    try:
+        shaped = np.broadcast_arrays(*arrays.values())
+    except ValueError:
+        shapes = ", ".join(f"{k} {np.shape(v)}" for k, v in arrays.items())
+        raise InvalidInputError(
+            f"the array arguments do not broadcast together: {shapes}. Give arrays "
+            "whose shapes broadcast like numpy's (equal, 1, or missing dimensions)."
+        ) from None
+    return [np.array(a, dtype=float) for a in shaped]
+
+
+def scalar_or_array(value):
+    """Return a Python float for 0-d results, the ndarray otherwise."""
+    value = np.asarray(value)
+    if value.ndim == 0:
+        return float(value)
+    return value
+
+
+def check_errors_mode(errors: str) -> None:
+    if errors not in _ERROR_MODES:
+        raise InvalidInputError(f"errors must be 'raise' or 'nan'; got {errors!r}.")
+
+
+def check_branch(branch: str, allowed: tuple[str, ...]) -> None:
+    if branch not in allowed:
+        choices = " or ".join(repr(b) for b in allowed)
+        raise InvalidInputError(f"branch must be {choices}; got {branch!r}.")
+
+
+def reject(
+    bad,
+    array: np.ndarray,
+    name: str,
+    requirement: str,
+    errors: str,
+    *,
+    limit=None,
+    error_class=InvalidInputError,
+    unit_text: str = "",
+    hint: str = "",
+) -> np.ndarray:
+    """Report invalid elements of ``array`` (mask ``bad``; NaN elements never count).
+
+    With ``errors="raise"`` an exception names the argument, the first offending
+    value, how many elements failed, and the limit (``limit`` may be an array
+    aligned with ``array``, in which case the limit of the first failing element is
+    quoted). With ``errors="nan"`` the returned copy has NaN at those elements.
+    """
+    bad = np.asarray(bad, dtype=bool) & ~np.isnan(array)
+    if not np.any(bad):
+        return array
+    if errors == "nan":
+        out = np.array(array, dtype=float, copy=True)
+        out[bad] = np.nan
+        return out
+    n_bad = int(np.count_nonzero(bad))
+    index = np.argwhere(bad)[0] if array.ndim else ()
+    first = array[tuple(index)]
+    where = f" at index {tuple(int(i) for i in index)}" if array.ndim else ""
+    count = f" ({n_bad} of {array.size} elements fail)" if array.size > 1 else ""
+    limit_text = ""
+    if limit is not None:
+        limit_value = np.broadcast_to(limit, array.shape)[tuple(index)]
+        limit_text = f"; the limit there is {format_value(limit_value, unit_text)}"
+    message = (
+        f"{name} must be {requirement}; got {format_value(first, unit_text)}{where}"
+        f"{count}{limit_text}."
+    )
+    if hint:
+        message += " " + hint
+    message += " Pass errors='nan' to get NaN for invalid elements instead."
+    raise error_class(message)
+
+
+def format_value(value, unit_text: str = "") -> str:
+    value = float(value)
+    if unit_text == "rad":
+        return f"{value:.10g} rad ({math.degrees(value):.6g}°)"
+    return f"{value:.10g}{(' ' + unit_text) if unit_text else ''}"
+
+
+def check_gamma(gamma: np.ndarray, errors: str) -> np.ndarray:
+    """γ must be a finite number above 1."""
+    with np.errstate(invalid="ignore"):
+        bad = ~(gamma > 1.0) | ~np.isfinite(gamma)
+    return reject(bad, gamma, "gamma", "a finite ratio of specific heats > 1", errors)
+
+
+def check_finite_at_least(array, name, lower, errors, *, what="", inclusive=True, allow_inf=False):
+    """Reject elements below ``lower`` (or equal, if not inclusive) and non-finite ones."""
+    with np.errstate(invalid="ignore"):
+        bad = (array < lower) if inclusive else (array <= lower)
+        if not allow_inf:
+            bad |= np.isinf(array)
+    relation = ">=" if inclusive else ">"
+    requirement = f"{relation} {lower:g}{(' (' + what + ')') if what else ''}"
+    if not allow_inf:
+        requirement = "finite and " + requirement
+    return reject(bad, array, name, requirement, errors)
+
+
+def check_mach_supersonic(M, name, errors):
+    return check_finite_at_least(M, name, 1.0, errors, what="supersonic flow")
+
+
+def check_nonnegative_mach(M, name, errors):
+    return check_finite_at_least(M, name, 0.0, errors, what="a Mach number")
+
+
+# ----------------------------------------------------------------- robust solver
+
+
+def safeguarded_newton(func, x0, lower, upper, *, max_iter=60, rtol=4e-16):
+    """Vectorised Newton iteration kept inside a bracket, with bisection fallback.
+
+    ``func(x)`` returns ``(residual, derivative)`` for an increasing or decreasing
+    residual with a single root in ``[lower, upper]``. The bracket shrinks on every
+    step (using the residual's sign at ``lower``), so the iteration cannot leave it;
+    the loop runs over iterations, never over elements.
+    """
+    x = np.array(x0, dtype=float, copy=True)
+    lo = np.array(lower, dtype=float, copy=True)
+    hi = np.array(upper, dtype=float, copy=True)
+    f_lo, _ = func(lo)
+    sign_lo = np.sign(f_lo)
+    active = np.isfinite(x)
+    with np.errstate(all="ignore"):
+        for _ in range(max_iter):
+            f, df = func(x)
+            same = np.sign(f) == sign_lo
+            lo = np.where(same, x, lo)
+            hi = np.where(same, hi, x)
+            step = f / df
+            x_new = x - step
+            outside = ~((x_new > lo) & (x_new < hi)) | ~np.isfinite(x_new)
+            x_new = np.where(outside, 0.5 * (lo + hi), x_new)
+            done = (np.abs(x_new - x) <= rtol * np.abs(x)) | (f == 0)
+            x = np.where(active, np.where(f == 0, x, x_new), x)
+            active &= ~done
+            if not np.any(active):
+                break
+    return x
+
+
+def output_angle_unit(angle_unit, *other_units):
+    """Unit for angular results: the caller's angle unit, radian if any other
+    argument was a Quantity, or ``None`` (plain radians) when none was."""
+    if angle_unit is not None and str(angle_unit) != "dimensionless":
+        return angle_unit
+    if angle_unit is not None or any(u is not None for u in other_units):
+        return ureg().radian
+    return None
+
+
+def exactly_one(names_values: dict, function: str):
+    """Return the (name, value) of the single non-None keyword, or raise."""
+    given = [(k, v) for k, v in names_values.items() if v is not None]
+    if len(given) != 1:
+        names = ", ".join(names_values)
+        got = ", ".join(k for k, _ in given) or "none"
+        raise InvalidInputError(
+            f"{function} takes exactly one of {names}; got {got}."
+        )
+    return given[0]
