@@ -1,0 +1,136 @@
+"""One simple wave, shock or fan, chosen by the sign of its turn (plain core).
+
+The region graph, the section loads and the intake tools all need the same
+primitive: "turn this stream by a signed angle and tell me the state behind the
+wave". A positive ``turn`` turns the flow into itself (a compression: an
+oblique shock of deflection ``turn``); a negative one turns it away (a
+centred Prandtl–Meyer fan of deflection ``-turn``). Which way is "into itself"
+in the plane depends on the wave's family; that mapping lives with the graph.
+
+Everything here is plain numpy: floats or ndarrays in radians, no pint.
+"""
+
+from __future__ import annotations
+
+from typing import NamedTuple
+
+import numpy as np
+
+from .expansion import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
+from .oblique_shocks import detachment_angles, oblique_shock_ratios, wave_angle_from_deflection
+
+__all__ = ["WaveState", "turn_state", "turn_for_pressure_ratio"]
+
+
+class WaveState(NamedTuple):
+    """State behind one simple wave (plain ndarrays; angles in radians).
+
+    ``wave_angle`` is the shock angle β from the upstream flow (NaN for a fan);
+    ``dlnp_dturn`` is d ln(p2/p1)/d(turn), continuous through turn = 0 where
+    both sides equal γM1²/√(M1² - 1); ``detached`` marks compressions beyond
+    θmax and ``vacuum`` expansions beyond ν_max.
+    """
+
+    M2: np.ndarray
+    p2_p1: np.ndarray
+    T2_T1: np.ndarray
+    p02_p01: np.ndarray
+    wave_angle: np.ndarray
+    is_shock: np.ndarray
+    dlnp_dturn: np.ndarray
+    detached: np.ndarray
+    vacuum: np.ndarray
+
+
+def _shock_log_pressure_slope(M1, beta, gamma):
+    """d ln(p2/p1)/dθ along the shock polar, from dp/dw and dθ/dw (w = M1² sin²β - 1)."""
+    a = (M1 - 1.0) * (M1 + 1.0)
+    ms = M1 * np.sin(beta)
+    w = np.maximum((ms - 1.0) * (ms + 1.0), 0.0)
+    v = (M1 * np.cos(beta)) ** 2
+    r = np.sqrt(v / (1.0 + w))
+    den = (gamma - 1.0) * M1 * M1 + 2.0 + 2.0 * v
+    f = 2.0 * w * r / den
+    dr = -(1.0 + a) / (2.0 * r * (1.0 + w) ** 2)
+    df = 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
+    dtheta_dw = df / (1.0 + f * f)
+    p = 1.0 + 2.0 * gamma / (gamma + 1.0) * w
+    return 2.0 * gamma / (gamma + 1.0) / p / dtheta_dw
+
+
+def turn_state(M1, turn, gamma=1.4, strong=False):
+    """State behind the wave that turns a stream M1 by ``turn`` [rad] (> 0 shock, < 0 fan).
+
+    Parameters
+    ----------
+    M1, turn, gamma : float or ndarray
+        Upstream Mach number (>= 1), signed turn [rad], ratio of specific heats.
+    strong : bool, optional
+        Strong-branch shock for positive turns.
+
+    Returns
+    -------
+    WaveState
+        NaN fields where the shock would detach or the fan pass vacuum (flagged).
+
+    Examples
+    --------
+    >>> from gasdyn2d.waves import turn_state
+    >>> import numpy as np
+    >>> state = turn_state(2.0, np.radians([10.0, -10.0]))
+    >>> np.round(state.p2_p1, 5)
+    array([1.70658, 0.54797])
+    """
+    M1, turn, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, turn, gamma)))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        is_shock = turn > 0.0
+        theta_max, _ = detachment_angles(M1, gamma)
+        detached = turn > theta_max
+        beta = wave_angle_from_deflection(M1, np.where(is_shock, turn, 0.0), gamma, strong=strong)
+        shock = oblique_shock_ratios(M1, beta, gamma)
+        shock_slope = _shock_log_pressure_slope(M1, beta, gamma)
+
+        nu1 = prandtl_meyer_angle(M1, gamma)
+        nu2 = nu1 - np.where(is_shock, 0.0, turn)
+        M_fan = mach_from_prandtl_meyer_angle(nu2, gamma)
+        vacuum = np.isnan(M_fan) & ~is_shock & np.isfinite(turn) & np.isfinite(M1)
+        p_fan = fan_pressure_ratio(M1, M_fan, gamma)
+        T_fan = (1.0 + 0.5 * (gamma - 1.0) * M1**2) / (1.0 + 0.5 * (gamma - 1.0) * M_fan**2)
+        fan_slope = gamma * M_fan**2 / np.sqrt((M_fan - 1.0) * (M_fan + 1.0))
+        fan_slope = np.where(M_fan == 1.0, np.inf, fan_slope)
+
+        pick = lambda a, b: np.where(is_shock, a, b)  # noqa: E731
+        return WaveState(
+            M2=pick(shock.M2, M_fan), p2_p1=pick(shock.p2_p1, p_fan),
+            T2_T1=pick(shock.T2_T1, T_fan), p02_p01=pick(shock.p02_p01, 1.0 + 0.0 * M1),
+            wave_angle=pick(beta, np.nan), is_shock=is_shock,
+            dlnp_dturn=pick(shock_slope, fan_slope), detached=detached, vacuum=vacuum,
+        )
+
+
+def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
+    """Signed turn [rad] of the single wave that takes a stream M1 to pressure ratio p2/p1.
+
+    Above 1 a shock: the pressure fixes the shock's normal
+    Mach number, so the turn is unique (closed form); below 1 a fan (closed
+    form through the isentropic inverse). NaN above the normal-shock pressure.
+
+    Examples
+    --------
+    >>> from gasdyn2d.waves import turn_for_pressure_ratio
+    >>> import numpy as np
+    >>> np.round(np.degrees(turn_for_pressure_ratio(2.0, [1.70658, 0.54797])), 3)
+    array([ 10., -10.])
+    """
+    M1, p, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, p2_p1, gamma)))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        mn2 = 1.0 + (p - 1.0) * (gamma + 1.0) / (2.0 * gamma)
+        beta = np.arcsin(np.sqrt(mn2) / M1)
+        theta = oblique_shock_ratios(M1, beta, gamma).deflection
+        log_T0_T1 = np.log1p(0.5 * (gamma - 1.0) * M1 * M1)
+        log_T0_T2 = log_T0_T1 - (gamma - 1.0) / gamma * np.log(p)
+        M2 = np.sqrt(2.0 / (gamma - 1.0) * np.expm1(log_T0_T2))
+        fan = prandtl_meyer_angle(M1, gamma) - prandtl_meyer_angle(M2, gamma)
+        return np.where(p >= 1.0, theta, fan)
+
+
