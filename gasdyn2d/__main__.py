@@ -1,0 +1,61 @@
+"""``python -m gasdyn2d``: a short worked analysis of an invented vehicle.
+
+The scenario is ours: *Tern*, a small uncrewed demonstrator cruising at Mach
+2.2 at 15 km (standard-atmosphere static pressure 12.11 kPa, temperature
+216.65 K). The tour follows the air from the nose wedge to the intake and the
+control fin, printing what each gasdyn2d tool says about it.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+import gasdyn2d as gd
+from gasdyn2d import ureg
+
+
+def _rule(title: str) -> None:
+    print(f"\n{title}\n{'-' * len(title)}")
+
+
+def free_stream():
+    _rule("1. Free stream: Tern at Mach 2.2, 15 km")
+    air = gd.FlowState(2.2, 12.11 * ureg.kPa, 216.65 * ureg.K)
+    print(f"speed {air.V.to('m/s'):.1f~P}, dynamic pressure {air.q.to('kPa'):.2f~P}, "
+          f"stagnation {air.p0.to('kPa'):.1f~P} and {air.T0.to('K'):.1f~P}")
+    print(f"Mach angle {air.mu.to('deg'):.2f~P}, Prandtl–Meyer angle {air.nu.to('deg'):.2f~P}")
+    return air
+
+
+def nose_wedge(air):
+    _rule("2. Nose wedge, 8° half-angle: the attached oblique shock")
+    shock = gd.oblique_shock(air.M, deflection=8 * ureg.deg)
+    theta_max, _ = gd.max_deflection(air.M)
+    print(f"wave angle {shock.wave_angle.to('deg'):.2f~P}, M2 = {shock.M2:.4f}, "
+          f"p2/p1 = {shock.p2_p1:.4f}, p02/p01 = {shock.p02_p01:.5f}")
+    print(f"detachment would need {np.degrees(theta_max):.2f}° at this Mach number")
+    fan = gd.expansion_fan(shock.M2, deflection=8 * ureg.deg)
+    print(f"turning back to the free-stream direction: fan to M = {fan.M2:.4f}, "
+          f"p/p_inf = {shock.p2_p1 * fan.p2_p1:.4f}")
+
+
+def pitot(air):
+    _rule("3. Pitot probe on the nose boom")
+    shock = gd.normal_shock(air.M)
+    p_pitot = shock.p02_p1 * air.p
+    print(f"normal shock ahead of the probe: M2 = {shock.M2:.4f}, "
+          f"recovery {shock.p02_p01:.4f}; the probe reads {p_pitot.to('kPa'):.2f~P}")
+    back = gd.normal_shock(p02_p1=(p_pitot / air.p).m_as(""))
+    print(f"inverting the reading gives back M = {back.M1:.6f}")
+
+
+def main() -> None:
+    print("gasdyn2d tour — inviscid, perfect-gas estimates for preliminary design only;")
+    print("real designs need test, validated CFD and qualified engineering review.")
+    air = free_stream()
+    nose_wedge(air)
+    pitot(air)
+
+
+if __name__ == "__main__":
+    main()
