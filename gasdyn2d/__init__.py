@@ -14,6 +14,8 @@ from .expansion import ExpansionFan, expansion_fan, mach_from_prandtl_meyer, pra
 from .normal_shocks import NormalShock, normal_shock
 from .oblique_shocks import ObliqueShock, max_deflection, oblique_shock, sonic_deflection
 from .state import FlowState
+from .sections import Section
+from .section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
 from .intakes import RampIntake, ramp_intake
 from .intake_design import ContractionLimits, OptimalRamps, contraction_limits, optimal_ramps
 
@@ -28,6 +30,7 @@ __all__ = [
     "normal_shock", "NormalShock",
     "oblique_shock", "ObliqueShock", "max_deflection", "sonic_deflection",
     "prandtl_meyer", "mach_from_prandtl_meyer", "expansion_fan", "ExpansionFan",
+    "Section", "SectionLoads", "shock_expansion_loads", "linear_loads", "second_order_loads",
     "ramp_intake", "RampIntake", "optimal_ramps", "OptimalRamps", "contraction_limits",
     "ContractionLimits",
     "GasDynamicsError", "InvalidInputError", "DetachedShockError", "NoSolutionError",

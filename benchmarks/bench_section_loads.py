@@ -1,0 +1,94 @@
+"""Benchmark: shock-expansion loads for many (M, α) cases on 200-panel sections.
+
+Prints the time per case of :func:`shock_expansion_loads` (vectorised over the
+cases, looping over panels) and its ratio to plain baselines measured in the
+same run:
+
+- one isentropic p/p0 evaluation over an array of the same number of cases;
+- one isentropic p/p0 evaluation over cases × panels elements (the least any
+  panel method must touch);
+- the same call made case by case in a Python loop (a subset of the cases).
+
+Run ``python benchmarks/bench_section_loads.py`` (10^4 cases) or with
+``--quick`` (10^3 cases, a few seconds).
+"""
+
+from __future__ import annotations
+
+import argparse
+import time
+
+import numpy as np
+
+from gasdyn2d.isentropic import pressure_ratio
+from gasdyn2d.section_loads import linear_loads, second_order_loads, shock_expansion_loads
+from gasdyn2d.sections import Section
+
+
+def best_time(function, repeats):
+    """Shortest wall time of ``repeats`` calls [s]."""
+    best = np.inf
+    for _ in range(repeats):
+        start = time.perf_counter()
+        function()
+        best = min(best, time.perf_counter() - start)
+    return best
+
+
+def wavy_section(n_panels_per_surface, tau=0.04):
+    """Invented worst case: a saw-tooth upper surface (a shock at every other corner)."""
+    x = np.linspace(0.0, 1.0, n_panels_per_surface + 1)
+    y = 0.5 * tau * np.sin(np.pi * x) + 0.002 * (np.arange(x.size) % 2)
+    y[[0, -1]] = 0.0
+    return Section.from_points(np.column_stack([x, y]), np.column_stack([x, -0.5 * tau * np.sin(np.pi * x)]))
+
+
+def main():
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--quick", action="store_true", help="10^3 cases, one repeat")
+    args = parser.parse_args()
+    n_cases = 1_000 if args.quick else 10_000
+    n_loop = 10 if args.quick else 100
+    repeats = 1 if args.quick else 3
+
+    rng = np.random.default_rng(2026)
+    M = rng.uniform(1.5, 5.0, n_cases)
+    alpha = rng.uniform(-0.08, 0.08, n_cases)
+    sections = {
+        "biconvex t/c 0.06, 100+100 panels": Section.biconvex(0.06, n=100),
+        "saw-tooth, 100+100 panels": wavy_section(100),
+        "flat plate, 1+1 panels": Section.flat_plate(),
+    }
+
+    t_isentropic = best_time(lambda: pressure_ratio(M, 1.4), max(repeats, 5))
+    print(f"gasdyn2d section loads benchmark: {n_cases} (M, alpha) cases, best of {repeats}")
+    print(f"baseline: isentropic p/p0 of {n_cases} elements: {t_isentropic * 1e3:.3f} ms")
+    print()
+    header = (f"{'section':<36} {'theory':<16} {'us/case':>9} {'x isen(N)':>10} "
+              f"{'x isen(N*panels)':>17} {'loop us/case':>13} {'loop/vector':>12}")
+    print(header)
+    print("-" * len(header))
+    for name, section in sections.items():
+        n_panels = sum(section.n_panels)
+        grid = np.broadcast_to(M[:, None], (n_cases, n_panels))
+        t_panel_floor = best_time(lambda: pressure_ratio(grid, 1.4), repeats)
+        for theory_name, theory in (("shock-expansion", shock_expansion_loads),
+                                    ("second-order", second_order_loads), ("linear", linear_loads)):
+            t_vector = best_time(lambda: theory(section, M, alpha, errors="nan"), repeats)
+            row = (f"{name:<36} {theory_name:<16} {t_vector / n_cases * 1e6:9.3f} "
+                   f"{t_vector / t_isentropic:10.1f} {t_vector / t_panel_floor:17.2f}")
+            if theory is shock_expansion_loads:
+                t_loop = best_time(lambda: [theory(section, float(m), float(a), errors="nan")
+                                            for m, a in zip(M[:n_loop], alpha[:n_loop])], 1)
+                per_case = t_loop / n_loop
+                row += f" {per_case * 1e6:13.1f} {per_case / (t_vector / n_cases):12.1f}"
+            print(row)
+    print()
+    print("us/case: microseconds per (M, alpha) case of the vectorised call;")
+    print("x isen(N): time over one isentropic p/p0 evaluation of N cases;")
+    print("x isen(N*panels): time over one p/p0 evaluation of N x panels elements;")
+    print(f"loop: the same call case by case for the first {n_loop} cases.")
+
+
+if __name__ == "__main__":
+    main()

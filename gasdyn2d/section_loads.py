@@ -1,0 +1,571 @@
+"""Pressure, lift, wave drag and moment of supersonic sections and fins.
+
+Three theories for the same :class:`~gasdyn2d.sections.Section`, with the same
+result type :class:`SectionLoads`:
+
+- :func:`shock_expansion_loads`: exact shock-expansion theory (an oblique shock
+  or a Prandtl–Meyer fan at the leading edge of each surface, then a fan or a
+  shock at every corner; trailing-edge waves and the wake slip line matched to
+  a common pressure and direction);
+- :func:`linear_loads`: linearised theory (Ackeret);
+- :func:`second_order_loads`: second-order theory (Busemann).
+
+Plain core (numpy only, radians): :func:`surface_pressure_ratios` marches one
+surface of panels for many cases at once. The loop runs over panels (and over
+runs of consecutive expansion corners, which are evaluated in one step); it
+never runs over cases.
+
+These are inviscid, perfect-gas results for preliminary design: no boundary
+layer, skin friction, separation or real-gas effects.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from typing import NamedTuple
+
+import numpy as np
+
+from . import _numerics as nx
+from ._display import ResultTable, unit_field
+from .errors import DetachedShockError, InvalidInputError, NoSolutionError
+from .expansion import fan_pressure_ratio, mach_from_prandtl_meyer_angle, max_prandtl_meyer_angle
+from .expansion import prandtl_meyer_angle
+from .oblique_shocks import detachment_angles
+from .sections import Section
+from .waves import turn_state
+
+__all__ = [
+    "SectionLoads",
+    "shock_expansion_loads",
+    "linear_loads",
+    "second_order_loads",
+    "surface_pressure_ratios",
+    "SurfaceFlow",
+]
+
+_TE_MAX_ITER = 40
+_TE_TOLERANCE = 1e-15  # [rad], absolute, on the slip direction
+
+
+# --------------------------------------------------------------------- result type
+
+
+@dataclasses.dataclass(frozen=True, repr=False)
+class SectionLoads(ResultTable):
+    """Aerodynamic coefficients of a section, per (M, α) case.
+
+    Coefficients are per unit span, based on the chord and the free-stream
+    dynamic pressure q = γ p M²/2. Case fields have the broadcast shape of
+    (M, α, γ); per-panel fields add one trailing axis (one entry per panel, in
+    the order of the section's points, leading edge first).
+
+    Attributes
+    ----------
+    M : float or ndarray
+        Free-stream Mach number [-].
+    alpha : float, ndarray or Quantity
+        Incidence of the chord to the free stream [rad], > 0 nose up.
+    cl, cd : float or ndarray
+        Lift and wave-drag coefficients [-] (wind axes).
+    cm_le : float or ndarray
+        Pitching-moment coefficient about the leading edge [-], > 0 nose up.
+    x_cp : float or ndarray
+        Centre of pressure [chord], -cm_le / cn with cn the chord-normal force
+        coefficient (NaN where cn = 0).
+    slip_direction : float, ndarray or Quantity
+        Direction of the wake slip line at the trailing edge, from the
+        free-stream direction [rad], > 0 towards the upper side.
+    wake_pressure_ratio : float or ndarray
+        Pressure on the wake slip line at the trailing edge over free-stream [-].
+    cp_upper, cp_lower : ndarray
+        Pressure coefficient on each panel [-], shape (..., n_panels).
+    x_upper, x_lower : ndarray
+        Chordwise mid-point of each panel [chord].
+    detached : bool or ndarray
+        A leading-edge or corner shock would need more than the maximum
+        deflection θmax (the shock detaches; results NaN).
+    subsonic : bool or ndarray
+        The flow behind a shock is subsonic (between the sonic and the maximum
+        deflection; the theory does not apply; results NaN).
+    vacuum : bool or ndarray
+        A surface turns the flow further than an expansion to vacuum can
+        (results NaN).
+    wake_unmatched : bool or ndarray
+        No common pressure and direction at the trailing edge with attached
+        weak-branch waves (slip_direction and wake_pressure_ratio NaN; the
+        surface loads are unaffected, as trailing-edge waves cannot act
+        upstream in supersonic flow).
+    theory : str
+        "shock-expansion", "linear" or "second-order".
+    """
+
+    M: object = unit_field("")
+    alpha: object = unit_field("rad")
+    cl: object = unit_field("")
+    cd: object = unit_field("")
+    cm_le: object = unit_field("")
+    x_cp: object = unit_field("chord")
+    slip_direction: object = unit_field("rad")
+    wake_pressure_ratio: object = unit_field("")
+    cp_upper: object = unit_field("")
+    cp_lower: object = unit_field("")
+    x_upper: object = unit_field("chord")
+    x_lower: object = unit_field("chord")
+    detached: object = unit_field("")
+    subsonic: object = unit_field("")
+    vacuum: object = unit_field("")
+    wake_unmatched: object = unit_field("")
+    theory: str = unit_field("")
+
+
+# --------------------------------------------------------------------- plain core
+
+
+class SurfaceFlow(NamedTuple):
+    """Flow along one surface (plain ndarrays): ``p_ratio`` and ``M`` per panel,
+    shape (..., n_panels); the flags per case, shape (...)."""
+
+    p_ratio: np.ndarray
+    M: np.ndarray
+    detached: np.ndarray
+    subsonic: np.ndarray
+    vacuum: np.ndarray
+
+
+def _runs(corner_turns):
+    """Split corner indices into runs: ('shock', i, i+1) or ('fan', i, j)."""
+    runs, i, n = [], 0, len(corner_turns)
+    while i < n:
+        if corner_turns[i] > 0.0:
+            runs.append(("shock", i, i + 1))
+            i += 1
+        else:
+            j = i
+            while j < n and corner_turns[j] <= 0.0:
+                j += 1
+            runs.append(("fan", i, j))
+            i = j
+    return runs
+
+
+def surface_pressure_ratios(M, first_turn, corner_turns, gamma=1.4):
+    """Plain core: p/p∞ and Mach number on every panel of one surface.
+
+    Parameters
+    ----------
+    M, first_turn, gamma : float or ndarray
+        Free-stream Mach number [-], the leading-edge turn [rad] (> 0 into the
+        flow: an oblique shock; < 0 a Prandtl–Meyer fan) and γ, broadcast to the
+        case shape S.
+    corner_turns : 1-D array_like
+        Turn at each interior corner [rad], same sign convention; the same for
+        every case (it is set by the geometry alone).
+
+    Returns
+    -------
+    SurfaceFlow
+        ``p_ratio`` and ``M`` of shape S + (len(corner_turns) + 1,), NaN for
+        flagged cases.
+
+    Notes
+    -----
+    A run of consecutive expansion corners (turns <= 0) is one simple wave:
+    ν_k = ν_start - Σ turns, M_k = M(ν_k), p_k/p_start = (p/p0)(M_k)/(p/p0)(M_start),
+    evaluated for the whole run in one array operation. A compression corner
+    is an oblique shock (weak branch) from the local state.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.section_loads import surface_pressure_ratios
+    >>> flow = surface_pressure_ratios(2.0, np.radians(10.0), np.radians([-20.0]))
+    >>> np.round(flow.p_ratio, 5)
+    array([1.70658, 0.55078])
+    """
+    M, first_turn, gamma = np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in (M, first_turn, gamma)))
+    corner_turns = np.asarray(corner_turns, dtype=float).reshape(-1)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        first = turn_state(M, first_turn, gamma)
+        detached = np.array(first.detached)
+        subsonic = first.is_shock & (first.M2 < 1.0)
+        vacuum = np.array(first.vacuum)
+        p_panels, M_panels = [first.p2_p1], [first.M2]
+        nu_max = max_prandtl_meyer_angle(gamma)
+        for kind, i, j in _runs(corner_turns):
+            M_now, p_now = M_panels[-1], p_panels[-1]
+            if kind == "shock":
+                wave = turn_state(M_now, corner_turns[i], gamma)
+                detached |= wave.detached
+                subsonic |= wave.M2 < 1.0
+                p_panels.append(p_now * wave.p2_p1)
+                M_panels.append(wave.M2)
+                continue
+            nu = prandtl_meyer_angle(M_now, gamma)[..., None] - np.cumsum(corner_turns[i:j])
+            vacuum |= np.any(nu > nu_max[..., None], axis=-1)
+            M_run = mach_from_prandtl_meyer_angle(nu, gamma[..., None])
+            p_run = p_now[..., None] * fan_pressure_ratio(M_now[..., None], M_run, gamma[..., None])
+            p_panels.extend(np.moveaxis(p_run, -1, 0))
+            M_panels.extend(np.moveaxis(M_run, -1, 0))
+        p_ratio = np.stack(p_panels, axis=-1)
+        M_out = np.stack(M_panels, axis=-1)
+    bad = (detached | subsonic | vacuum)[..., None]
+    return SurfaceFlow(np.where(bad, np.nan, p_ratio), np.where(bad, np.nan, M_out),
+                       detached, subsonic, vacuum)
+
+
+def _trailing_edge_residual(phi, upper, lower, gamma):
+    """ln p_upper - ln p_lower after turning both streams to direction phi, and its slope."""
+    M_u, lnp_u, dir_u = upper
+    M_l, lnp_l, dir_l = lower
+    wave_u = turn_state(M_u, phi - dir_u, gamma)
+    wave_l = turn_state(M_l, dir_l - phi, gamma)
+    residual = lnp_u + np.log(wave_u.p2_p1) - lnp_l - np.log(wave_l.p2_p1)
+    return residual, wave_u.dlnp_dturn + wave_l.dlnp_dturn, lnp_u + np.log(wave_u.p2_p1)
+
+
+def _match_trailing_edge(upper, lower, gamma):
+    """Common direction and pressure of the two streams leaving the trailing edge.
+
+    ``upper`` and ``lower`` are (M, ln(p/p∞), direction [rad]) of the last
+    panel of each surface. The upper stream turns by (phi - dir_u) and the
+    lower by (dir_l - phi), each through one shock or fan; ln p_u - ln p_l
+    increases with phi, so a bracketed Newton iteration (slope from
+    ``turn_state(...).dlnp_dturn``) finds the one root. The bracket keeps
+    both waves attached and short of vacuum. This is the wake slip-line match
+    of a two-stream wave pattern; it can be routed through the general
+    region graph later without changing its inputs or outputs.
+
+    Returns
+    -------
+    phi, ln_p, matched : ndarray
+        Slip direction [rad] (same frame as the inputs), ln(p/p∞) on the slip
+        line, and whether a root exists in the bracket.
+    """
+    (M_u, lnp_u, dir_u), (M_l, lnp_l, dir_l) = upper, lower
+    with np.errstate(all="ignore"):
+        nu_room = max_prandtl_meyer_angle(gamma)
+        lo = np.maximum(dir_u - (nu_room - prandtl_meyer_angle(M_u, gamma)),
+                        dir_l - detachment_angles(M_l, gamma)[0])
+        hi = np.minimum(dir_u + detachment_angles(M_u, gamma)[0],
+                        dir_l + (nu_room - prandtl_meyer_angle(M_l, gamma)))
+        margin = 1e-9 * (hi - lo)
+        lo, hi = lo + margin, hi - margin
+        f_lo = _trailing_edge_residual(lo, upper, lower, gamma)[0]
+        f_hi = _trailing_edge_residual(hi, upper, lower, gamma)[0]
+        matched = (f_lo <= 0.0) & (f_hi >= 0.0)
+        s_u = gamma * M_u**2 / np.sqrt(M_u**2 - 1.0)
+        s_l = gamma * M_l**2 / np.sqrt(M_l**2 - 1.0)
+        phi = (s_u * dir_u + s_l * dir_l - lnp_u + lnp_l) / (s_u + s_l)  # linearised start
+        phi = np.where(np.isfinite(phi), np.clip(phi, lo, hi), 0.5 * (lo + hi))
+        active = matched.copy()
+        for _ in range(_TE_MAX_ITER):
+            f, df, _ = _trailing_edge_residual(phi, upper, lower, gamma)
+            lo, hi = np.where(f < 0.0, phi, lo), np.where(f < 0.0, hi, phi)
+            new = phi - f / df
+            new = np.where((new >= lo) & (new <= hi), new, 0.5 * (lo + hi))
+            new = np.where(f == 0.0, phi, new)  # an exact root stays put
+            active &= np.abs(new - phi) > _TE_TOLERANCE
+            phi = np.where(active, new, phi)
+            if not np.any(active):
+                break
+        ln_p = _trailing_edge_residual(phi, upper, lower, gamma)[2]
+    return np.where(matched, phi, np.nan), np.where(matched, ln_p, np.nan), matched
+
+
+# --------------------------------------------------------------- forces on panels
+
+
+def _geometry(section: Section):
+    d_up, d_lo = np.diff(section.upper, axis=0), np.diff(section.lower, axis=0)
+    mid_up = 0.5 * (section.upper[1:] + section.upper[:-1])
+    mid_lo = 0.5 * (section.lower[1:] + section.lower[:-1])
+    return d_up, d_lo, mid_up, mid_lo
+
+
+def _coefficients(section, cp_upper, cp_lower, alpha, exact):
+    """cl, cd, cm_le, x_cp from panel pressure coefficients.
+
+    Exact projection for shock-expansion theory; the thin-section
+    (small-angle) forms cl = cn, cd = ca + α·cn, cm_le = -Σ Δcp x dx for the
+    linear and second-order theories.
+    """
+    d_up, d_lo, mid_up, mid_lo = _geometry(section)
+    cn = cp_lower @ d_lo[:, 0] - cp_upper @ d_up[:, 0]
+    ca = cp_upper @ d_up[:, 1] - cp_lower @ d_lo[:, 1]
+    arm_up, arm_lo = mid_up[:, 0] * d_up[:, 0], mid_lo[:, 0] * d_lo[:, 0]
+    if exact:
+        arm_up = arm_up + mid_up[:, 1] * d_up[:, 1]
+        arm_lo = arm_lo + mid_lo[:, 1] * d_lo[:, 1]
+        cl = cn * np.cos(alpha) - ca * np.sin(alpha)
+        cd = ca * np.cos(alpha) + cn * np.sin(alpha)
+    else:
+        cl, cd = cn, ca + alpha * cn
+    cm_le = cp_upper @ arm_up - cp_lower @ arm_lo
+    with np.errstate(invalid="ignore", divide="ignore"):
+        x_cp = np.where(cn != 0.0, -cm_le / cn, np.nan)
+    return cl, cd, cm_le, x_cp
+
+
+# ------------------------------------------------------------------ unit boundary
+
+
+def _inputs(section, M, alpha, gamma, errors, mach_strict):
+    if not isinstance(section, Section):
+        raise InvalidInputError(
+            f"section must be a gasdyn2d Section (see Section.from_points); got {type(section).__name__}."
+        )
+    nx.check_errors_mode(errors)
+    M, unit_m = nx.to_si(M, "M", "dimensionless")
+    alpha, unit_a = nx.to_si(alpha, "alpha", "angle")
+    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
+    M, alpha, gamma = nx.broadcast(M=M, alpha=alpha, gamma=gamma)
+    gamma = nx.check_gamma(gamma, errors)
+    if mach_strict:
+        M = nx.check_finite_at_least(M, "M", 1.0, errors, what="supersonic flow", inclusive=False)
+    else:
+        M = nx.check_mach_supersonic(M, "M", errors)
+    alpha = nx.reject(np.isinf(alpha), alpha, "alpha", "finite", errors)
+    return M, alpha, gamma, nx.output_angle_unit(unit_a, unit_m)
+
+
+def _result(theory, section, M, alpha, gamma, cp_upper, cp_lower, slip, p_wake, flags, angle_unit):
+    cl, cd, cm_le, x_cp = _coefficients(section, cp_upper, cp_lower, alpha, theory == "shock-expansion")
+    _, _, mid_up, mid_lo = _geometry(section)
+    s = nx.scalar_or_array
+    flag = lambda a: bool(a) if np.ndim(a) == 0 else np.asarray(a, dtype=bool)  # noqa: E731
+    return SectionLoads(
+        M=s(M), alpha=nx.angle_out(s(alpha), angle_unit), cl=s(cl), cd=s(cd), cm_le=s(cm_le),
+        x_cp=s(x_cp), slip_direction=nx.angle_out(s(slip), angle_unit),
+        wake_pressure_ratio=s(p_wake), cp_upper=cp_upper, cp_lower=cp_lower,
+        x_upper=mid_up[:, 0].copy(), x_lower=mid_lo[:, 0].copy(),
+        **{name: flag(value) for name, value in flags.items()}, theory=theory,
+    )
+
+
+def _surface_turns(section, alpha):
+    """Leading-edge turns (> 0 compression) and corner turns of both surfaces."""
+    up, lo = section.upper_angles, section.lower_angles
+    return (up[0] - alpha, np.diff(up)), (alpha - lo[0], -np.diff(lo))
+
+
+def shock_expansion_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
+    """Loads on a section by exact shock-expansion theory, for many (M, α) cases at once.
+
+    Parameters
+    ----------
+    section : Section
+        The section, in chord units.
+    M : float or array_like
+        Free-stream Mach number [-], >= 1.
+    alpha : float, array_like or Quantity
+        Incidence [rad], > 0 nose up (the free stream meets the lower surface).
+    gamma : float or array_like, optional
+        Ratio of specific heats [-], > 1.
+    errors : {"raise", "nan"}, optional
+        ``"nan"`` returns NaN (with the case's flag set) for cases where a shock
+        detaches, the flow behind a shock is subsonic or a surface expands to
+        vacuum, instead of raising.
+
+    Returns
+    -------
+    SectionLoads
+
+    Raises
+    ------
+    DetachedShockError
+        A leading-edge or corner shock would detach, or leave subsonic flow
+        behind it; the message names the first case, the surface, the
+        deflection and θmax there.
+    NoSolutionError
+        A surface expands beyond vacuum; the message names the case and the limit.
+    InvalidInputError
+        M < 1, non-finite incidence, gamma <= 1, or a bad ``section``.
+
+    Notes
+    -----
+    Each surface meets the free stream with a turn θ_LE = δ_u - α (upper) or
+    α - δ_l (lower), δ the first panel's inclination: θ_LE > 0 is an oblique
+    shock (weak branch, θ-β-M relation), θ_LE < 0 a Prandtl–Meyer fan. At a
+    corner where the surface turns away from the flow the fan gives
+    ν2 = ν1 + |Δδ| with p0 constant; where it turns into the flow a shock.
+    Panel pressures give cp = (p/p∞ - 1)/(γM²/2) and the chord-axis forces
+
+        cn = Σ cp_l dx_l - Σ cp_u dx_u,   ca = Σ cp_u dy_u - Σ cp_l dy_l,
+        cl = cn cos α - ca sin α,         cd = ca cos α + cn sin α,
+        cm_le = Σ cp_u (x dx + y dy)_u - Σ cp_l (x dx + y dy)_l   (panel mid-points).
+
+    At the trailing edge each stream turns through one more wave to a common
+    direction and pressure (the wake slip line; Newton on the slip direction).
+    Waves reflected from the fans onto the shocks (and back) are neglected, as
+    in the classical method; their effect on surface pressure is of third
+    order in the turn angles. Cp loses relative precision ~1e-16/|p/p∞ - 1|
+    for very small turns.
+
+    References
+    ----------
+    Liepmann, H. W. and Roshko, A. (1957), Elements of Gasdynamics, Wiley,
+    ch. 4 (shock-expansion theory).
+    Ames Research Staff (1953), NACA Report 1135, eqs. 150 and 171.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.sections import Section
+    >>> from gasdyn2d.section_loads import shock_expansion_loads
+    >>> loads = shock_expansion_loads(Section.double_wedge(0.05), 2.5, np.radians([0.0, 4.0]))
+    >>> np.round(loads.cl, 5), np.round(loads.cd, 5)
+    (array([0.     , 0.12291]), array([0.00437, 0.01304]))
+    """
+    M, alpha, gamma, angle_unit = _inputs(section, M, alpha, gamma, errors, mach_strict=False)
+    (le_u, corners_u), (le_l, corners_l) = _surface_turns(section, alpha)
+    upper = surface_pressure_ratios(M, le_u, corners_u, gamma)
+    lower = surface_pressure_ratios(M, le_l, corners_l, gamma)
+    flags = {name: getattr(upper, name) | getattr(lower, name) for name in ("detached", "subsonic", "vacuum")}
+    if errors == "raise" and any(np.any(v) for v in flags.values()):
+        _raise_for_case(section, M, alpha, gamma, flags)
+    dir_u = section.upper_angles[-1] + 0.0 * alpha
+    dir_l = section.lower_angles[-1] + 0.0 * alpha
+    phi, ln_p, matched = _match_trailing_edge(
+        (upper.M[..., -1], np.log(upper.p_ratio[..., -1]), dir_u),
+        (lower.M[..., -1], np.log(lower.p_ratio[..., -1]), dir_l), gamma)
+    finite = np.isfinite(upper.M[..., -1]) & np.isfinite(lower.M[..., -1])
+    flags["wake_unmatched"] = finite & ~matched
+    q = 0.5 * gamma * M * M
+    cp_u = (upper.p_ratio - 1.0) / q[..., None]
+    cp_l = (lower.p_ratio - 1.0) / q[..., None]
+    return _result("shock-expansion", section, M, alpha, gamma, cp_u, cp_l, phi - alpha,
+                   np.exp(ln_p), flags, angle_unit)
+
+
+def _raise_for_case(section, M, alpha, gamma, flags):
+    """Raise for the first failing case, re-marching it alone to say where and why."""
+    bad = flags["detached"] | flags["subsonic"] | flags["vacuum"]
+    n_bad = int(np.count_nonzero(bad))
+    index = tuple(int(i) for i in np.argwhere(bad)[0]) if bad.ndim else ()
+    m, a, g = (float(v[index]) for v in (M, alpha, gamma))
+    case = (f"case{f' at index {index}' if index else ''} (M = {m:.10g}, alpha = "
+            f"{nx.format_value(a, 'rad')}, gamma = {g:g})")
+    count = f" ({n_bad} of {bad.size} cases fail)" if bad.size > 1 else ""
+    for surface, points, sign in (("upper", section.upper, 1.0), ("lower", section.lower, -1.0)):
+        angles = np.arctan2(np.diff(points[:, 1]), np.diff(points[:, 0]))
+        turns = sign * np.concatenate([[angles[0] - a], np.diff(angles)])
+        where = ["the leading edge"] + [f"the corner at x = {x:.6g}" for x in points[1:-1, 0]]
+        m_local = m
+        for turn, place in zip(turns, where):
+            wave = turn_state(m_local, turn, g)
+            if wave.detached:
+                theta_max = float(detachment_angles(m_local, g)[0])
+                raise DetachedShockError(
+                    f"shock-expansion theory fails for the {case}{count}: the shock at {place} of the "
+                    f"{surface} surface needs a deflection of {nx.format_value(turn, 'rad')}, beyond "
+                    f"the maximum θmax = {nx.format_value(theta_max, 'rad')} at local Mach "
+                    f"{m_local:.6g}, so it detaches. Reduce the incidence or the surface angle, or "
+                    "pass errors='nan' to get NaN for such cases."
+                )
+            if wave.is_shock and wave.M2 < 1.0:
+                raise DetachedShockError(
+                    f"shock-expansion theory fails for the {case}{count}: the shock at {place} of the "
+                    f"{surface} surface (deflection {nx.format_value(turn, 'rad')}, local Mach "
+                    f"{m_local:.6g}) leaves subsonic flow behind it (M2 = {float(wave.M2):.6g}), "
+                    "where the theory does not apply. Pass errors='nan' to get NaN for such cases."
+                )
+            if wave.vacuum:
+                room = float(max_prandtl_meyer_angle(g) - prandtl_meyer_angle(m_local, g))
+                raise NoSolutionError(
+                    f"shock-expansion theory fails for the {case}{count}: at {place} the {surface} "
+                    f"surface turns the flow away by {nx.format_value(-turn, 'rad')}, more than the "
+                    f"{nx.format_value(room, 'rad')} that expands local Mach {m_local:.6g} to vacuum. "
+                    "Pass errors='nan' to get NaN for such cases."
+                )
+            m_local = float(wave.M2)
+    raise NoSolutionError(f"shock-expansion theory fails for the {case}{count}.")  # pragma: no cover
+
+
+def _small_disturbance_loads(theory, section, M, alpha, gamma, errors, second_order):
+    M, alpha, gamma, angle_unit = _inputs(section, M, alpha, gamma, errors, mach_strict=True)
+    root = np.sqrt((M - 1.0) * (M + 1.0))
+    c1 = (2.0 / root)[..., None]
+    c2 = (((gamma + 1.0) * M**4 - 4.0 * (M * M - 1.0)) / (2.0 * root**4))[..., None]
+    a = alpha[..., None]
+    if second_order:  # deflection angles; Busemann (1935)
+        theta_u, theta_l = section.upper_angles - a, a - section.lower_angles
+    else:  # surface slopes; Ackeret (1925)
+        slope_u = np.diff(section.upper[:, 1]) / np.diff(section.upper[:, 0])
+        slope_l = np.diff(section.lower[:, 1]) / np.diff(section.lower[:, 0])
+        theta_u, theta_l = slope_u - a, a - slope_l
+    cp_u = c1 * theta_u + (c2 * theta_u**2 if second_order else 0.0)
+    cp_l = c1 * theta_l + (c2 * theta_l**2 if second_order else 0.0)
+    no = np.zeros(M.shape, dtype=bool)
+    flags = {"detached": no, "subsonic": no, "vacuum": no, "wake_unmatched": no}
+    nan_case = np.isnan(M) | np.isnan(alpha)
+    return _result(theory, section, M, alpha, gamma, cp_u, cp_l, np.where(nan_case, np.nan, 0.0),
+                   np.where(nan_case, np.nan, 1.0), flags, angle_unit)
+
+
+def linear_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
+    """Loads on a section by linearised supersonic theory (Ackeret).
+
+    Same parameters and result as :func:`shock_expansion_loads`, but M > 1
+    strictly. ``gamma`` does not enter the linear pressure; it is accepted for
+    a uniform call.
+
+    Notes
+    -----
+    cp = 2θ/√(M² - 1) on each panel, θ = dy/dx - α (upper) or α - dy/dx (lower),
+    with the thin-section forms cl = cn, cd = ca + α·cn, cm_le = -Σ Δcp·x·dx.
+    For a flat plate cl = 4α/√(M²-1), cd = 4α²/√(M²-1), cm_le = -2α/√(M²-1); for
+    a symmetric double wedge of t/c = τ, cd = 4(α² + τ²)/√(M²-1). The wake
+    leaves parallel to the free stream at free-stream pressure.
+
+    References
+    ----------
+    Ackeret, J. (1925), "Luftkräfte auf Flügel, die mit größerer als
+    Schallgeschwindigkeit bewegt werden", Z. Flugtech. Motorluftschiffahrt 16, 72-74.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.sections import Section
+    >>> from gasdyn2d.section_loads import linear_loads
+    >>> loads = linear_loads(Section.flat_plate(), 2.0, np.radians(3.0))
+    >>> round(loads.cl, 6), round(float(4 * np.radians(3.0) / np.sqrt(3.0)), 6)
+    (0.12092, 0.12092)
+    """
+    return _small_disturbance_loads("linear", section, M, alpha, gamma, errors, second_order=False)
+
+
+def second_order_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
+    """Loads on a section by second-order (Busemann) theory.
+
+    Same parameters and result as :func:`linear_loads`.
+
+    Notes
+    -----
+    cp = C1·θ + C2·θ², θ = δ - α (upper) or α - δ (lower) the panel's deflection
+    angle from the free stream, with
+
+        C1 = 2/√(M² - 1),   C2 = [(γ+1)M⁴ - 4(M² - 1)] / [2(M² - 1)²]
+
+    (C2 → (γ+1)/2 as M → ∞), and the thin-section force forms of
+    :func:`linear_loads`. Shock and simple-wave pressures agree to second order
+    in θ, so one formula serves both; the error is of third order.
+
+    References
+    ----------
+    Busemann, A. (1935), "Aerodynamischer Auftrieb bei Überschallgeschwindigkeit",
+    Luftfahrtforschung 12, 210-220.
+    Liepmann, H. W. and Roshko, A. (1957), Elements of Gasdynamics, Wiley, ch. 4.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.sections import Section
+    >>> from gasdyn2d.section_loads import second_order_loads
+    >>> loads = second_order_loads(Section.flat_plate(), 3.0, 0.05)
+    >>> c1 = 2 / np.sqrt(8.0)
+    >>> round(float((loads.cp_lower[0] - c1 * 0.05) / 0.05**2), 5)
+    1.26875
+    """
+    return _small_disturbance_loads("second-order", section, M, alpha, gamma, errors, second_order=True)
+
