@@ -14,6 +14,24 @@ from .expansion import ExpansionFan, expansion_fan, mach_from_prandtl_meyer, pra
 from .normal_shocks import NormalShock, normal_shock
 from .oblique_shocks import ObliqueShock, max_deflection, oblique_shock, sonic_deflection
 from .state import FlowState
+from .region_graph import WavePattern
+from .pattern_solution import PatternSolution, RegionSolution, WaveSolution
+from .reflections import (
+    FreeBoundaryReflection,
+    MergingShocks,
+    PressureMatchingWave,
+    ReflectionTransition,
+    ShockCrossing,
+    TransitionCondition,
+    WallReflection,
+    free_boundary_reflection,
+    merging_shocks,
+    reflection_transition,
+    shock_crossing,
+    turn_to_pressure,
+    wall_reflection,
+)
+from .polars import PressureDeflectionPolar, pressure_deflection_polar
 from .sections import Section
 from .section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
 from .intakes import RampIntake, ramp_intake
@@ -30,6 +48,11 @@ __all__ = [
     "normal_shock", "NormalShock",
     "oblique_shock", "ObliqueShock", "max_deflection", "sonic_deflection",
     "prandtl_meyer", "mach_from_prandtl_meyer", "expansion_fan", "ExpansionFan",
+    "WavePattern", "PatternSolution", "RegionSolution", "WaveSolution",
+    "wall_reflection", "WallReflection", "reflection_transition", "ReflectionTransition",
+    "TransitionCondition", "shock_crossing", "ShockCrossing", "merging_shocks", "MergingShocks",
+    "free_boundary_reflection", "FreeBoundaryReflection", "turn_to_pressure",
+    "PressureMatchingWave", "pressure_deflection_polar", "PressureDeflectionPolar",
     "Section", "SectionLoads", "shock_expansion_loads", "linear_loads", "second_order_loads",
     "ramp_intake", "RampIntake", "optimal_ramps", "OptimalRamps", "contraction_limits",
     "ContractionLimits",

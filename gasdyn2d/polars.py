@@ -1,0 +1,130 @@
+"""Pressure–deflection polars: every state one wave can reach from a given stream.
+
+A region graph's solution is an intersection of these curves: a wall fixes
+the direction (a vertical line in the polar plane), a free boundary the
+pressure (a horizontal line), and a slip line joins two regions at a point
+common to both of their polars. :func:`pressure_deflection_polar` traces them
+for plotting and for explaining a solution.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+
+import numpy as np
+
+from . import _numerics as nx
+from ._display import ResultTable, unit_field
+from .expansion import fan_pressure_ratio, max_prandtl_meyer_angle, prandtl_meyer_angle
+from .expansion import mach_from_prandtl_meyer_angle
+from .oblique_shocks import detachment_angles, oblique_shock_ratios
+from .state import FlowState
+
+__all__ = ["pressure_deflection_polar", "PressureDeflectionPolar"]
+
+
+@dataclasses.dataclass(frozen=True, repr=False)
+class PressureDeflectionPolar(ResultTable):
+    """Arrays tracing the polars of one stream (last axis: points along the curve).
+
+    The shock polar is one closed-looking curve from the right-running Mach
+    wave (weak end), through the normal shock (top), to the left-running
+    Mach wave, each point a shock of wave angle ``shock_wave_angle``;
+    ``shock_strong`` marks the strong-branch points (wave angle above that
+    of maximum deflection). The expansion branches start at the stream's own
+    point and follow centred fans of each family down to
+    ``min_pressure_ratio``. Directions are absolute (the stream's direction
+    plus the turn).
+    """
+
+    shock_direction: object = unit_field("rad")  #: flow direction behind the shock
+    shock_pressure_ratio: object = unit_field("")  #: p behind the shock over the stream's p
+    shock_wave_angle: object = unit_field("rad")  #: wave angle from the stream
+    shock_strong: object = unit_field("")  #: True on the strong branch
+    expansion_direction_left: object = unit_field("rad")  #: behind a left-running fan
+    expansion_direction_right: object = unit_field("rad")  #: behind a right-running fan
+    expansion_pressure_ratio: object = unit_field("")  #: p behind the fan over the stream's p
+    max_deflection: object = unit_field("rad")  #: θmax of the stream
+
+
+def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
+    """Trace the shock polar (both branches) and the expansion branches of a stream.
+
+    Parameters
+    ----------
+    state : FlowState or float
+        The upstream stream (a Mach number is taken as air flowing along x).
+        A batch of states gives arrays of shape ``state.shape + (n,)``.
+    n : int, optional
+        Points along each branch: the weak and the strong part of each half
+        of the shock polar (so the shock arrays have 4n - 3 points) and each
+        expansion branch (n points).
+    min_pressure_ratio : float, optional
+        Lowest pressure ratio traced on the expansion branches (above the
+        vacuum limit).
+
+    Returns
+    -------
+    PressureDeflectionPolar
+        Directions in radians (Quantities in the state's angle unit when its
+        direction was a Quantity).
+
+    Notes
+    -----
+    Shock polar parametrised by the wave angle β from μ to π/2 on each
+    side: θ(β) from the θ-β-M relation (NACA Report 1135, eq. 138) and
+    p2/p1 = 1 + 2γ(M² sin²β - 1)/(γ + 1) (eq. 128); a left-running shock
+    turns the flow by +θ, a right-running one by -θ. Expansion branch: the
+    isentropic pressure ratio of a centred fan, sampled uniformly in the
+    Prandtl–Meyer angle up to the ratio ``min_pressure_ratio``.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.polars import pressure_deflection_polar
+    >>> polar = pressure_deflection_polar(2.0, n=101)
+    >>> round(float(np.degrees(np.max(polar.shock_direction))), 4)
+    22.9735
+    >>> round(float(np.max(polar.shock_pressure_ratio)), 4)
+    4.5
+    """
+    if not isinstance(state, FlowState):
+        state = FlowState(state, 101325.0, 288.15)
+    n = int(n)
+    if n < 3:
+        raise nx.InvalidInputError(f"n must be an integer >= 3; got {n}.")
+    if not 0.0 < min_pressure_ratio < 1.0:
+        raise nx.InvalidInputError(
+            f"min_pressure_ratio must be between 0 and 1; got {min_pressure_ratio!r}.")
+    M = nx.check_mach_supersonic(np.asarray(state.M_si, dtype=float), "state.M", "raise")
+    M = M[..., None]
+    g = state.gas.gamma
+    d = state.direction_si[..., None]
+    mu = np.arcsin(1.0 / M)
+    theta_max, beta_star = detachment_angles(M, g)
+    # cluster points near both ends and near detachment with a cosine spacing in β
+    s = 0.5 * (1.0 - np.cos(np.linspace(0.0, np.pi, n)))
+    beta = np.concatenate([mu + (beta_star - mu) * s[:-1],
+                           beta_star + (0.5 * np.pi - beta_star) * s], axis=-1)
+    shock = oblique_shock_ratios(M, beta, g)
+    theta = np.nan_to_num(shock.deflection, nan=0.0)
+    half_direction = np.concatenate([-theta, theta[..., ::-1][..., 1:]], axis=-1)
+    direction = d + half_direction
+    pressure = np.concatenate([shock.p2_p1, shock.p2_p1[..., ::-1][..., 1:]], axis=-1)
+    wave_angle = np.concatenate([beta, beta[..., ::-1][..., 1:]], axis=-1)
+    strong = wave_angle > beta_star
+
+    nu1 = prandtl_meyer_angle(M, g)
+    nu_max = max_prandtl_meyer_angle(g)
+    # fan to the lowest pressure: isentropic M from p/p0, then its ν
+    t0 = 1.0 + 0.5 * (g - 1.0) * M * M
+    M_low = np.sqrt(2.0 / (g - 1.0) * (t0 * min_pressure_ratio ** (-(g - 1.0) / g) - 1.0))
+    nu_low = np.minimum(prandtl_meyer_angle(M_low, g), nu_max)
+    turn = (nu_low - nu1) * np.linspace(0.0, 1.0, n)
+    M_fan = mach_from_prandtl_meyer_angle(nu1 + turn, g)
+    p_fan = fan_pressure_ratio(M, M_fan, g)
+    unit = state._units["angle"]
+    out = lambda v: nx.angle_out(v, unit)  # noqa: E731
+    return PressureDeflectionPolar(
+        out(direction), pressure, out(wave_angle), strong, out(d - turn), out(d + turn),
+        p_fan, out(nx.scalar_or_array(theta_max[..., 0])))
