@@ -49,12 +49,51 @@ def pitot(air):
     print(f"inverting the reading gives back M = {back.M1:.6f}")
 
 
+def cowl_reflection(air):
+    _rule("4. Intake ramp shock reflecting from the cowl: a coupled wave pattern")
+    intake = gd.WavePattern(air)
+    intake.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=8 * ureg.deg)
+    intake.add_wave("cowl reflection", upstream="2", downstream="3", family="right")
+    intake.add_wall("3", direction=0 * ureg.deg)  # the cowl's inner wall is axial
+    solution = intake.solve()
+    duct = solution.state("3")
+    print(f"the cowl shock turns the flow {solution.wave('cowl reflection').turn.to('deg'):.2f~P};"
+          f" inside: M = {duct.M:.4f}, p = {duct.p.to('kPa'):.2f~P}, "
+          f"p0 recovery {duct.p0_si / air.p0_si:.4f}")
+    limit = gd.reflection_transition(air.M).detachment.deflection
+    sweep = gd.wall_reflection(air.M, [8, 12, 14] * ureg.deg)
+    print(f"regular reflection is possible up to a {np.degrees(limit):.2f}° ramp; "
+          "ramps of 8°, 12°, 14° give " + ", ".join(sweep.kind))
+
+
+def intake_ramps(air):
+    _rule("5. Two-ramp external-compression intake")
+    best = gd.optimal_ramps(air.M, 2)
+    print("best ramp turns " + ", ".join(f"{np.degrees(t):.2f}°" for t in best.deflections)
+          + f": recovery {best.recovery:.4f} (all shocks equal: {best.equal_strength_recovery:.4f})")
+    intake = gd.ramp_intake(air.M, best.deflections)
+    print(f"behind the terminal shock M = {intake.terminal_mach:.4f}")
+
+
+def control_fin(air):
+    _rule("6. Control fin: 4 % double wedge at 0°, 2°, 4° incidence")
+    fin = gd.Section.double_wedge(0.04)
+    alpha = np.radians([0.0, 2.0, 4.0])
+    exact = gd.shock_expansion_loads(fin, air.M, alpha)
+    linear = gd.linear_loads(fin, air.M, alpha)
+    for a, cl, cd, cl_lin in zip(np.degrees(alpha), exact.cl, exact.cd, linear.cl):
+        print(f"α = {a:3.0f}°: cl = {cl:.4f} (linear theory {cl_lin:.4f}), wave cd = {cd:.5f}")
+
+
 def main() -> None:
     print("gasdyn2d tour — inviscid, perfect-gas estimates for preliminary design only;")
     print("real designs need test, validated CFD and qualified engineering review.")
     air = free_stream()
     nose_wedge(air)
     pitot(air)
+    cowl_reflection(air)
+    intake_ramps(air)
+    control_fin(air)
 
 
 if __name__ == "__main__":
