@@ -39,6 +39,10 @@ def _format(value) -> str:
         return str(array) if array.ndim == 0 else f"array of {array.size} labels"
     if array.dtype == object:
         return repr(magnitude)
+    if array.dtype == bool:
+        if array.ndim == 0:
+            return str(bool(array))
+        return f"{int(array.sum())} of {array.size} True" if array.size > 4 else str(array.tolist())
     if array.ndim == 0:
         return f"{float(array):.6g}"
     if array.size <= 4:

@@ -66,7 +66,7 @@ def _log_area_ratio(M, gamma):
 def area_ratio(M, gamma=1.4):
     """A/A* = (1/M)[(2 + (γ-1)M²)/(γ+1)]^((γ+1)/(2(γ-1)))  (NACA Report 1135, eq. 80)."""
     M = np.asarray(M, dtype=float)
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):  # A/A* → ∞ as M → 0 (inf is exact)
         return np.exp(_log_area_ratio(M, gamma))
 
 
@@ -260,6 +260,7 @@ def isentropic_flow(M=None, *, T_T0=None, p_p0=None, rho_rho0=None, A_Astar=None
     Mach = _mach_from_input(name, value, gamma, branch, errors)
     Mach = np.where(np.isnan(gamma), np.nan, Mach)
     angle_unit = nx.output_angle_unit(unit if is_angle else None, unit)
+    sonic_or_more = nx.clamp_to_limit(Mach, 1.0, "lower")  # M = 1 - ulp from an inverse has μ, ν
     s = nx.scalar_or_array
     return IsentropicFlow(
         M=s(Mach),
@@ -267,9 +268,9 @@ def isentropic_flow(M=None, *, T_T0=None, p_p0=None, rho_rho0=None, A_Astar=None
         p_p0=s(value if name == "p_p0" else pressure_ratio(Mach, gamma)),
         rho_rho0=s(value if name == "rho_rho0" else density_ratio(Mach, gamma)),
         A_Astar=s(value if name == "A_Astar" else area_ratio(Mach, gamma)),
-        mach_angle=nx.angle_out(s(value if name == "mach_angle" else mach_angle_of(Mach)),
-                                angle_unit),
+        mach_angle=nx.angle_out(
+            s(value if name == "mach_angle" else mach_angle_of(sonic_or_more)), angle_unit),
         prandtl_meyer=nx.angle_out(
-            s(value if name == "prandtl_meyer" else prandtl_meyer_angle(Mach, gamma)),
+            s(value if name == "prandtl_meyer" else prandtl_meyer_angle(sonic_or_more, gamma)),
             angle_unit),
     )

@@ -69,27 +69,40 @@ def pitot_ratio(M1, gamma=1.4):
 
 
 def mach_from_downstream_mach(M2, gamma=1.4):
-    """M1 from M2 in (√((γ-1)/(2γ)), 1]: M1² = ((γ-1)M2² + 2)/(2γM2² - (γ-1))."""
-    m2 = np.asarray(M2, dtype=float) ** 2
+    """M1 from M2 in (√((γ-1)/(2γ)), 1]: M1² - 1 = (γ+1)(1 - M2²)/(2γM2² - (γ-1)).
+
+    Written for M1² - 1 (NACA Report 1135, eq. 96 inverted) so that weak shocks keep
+    their digits.
+    """
+    M2 = np.asarray(M2, dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
-        return np.sqrt(((gamma - 1.0) * m2 + 2.0) / (2.0 * gamma * m2 - (gamma - 1.0)))
+        w = (gamma + 1.0) * (1.0 - M2) * (1.0 + M2) / (2.0 * gamma * M2 * M2 - (gamma - 1.0))
+        return np.sqrt(1.0 + w)
 
 
 def mach_from_density_jump(rho2_rho1, gamma=1.4):
-    """M1 from ρ2/ρ1 in [1, (γ+1)/(γ-1)): M1² = 2r/((γ+1) - (γ-1)r)."""
+    """M1 from ρ2/ρ1 in [1, (γ+1)/(γ-1)): M1² - 1 = (γ+1)(r - 1)/((γ+1) - (γ-1)r)."""
     r = np.asarray(rho2_rho1, dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
-        return np.sqrt(2.0 * r / ((gamma + 1.0) - (gamma - 1.0) * r))
+        return np.sqrt(1.0 + (gamma + 1.0) * (r - 1.0) / ((gamma + 1.0) - (gamma - 1.0) * r))
 
 
 def mach_from_temperature_jump(T2_T1, gamma=1.4):
-    """M1 from T2/T1 >= 1: the positive root of a quadratic in M1² (no cancellation)."""
-    tau = np.asarray(T2_T1, dtype=float)
-    b = 4.0 * gamma - (gamma - 1.0) ** 2 - tau * (gamma + 1.0) ** 2  # always < 0 for τ >= 1
+    """M1 from T2/T1 >= 1: the positive root w = M1² - 1 of a quadratic, without cancellation.
+
+    With t = T2/T1 - 1: 2γ(γ-1)w² + [2(γ²-1) - (γ+1)²t]w - (γ+1)²t = 0 (eqs. 93-95
+    combined); the root is taken in whichever of its two algebraic forms avoids the
+    difference of nearly equal terms.
+    """
+    t = np.asarray(T2_T1, dtype=float) - 1.0
+    gp = gamma + 1.0
     a = 2.0 * gamma * (gamma - 1.0)
-    c = -2.0 * (gamma - 1.0)
-    m2 = (-b + np.sqrt(b * b - 4.0 * a * c)) / (2.0 * a)
-    return np.sqrt(m2)
+    b = 2.0 * gp * (gamma - 1.0) - gp * gp * t
+    c = -gp * gp * t
+    with np.errstate(divide="ignore", invalid="ignore"):
+        root = np.sqrt(b * b - 4.0 * a * c)
+        w = np.where(b > 0.0, -2.0 * c / (b + root), (root - b) / (2.0 * a))
+        return np.sqrt(1.0 + w)
 
 
 def mach_from_stagnation_pressure_ratio(p02_p01, gamma=1.4):
@@ -198,6 +211,10 @@ def _upstream_mach(name, value, gamma, errors):
                               "in (0, 1] (entropy rises across a shock)", errors)
             return mach_from_stagnation_pressure_ratio(value, gamma)
         low = pitot_ratio(1.0, gamma)
+        # the pitot ratio near M1 = 1 carries ~γ/(γ-1) ulp from its exponent: that close
+        # below the limit is the limit
+        value = nx.clamp_to_limit(value, low, "lower",
+                                  slack=nx.ROUNDING_SLACK * (1.0 + gamma / (gamma - 1.0)))
         value = nx.reject((value < low) | np.isinf(value), value, "p02_p1",
                           "finite and >= ((γ+1)/2)^(γ/(γ-1)), its value at M1 = 1", errors,
                           limit=low)

@@ -44,7 +44,10 @@ __all__ = [
     "oblique_shock_ratios",
 ]
 
-_NEWTON_STEPS = 3
+_DETACHMENT_SLACK = 4e-16  # tan θ this close above tan θmax is θmax itself (rounding of atan/tan)
+_NEAR_DETACHMENT = 1e-3  # within this fraction of tan θmax, polish in the square-root variable
+_NEWTON_STEPS = 2  # from the cubic's root, two steps reach rounding (measured vs mpmath)
+_MACH_WAVE_SLACK = 4e-15  # |M1² sin²β - 1| that rounding of sin β alone can produce at β = μ
 
 
 # ------------------------------------------------------------------ plain core
@@ -64,40 +67,46 @@ def deflection_from_wave_angle(M1, beta, gamma=1.4):
     """Plain core: flow deflection θ [rad] behind a shock of wave angle β [rad].
 
     tan θ = 2 cot β (M1² sin²β - 1)/(M1²(γ + cos 2β) + 2)  (NACA Report 1135, eq. 138).
-    Valid for μ <= β <= π/2; NaN outside.
+    Valid for μ <= β <= π/2; NaN outside. A wave angle a few ulp below μ
+    (``asin(1/M1)`` rounded down) counts as the Mach wave, θ = 0.
     """
     M1 = np.asarray(M1, dtype=float)
     beta = np.asarray(beta, dtype=float)
     with np.errstate(invalid="ignore"):
         ms = M1 * np.sin(beta)
         w = (ms - 1.0) * (ms + 1.0)
+        below_mach_wave = w < -_MACH_WAVE_SLACK
+        w = np.maximum(w, 0.0)
         mc = M1 * np.cos(beta)
         theta = np.arctan(_tan_deflection(w, mc * mc, M1, gamma))
-        return np.where((w < 0) | (mc < 0), np.nan, theta)
+        return np.where(below_mach_wave | (mc < 0), np.nan, theta)
 
 
-def _cubic_roots(M1, theta, gamma):
-    """Middle and largest real roots x = sin²β of the θ-β-M cubic.
+def _cubic_root(M1, tan_theta, gamma, strong):
+    """Middle (weak) or largest (strong) real root x = sin²β of the θ-β-M cubic.
 
     x³ + b x² + c x + d = 0 with b = -(M²+2)/M² - γ sin²θ,
     c = (2M²+1)/M⁴ + [(γ+1)²/4 + (γ-1)/M²] sin²θ, d = -cos²θ/M⁴
     (NACA Report 1135, eq. 150), solved by the trigonometric method for three
-    real roots (Wolf 1993 gives the equivalent form in tan β).
+    real roots (Wolf 1993 gives the equivalent form in tan β). sin²θ and cos²θ
+    come from tan θ, which the polishing step needs anyway.
     """
     m2 = M1 * M1
-    s2 = np.sin(theta) ** 2
+    inv_m4 = 1.0 / (m2 * m2)
+    c2 = 1.0 / (1.0 + tan_theta * tan_theta)  # cos²θ
+    s2 = 1.0 - c2
     b = -(m2 + 2.0) / m2 - gamma * s2
-    c = (2.0 * m2 + 1.0) / (m2 * m2) + (0.25 * (gamma + 1.0) ** 2 + (gamma - 1.0) / m2) * s2
-    d = -np.cos(theta) ** 2 / (m2 * m2)
+    c = (2.0 * m2 + 1.0) * inv_m4 + (0.25 * (gamma + 1.0) ** 2 + (gamma - 1.0) / m2) * s2
+    d = -c2 * inv_m4
     p = c - b * b / 3.0
-    q = 2.0 * b**3 / 27.0 - b * c / 3.0 + d
+    q = (2.0 / 27.0) * b * b * b - b * c / 3.0 + d
     radius = 2.0 * np.sqrt(np.maximum(-p / 3.0, 0.0))
     with np.errstate(divide="ignore", invalid="ignore"):
         cos_arg = np.clip(3.0 * q / (p * radius), -1.0, 1.0)
     phi = np.arccos(cos_arg) / 3.0
-    largest = radius * np.cos(phi) - b / 3.0
-    middle = radius * np.cos(phi - 2.0 * np.pi / 3.0) - b / 3.0
-    return middle, largest
+    if strong:
+        return radius * np.cos(phi) - b / 3.0
+    return radius * np.cos(phi - 2.0 * np.pi / 3.0) - b / 3.0
 
 
 def detachment_angles(M1, gamma=1.4):
@@ -109,9 +118,9 @@ def detachment_angles(M1, gamma=1.4):
     which is free of cancellation as M → 1.
     """
     M1 = np.asarray(M1, dtype=float)
-    m2 = M1 * M1
-    big = (gamma + 1.0) * ((gamma + 1.0) * m2 * m2 / 16.0 + 0.5 * (gamma - 1.0) * m2 + 1.0)
-    return _angles_from_v(M1, gamma, 0.25 * (3.0 * gamma - 1.0) * m2 + 1.0, np.sqrt(big))
+    w, v = _detachment_wv(M1, gamma)
+    with np.errstate(invalid="ignore"):
+        return np.arctan(_tan_deflection(w, v, M1, gamma)), _wave_angle(w, v)
 
 
 def sonic_angles(M1, gamma=1.4):
@@ -129,78 +138,167 @@ def sonic_angles(M1, gamma=1.4):
                           np.sqrt(big))
 
 
-def _angles_from_v(M1, gamma, P, S):
+def _detachment_wv(M1, gamma):
+    """(w*, v*) at the detachment point, cancellation-free (see :func:`detachment_angles`)."""
     m2 = M1 * M1
+    big = (gamma + 1.0) * ((gamma + 1.0) * m2 * m2 / 16.0 + 0.5 * (gamma - 1.0) * m2 + 1.0)
+    return _wv_from_roots(M1, gamma, 0.25 * (3.0 * gamma - 1.0) * m2 + 1.0, np.sqrt(big))
+
+
+def _wv_from_roots(M1, gamma, P, S):
     with np.errstate(invalid="ignore"):
-        v = ((gamma - 1.0) * m2 + 2.0) * (M1 - 1.0) * (M1 + 1.0) / (2.0 * (P + S))
-        w = (M1 - 1.0) * (M1 + 1.0) - v
+        a = (M1 - 1.0) * (M1 + 1.0)
+        v = ((gamma - 1.0) * M1 * M1 + 2.0) * a / (2.0 * (P + S))
+        return a - v, v
+
+
+def _angles_from_v(M1, gamma, P, S):
+    w, v = _wv_from_roots(M1, gamma, P, S)
+    with np.errstate(invalid="ignore"):
         return np.arctan(_tan_deflection(w, v, M1, gamma)), _wave_angle(w, v)
 
 
-def _newton_weak(w, M1, theta, gamma, w_star):
-    """Polish the weak root in w, clamped to [0, w*]."""
+def _newton_weak(w, M1, target, gamma, w_star):
+    """Polish the weak root in w, clamped to [0, w*]; ``target`` is tan θ."""
     a = (M1 - 1.0) * (M1 + 1.0)
-    target = np.tan(theta)
     cm = (gamma - 1.0) * M1 * M1 + 2.0
-    for _ in range(_NEWTON_STEPS):
+    best, best_miss = w, np.full_like(w, np.inf)
+    for step in range(_NEWTON_STEPS + 1):
         v = a - w
         r = np.sqrt(v / (1.0 + w))
         den = cm + 2.0 * v
         f = 2.0 * w * r / den
+        best, best_miss = _keep_better(w, np.abs(f - target), best, best_miss)
+        if step == _NEWTON_STEPS:
+            break
         dr = -(1.0 + a) / (2.0 * r * (1.0 + w) ** 2)
         df = 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
         w = np.clip(w - (f - target) / df, 0.0, w_star)
-    return w
+    return best
 
 
-def _newton_strong(c, M1, theta, gamma, c_star):
-    """Polish the strong root in c = M1 cos β = √v, clamped to [0, c*]."""
+def _keep_better(x, miss, best, best_miss):
+    """Keep the iterate with the smaller residual.
+
+    At detachment tan θ(x) has a zero slope, so within a few ulp of θmax a Newton
+    step can be thrown far off (and clamped to the far end of the branch); the
+    closed-form start is then already as good as the problem allows (its error
+    is the conditioning, ~√ulp in β) and is kept.
+    """
+    better = miss < best_miss  # a NaN residual (0/0 step at x*) never replaces a number
+    return np.where(better, x, best), np.where(better, miss, best_miss)
+
+
+def _newton_strong(c, M1, target, gamma, c_star):
+    """Polish the strong root in c = M1 cos β = √v, clamped to [0, c*]; ``target`` is tan θ."""
     a = (M1 - 1.0) * (M1 + 1.0)
     m2 = M1 * M1
-    target = np.tan(theta)
     cm = (gamma - 1.0) * m2 + 2.0
-    for _ in range(_NEWTON_STEPS):
+    best, best_miss = c, np.full_like(c, np.inf)
+    for step in range(_NEWTON_STEPS + 1):
         v = c * c
         w = a - v
         root = np.sqrt(m2 - v)
         den = cm + 2.0 * v
         f = 2.0 * w * c / (root * den)
+        best, best_miss = _keep_better(c, np.abs(f - target), best, best_miss)
+        if step == _NEWTON_STEPS:
+            break
         # d/dc of 2 w c / (root den), with dw/dc = -2c, droot/dc = -c/root, dden/dc = 4c
         df = 2.0 * ((-2.0 * c * c + w) * root * den - w * c * (-c / root * den + 4.0 * c * root)) / (
             (root * den) ** 2)
         c = np.clip(c - (f - target) / df, 0.0, c_star)
-    return c
+    return best
+
+
+def _tan_deflection_and_slope(x, M1, gamma, strong):
+    """tan θ and d tan θ/dx along the polar, x = w (weak branch) or c = M1 cos β (strong)."""
+    a = (M1 - 1.0) * (M1 + 1.0)
+    cm = (gamma - 1.0) * M1 * M1 + 2.0
+    if strong:
+        v = x * x
+        w = a - v
+        root = np.sqrt(M1 * M1 - v)
+        den = cm + 2.0 * v
+        f = 2.0 * w * x / (root * den)
+        df = 2.0 * ((-2.0 * v + w) * root * den - w * x * (-x / root * den + 4.0 * x * root)) / (
+            (root * den) ** 2)
+        return f, df
+    v = a - x
+    r = np.sqrt(v / (1.0 + x))
+    den = cm + 2.0 * v
+    dr = -(1.0 + a) / (2.0 * r * (1.0 + x) ** 2)
+    return 2.0 * x * r / den, 2.0 * ((r + x * dr) * den + 2.0 * x * r) / (den * den)
+
+
+def _polish_near_detachment(x, near, M1, target, gamma, x_star, tan_max, strong):
+    """Re-solve the elements within 0.1 % of detachment in the square-root variable.
+
+    There tan θ(x) ≈ tan θmax - k²(x* - x)², so Newton on tan θ itself crawls (zero
+    slope at x*) and the cubic's root has lost half its digits. The residual
+    √(tan θmax - tan θ(x)) - √(tan θmax - tan θ) is instead nearly linear in x
+    through x*, and a bracketed Newton iteration on it (bisection where a step
+    leaves the bracket [0, x*]) converges to the conditioning limit. The loop
+    runs over iterations, on the (usually empty) subset only.
+    """
+    if not np.any(near):
+        return x
+    M1s, ts, gs, xs_star, tms = (np.broadcast_to(arr, x.shape)[near]
+                                 for arr in (M1, target, gamma, x_star, tan_max))
+    goal = np.sqrt(np.maximum(tms - ts, 0.0))
+
+    def residual(xx):
+        f, df = _tan_deflection_and_slope(xx, M1s, gs, strong)
+        root = np.sqrt(np.maximum(tms - f, 0.0))
+        return root - goal, -df / (2.0 * root)
+
+    x = np.array(x, dtype=float, copy=True)
+    start = np.where(np.isfinite(x[near]), np.clip(x[near], 0.0, xs_star), 0.5 * xs_star)
+    x[near] = nx.safeguarded_newton(residual, start, np.zeros_like(xs_star), xs_star, max_iter=40)
+    return x
 
 
 def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     """Plain core: wave angle β [rad] of the shock that turns a stream M1 by θ [rad].
 
-    Closed-form root of the cubic (:func:`_cubic_roots`) followed by three
+    Closed-form root of the cubic (:func:`_cubic_root`) followed by two
     Newton steps on tan θ(w) (weak branch) or tan θ(M1 cos β) (strong branch),
-    clamped to the branch's side of the detachment point. Gives β to ~1e-15
-    relative except within ~1e-8 of detachment, where β(θ) has an infinite
-    slope and the error grows like ε/√(θmax - θ). Returns NaN for θ < 0,
-    θ > θmax or M1 < 1.
+    clamped to the branch's side of the detachment point. Within 0.1 % of
+    detachment (in tan θ) the root is re-solved in a square-root variable
+    (:func:`_polish_near_detachment`), where Newton on tan θ itself stalls.
+    Accuracy (tests/test_oblique_shocks.py, vs mpmath): a few ulp away from
+    detachment; near it, within 32 ulp × |d ln β/d ln θ|, the conditioning of
+    the problem, which grows like (θmax - θ)^(-1/2) (β is good to ~√ulp at
+    θmax itself); θ(β) always reproduces θ to a few ulp. Returns NaN for
+    θ < 0, θ > θmax or M1 < 1.
     """
     M1, theta, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, theta, gamma)))
-    theta_max, beta_star = detachment_angles(M1, gamma)
-    a = (M1 - 1.0) * (M1 + 1.0)
     with np.errstate(invalid="ignore", divide="ignore"):
-        middle, largest = _cubic_roots(M1, theta, gamma)
+        a = (M1 - 1.0) * (M1 + 1.0)
+        w_star, v_star = _detachment_wv(M1, gamma)
+        tan_theta = np.tan(theta)
+        tan_max = _tan_deflection(w_star, v_star, M1, gamma)
+        at_max = tan_theta >= tan_max  # the double root: Newton would crawl, take w*, v*
+        # a few ulp of θ above θmax is θmax; in tan θ that slack is (1 + tan²θ) times larger,
+        # which matters as θmax → 90° (γ → 1 at high M1)
+        slack = _DETACHMENT_SLACK * np.maximum(theta, 1.0) * (1.0 + tan_max * tan_max)
+        invalid = (theta < 0) | (tan_theta > tan_max + slack) | (M1 < 1)
+        x = _cubic_root(M1, tan_theta, gamma, strong)
+        near = ~at_max & (tan_max - tan_theta <= _NEAR_DETACHMENT * tan_max)
         if strong:
-            c_star = M1 * np.cos(beta_star)
-            c0 = np.clip(M1 * np.sqrt(np.maximum(1.0 - largest, 0.0)), 0.0, c_star)
-            c = _newton_strong(c0, M1, theta, gamma, c_star)
-            c = np.where(theta == 0.0, 0.0, c)
-            beta = _wave_angle(a - c * c, c * c)
+            c_star = np.sqrt(v_star)
+            c0 = np.clip(M1 * np.sqrt(np.maximum(1.0 - x, 0.0)), 0.0, c_star)
+            c = _newton_strong(c0, M1, tan_theta, gamma, c_star)
+            c = _polish_near_detachment(c, near, M1, tan_theta, gamma, c_star, tan_max, True)
+            c = np.where(theta == 0.0, 0.0, np.where(at_max, c_star, c))
+            v = c * c
+            beta = _wave_angle(a - v, v)
         else:
-            w_star = a - (M1 * np.cos(beta_star)) ** 2
-            w0 = np.clip(M1 * M1 * middle - 1.0, 0.0, w_star)
-            w = _newton_weak(w0, M1, theta, gamma, w_star)
-            w = np.where(theta == 0.0, 0.0, w)
+            w0 = np.clip(M1 * M1 * x - 1.0, 0.0, w_star)
+            w = _newton_weak(w0, M1, tan_theta, gamma, w_star)
+            w = _polish_near_detachment(w, near, M1, tan_theta, gamma, w_star, tan_max, False)
+            w = np.where(theta == 0.0, 0.0, np.where(at_max, w_star, w))
             beta = _wave_angle(w, a - w)
-        beta = np.where(theta == theta_max, beta_star, beta)
-        invalid = (theta < 0) | (theta > theta_max) | (M1 < 1)
     return np.where(invalid, np.nan, beta)
 
 
@@ -217,17 +315,22 @@ class ObliqueShockRatios(NamedTuple):
     p02_p01: np.ndarray
 
 
-def oblique_shock_ratios(M1, beta, gamma=1.4):
+def oblique_shock_ratios(M1, beta, gamma=1.4, deflection=None):
     """Plain core: every quantity behind an oblique shock of wave angle β [rad].
 
     The normal component obeys the normal-shock relations with Mn1 = M1 sin β
-    (NACA Report 1135, eqs. 128-132); M2 = Mn2 / sin(β - θ).
+    (NACA Report 1135, eqs. 128-132); M2 = Mn2 / sin(β - θ). Pass the
+    ``deflection`` θ [rad] when it is already known to skip recomputing it.
     """
     M1, beta, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, beta, gamma)))
     with np.errstate(invalid="ignore", divide="ignore"):
         ms = M1 * np.sin(beta)
         w = np.maximum((ms - 1.0) * (ms + 1.0), 0.0)
-        theta = deflection_from_wave_angle(M1, beta, gamma)
+        ms = np.where(ms < 1.0, np.sqrt(1.0 + w), ms)  # a Mach wave rounded below Mn1 = 1
+        if deflection is None:
+            theta = deflection_from_wave_angle(M1, beta, gamma)
+        else:
+            theta = np.broadcast_to(np.asarray(deflection, dtype=float), M1.shape)
         ratios = normal_shock_ratios(w, gamma)
         M2 = ratios.M2 / np.sin(beta - theta)
     return ObliqueShockRatios(theta, ms, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
@@ -277,25 +380,37 @@ def _wave_angle_from_input(name, value, M1, gamma, branch, errors):
     mu = np.arctan2(1.0, np.sqrt((M1 - 1.0) * (M1 + 1.0)))
     with np.errstate(invalid="ignore"):
         if name == "deflection":
-            value = _check_deflection(value, M1, gamma, errors)
-            return value, wave_angle_from_deflection(M1, value, gamma, strong=(branch == "strong"))
+            # solve first, check only if something failed: the limits cost as much as the solve
+            strong = branch == "strong"
+            beta = nx.chunked(lambda m, t, g: wave_angle_from_deflection(m, t, g, strong),
+                              M1, value, gamma)
+            if np.any(np.isnan(beta) & ~np.isnan(value) & ~np.isnan(M1) & ~np.isnan(gamma)):
+                value = _check_deflection(value, M1, gamma, errors)
+                beta = np.where(np.isnan(value), np.nan, beta)
+            return value, beta
         if name == "wave_angle":
+            value = nx.clamp_to_limit(value, mu, "lower")  # asin(1/M1) may round below μ
             value = nx.reject(value < mu, value, "wave_angle",
                               "at least the Mach angle μ = asin(1/M1)", errors, limit=mu,
                               unit_text="rad")
             value = nx.reject(value > np.pi / 2, value, "wave_angle", "at most π/2 (90°)", errors)
             return value, value
+        a = (M1 - 1.0) * (M1 + 1.0)
         if name == "Mn1":
+            value = nx.clamp_to_limit(value, 1.0, "lower")
+            value = nx.clamp_to_limit(value, M1, "upper")
             value = nx.reject((value < 1.0) | (value > M1), value, "Mn1",
                               "between 1 and M1 (the normal Mach number of a shock)", errors,
                               limit=M1)
-            return value, np.arcsin(np.minimum(value / M1, 1.0))
+            w = (value - 1.0) * (value + 1.0)
+            return value, _wave_angle(w, np.maximum(a - w, 0.0))
         p_max = 1.0 + 2.0 * gamma / (gamma + 1.0) * (M1 - 1.0) * (M1 + 1.0)
+        value = nx.clamp_to_limit(value, p_max, "upper")
         value = nx.reject((value < 1.0) | (value > p_max), value, "p2_p1",
                           "between 1 and the normal-shock pressure ratio at M1", errors,
                           limit=p_max)
-        mn = np.sqrt(1.0 + (value - 1.0) * (gamma + 1.0) / (2.0 * gamma))
-        return value, np.arcsin(np.minimum(mn / M1, 1.0))
+        w = (value - 1.0) * (gamma + 1.0) / (2.0 * gamma)  # Mn1² - 1, from eq. 93
+        return value, _wave_angle(w, np.maximum(a - w, 0.0))
 
 
 def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None, branch="weak",
@@ -335,7 +450,7 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
     Notes
     -----
     From ``deflection`` the wave angle is the closed-form (trigonometric)
-    root of the θ-β-M cubic in sin²β, then three Newton steps in a
+    root of the θ-β-M cubic in sin²β, then two Newton steps in a
     cancellation-free variable: exact to rounding from the Mach wave (θ → 0)
     to close to detachment, with no iteration to convergence.
 
@@ -368,7 +483,11 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
     gamma = nx.check_gamma(gamma, errors)
     M1 = nx.check_mach_supersonic(M1, "M1", errors)
     value, beta = _wave_angle_from_input(name, value, M1, gamma, branch, errors)
-    ratios = oblique_shock_ratios(M1, beta, gamma)
+    if name == "deflection":
+        ratios = nx.chunked(lambda m, b, g, t: oblique_shock_ratios(m, b, g, deflection=t),
+                            M1, beta, gamma, value)
+    else:
+        ratios = nx.chunked(oblique_shock_ratios, M1, beta, gamma)
     theta = value if name == "deflection" else ratios.deflection
     angle_unit = nx.output_angle_unit(unit_in if is_angle else None, unit_m, unit_in)
     s = nx.scalar_or_array

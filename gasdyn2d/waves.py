@@ -42,8 +42,13 @@ class WaveState(NamedTuple):
     vacuum: np.ndarray
 
 
-def _shock_log_pressure_slope(M1, beta, gamma):
-    """d ln(p2/p1)/dθ along the shock polar, from dp/dw and dθ/dw (w = M1² sin²β - 1)."""
+def _shock_log_pressure_slope(M1, beta, gamma, strong=False):
+    """d ln(p2/p1)/dθ along the shock polar, from dp/dw and dθ/dw (w = M1² sin²β - 1).
+
+    θ rises with w on the weak branch and falls on the strong one, so the sign is
+    the branch's (> 0 weak, < 0 strong); only the magnitude is taken from dθ/dw,
+    whose sign rounding can flip at detachment, where the slope is infinite.
+    """
     a = (M1 - 1.0) * (M1 + 1.0)
     ms = M1 * np.sin(beta)
     w = np.maximum((ms - 1.0) * (ms + 1.0), 0.0)
@@ -53,7 +58,7 @@ def _shock_log_pressure_slope(M1, beta, gamma):
     f = 2.0 * w * r / den
     dr = -(1.0 + a) / (2.0 * r * (1.0 + w) ** 2)
     df = 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
-    dtheta_dw = df / (1.0 + f * f)
+    dtheta_dw = np.abs(df) / (1.0 + f * f) * (-1.0 if strong else 1.0)
     p = 1.0 + 2.0 * gamma / (gamma + 1.0) * w
     return 2.0 * gamma / (gamma + 1.0) / p / dtheta_dw
 
@@ -88,11 +93,13 @@ def turn_state(M1, turn, gamma=1.4, strong=False):
         detached = turn > theta_max
         beta = wave_angle_from_deflection(M1, np.where(is_shock, turn, 0.0), gamma, strong=strong)
         shock = oblique_shock_ratios(M1, beta, gamma)
-        shock_slope = _shock_log_pressure_slope(M1, beta, gamma)
+        shock_slope = _shock_log_pressure_slope(M1, beta, gamma, strong)
 
         nu1 = prandtl_meyer_angle(M1, gamma)
         nu2 = nu1 - np.where(is_shock, 0.0, turn)
         M_fan = mach_from_prandtl_meyer_angle(nu2, gamma)
+        # a fan never slows the flow: no rounding of the inverse may give M2 < M1
+        M_fan = np.where(turn == 0.0, M1, np.maximum(M_fan, M1))
         vacuum = np.isnan(M_fan) & ~is_shock & np.isfinite(turn) & np.isfinite(M1)
         p_fan = fan_pressure_ratio(M1, M_fan, gamma)
         T_fan = (1.0 + 0.5 * (gamma - 1.0) * M1**2) / (1.0 + 0.5 * (gamma - 1.0) * M_fan**2)
