@@ -1,0 +1,310 @@
+"""Supersonic flow through a planar channel with turning walls, by characteristics.
+
+Unit boundary: :func:`channel_flow`. Walls are
+:class:`gasdyn2d.characteristics.WallContour` objects (straight, circular
+bends, or splines through points).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import numbers
+
+import numpy as np
+
+from . import _numerics as nx
+from ._display import ResultTable, unit_field
+from .characteristics import (
+    CharacteristicNet,
+    WallContour,
+    _interior,
+    check_design_input,
+    mach_angle_from_nu,
+    symmetry_point,
+    wall_point,
+)
+from .errors import InvalidInputError
+from .expansion import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
+
+
+__all__ = ["channel_flow", "ChannelFlow"]
+
+_MAX_ROWS = 200_000
+
+
+@dataclasses.dataclass(frozen=True, repr=False)
+class ChannelFlow(ResultTable):
+    """Characteristic net of a channel flow, wall distributions and how the march ended.
+
+    ``stop_reason`` is ``"length"`` (the net reached ``length``), ``"shock"``
+    (characteristics of one family crossed at ``shock_x``, ``shock_y``) or
+    ``"sonic"`` (a compression slowed the stream to M = 1). The last complete
+    row of nodes (``handover_*``), a line across the channel from the lower
+    to the upper wall, is where another method (a shock-fitting solver) can
+    take over.
+    """
+
+    mach_inlet: float = unit_field("")  #: uniform Mach number at the inlet x = 0
+    stop_reason: str = unit_field("")  #: "length", "shock" or "sonic"
+    shock_x: float = unit_field("m")  #: where the net folds or the stream reaches M = 1 (else NaN)
+    shock_y: float = unit_field("m")
+    lower_wall_x: np.ndarray = unit_field("m")  #: lower wall nodes, in streamwise order
+    lower_wall_mach: np.ndarray = unit_field("")
+    lower_wall_p_p0: np.ndarray = unit_field("")  #: wall static over stagnation pressure
+    upper_wall_x: np.ndarray = unit_field("m")
+    upper_wall_mach: np.ndarray = unit_field("")
+    upper_wall_p_p0: np.ndarray = unit_field("")
+    lower_wall_nodes: np.ndarray = unit_field("")  #: indices of the lower wall nodes in ``net``
+    upper_wall_nodes: np.ndarray = unit_field("")  #: indices of the upper wall nodes in ``net``
+    handover_x: np.ndarray = unit_field("m")  #: last complete row of nodes, lower to upper wall
+    handover_y: np.ndarray = unit_field("m")
+    handover_mach: np.ndarray = unit_field("")
+    handover_theta: np.ndarray = unit_field("rad")
+    net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+
+
+def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=1.4):
+    """March a uniform supersonic stream down a planar channel with given walls.
+
+    Parameters
+    ----------
+    M_inlet : float
+        Mach number of the uniform stream crossing x = 0 parallel to the x
+        axis [-], > 1.
+    lower_wall, upper_wall : WallContour
+        Wall contours y(x) [m]; both must be parallel to the x axis at x = 0
+        and the upper above the lower. Give sharp corners as short arcs
+        (:meth:`WallContour.bend` with a small radius): a corner is resolved
+        over one mesh spacing.
+    length : float or Quantity
+        Channel length to march [m].
+    n_points : int, optional
+        Nodes on the inlet line (>= 3); rows alternate n_points and
+        n_points - 1 nodes.
+    gamma : float, optional
+        Ratio of specific heats [-].
+
+    Returns
+    -------
+    ChannelFlow
+
+    Raises
+    ------
+    InvalidInputError
+        M_inlet not above 1, walls not parallel to the stream at the inlet or
+        crossing there, bad ``length`` or ``n_points``.
+
+    Notes
+    -----
+    Rows of nodes are marched downstream: each pair of neighbours gives a new
+    interior node (its C+ from the lower one, its C- from the upper one), and
+    every other row gains a node on each wall, where the wall angle fixes θ
+    and the arriving invariant fixes ν. Node states are exact functions of the
+    invariants; positions are second-order accurate. In uniform regions (a
+    fan fully reflected, two fans fully crossed) the state is therefore exact
+    to rounding, e.g. ν = ν1 + 2δ on a straight wall after the fan of a turn δ
+    on the opposite wall has reflected from it. When two characteristics of
+    one family cross (a compression steepening into a shock) the march stops:
+    the method ends there.
+
+    References
+    ----------
+    Zucrow, M. J. & Hoffman, J. D. (1977), *Gas Dynamics*, Vol. 2, ch. 16 (chapter from memory).
+
+    Examples
+    --------
+    A made-up Mach 2.2 test-section diffuser whose roof turns up by 6° over
+    a 0.2 m arc, floor straight:
+
+    >>> import numpy as np
+    >>> from gasdyn2d.characteristics import WallContour
+    >>> from gasdyn2d.channels import channel_flow
+    >>> flow = channel_flow(2.2, lower_wall=WallContour.straight(0.0),
+    ...                     upper_wall=WallContour.bend(0.1, 0.05, np.radians(6.0), 0.2),
+    ...                     length=0.5, n_points=31)
+    >>> flow.stop_reason
+    'length'
+    >>> round(float(flow.lower_wall_mach.max()), 4)   # after the fan has reflected: ν1 + 12°
+    2.7051
+    """
+    M, _ = nx.to_si(M_inlet, "M_inlet", "dimensionless")
+    g, _ = nx.to_si(gamma, "gamma", "dimensionless")
+    L, length_unit = nx.to_si(length, "length", "length")
+    if M.ndim or g.ndim or L.ndim:
+        raise InvalidInputError("channel_flow computes one channel: give scalar inputs.")
+    check_design_input(g, "gamma", g > 1.0, "a finite ratio of specific heats > 1")
+    check_design_input(M, "M_inlet", M > 1.0, "finite and > 1")
+    check_design_input(L, "length", L > 0.0, "finite and > 0", "m")
+    if isinstance(n_points, bool) or not isinstance(n_points, numbers.Integral) \
+            or not 3 <= n_points <= 20_000:
+        raise InvalidInputError(f"n_points must be an integer from 3 to 20000; got {n_points!r}.")
+    for name, wall in (("lower_wall", lower_wall), ("upper_wall", upper_wall)):
+        if not isinstance(wall, WallContour):
+            raise InvalidInputError(f"{name} must be a WallContour; got {type(wall).__name__}.")
+        inlet_slope = float(wall.slope(0.0))
+        if abs(inlet_slope) > 1e-9:
+            raise InvalidInputError(
+                f"{name} must be parallel to the inflow at x = 0; its slope there is "
+                f"{inlet_slope:.6g} (limit 1e-9). Start the wall straight, or move x = 0.")
+    y_low, y_up = float(lower_wall.height(0.0)), float(upper_wall.height(0.0))
+    if not y_up > y_low:
+        raise InvalidInputError(
+            f"upper_wall must lie above lower_wall at x = 0; got heights {y_up:g} m and "
+            f"{y_low:g} m.")
+    march = _march_channel(float(M), float(g), lower_wall, upper_wall, float(L), int(n_points),
+                           y_low, y_up)
+    return _channel_result(march, float(M), float(g), length_unit)
+
+
+@dataclasses.dataclass
+class _Row:
+    x: np.ndarray
+    y: np.ndarray
+    theta: np.ndarray
+    nu: np.ndarray
+    mu: np.ndarray
+    index: np.ndarray  # global node numbers
+    lower_on_wall: bool
+    upper_on_wall: bool
+
+
+class _Nodes:
+    """Growing store of nodes and segments (appended row by row)."""
+
+    def __init__(self):
+        self.parts = []  # (x, y, theta, nu)
+        self.count = 0
+        self.plus, self.minus = [], []
+        self.lower, self.upper = [], []  # global indices of wall nodes
+
+    def add(self, x, y, theta, nu):
+        index = np.arange(self.count, self.count + len(x))
+        self.parts.append((x, y, theta, nu))
+        self.count += len(x)
+        return index
+
+    def arrays(self):
+        return [np.concatenate([p[k] for p in self.parts]) for k in range(4)]
+
+
+def _march_channel(M, gamma, lower_wall, upper_wall, length, n, y_low, y_up):
+    nu0 = float(prandtl_meyer_angle(M, gamma))
+    y = np.linspace(y_low, y_up, n)
+    return march_rows(np.zeros(n), y, np.zeros(n), np.full(n, nu0), lower_wall, upper_wall,
+                      gamma, lambda row: np.min(row.x) > length)
+
+
+def march_rows(x, y, theta, nu, lower_wall, upper_wall, gamma, stop):
+    """Plain core: march rows of nodes downstream from an initial data line.
+
+    ``x, y, theta, nu`` give the initial line from the lower to the upper
+    boundary (both end nodes on the boundaries). ``lower_wall`` is a
+    WallContour or None for the symmetry line y = 0; ``stop(row)`` is asked
+    before every step. Returns (nodes, last row, stop reason, fold position).
+    """
+    nodes = _Nodes()
+    row = _Row(x, y, theta, nu, mach_angle_from_nu(nu, gamma), nodes.add(x, y, theta, nu),
+               True, True)
+    nodes.lower.append(row.index[0])
+    nodes.upper.append(row.index[-1])
+    reason, fold = "length", (np.nan, np.nan)
+    for _ in range(_MAX_ROWS):
+        if stop(row):
+            break
+        new, status, where = _next_row(row, lower_wall, upper_wall, gamma)
+        if status != "ok":
+            reason, fold = status, where
+            break
+        new.index = nodes.add(new.x, new.y, new.theta, new.nu)
+        _connect(nodes, row, new)
+        row = new
+    return nodes, row, reason, fold
+
+
+def _next_row(row, lower_wall, upper_wall, gamma):
+    """Interior nodes from neighbouring pairs, plus wall nodes on alternate rows."""
+    x3, y3, th3, nu3, tp, tm, mu3 = _interior(
+        row.x[:-1], row.y[:-1], row.theta[:-1], row.nu[:-1], row.mu[:-1],
+        row.x[1:], row.y[1:], row.theta[1:], row.nu[1:], row.mu[1:], gamma)
+    parts = [(x3, y3, th3, nu3)]
+    checks = [tp, tm]
+    if not row.lower_on_wall and lower_wall is None:
+        w = symmetry_point(row.x[0], row.y[0], row.theta[0], row.nu[0], gamma)
+        parts.insert(0, tuple(np.atleast_1d(v) for v in w[:4]))
+        checks.append(np.atleast_1d(w[4]))
+    elif not row.lower_on_wall:
+        w = wall_point(row.x[0], row.y[0], row.theta[0], row.nu[0], lower_wall, "lower", gamma)
+        parts.insert(0, tuple(np.atleast_1d(v) for v in w[:4]))
+        checks.append(np.atleast_1d(w[4]))
+    if not row.upper_on_wall:
+        w = wall_point(row.x[-1], row.y[-1], row.theta[-1], row.nu[-1], upper_wall, "upper", gamma)
+        parts.append(tuple(np.atleast_1d(v) for v in w[:4]))
+        checks.append(np.atleast_1d(w[4]))
+    x, y, theta, nu = (np.concatenate([p[k] for p in parts]) for k in range(4))
+    if np.any(~(nu > 0.0)):  # the stream has been compressed to M = 1
+        k = int(np.argmin(row.nu))  # the slowest upstream node, within one cell of it
+        return None, "sonic", (float(row.x[k]), float(row.y[k]))
+    folded = np.concatenate([~(c > 0) for c in checks[:2]])
+    walls_folded = [~(c > 0) for c in checks[2:]]
+    if np.any(folded) or any(np.any(w) for w in walls_folded):
+        return None, "shock", _fold_position(row, folded, walls_folded)
+    new = _Row(x, y, theta, nu, mach_angle_from_nu(nu, gamma), None,
+               not row.lower_on_wall, not row.upper_on_wall)
+    return new, "ok", None
+
+
+def _fold_position(row, folded, walls_folded):
+    """Midpoint of the upstream pair whose new node folded (first in streamwise order)."""
+    m = row.x.size - 1
+    pair = np.concatenate([np.flatnonzero(folded[:m]), np.flatnonzero(folded[m:])])
+    xs = [0.5 * (row.x[k] + row.x[k + 1]) for k in pair]
+    ys = [0.5 * (row.y[k] + row.y[k + 1]) for k in pair]
+    ends = ([0] if not row.lower_on_wall else []) + ([m] if not row.upper_on_wall else [])
+    for end, bad in zip(ends, walls_folded):
+        if np.any(bad):
+            xs.append(row.x[end])
+            ys.append(row.y[end])
+    k = int(np.argmin(xs))
+    return float(xs[k]), float(ys[k])
+
+
+def _connect(nodes, row, new):
+    """C+ and C- segments from ``row`` to ``new``; wall nodes recorded in order."""
+    offset = 0 if row.lower_on_wall else 1
+    interior = new.index[offset:offset + row.x.size - 1]
+    nodes.plus.append(np.column_stack([row.index[:-1], interior]))
+    nodes.minus.append(np.column_stack([row.index[1:], interior]))
+    if not row.lower_on_wall:
+        nodes.minus.append(np.array([[row.index[0], new.index[0]]]))
+        nodes.lower.append(new.index[0])
+    if not row.upper_on_wall:
+        nodes.plus.append(np.array([[row.index[-1], new.index[-1]]]))
+        nodes.upper.append(new.index[-1])
+
+
+def _channel_result(march, M, gamma, length_unit):
+    nodes, row, reason, fold = march
+    x, y, theta, nu = nodes.arrays()
+    net = CharacteristicNet.from_nodes(
+        x, y, theta, nu, np.concatenate(nodes.plus + [np.empty((0, 2), np.intp)]),
+        np.concatenate(nodes.minus + [np.empty((0, 2), np.intp)]), gamma)
+    lower, upper = np.array(nodes.lower), np.array(nodes.upper)
+
+    def length(value):
+        return nx.quantity_out(value, "meter", length_unit)
+
+    row_mach = mach_from_prandtl_meyer_angle(row.nu, gamma)
+    return ChannelFlow(
+        mach_inlet=M, stop_reason=reason,
+        shock_x=length(fold[0]), shock_y=length(fold[1]),
+        lower_wall_x=length(x[lower]), lower_wall_mach=net.mach[lower],
+        lower_wall_p_p0=net.p_p0[lower],
+        upper_wall_x=length(x[upper]), upper_wall_mach=net.mach[upper],
+        upper_wall_p_p0=net.p_p0[upper],
+        lower_wall_nodes=lower, upper_wall_nodes=upper,
+        handover_x=length(row.x), handover_y=length(row.y),
+        handover_mach=row_mach, handover_theta=row.theta.copy(),
+        net=net,
+    )
+
+
