@@ -1,0 +1,52 @@
+"""Tutorial: the contour of a blowdown-tunnel nozzle by the method of characteristics.
+
+Invented scenario: a university group is building the *Wren* blowdown
+tunnel, Mach 3.0 in a test section 72 mm high (half-height 36 mm). A planar minimum-length
+nozzle with a sharp throat gives the shortest contour; how long is it, how
+close is its exit to the isentropic area ratio, and how does that change with
+the number of characteristics?
+
+Run: ``python blowdown_nozzle.py [output folder]``. The contour is inviscid:
+a real nozzle needs a boundary-layer displacement correction and a rounded
+throat, and the tunnel's settling chamber and its pressure vessel need
+qualified engineering review.
+"""
+
+import sys
+from pathlib import Path
+
+import matplotlib
+
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+
+from gasdyn2d.isentropic import isentropic_flow  # noqa: E402
+from gasdyn2d.nozzles import minimum_length_nozzle  # noqa: E402
+from gasdyn2d.plot import draw_characteristic_net  # noqa: E402
+
+out = Path(sys.argv[1]) if len(sys.argv) > 1 else Path.cwd()
+out.mkdir(parents=True, exist_ok=True)
+
+M_EXIT = 3.0
+exit_half_height = 0.036  # [m]
+A_ratio = float(isentropic_flow(M_EXIT).A_Astar)
+throat_half_height = exit_half_height / A_ratio
+print(f"Mach {M_EXIT}: A/A* = {A_ratio:.4f}, throat half-height "
+      f"{1000 * throat_half_height:.2f} mm")
+
+for n in (8, 16, 32, 64):
+    nozzle = minimum_length_nozzle(M_EXIT, n_characteristics=n,
+                                   throat_half_height=throat_half_height)
+    error = nozzle.area_ratio / nozzle.area_ratio_isentropic - 1.0
+    print(f"n = {n:3d}: length {1000 * nozzle.length:6.1f} mm, exit half-height "
+          f"{1000 * nozzle.exit_half_height:6.2f} mm, area-ratio error {100 * error:+.3f} %")
+
+nozzle = minimum_length_nozzle(M_EXIT, n_characteristics=16,
+                               throat_half_height=throat_half_height)
+fig, ax = plt.subplots(figsize=(9, 3.6), layout="constrained")
+draw_characteristic_net(nozzle, ax=ax)
+ax.set_title("Wren tunnel: Mach 3 minimum-length nozzle, 16 characteristics (upper half)",
+             fontsize="medium")
+fig.savefig(out / "blowdown_nozzle_net.png", dpi=110)
+print(f"largest wall angle at the throat corner: {np.degrees(nozzle.max_wall_angle):.2f}°")

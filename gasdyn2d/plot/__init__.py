@@ -1,0 +1,43 @@
+"""Figures of gasdyn2d results: polars, wave patterns, characteristic nets, surface pressures.
+
+Needs matplotlib (``pip install "gasdyn2d[plot]"``); importing :mod:`gasdyn2d`
+itself never imports matplotlib. Every function draws on the axes ``ax`` you
+give it (or on new axes of a new figure), leaves global matplotlib settings
+untouched and returns what it drew, so a figure can be restyled, tested or
+combined with others.
+
+Public functions
+----------------
+- :func:`draw_polars` — pressure–deflection polars of one or several streams,
+  with solution points marked; :func:`draw_pattern_polars` does the same for
+  regions of a solved :class:`~gasdyn2d.region_graph.WavePattern`.
+- :func:`draw_wave_pattern` — the wave diagram of a solved pattern with its
+  walls: shocks as lines, fans as rays from head to tail, slip lines dashed,
+  regions labelled with their Mach numbers.
+- :func:`draw_characteristic_net` — the characteristic net of a nozzle,
+  channel or jet, coloured by Mach number, with the walls or jet boundary.
+- :func:`draw_surface_pressures` — pressure coefficient along both surfaces
+  of a section by the exact (shock-expansion), linear and second-order theories.
+- :func:`tour_figure` — one summary figure saved to a file (used by
+  ``python -m gasdyn2d``).
+- :data:`PALETTE` — the colour-blind-safe colours used throughout.
+"""
+
+try:
+    import matplotlib  # noqa: F401
+except ImportError as exc:  # pragma: no cover - depends on the environment
+    raise ImportError(
+        "gasdyn2d.plot needs matplotlib, which is not installed. Install the plot extra: "
+        'pip install "gasdyn2d[plot]"') from exc
+
+from ._style import PALETTE
+from .polar_plots import draw_pattern_polars, draw_polars
+from .wave_pattern_plots import draw_wave_pattern
+from .net_plots import draw_characteristic_net
+from .pressure_plots import draw_surface_pressures
+from .tour import tour_figure
+
+__all__ = [
+    "PALETTE", "draw_polars", "draw_pattern_polars", "draw_wave_pattern",
+    "draw_characteristic_net", "draw_surface_pressures", "tour_figure",
+]

@@ -1,0 +1,318 @@
+"""The wave diagram of a solved region graph, placed in its geometry.
+
+A :class:`~gasdyn2d.region_graph.WavePattern` knows the states and the line
+directions of its waves, and where waves start when they were given a
+``start`` point. This module places every wave as straight lines in the
+plane: a wave without a start begins where the wave that made its upstream
+region ends; every line runs until it meets a wall, another wave's line or
+the edge of the drawing.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ._style import (FAN_COLOUR, SHOCK_COLOUR, SLIP_COLOUR, WALL_COLOUR, axes_or_new, plain,
+                     tidy)
+
+__all__ = ["draw_wave_pattern"]
+
+_TINY = 1e-9  # relative length below which a crossing is the line's own start point
+
+
+# --------------------------------------------------------------- geometry core
+
+
+def _pattern_waves(solution):
+    """(name, upstream, downstream, start) per wave, in solution order."""
+    pattern = solution._pattern  # the pattern the solution came from (no public accessor yet)
+    return [(name, pattern._waves[name].upstream, pattern._waves[name].downstream,
+             pattern._waves[name].start) for name in solution.wave_names]
+
+
+def _pattern_slip_lines(solution):
+    return [c.regions for c in solution._pattern._conditions if c.kind == "slip line"]
+
+
+def _segments_of(polyline):
+    x, y = (np.asarray(v, dtype=float) for v in polyline)
+    return np.column_stack([x[:-1], y[:-1], x[1:], y[1:]])
+
+
+def _ray_length(x0, y0, direction, segments, reach):
+    """Distance along the ray from (x0, y0) to the first segment it crosses (or ``reach``)."""
+    if len(segments) == 0:
+        return reach
+    c, s = np.cos(direction), np.sin(direction)
+    ax_, ay, bx, by = segments.T
+    ex, ey = bx - ax_, by - ay
+    with np.errstate(divide="ignore", invalid="ignore"):
+        den = c * ey - s * ex
+        t = ((ax_ - x0) * ey - (ay - y0) * ex) / den  # along the ray
+        u = ((ax_ - x0) * s - (ay - y0) * c) / den  # along the segment, 0..1
+    ok = (np.abs(den) > 1e-14) & (t > _TINY * reach) & (u >= -1e-12) & (u <= 1 + 1e-12)
+    return float(min(reach, np.min(t[ok]))) if np.any(ok) else reach
+
+
+def _box_segments(extent):
+    x0, x1, y0, y1 = extent
+    return _segments_of(([x0, x1, x1, x0, x0], [y0, y0, y1, y1, y0]))
+
+
+def _wave_directions(wave, n_fan_rays):
+    """Plane directions of a wave's lines: one for a shock, head … tail for a fan."""
+    head, tail = float(wave["head"]), float(wave["tail"])
+    if wave["kind"] == "shock":
+        return [head]
+    return list(np.linspace(head, tail, n_fan_rays))
+
+
+def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=5,
+                passes=3):
+    """Start and end points of every wave line.
+
+    Parameters
+    ----------
+    waves : list of dict
+        In solution order, each with ``name``, ``upstream``, ``downstream``,
+        ``start`` ((x, y) or None), ``kind`` ("shock" or "fan") and ``head``,
+        ``tail`` plane directions [rad].
+    wall_segments : ndarray, shape (k, 4)
+        Wall segments (x0, y0, x1, y1) [m].
+    extent : (xmin, xmax, ymin, ymax)
+        The drawing's edges [m].
+
+    Returns
+    -------
+    dict
+        name -> list of (x0, y0, x1, y1), one per line of the wave.
+    """
+    reach = 2.0 * np.hypot(extent[1] - extent[0], extent[3] - extent[2])
+    fixed = np.vstack([wall_segments.reshape(-1, 4), _box_segments(extent)])
+    made_by = {w["downstream"]: w["name"] for w in waves}
+    children = {w["name"]: {v["name"] for v in waves if v["upstream"] == w["downstream"]}
+                for w in waves}
+    lines = {}
+    for _ in range(passes):  # lines clip each other: repeat until the ends settle
+        new = {}
+        for w in waves:
+            start = w["start"]
+            if start is None:
+                parent = made_by.get(w["upstream"])
+                if parent is None or parent not in new:
+                    raise ValueError(
+                        f"wave {w['name']!r} has no start point and its upstream region "
+                        f"{w['upstream']!r} is not made by a placed wave: give it "
+                        "add_wave(..., start=(x, y)) or pass starts={name: (x, y)}.")
+                ends = np.asarray(new[parent])[:, 2:]
+                start = tuple(ends.mean(axis=0))
+            family = {w["name"], made_by.get(w["upstream"])} | children[w["name"]]
+            others = [np.asarray(v) for k, v in lines.items() if k not in family]
+            blocking = np.vstack([fixed] + others) if stop_at_waves and others else fixed
+            x0, y0 = float(start[0]), float(start[1])
+            segs = []
+            for direction in _wave_directions(w, n_fan_rays):
+                t = _ray_length(x0, y0, direction, blocking, reach)
+                segs.append((x0, y0, float(x0 + t * np.cos(direction)),
+                             float(y0 + t * np.sin(direction))))
+            new[w["name"]] = segs
+        if new == lines:
+            break
+        lines = new
+    return lines
+
+
+# --------------------------------------------------------------- drawing
+
+
+def _solution_waves(solution, starts, case):
+    waves = []
+    for name, up, down, start in _pattern_waves(solution):
+        w = solution.wave(name)
+        kind = _pick(w.kind, case)
+        waves.append({"name": name, "upstream": up, "downstream": down,
+                      "start": starts.get(name, start), "kind": str(kind),
+                      "head": _pick(plain(w.head_line_direction), case),
+                      "tail": _pick(plain(w.tail_line_direction), case)})
+    return waves
+
+
+def _pick(value, case):
+    array = np.asarray(value)
+    if array.ndim == 0:
+        return array[()]
+    return array[case if case is not None else (0,) * array.ndim]
+
+
+def _default_extent(walls, waves):
+    points = [np.column_stack([np.asarray(x, float), np.asarray(y, float)]) for x, y in walls]
+    points += [np.asarray([w["start"]], float) for w in waves if w["start"] is not None]
+    if not points:
+        raise ValueError("draw_wave_pattern needs walls, wave start points or an extent.")
+    allp = np.vstack(points)
+    (x0, y0), (x1, y1) = allp.min(axis=0), allp.max(axis=0)
+    size = max(x1 - x0, y1 - y0, 1e-12)
+    if not walls:
+        return (x0 - 0.2 * size, x1 + 2.0 * size, y0 - 1.0 * size, y1 + 1.0 * size)
+    return (x0, x1, y0 - 0.02 * size, y1 + 0.02 * size)
+
+
+def _label_points(lines, waves, solution, case, extent):
+    """A point inside each region: just downstream of the wave that makes it."""
+    span = np.hypot(extent[1] - extent[0], extent[3] - extent[2])
+    points = {}
+    for w in waves:
+        seg = np.asarray(lines[w["name"]][-1])  # a fan's tail line, a shock's only line
+        mid = 0.5 * (seg[:2] + seg[2:])
+        d = float(_pick(plain(solution.region(w["downstream"]).direction), case))
+        length = np.hypot(*(seg[2:] - seg[:2]))
+        step = 0.22 * min(length, 0.5 * span)
+        points[w["downstream"]] = mid + step * np.array([np.cos(d), np.sin(d)])
+    inflow = solution.region_names[0]
+    first = np.asarray(lines[waves[0]["name"]][0])
+    d = float(_pick(plain(solution.region(inflow).direction), case))
+    points[inflow] = first[:2] + 0.5 * (first[2:] - first[:2]) - 0.12 * span * np.array(
+        [np.cos(d), np.sin(d)])
+    x0, x1, y0, y1 = extent
+    return {k: (float(np.clip(p[0], x0, x1)), float(np.clip(p[1], y0, y1)))
+            for k, p in points.items()}
+
+
+def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, slip_lines=None,
+                      extent=None,
+                      label_positions=None, case=None, stop_at_waves=True, n_fan_rays=5,
+                      length_unit="m", ax=None):
+    """Draw a solved wave pattern: walls, shocks, fans, slip lines and region Mach numbers.
+
+    Parameters
+    ----------
+    solution : PatternSolution
+        From :meth:`gasdyn2d.region_graph.WavePattern.solve`; waves placed with
+        ``add_wave(..., start=(x, y))`` keep their start points.
+    walls : sequence of (x, y) arrays, optional
+        Solid walls as polylines [m]; wave lines end where they meet one.
+    free_boundaries : sequence of (x, y) arrays, optional
+        Constant-pressure boundaries (a jet's edge) as polylines [m], drawn
+        dash-dotted; wave lines end on them too.
+    starts : dict, optional
+        Start points {wave name: (x, y)} [m] overriding or adding to the
+        pattern's. A wave with no start begins at the end of the wave that
+        made its upstream region (the mean end point of a fan's lines).
+    slip_lines : sequence of (region_a, region_b), optional
+        Slip lines to draw (default: the pattern's own); each starts where
+        the wave that made ``region_a`` starts and follows its flow direction.
+    extent : (xmin, xmax, ymin, ymax), optional
+        Edges of the drawing [m] (default: the walls' bounding box).
+    label_positions : dict, optional
+        {region name: (x, y)} for region labels placed by hand.
+    case : tuple of int, optional
+        Which case of a batch solution to draw (default: the first).
+    stop_at_waves : bool
+        End each line where it meets another wave's line (True) or only at
+        walls and the edges (False).
+    n_fan_rays : int
+        Lines drawn per fan, head and tail included (>= 2).
+    length_unit : str
+        Unit text of the axis labels (the geometry's own unit).
+    ax : matplotlib Axes, optional
+
+    Returns
+    -------
+    dict
+        ``"ax"``; ``"shocks"`` {name: Line2D}; ``"fans"`` {name: LineCollection};
+        ``"slip_lines"`` {(a, b): Line2D}; ``"walls"`` and ``"free_boundaries"``
+        (lists of Line2D);
+        ``"labels"`` {region: Text}; ``"lines"`` {name: [(x0, y0, x1, y1), …]}.
+
+    Notes
+    -----
+    Lines are straight: exact for the uniform regions of a region graph,
+    while a real fan's lines curve where they cross other waves, and a shock
+    bends where it crosses a fan.
+
+    Examples
+    --------
+    >>> import matplotlib
+    >>> matplotlib.use("Agg")
+    >>> import numpy as np
+    >>> from gasdyn2d.region_graph import WavePattern
+    >>> from gasdyn2d.plot import draw_wave_pattern
+    >>> duct = WavePattern(2.6)
+    >>> _ = duct.add_wave("ramp shock", upstream="1", downstream="2", family="left",
+    ...                   turn=np.radians(6.0), start=(0.0, 0.0))
+    >>> _ = duct.add_wave("reflected", upstream="2", downstream="3", family="right")
+    >>> _ = duct.add_wall("3", direction=0.0)
+    >>> walls = [([-0.5, 0.0, 4.0], [0.0, 0.0, 4.0 * np.tan(np.radians(6.0))]),
+    ...          ([-0.5, 4.0], [1.0, 1.0])]
+    >>> drawn = draw_wave_pattern(duct.solve(), walls=walls)
+    >>> sorted(drawn["shocks"]), len(drawn["fans"])
+    (['ramp shock', 'reflected'], 0)
+    """
+    from matplotlib.collections import LineCollection
+
+    ax = axes_or_new(ax)
+    if n_fan_rays < 2:
+        raise ValueError(f"n_fan_rays must be >= 2 (head and tail); got {n_fan_rays!r}.")
+    if not _pick(solution.ok, case):
+        raise ValueError(f"the pattern was not solved for this case "
+                         f"({_pick(solution.failure, case)}); nothing to draw.")
+    walls = [(plain(x), plain(y)) for x, y in walls]
+    free_boundaries = [(plain(x), plain(y)) for x, y in free_boundaries]
+    waves = _solution_waves(solution, dict(starts or {}), case)
+    if extent is None:
+        extent = _default_extent(walls + free_boundaries, waves)
+    edges = walls + free_boundaries
+    wall_segments = (np.vstack([_segments_of(w) for w in edges]) if edges
+                     else np.empty((0, 4)))
+    lines = place_waves(waves, wall_segments, extent, stop_at_waves=stop_at_waves,
+                        n_fan_rays=n_fan_rays)
+
+    drawn = {"ax": ax, "shocks": {}, "fans": {}, "slip_lines": {}, "walls": [],
+             "free_boundaries": [], "labels": {}, "lines": lines}
+    for x, y in walls:
+        (line,) = ax.plot(x, y, color=WALL_COLOUR, lw=2.4, solid_capstyle="butt", gid="wall")
+        drawn["walls"].append(line)
+    for x, y in free_boundaries:
+        (line,) = ax.plot(x, y, color=SLIP_COLOUR, lw=1.2, ls="-.", gid="free boundary")
+        drawn["free_boundaries"].append(line)
+    for w in waves:
+        segs = np.asarray(lines[w["name"]])
+        if w["kind"] == "shock":
+            (line,) = ax.plot(segs[0, [0, 2]], segs[0, [1, 3]], color=SHOCK_COLOUR, lw=1.8,
+                              gid=f"shock:{w['name']}")
+            drawn["shocks"][w["name"]] = line
+        else:
+            widths = np.full(len(segs), 0.6)
+            widths[[0, -1]] = 1.3
+            fan = LineCollection(segs.reshape(-1, 2, 2), colors=FAN_COLOUR, linewidths=widths,
+                                 gid=f"fan:{w['name']}")
+            ax.add_collection(fan)
+            drawn["fans"][w["name"]] = fan
+    made_by = {w["downstream"]: w for w in waves}
+    reach = 2.0 * np.hypot(extent[1] - extent[0], extent[3] - extent[2])
+    fixed = np.vstack([wall_segments, _box_segments(extent)])
+    for a, b in (_pattern_slip_lines(solution) if slip_lines is None else slip_lines):
+        maker = made_by.get(a) or made_by.get(b)
+        if maker is None:
+            raise ValueError(f"slip line between {a!r} and {b!r}: neither region is made by a "
+                             "wave, so it has no start point.")
+        x0, y0 = np.asarray(lines[maker["name"]][0][:2])
+        d = float(_pick(plain(solution.region(a).direction), case))
+        t = _ray_length(x0, y0, d, fixed, reach)
+        (line,) = ax.plot([x0, x0 + t * np.cos(d)], [y0, y0 + t * np.sin(d)], color=SLIP_COLOUR,
+                          lw=1.2, ls="--", gid=f"slip:{a}|{b}")
+        drawn["slip_lines"][(a, b)] = line
+    points = _label_points(lines, waves, solution, case, extent)
+    points.update(label_positions or {})
+    for region, (x, y) in points.items():
+        M = float(_pick(solution.region(region).M, case))
+        drawn["labels"][region] = ax.text(
+            x, y, f"{region}\nM {M:.3f}", ha="center", va="center", fontsize="small",
+            bbox={"boxstyle": "round,pad=0.25", "fc": "white", "ec": "#BBBBBB", "lw": 0.6})
+    ax.set_xlim(extent[0], extent[1])
+    ax.set_ylim(extent[2], extent[3])
+    ax.set_aspect("equal")
+    ax.set_xlabel(f"x [{length_unit}]")
+    ax.set_ylabel(f"y [{length_unit}]")
+    tidy(ax, grid=False)
+    return drawn

@@ -1,0 +1,163 @@
+"""Every public result type reads well in a terminal and a notebook, and batches become tables.
+
+Checks: a text ``repr`` naming the type and every field with its unit, an HTML
+``<table>`` from ``_repr_html_``, and for batch results a pandas DataFrame with
+one row per case and columns named ``"<field> [<unit>]"``. The list of result
+types is discovered from the package, so a new type without a case here fails.
+"""
+
+import dataclasses
+import importlib
+import pkgutil
+
+import numpy as np
+import pandas as pd
+import pytest
+
+import gasdyn2d
+from gasdyn2d._display import ResultTable
+from gasdyn2d.channels import channel_flow
+from gasdyn2d.characteristics import WallContour
+from gasdyn2d.intake_design import contraction_limits, optimal_ramps
+from gasdyn2d.intakes import ramp_intake
+from gasdyn2d.jets import underexpanded_slot_jet
+from gasdyn2d.nozzles import minimum_length_nozzle, rounded_throat_nozzle
+from gasdyn2d.polars import pressure_deflection_polar
+from gasdyn2d.reflections import (free_boundary_reflection, merging_shocks, reflection_transition,
+                                  shock_crossing, turn_to_pressure, wall_reflection)
+from gasdyn2d.region_graph import WavePattern
+from gasdyn2d.section_loads import shock_expansion_loads
+from gasdyn2d.sections import Section
+
+MACHS = np.array([2.0, 2.5, 3.0])  # invented batch of three cases
+DEG = np.pi / 180
+
+
+def _duct(M):
+    p = WavePattern(M)
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=6 * DEG)
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wall("3", direction=0.0)
+    return p.solve()
+
+
+# name -> (single-case factory, batch factory or None); batches have three cases
+CASES = {
+    "IsentropicFlow": (lambda: gasdyn2d.isentropic_flow(2.0),
+                       lambda: gasdyn2d.isentropic_flow(MACHS)),
+    "NormalShock": (lambda: gasdyn2d.normal_shock(2.0), lambda: gasdyn2d.normal_shock(MACHS)),
+    "ObliqueShock": (lambda: gasdyn2d.oblique_shock(2.0, deflection=10 * DEG),
+                     lambda: gasdyn2d.oblique_shock(MACHS, deflection=10 * DEG)),
+    "ExpansionFan": (lambda: gasdyn2d.expansion_fan(2.0, deflection=10 * DEG),
+                     lambda: gasdyn2d.expansion_fan(MACHS, deflection=10 * DEG)),
+    "FlowState": (lambda: gasdyn2d.FlowState(2.0, 50e3, 220.0),
+                  lambda: gasdyn2d.FlowState(MACHS, 50e3, 220.0)),
+    "Gas": (lambda: gasdyn2d.Gas(gamma=1.4), None),
+    "RampIntake": (lambda: ramp_intake(2.5, np.radians([7.0, 8.0])),
+                   lambda: ramp_intake(MACHS, np.radians([7.0, 8.0]), design_mach=2.5)),
+    "OptimalRamps": (lambda: optimal_ramps(2.5, 2), lambda: optimal_ramps(MACHS, 2)),
+    "ContractionLimits": (lambda: contraction_limits(2.0), lambda: contraction_limits(MACHS)),
+    "PressureDeflectionPolar": (lambda: pressure_deflection_polar(2.0, n=11), None),
+    "RegionSolution": (lambda: _duct(2.6).region("3"), lambda: _duct(MACHS).region("3")),
+    "WaveSolution": (lambda: _duct(2.6).wave("reflected"), lambda: _duct(MACHS).wave("reflected")),
+    "WallReflection": (lambda: wall_reflection(2.5, 10 * DEG),
+                       lambda: wall_reflection(MACHS, 10 * DEG)),
+    "TransitionCondition": (lambda: reflection_transition(3.0).detachment,
+                            lambda: reflection_transition(MACHS).detachment),
+    "ReflectionTransition": (lambda: reflection_transition(3.0), None),
+    "ShockCrossing": (lambda: shock_crossing(2.5, 8 * DEG, 5 * DEG),
+                      lambda: shock_crossing(MACHS, 8 * DEG, 5 * DEG)),
+    "MergingShocks": (lambda: merging_shocks(3.0, 5 * DEG, 5 * DEG),
+                      lambda: merging_shocks(MACHS, 5 * DEG, 5 * DEG)),
+    "FreeBoundaryReflection": (lambda: free_boundary_reflection(2.0, 5 * DEG),
+                               lambda: free_boundary_reflection(MACHS, 5 * DEG)),
+    "PressureMatchingWave": (lambda: turn_to_pressure(2.0, 1.5),
+                             lambda: turn_to_pressure(MACHS, 1.5)),
+    "SectionLoads": (lambda: shock_expansion_loads(Section.double_wedge(0.05), 2.0, 2 * DEG),
+                     lambda: shock_expansion_loads(Section.double_wedge(0.05), MACHS, 2 * DEG)),
+    "MinimumLengthNozzle": (lambda: minimum_length_nozzle(2.0, n_characteristics=6), None),
+    "RoundedThroatNozzle": (lambda: rounded_throat_nozzle(2.0, n_points=7), None),
+    "SlotJet": (lambda: underexpanded_slot_jet(1.5, 2.0, n_characteristics=6), None),
+    "ChannelFlow": (lambda: channel_flow(2.0, lower_wall=WallContour.straight(0.0),
+                                         upper_wall=WallContour.straight(1.0), length=1.0,
+                                         n_points=5), None),
+    "CharacteristicNet": (lambda: minimum_length_nozzle(2.0, n_characteristics=6).net, None),
+}
+# Types without a batch: one design or one stream per call (nets, polars, the gas), or only
+# nested results (ReflectionTransition holds two TransitionCondition batches, tested above).
+
+
+def _result_types():
+    found = {}
+    for info in pkgutil.iter_modules(gasdyn2d.__path__):
+        if info.name.startswith("_") or info.name in ("plot",):
+            continue
+        module = importlib.import_module(f"gasdyn2d.{info.name}")
+        for value in vars(module).values():
+            if (isinstance(value, type) and issubclass(value, ResultTable)
+                    and value is not ResultTable and value.__module__ == module.__name__):
+                found[value.__name__] = value
+    return found
+
+
+def test_every_result_type_has_a_case():
+    missing = sorted(set(_result_types()) - set(CASES))
+    assert not missing, f"result types with no display case: {missing}"
+
+
+@pytest.mark.parametrize("name", sorted(CASES))
+def test_repr_and_html(name):
+    result = CASES[name][0]()
+    assert type(result).__name__ == name
+    text = repr(result)
+    assert text.startswith(name)
+    html = result._repr_html_()
+    assert html.startswith("<table>") and html.endswith("</table>")
+    assert f"<caption>{name}</caption>" in html
+    shown = [f for f in dataclasses.fields(result) if f.repr]
+    for field in shown:
+        # a nested result may show its own fields as "<name>.<field>"
+        assert f"<code>{field.name}</code>" in html or f"<code>{field.name}." in html
+        assert field.name in text
+        unit = field.metadata.get("unit", "")
+        value = getattr(result, field.name)
+        if (unit and not hasattr(value, "units") and not dataclasses.is_dataclass(value)
+                and np.ndim(value) <= 1):
+            line = next(x for x in text.splitlines() if x.strip().startswith(field.name + " "))
+            assert line.endswith(f"[{unit}]"), line
+    lines = text.splitlines()
+    # one line a field at least (FlowState adds derived quantities), head and closing line
+    assert len(lines) >= len(shown) + 2 and lines[-1] == ")"
+    assert all(len(x) < 100 for x in lines)
+
+
+@pytest.mark.parametrize("name", sorted(n for n, (_, batch) in CASES.items() if batch))
+def test_batch_to_dataframe(name):
+    result = CASES[name][1]()
+    frame = result.to_dataframe()
+    assert isinstance(frame, pd.DataFrame)
+    assert len(frame) == MACHS.size, f"{name}: {len(frame)} rows for {MACHS.size} cases"
+    assert len(frame.columns) >= 1
+    for field in dataclasses.fields(result):
+        unit = field.metadata.get("unit", "")
+        if unit and f"{field.name} [{unit}]" not in frame.columns:
+            assert field.name not in frame.columns  # a field with a unit is never unlabelled
+    angle_columns = [c for c in frame.columns if c.endswith("[rad]")]
+    for column in angle_columns:
+        values = frame[column].to_numpy(dtype=float)
+        assert np.all(np.abs(values[np.isfinite(values)]) <= 2 * np.pi)
+
+
+def test_dataframe_rows_hold_the_cases():
+    # each row is one case: the Mach column reproduces the inputs in order
+    frame = gasdyn2d.oblique_shock(MACHS, deflection=10 * DEG).to_dataframe()
+    assert list(frame["M1"]) == list(MACHS)
+    assert "wave_angle [rad]" in frame.columns
+    # NACA Report 1135 oblique-shock charts via SOURCES.md: M1 = 2, θ = 10°, β = 39.3139°
+    assert np.degrees(frame["wave_angle [rad]"][0]) == pytest.approx(39.3139, abs=1e-4)
+
+
+def test_quantity_fields_show_their_own_unit():
+    state = gasdyn2d.FlowState(2.0, 50 * gasdyn2d.ureg.kPa, 220 * gasdyn2d.ureg.K)
+    text = repr(state)
+    assert "[kPa]" in text and "[K]" in text

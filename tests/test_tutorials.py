@@ -1,0 +1,37 @@
+"""Each tutorial script in docs/tutorials runs headless and saves the figures it promises."""
+
+import os
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+TUTORIALS = Path(__file__).resolve().parents[1] / "docs" / "tutorials"
+PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"
+
+# figures each tutorial must write (invented scenarios of our own)
+EXPECTED = {
+    "duct_reflection.py": ["duct_reflection.png"],
+    "rocket_fin.py": ["rocket_fin_pressures.png", "rocket_fin_coast.png"],
+    "demonstrator_intake.py": ["demonstrator_intake.png", "demonstrator_intake_sweep.png"],
+    "blowdown_nozzle.py": ["blowdown_nozzle_net.png"],
+}
+
+
+def test_every_tutorial_is_listed():
+    assert sorted(p.name for p in TUTORIALS.glob("*.py")) == sorted(EXPECTED)
+
+
+@pytest.mark.parametrize("script", sorted(EXPECTED))
+def test_tutorial_runs_and_saves_its_figures(script, tmp_path):
+    env = dict(os.environ, MPLBACKEND="Agg")
+    run = subprocess.run([sys.executable, str(TUTORIALS / script), str(tmp_path)], cwd=tmp_path,
+                         env=env, capture_output=True, text=True, timeout=120)
+    assert run.returncode == 0, run.stderr
+    assert run.stdout.strip(), "a tutorial prints its analysis"
+    assert "Traceback" not in run.stderr and "Warning" not in run.stderr, run.stderr
+    for name in EXPECTED[script]:
+        path = tmp_path / name
+        assert path.exists(), f"{script} did not save {name}"
+        assert path.read_bytes()[:8] == PNG_SIGNATURE and path.stat().st_size > 10_000
