@@ -33,6 +33,10 @@ from .reflections import (
 )
 from .polars import PressureDeflectionPolar, pressure_deflection_polar
 from .sections import Section
+from .characteristics import CharacteristicNet, WallContour
+from .nozzles import MinimumLengthNozzle, RoundedThroatNozzle, minimum_length_nozzle, rounded_throat_nozzle
+from .channels import ChannelFlow, channel_flow
+from .jets import SlotJet, underexpanded_slot_jet
 from .section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
 from .intakes import RampIntake, ramp_intake
 from .intake_design import ContractionLimits, OptimalRamps, contraction_limits, optimal_ramps
@@ -53,6 +57,9 @@ __all__ = [
     "TransitionCondition", "shock_crossing", "ShockCrossing", "merging_shocks", "MergingShocks",
     "free_boundary_reflection", "FreeBoundaryReflection", "turn_to_pressure",
     "PressureMatchingWave", "pressure_deflection_polar", "PressureDeflectionPolar",
+    "minimum_length_nozzle", "MinimumLengthNozzle", "rounded_throat_nozzle",
+    "RoundedThroatNozzle", "channel_flow", "ChannelFlow", "underexpanded_slot_jet", "SlotJet",
+    "WallContour", "CharacteristicNet",
     "Section", "SectionLoads", "shock_expansion_loads", "linear_loads", "second_order_loads",
     "ramp_intake", "RampIntake", "optimal_ramps", "OptimalRamps", "contraction_limits",
     "ContractionLimits",

@@ -85,6 +85,18 @@ def control_fin(air):
         print(f"α = {a:3.0f}°: cl = {cl:.4f} (linear theory {cl_lin:.4f}), wave cd = {cd:.5f}")
 
 
+def picture():
+    _rule("7. A picture of the waves")
+    try:
+        from gasdyn2d.plot import tour_figure
+    except ImportError:
+        print('matplotlib is not installed; pip install "gasdyn2d[plot]" to save a figure')
+        return
+    path = "gasdyn2d_tour.png"
+    tour_figure(path)
+    print(f"saved {path}: the polars and the wave pattern of a ramp shock in a duct")
+
+
 def main() -> None:
     print("gasdyn2d tour — inviscid, perfect-gas estimates for preliminary design only;")
     print("real designs need test, validated CFD and qualified engineering review.")
@@ -94,6 +106,7 @@ def main() -> None:
     cowl_reflection(air)
     intake_ramps(air)
     control_fin(air)
+    picture()
 
 
 if __name__ == "__main__":

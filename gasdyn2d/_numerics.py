@@ -94,6 +94,8 @@ def to_si(value, name: str, kind: str):
 
 def _warn_if_degrees(array: np.ndarray, name: str) -> None:
     with np.errstate(invalid="ignore"):
+        if not np.any(np.abs(array) > 2.0 * math.pi):  # the common case, in one pass
+            return
         big = (np.abs(array) > 2.0 * math.pi) & np.isfinite(array)  # inf is no degree slip
     if np.any(big):
         first = array[big].flat[0]
@@ -190,7 +192,10 @@ def reject(
     aligned with ``array``, in which case the limit of the first failing element is
     quoted). With ``errors="nan"`` the returned copy has NaN at those elements.
     """
-    bad = np.asarray(bad, dtype=bool) & ~np.isnan(array)
+    bad = np.asarray(bad, dtype=bool)
+    if not np.any(bad):  # the common case: one pass, no NaN mask
+        return array
+    bad = bad & ~np.isnan(array)
     if not np.any(bad):
         return array
     if errors == "nan":
@@ -237,6 +242,8 @@ ROUNDING_SLACK = 1e-15
 def clamp_to_limit(value, limit, side, slack=ROUNDING_SLACK):
     """Move values within ``slack`` (relative) beyond ``limit`` onto it (side "lower"/"upper")."""
     with np.errstate(invalid="ignore"):
+        if not np.any(value < limit if side == "lower" else value > limit):
+            return value
         if side == "lower":
             near = (value < limit) & (value >= limit * (1.0 - slack))
         else:
@@ -342,16 +349,17 @@ def chunked(func, *arrays, size=CHUNK_SIZE):
 
     ``func`` takes 1-d arrays and returns an array or a tuple (NamedTuple) of
     arrays of the same length; the results are reassembled in the input shape.
-    Small inputs go straight through. The loop runs over blocks, never elements.
+    Scalars (0-d) are passed to every block unchanged. Small inputs go straight
+    through. The loop runs over blocks, never elements.
     """
     shape = np.shape(arrays[0])
     n = int(np.prod(shape))
     if n <= size:
         return func(*arrays)
-    flat = [np.ascontiguousarray(a).reshape(-1) for a in arrays]
+    flat = [a if np.ndim(a) == 0 else np.ascontiguousarray(a).reshape(-1) for a in arrays]
     outputs = None
     for start in range(0, n, size):
-        result = func(*(a[start:start + size] for a in flat))
+        result = func(*(a if np.ndim(a) == 0 else a[start:start + size] for a in flat))
         parts = result if isinstance(result, tuple) else (result,)
         if outputs is None:
             outputs = [np.empty(n, dtype=np.result_type(p)) for p in parts]

@@ -46,7 +46,8 @@ __all__ = [
 
 _DETACHMENT_SLACK = 4e-16  # tan θ this close above tan θmax is θmax itself (rounding of atan/tan)
 _NEAR_DETACHMENT = 1e-3  # within this fraction of tan θmax, polish in the square-root variable
-_NEWTON_STEPS = 2  # from the cubic's root, two steps reach rounding (measured vs mpmath)
+_NEWTON_STEPS = 1  # from the starts below one step reaches rounding (measured vs mpmath)
+_SERIES_START = 1e-3  # |c w| below which the weak root starts from the small-deflection series
 _MACH_WAVE_SLACK = 4e-15  # |M1² sin²β - 1| that rounding of sin β alone can produce at β = μ
 
 
@@ -158,35 +159,42 @@ def _angles_from_v(M1, gamma, P, S):
         return np.arctan(_tan_deflection(w, v, M1, gamma)), _wave_angle(w, v)
 
 
+def _weak_start(w_cubic, a, M1, tan_theta, gamma):
+    """Start for the weak root: the cubic's, or near the Mach wave (where the cubic's
+    weak and spurious roots merge and it keeps only ~8 digits of w) the inverted
+    small-deflection series tan θ = k w (1 + c w + ...), k = 2√(M1²-1)/((γ+1)M1²),
+    c = 2/((γ+1)M1²) - M1²/(2(M1²-1)), good to (c w)³ there."""
+    b = (gamma + 1.0) * M1 * M1
+    y = tan_theta * b / (2.0 * np.sqrt(a))
+    cy = (2.0 / b - 0.5 * M1 * M1 / a) * y
+    series = y * (1.0 - cy + 2.0 * cy * cy)
+    return np.where(np.abs(cy) < _SERIES_START, series, w_cubic)
+
+
+def _strong_start(c_cubic, a, M1, tan_theta, gamma):
+    """Start for the strong root in c = M1 cos β: the cubic's, or near the normal shock
+    (where 1 - sin²β cancels) the inverted series tan θ = k c (1 + d c² + ...),
+    k = 2(M1²-1)/(M1((γ-1)M1² + 2)), d = 1/(2M1²) - 1/(M1²-1) - 2/((γ-1)M1² + 2)."""
+    cm = (gamma - 1.0) * M1 * M1 + 2.0
+    y = tan_theta * M1 * cm / (2.0 * a)
+    dy2 = (0.5 / (M1 * M1) - 1.0 / a - 2.0 / cm) * y * y
+    return np.where(np.abs(dy2) < _SERIES_START, y * (1.0 - dy2), c_cubic)
+
+
 def _newton_weak(w, M1, target, gamma, w_star):
     """Polish the weak root in w, clamped to [0, w*]; ``target`` is tan θ."""
     a = (M1 - 1.0) * (M1 + 1.0)
     cm = (gamma - 1.0) * M1 * M1 + 2.0
-    best, best_miss = w, np.full_like(w, np.inf)
-    for step in range(_NEWTON_STEPS + 1):
+    for _ in range(_NEWTON_STEPS):
         v = a - w
         r = np.sqrt(v / (1.0 + w))
         den = cm + 2.0 * v
         f = 2.0 * w * r / den
-        best, best_miss = _keep_better(w, np.abs(f - target), best, best_miss)
-        if step == _NEWTON_STEPS:
-            break
-        dr = -(1.0 + a) / (2.0 * r * (1.0 + w) ** 2)
+        one_w = 1.0 + w
+        dr = -(1.0 + a) / (2.0 * r * one_w * one_w)
         df = 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
         w = np.clip(w - (f - target) / df, 0.0, w_star)
-    return best
-
-
-def _keep_better(x, miss, best, best_miss):
-    """Keep the iterate with the smaller residual.
-
-    At detachment tan θ(x) has a zero slope, so within a few ulp of θmax a Newton
-    step can be thrown far off (and clamped to the far end of the branch); the
-    closed-form start is then already as good as the problem allows (its error
-    is the conditioning, ~√ulp in β) and is kept.
-    """
-    better = miss < best_miss  # a NaN residual (0/0 step at x*) never replaces a number
-    return np.where(better, x, best), np.where(better, miss, best_miss)
+    return w
 
 
 def _newton_strong(c, M1, target, gamma, c_star):
@@ -194,21 +202,17 @@ def _newton_strong(c, M1, target, gamma, c_star):
     a = (M1 - 1.0) * (M1 + 1.0)
     m2 = M1 * M1
     cm = (gamma - 1.0) * m2 + 2.0
-    best, best_miss = c, np.full_like(c, np.inf)
-    for step in range(_NEWTON_STEPS + 1):
+    for _ in range(_NEWTON_STEPS):
         v = c * c
         w = a - v
         root = np.sqrt(m2 - v)
         den = cm + 2.0 * v
         f = 2.0 * w * c / (root * den)
-        best, best_miss = _keep_better(c, np.abs(f - target), best, best_miss)
-        if step == _NEWTON_STEPS:
-            break
         # d/dc of 2 w c / (root den), with dw/dc = -2c, droot/dc = -c/root, dden/dc = 4c
         df = 2.0 * ((-2.0 * c * c + w) * root * den - w * c * (-c / root * den + 4.0 * c * root)) / (
             (root * den) ** 2)
         c = np.clip(c - (f - target) / df, 0.0, c_star)
-    return best
+    return c
 
 
 def _tan_deflection_and_slope(x, M1, gamma, strong):
@@ -273,6 +277,13 @@ def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     θ < 0, θ > θmax or M1 < 1.
     """
     M1, theta, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, theta, gamma)))
+    w, v, invalid = _shock_variables(M1, theta, gamma, strong)
+    return np.where(invalid, np.nan, _wave_angle(w, v))
+
+
+def _shock_variables(M1, theta, gamma, strong):
+    """(w, v, invalid) of the shock turning M1 by θ: the solve behind
+    :func:`wave_angle_from_deflection`, in the variables the ratios need."""
     with np.errstate(invalid="ignore", divide="ignore"):
         a = (M1 - 1.0) * (M1 + 1.0)
         w_star, v_star = _detachment_wv(M1, gamma)
@@ -282,24 +293,39 @@ def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
         # a few ulp of θ above θmax is θmax; in tan θ that slack is (1 + tan²θ) times larger,
         # which matters as θmax → 90° (γ → 1 at high M1)
         slack = _DETACHMENT_SLACK * np.maximum(theta, 1.0) * (1.0 + tan_max * tan_max)
-        invalid = (theta < 0) | (tan_theta > tan_max + slack) | (M1 < 1)
+        # tan is periodic: θ beyond π/2 must be rejected before tan θ is compared
+        invalid = (theta < 0) | (theta >= 0.5 * np.pi) | (tan_theta > tan_max + slack) | (M1 < 1)
         x = _cubic_root(M1, tan_theta, gamma, strong)
         near = ~at_max & (tan_max - tan_theta <= _NEAR_DETACHMENT * tan_max)
         if strong:
             c_star = np.sqrt(v_star)
-            c0 = np.clip(M1 * np.sqrt(np.maximum(1.0 - x, 0.0)), 0.0, c_star)
+            c_cubic = M1 * np.sqrt(np.maximum(1.0 - x, 0.0))
+            c0 = np.clip(_strong_start(c_cubic, a, M1, tan_theta, gamma), 0.0, c_star)
             c = _newton_strong(c0, M1, tan_theta, gamma, c_star)
             c = _polish_near_detachment(c, near, M1, tan_theta, gamma, c_star, tan_max, True)
             c = np.where(theta == 0.0, 0.0, np.where(at_max, c_star, c))
             v = c * c
-            beta = _wave_angle(a - v, v)
+            return a - v, v, invalid
         else:
-            w0 = np.clip(M1 * M1 * x - 1.0, 0.0, w_star)
+            w0 = np.clip(_weak_start(M1 * M1 * x - 1.0, a, M1, tan_theta, gamma), 0.0, w_star)
             w = _newton_weak(w0, M1, tan_theta, gamma, w_star)
             w = _polish_near_detachment(w, near, M1, tan_theta, gamma, w_star, tan_max, False)
             w = np.where(theta == 0.0, 0.0, np.where(at_max, w_star, w))
-            beta = _wave_angle(w, a - w)
-    return np.where(invalid, np.nan, beta)
+            return w, a - w, invalid
+
+
+def _shock_from_deflection(M1, theta, gamma, strong):
+    """Plain core of ``oblique_shock(M1, deflection=θ)``: β and every ratio in one pass,
+    the ratios taken straight from w = Mn1² - 1 (no sin β round trip). Returns a flat
+    tuple (β, *ObliqueShockRatios) so that :func:`_numerics.chunked` can block it."""
+    w, v, invalid = _shock_variables(M1, theta, gamma, strong)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        w = np.where(invalid, np.nan, w)
+        beta = _wave_angle(w, v)
+        ratios = normal_shock_ratios(w, gamma)
+        M2 = ratios.M2 / np.sin(beta - theta)
+    return (beta, theta, np.sqrt(1.0 + w), ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
+            ratios.T2_T1, ratios.p02_p01)
 
 
 class ObliqueShockRatios(NamedTuple):
@@ -379,15 +405,6 @@ def _check_deflection(theta, M1, gamma, errors):
 def _wave_angle_from_input(name, value, M1, gamma, branch, errors):
     mu = np.arctan2(1.0, np.sqrt((M1 - 1.0) * (M1 + 1.0)))
     with np.errstate(invalid="ignore"):
-        if name == "deflection":
-            # solve first, check only if something failed: the limits cost as much as the solve
-            strong = branch == "strong"
-            beta = nx.chunked(lambda m, t, g: wave_angle_from_deflection(m, t, g, strong),
-                              M1, value, gamma)
-            if np.any(np.isnan(beta) & ~np.isnan(value) & ~np.isnan(M1) & ~np.isnan(gamma)):
-                value = _check_deflection(value, M1, gamma, errors)
-                beta = np.where(np.isnan(value), np.nan, beta)
-            return value, beta
         if name == "wave_angle":
             value = nx.clamp_to_limit(value, mu, "lower")  # asin(1/M1) may round below μ
             value = nx.reject(value < mu, value, "wave_angle",
@@ -479,14 +496,22 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
     M1, unit_m = nx.to_si(M1, "M1", "dimensionless")
     value, unit_in = nx.to_si(value, name, "angle" if is_angle else "dimensionless")
     gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
+    scalar_gamma = gamma.ndim == 0
     M1, value, gamma = nx.broadcast(M1=M1, **{name: value}, gamma=gamma)
     gamma = nx.check_gamma(gamma, errors)
     M1 = nx.check_mach_supersonic(M1, "M1", errors)
-    value, beta = _wave_angle_from_input(name, value, M1, gamma, branch, errors)
     if name == "deflection":
-        ratios = nx.chunked(lambda m, b, g, t: oblique_shock_ratios(m, b, g, deflection=t),
-                            M1, beta, gamma, value)
+        # solve first, check only if something failed: the limits cost as much as the solve
+        strong = branch == "strong"
+        g_solve = np.float64(gamma.flat[0]) if scalar_gamma and gamma.size else gamma
+        beta, *fields = nx.chunked(lambda m, t, g: _shock_from_deflection(m, t, g, strong),
+                                   M1, value, g_solve)
+        ratios = ObliqueShockRatios(*fields)
+        failed = np.isnan(beta)
+        if np.any(failed) and np.any(failed & ~np.isnan(value) & ~np.isnan(M1) & ~np.isnan(gamma)):
+            value = _check_deflection(value, M1, gamma, errors)  # raises, or NaNs the same cases
     else:
+        value, beta = _wave_angle_from_input(name, value, M1, gamma, branch, errors)
         ratios = nx.chunked(oblique_shock_ratios, M1, beta, gamma)
     theta = value if name == "deflection" else ratios.deflection
     angle_unit = nx.output_angle_unit(unit_in if is_angle else None, unit_m, unit_in)

@@ -8,6 +8,7 @@ import pytest
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
+import gasdyn2d
 import reference as ref
 from gasdyn2d import max_deflection, normal_shock, oblique_shock, sonic_deflection, ureg
 from gasdyn2d.oblique_shocks import (
@@ -417,3 +418,15 @@ def test_detachment_point_accepted_when_theta_max_nears_ninety_degrees(M1, g):
         shock = oblique_shock(M1, deflection=theta_max, gamma=g, branch=branch)
         assert shock.wave_angle == pytest.approx(beta_star, rel=1e-7)
         assert 0 <= shock.p02_p01 <= 1 and np.isfinite(shock.M2)  # (p02/p01 may underflow)
+
+
+# invented edge case: tan θ is periodic, so a deflection of many radians must not wrap
+# around into the attached range (10 rad has tan 10 = 0.648, below tan θmax at M1 = 3)
+def test_deflection_beyond_half_turn_is_detached_not_wrapped():
+    from gasdyn2d.oblique_shocks import wave_angle_from_deflection
+
+    big = np.array([10.0, np.pi + 0.1, 2 * np.pi + 0.1])
+    assert np.all(np.isnan(wave_angle_from_deflection(3.0, big)))
+    with pytest.warns(gasdyn2d.ProbablyDegreesWarning):
+        with pytest.raises(gasdyn2d.DetachedShockError, match="deflection"):
+            oblique_shock(3.0, deflection=10.0)
