@@ -38,6 +38,8 @@ __all__ = [
     "ObliqueShock",
     "ObliqueShockRatios",
     "wave_angle_from_deflection",
+    "wv_from_deflection",
+    "wave_angle_from_wv",
     "deflection_from_wave_angle",
     "detachment_angles",
     "sonic_angles",
@@ -59,8 +61,9 @@ def _tan_deflection(w, v, M1, gamma):
     return 2.0 * w * np.sqrt(v / (1.0 + w)) / ((gamma - 1.0) * M1 * M1 + 2.0 + 2.0 * v)
 
 
-def _wave_angle(w, v):
-    """β = atan2(√(1+w), √v), accurate at both ends of the range."""
+def wave_angle_from_wv(w, v):
+    """Plain core: β = atan2(√(1+w), √v) [rad] from w = M1² sin²β - 1 and v = M1² cos²β,
+    accurate at both ends of the range (Mach wave and normal shock)."""
     return np.arctan2(np.sqrt(1.0 + w), np.sqrt(v))
 
 
@@ -121,7 +124,7 @@ def detachment_angles(M1, gamma=1.4):
     M1 = np.asarray(M1, dtype=float)
     w, v = _detachment_wv(M1, gamma)
     with np.errstate(invalid="ignore"):
-        return np.arctan(_tan_deflection(w, v, M1, gamma)), _wave_angle(w, v)
+        return np.arctan(_tan_deflection(w, v, M1, gamma)), wave_angle_from_wv(w, v)
 
 
 def sonic_angles(M1, gamma=1.4):
@@ -156,7 +159,7 @@ def _wv_from_roots(M1, gamma, P, S):
 def _angles_from_v(M1, gamma, P, S):
     w, v = _wv_from_roots(M1, gamma, P, S)
     with np.errstate(invalid="ignore"):
-        return np.arctan(_tan_deflection(w, v, M1, gamma)), _wave_angle(w, v)
+        return np.arctan(_tan_deflection(w, v, M1, gamma)), wave_angle_from_wv(w, v)
 
 
 def _weak_start(w_cubic, a, M1, tan_theta, gamma):
@@ -276,14 +279,30 @@ def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     θmax itself); θ(β) always reproduces θ to a few ulp. Returns NaN for
     θ < 0, θ > θmax or M1 < 1.
     """
-    M1, theta, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, theta, gamma)))
-    w, v, invalid = _shock_variables(M1, theta, gamma, strong)
-    return np.where(invalid, np.nan, _wave_angle(w, v))
+    gamma = np.asarray(gamma, dtype=float)
+    if gamma.ndim == 0:  # a scalar γ stays scalar: its terms then cost nothing per case
+        M1, theta = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(theta, dtype=float))
+    else:
+        M1, theta, gamma = np.broadcast_arrays(np.asarray(M1, dtype=float),
+                                               np.asarray(theta, dtype=float), gamma)
+    return nx.chunked(lambda m, t, g: _wave_angle_block(m, t, g, strong), M1, theta, gamma)
 
 
-def _shock_variables(M1, theta, gamma, strong):
-    """(w, v, invalid) of the shock turning M1 by θ: the solve behind
-    :func:`wave_angle_from_deflection`, in the variables the ratios need."""
+def _wave_angle_block(M1, theta, gamma, strong):
+    w, v, invalid = wv_from_deflection(M1, theta, gamma, strong)
+    return np.where(invalid, np.nan, wave_angle_from_wv(w, v))
+
+
+def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
+    """Plain core: (w, v, invalid) of the shock that turns M1 by θ [rad].
+
+    The solve behind :func:`wave_angle_from_deflection`, returned in the
+    variables every downstream ratio needs without cancellation:
+    w = M1² sin²β - 1 (the normal-shock variable of
+    :func:`~gasdyn2d.normal_shocks.normal_shock_ratios`) and v = M1² cos²β;
+    ``invalid`` marks θ < 0, θ beyond detachment or M1 < 1. Arrays must
+    already have equal shapes (γ may be a scalar).
+    """
     with np.errstate(invalid="ignore", divide="ignore"):
         a = (M1 - 1.0) * (M1 + 1.0)
         w_star, v_star = _detachment_wv(M1, gamma)
@@ -317,14 +336,15 @@ def _shock_variables(M1, theta, gamma, strong):
 def _shock_from_deflection(M1, theta, gamma, strong):
     """Plain core of ``oblique_shock(M1, deflection=θ)``: β and every ratio in one pass,
     the ratios taken straight from w = Mn1² - 1 (no sin β round trip). Returns a flat
-    tuple (β, *ObliqueShockRatios) so that :func:`_numerics.chunked` can block it."""
-    w, v, invalid = _shock_variables(M1, theta, gamma, strong)
+    tuple (β, *ObliqueShockRatios without the deflection) so that
+    :func:`_numerics.chunked` can block it."""
+    w, v, invalid = wv_from_deflection(M1, theta, gamma, strong)
     with np.errstate(invalid="ignore", divide="ignore"):
         w = np.where(invalid, np.nan, w)
-        beta = _wave_angle(w, v)
+        beta = wave_angle_from_wv(w, v)
         ratios = normal_shock_ratios(w, gamma)
         M2 = ratios.M2 / np.sin(beta - theta)
-    return (beta, theta, np.sqrt(1.0 + w), ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
+    return (beta, np.sqrt(1.0 + w), ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
             ratios.T2_T1, ratios.p02_p01)
 
 
@@ -420,14 +440,14 @@ def _wave_angle_from_input(name, value, M1, gamma, branch, errors):
                               "between 1 and M1 (the normal Mach number of a shock)", errors,
                               limit=M1)
             w = (value - 1.0) * (value + 1.0)
-            return value, _wave_angle(w, np.maximum(a - w, 0.0))
+            return value, wave_angle_from_wv(w, np.maximum(a - w, 0.0))
         p_max = 1.0 + 2.0 * gamma / (gamma + 1.0) * (M1 - 1.0) * (M1 + 1.0)
         value = nx.clamp_to_limit(value, p_max, "upper")
         value = nx.reject((value < 1.0) | (value > p_max), value, "p2_p1",
                           "between 1 and the normal-shock pressure ratio at M1", errors,
                           limit=p_max)
         w = (value - 1.0) * (gamma + 1.0) / (2.0 * gamma)  # Mn1² - 1, from eq. 93
-        return value, _wave_angle(w, np.maximum(a - w, 0.0))
+        return value, wave_angle_from_wv(w, np.maximum(a - w, 0.0))
 
 
 def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None, branch="weak",
@@ -496,17 +516,19 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
     M1, unit_m = nx.to_si(M1, "M1", "dimensionless")
     value, unit_in = nx.to_si(value, name, "angle" if is_angle else "dimensionless")
     gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    scalar_gamma = gamma.ndim == 0
-    M1, value, gamma = nx.broadcast(M1=M1, **{name: value}, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
+    if gamma.ndim == 0:  # the usual case: keep γ a scalar, so its terms cost nothing per case
+        gamma = nx.check_gamma(gamma, errors)
+        M1, value, _ = nx.broadcast(M1=M1, **{name: value}, gamma=gamma)
+    else:
+        M1, value, gamma = nx.broadcast(M1=M1, **{name: value}, gamma=gamma)
+        gamma = nx.check_gamma(gamma, errors)
     M1 = nx.check_mach_supersonic(M1, "M1", errors)
     if name == "deflection":
         # solve first, check only if something failed: the limits cost as much as the solve
         strong = branch == "strong"
-        g_solve = np.float64(gamma.flat[0]) if scalar_gamma and gamma.size else gamma
         beta, *fields = nx.chunked(lambda m, t, g: _shock_from_deflection(m, t, g, strong),
-                                   M1, value, g_solve)
-        ratios = ObliqueShockRatios(*fields)
+                                   M1, value, gamma)
+        ratios = ObliqueShockRatios(value, *fields)
         failed = np.isnan(beta)
         if np.any(failed) and np.any(failed & ~np.isnan(value) & ~np.isnan(M1) & ~np.isnan(gamma)):
             value = _check_deflection(value, M1, gamma, errors)  # raises, or NaNs the same cases

@@ -17,7 +17,9 @@ from typing import NamedTuple
 import numpy as np
 
 from .expansion import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
-from .oblique_shocks import detachment_angles, oblique_shock_ratios, wave_angle_from_deflection
+from . import _numerics as nx
+from .normal_shocks import normal_shock_ratios
+from .oblique_shocks import oblique_shock_ratios, wave_angle_from_wv, wv_from_deflection
 
 __all__ = ["WaveState", "turn_state", "turn_for_pressure_ratio"]
 
@@ -42,21 +44,20 @@ class WaveState(NamedTuple):
     vacuum: np.ndarray
 
 
-def _shock_log_pressure_slope(M1, beta, gamma, strong=False):
-    """d ln(p2/p1)/dθ along the shock polar, from dp/dw and dθ/dw (w = M1² sin²β - 1).
+def _shock_log_pressure_slope(M1, w, v, gamma, strong=False):
+    """d ln(p2/p1)/dθ along the shock polar, from dp/dw and dθ/dw (w = M1² sin²β - 1,
+    v = M1² cos²β).
 
     θ rises with w on the weak branch and falls on the strong one, so the sign is
     the branch's (> 0 weak, < 0 strong); only the magnitude is taken from dθ/dw,
     whose sign rounding can flip at detachment, where the slope is infinite.
     """
     a = (M1 - 1.0) * (M1 + 1.0)
-    ms = M1 * np.sin(beta)
-    w = np.maximum((ms - 1.0) * (ms + 1.0), 0.0)
-    v = (M1 * np.cos(beta)) ** 2
-    r = np.sqrt(v / (1.0 + w))
+    one_w = 1.0 + w
+    r = np.sqrt(v / one_w)
     den = (gamma - 1.0) * M1 * M1 + 2.0 + 2.0 * v
     f = 2.0 * w * r / den
-    dr = -(1.0 + a) / (2.0 * r * (1.0 + w) ** 2)
+    dr = -(1.0 + a) / (2.0 * r * one_w * one_w)
     df = 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
     dtheta_dw = np.abs(df) / (1.0 + f * f) * (-1.0 if strong else 1.0)
     p = 1.0 + 2.0 * gamma / (gamma + 1.0) * w
@@ -86,14 +87,29 @@ def turn_state(M1, turn, gamma=1.4, strong=False):
     >>> np.round(state.p2_p1, 5)
     array([1.70658, 0.54797])
     """
-    M1, turn, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, turn, gamma)))
+    gamma = np.asarray(gamma, dtype=float)
+    if gamma.ndim == 0:  # a scalar γ stays scalar: its terms then cost nothing per case
+        M1, turn = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(turn, dtype=float))
+    else:
+        M1, turn, gamma = np.broadcast_arrays(np.asarray(M1, dtype=float),
+                                              np.asarray(turn, dtype=float), gamma)
+    return WaveState(*nx.chunked(lambda m, t, g: _turn_state_block(m, t, g, strong),
+                                 M1, turn, gamma))
+
+
+def _turn_state_block(M1, turn, gamma, strong):
+    """:func:`turn_state` on one block of equal-shape arrays (γ may be a scalar)."""
     with np.errstate(invalid="ignore", divide="ignore"):
         is_shock = turn > 0.0
-        theta_max, _ = detachment_angles(M1, gamma)
-        detached = turn > theta_max
-        beta = wave_angle_from_deflection(M1, np.where(is_shock, turn, 0.0), gamma, strong=strong)
-        shock = oblique_shock_ratios(M1, beta, gamma)
-        shock_slope = _shock_log_pressure_slope(M1, beta, gamma, strong)
+        # the shock, in the cancellation-free variables w = Mn1² - 1 and v = M1² cos²β
+        theta = np.where(is_shock, turn, 0.0)
+        w, v, invalid = wv_from_deflection(M1, theta, gamma, strong)
+        detached = is_shock & invalid & (M1 >= 1.0)
+        w = np.where(invalid, np.nan, w)
+        beta = wave_angle_from_wv(w, v)
+        shock = normal_shock_ratios(w, gamma)
+        shock_M2 = shock.M2 / np.sin(beta - theta)
+        shock_slope = _shock_log_pressure_slope(M1, w, v, gamma, strong)
 
         nu1 = prandtl_meyer_angle(M1, gamma)
         nu2 = nu1 - np.where(is_shock, 0.0, turn)
@@ -107,12 +123,9 @@ def turn_state(M1, turn, gamma=1.4, strong=False):
         fan_slope = np.where(M_fan == 1.0, np.inf, fan_slope)
 
         pick = lambda a, b: np.where(is_shock, a, b)  # noqa: E731
-        return WaveState(
-            M2=pick(shock.M2, M_fan), p2_p1=pick(shock.p2_p1, p_fan),
-            T2_T1=pick(shock.T2_T1, T_fan), p02_p01=pick(shock.p02_p01, 1.0 + 0.0 * M1),
-            wave_angle=pick(beta, np.nan), is_shock=is_shock,
-            dlnp_dturn=pick(shock_slope, fan_slope), detached=detached, vacuum=vacuum,
-        )
+        return (pick(shock_M2, M_fan), pick(shock.p2_p1, p_fan), pick(shock.T2_T1, T_fan),
+                pick(shock.p02_p01, 1.0 + 0.0 * M1), pick(beta, np.nan), is_shock,
+                pick(shock_slope, fan_slope), detached, vacuum)
 
 
 def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
