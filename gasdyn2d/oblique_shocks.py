@@ -343,7 +343,8 @@ def _shock_from_deflection(M1, theta, gamma, strong):
         w = np.where(invalid, np.nan, w)
         beta = wave_angle_from_wv(w, v)
         ratios = normal_shock_ratios(w, gamma)
-        M2 = ratios.M2 / np.sin(beta - theta)
+        # the tangential velocity is conserved: M2² = Mn2² + M1² cos²β · T1/T2 (no trig)
+        M2 = np.sqrt(ratios.M2 * ratios.M2 + v / ratios.T2_T1)
     return (beta, np.sqrt(1.0 + w), ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
             ratios.T2_T1, ratios.p02_p01)
 
@@ -518,7 +519,7 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
     gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
     if gamma.ndim == 0:  # the usual case: keep γ a scalar, so its terms cost nothing per case
         gamma = nx.check_gamma(gamma, errors)
-        M1, value, _ = nx.broadcast(M1=M1, **{name: value}, gamma=gamma)
+        M1, value = nx.broadcast(M1=M1, **{name: value})
     else:
         M1, value, gamma = nx.broadcast(M1=M1, **{name: value}, gamma=gamma)
         gamma = nx.check_gamma(gamma, errors)

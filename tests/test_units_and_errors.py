@@ -190,7 +190,7 @@ BAD_ARGUMENTS = [
     (lambda: isentropic_flow([2.0, 3.0], gamma=[1.3, 1.4, 1.5]), "do not broadcast"),
     (lambda: normal_shock([2.0, 3.0], gamma=[1.3, 1.4, 1.5]), "M1 (2,), gamma (3,)"),
     (lambda: oblique_shock([2.0, 3.0], deflection=[0.1, 0.2, 0.3]),
-     "M1 (2,), deflection (3,), gamma ()"),
+     "M1 (2,), deflection (3,)"),
     (lambda: prandtl_meyer(np.ones((2, 3)), gamma=np.ones(2) * 1.4), "M (2, 3), gamma (2,)"),
     (lambda: mach_from_prandtl_meyer([0.1, 0.2], gamma=[1.3, 1.4, 1.5]), "do not broadcast"),
     (lambda: expansion_fan([2.0, 3.0], M2=[3.0, 4.0, 5.0]), "do not broadcast"),
