@@ -27,7 +27,8 @@ import numpy as np
 from scipy.optimize import root
 
 from gasdyn2d.oblique_shocks import detachment_angles
-from gasdyn2d.reflections import _stem_scan, reflection_transition, shock_crossing, wall_reflection
+from gasdyn2d.reflections import _stem_scan, reflection_transition, wall_reflection
+from gasdyn2d.wave_interactions import shock_crossing
 from gasdyn2d.waves import turn_state
 
 TARGET_SPEEDUP = 50.0  # issue 3: at least 50x faster per case than the scipy loop

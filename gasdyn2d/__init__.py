@@ -15,21 +15,30 @@ from .normal_shocks import NormalShock, normal_shock
 from .oblique_shocks import ObliqueShock, max_deflection, oblique_shock, sonic_deflection
 from .state import FlowState
 from .region_graph import WavePattern
-from .pattern_solution import PatternSolution, RegionSolution, WaveSolution
+from .pattern_solution import (
+    MeetingPoint,
+    PatternCondition,
+    PatternSolution,
+    RegionSolution,
+    WaveConnection,
+    WaveSolution,
+)
 from .reflections import (
     FreeBoundaryReflection,
-    MergingShocks,
-    PressureMatchingWave,
     ReflectionTransition,
-    ShockCrossing,
     TransitionCondition,
     WallReflection,
     free_boundary_reflection,
-    merging_shocks,
     reflection_transition,
+    wall_reflection,
+)
+from .wave_interactions import (
+    MergingShocks,
+    PressureMatchingWave,
+    ShockCrossing,
+    merging_shocks,
     shock_crossing,
     turn_to_pressure,
-    wall_reflection,
 )
 from .polars import PressureDeflectionPolar, pressure_deflection_polar
 from .sections import Section
@@ -52,7 +61,8 @@ __all__ = [
     "normal_shock", "NormalShock",
     "oblique_shock", "ObliqueShock", "max_deflection", "sonic_deflection",
     "prandtl_meyer", "mach_from_prandtl_meyer", "expansion_fan", "ExpansionFan",
-    "WavePattern", "PatternSolution", "RegionSolution", "WaveSolution",
+    "WavePattern", "PatternSolution", "RegionSolution", "WaveSolution", "WaveConnection",
+    "PatternCondition", "MeetingPoint",
     "wall_reflection", "WallReflection", "reflection_transition", "ReflectionTransition",
     "TransitionCondition", "shock_crossing", "ShockCrossing", "merging_shocks", "MergingShocks",
     "free_boundary_reflection", "FreeBoundaryReflection", "turn_to_pressure",

@@ -34,6 +34,8 @@ def _format(value) -> str:
     magnitude = _magnitude(value)
     if isinstance(magnitude, str):
         return magnitude
+    if isinstance(magnitude, tuple) and all(isinstance(item, str) for item in magnitude):
+        return ", ".join(magnitude) if magnitude else "(none)"
     array = np.asarray(magnitude)
     if array.dtype.kind in "US":
         return str(array) if array.ndim == 0 else f"array of {array.size} labels"
@@ -93,28 +95,44 @@ class ResultTable:
     def to_dataframe(self):
         """One row per case, one column per array field, named with its unit.
 
-        Needs pandas (``pip install pandas``). Fields that are not arrays of the
-        batch shape (nested results, per-panel arrays) are left out.
+        Needs pandas (``pip install pandas``). A nested result shown in the
+        table (a field that is itself a ``ResultTable``) gives one column per
+        field of its own, named ``"outer.inner [unit]"``. Fields that are not
+        arrays of the batch shape (per-panel arrays, hidden nested objects)
+        are left out.
         """
         try:
             import pandas as pd
         except ImportError as exc:  # pragma: no cover - depends on the environment
             raise ImportError("to_dataframe needs pandas: pip install pandas") from exc
-        columns = {}
-        shape = None
-        for field in dataclasses.fields(self):
-            value = getattr(self, field.name)
+        entries = []
+        for name, field, value in self._columns():
             magnitude = _magnitude(value)
             if dataclasses.is_dataclass(magnitude) or isinstance(magnitude, (tuple, list, dict)):
                 continue
             array = np.asarray(magnitude)
             if array.dtype == object:
                 continue
-            if shape is None:
-                shape = array.shape
-            if array.shape != shape:
-                continue
             unit = _unit_of(field, value)
-            name = f"{field.name} [{unit}]" if unit else field.name
-            columns[name] = array.reshape(-1)
+            entries.append((f"{name} [{unit}]" if unit else name, array))
+        # the batch shape is that of the first field that is not a single label: a label
+        # that holds for every case (a wave's family, a meeting point's kind) is repeated
+        label = lambda a: a.ndim == 0 and a.dtype.kind in "US"  # noqa: E731
+        shape = next((a.shape for _, a in entries if not label(a)), ())
+        columns = {}
+        for name, array in entries:
+            if label(array):
+                array = np.broadcast_to(array, shape)
+            if array.shape == shape:
+                columns[name] = array.reshape(-1)
         return pd.DataFrame(columns)
+
+    def _columns(self):
+        """(column name, field, value) per field; shown nested results flattened one level."""
+        for field in dataclasses.fields(self):
+            value = getattr(self, field.name)
+            if isinstance(value, ResultTable) and field.repr is not False:
+                for inner in dataclasses.fields(value):
+                    yield f"{field.name}.{inner.name}", inner, getattr(value, inner.name)
+            else:
+                yield field.name, field, value

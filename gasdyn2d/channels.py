@@ -61,6 +61,10 @@ class ChannelFlow(ResultTable):
     handover_mach: np.ndarray = unit_field("")
     handover_theta: np.ndarray = unit_field("rad")
     net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    #: lower wall height at ``lower_wall_x`` (the wall nodes; the contour, not a fit)
+    lower_wall_y: np.ndarray = unit_field("m", default=None)
+    #: upper wall height at ``upper_wall_x``
+    upper_wall_y: np.ndarray = unit_field("m", default=None)
 
 
 def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=1.4):
@@ -304,7 +308,7 @@ def _channel_result(march, M, gamma, length_unit):
         lower_wall_nodes=lower, upper_wall_nodes=upper,
         handover_x=length(row.x), handover_y=length(row.y),
         handover_mach=row_mach, handover_theta=row.theta.copy(),
-        net=net,
+        net=net, lower_wall_y=length(y[lower]), upper_wall_y=length(y[upper]),
     )
 
 

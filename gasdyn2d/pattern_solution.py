@@ -18,7 +18,8 @@ from . import _numerics as nx
 from ._display import ResultTable, unit_field
 from .state import FlowState
 
-__all__ = ["PatternSolution", "RegionSolution", "WaveSolution"]
+__all__ = ["PatternSolution", "RegionSolution", "WaveSolution", "WaveConnection",
+           "PatternCondition", "MeetingPoint"]
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
@@ -59,6 +60,65 @@ class WaveSolution(ResultTable):
     tail_line_direction: object = unit_field("rad")  #: plane direction of the shock or fan tail
 
 
+@dataclasses.dataclass(frozen=True, repr=False)
+class WaveConnection(ResultTable):
+    """Where a wave sits in its pattern: its regions, family, branch and start point.
+
+    ``start_source`` says where the start point came from: ``"given"``
+    (``add_wave(..., start=...)``), ``"wall"`` or ``"free boundary"`` (the
+    point where the wave that made the upstream region meets a placed wall
+    or free boundary), ``"wave meeting"`` (where two placed waves meet and
+    a slip line leaves), or ``""`` (not placed; ``start_x``, ``start_y``
+    NaN).
+    """
+
+    upstream: str = unit_field("")  #: region upstream of the wave
+    downstream: str = unit_field("")  #: region downstream of the wave
+    family: str = unit_field("")  #: "left" or "right"
+    branch: str = unit_field("")  #: "weak" or "strong" (used where the wave is a shock)
+    given_by: str = unit_field("")  #: "turn", "direction", "pressure" or "unknown"
+    start_x: object = unit_field("m")  #: start point, x (NaN where not placed)
+    start_y: object = unit_field("m")  #: start point, y (NaN where not placed)
+    start_source: str = unit_field("")  #: "given", "wall", "free boundary", "wave meeting" or ""
+
+
+@dataclasses.dataclass(frozen=True, repr=False)
+class PatternCondition(ResultTable):
+    """A condition of the pattern: a wall, a free boundary or a slip line.
+
+    ``value`` is the wall direction [rad] of a wall, the prescribed pressure
+    (ratio to the inflow pressure) of a free boundary, NaN for a slip line.
+    ``through_x``, ``through_y`` are the point given with ``through=`` (NaN
+    if none).
+    """
+
+    kind: str = unit_field("")  #: "wall", "free boundary" or "slip line"
+    regions: tuple = unit_field("")  #: one region, or the two regions of a slip line
+    value: object = unit_field("")  #: wall direction [rad] or pressure ratio (NaN for a slip line)
+    through_x: object = unit_field("m")  #: a point of a placed wall or free boundary (else NaN)
+    through_y: object = unit_field("m")
+
+
+@dataclasses.dataclass(frozen=True, repr=False)
+class MeetingPoint(ResultTable):
+    """Where placed waves meet a wall, a free boundary or each other.
+
+    ``kind`` is ``"wall"``, ``"free boundary"`` or ``"waves"``;
+    ``incoming`` are the waves that end there, ``outgoing`` those that
+    start there (a reflected wave; the two waves either side of a slip
+    line); ``boundary_region`` is the region whose condition the wall or
+    free boundary is ("" for waves meeting). ``x``, ``y`` are NaN in cases
+    where the lines are parallel or not solved.
+    """
+
+    kind: str = unit_field("")  #: "wall", "free boundary" or "waves"
+    incoming: tuple = unit_field("")  #: waves ending at the point
+    outgoing: tuple = unit_field("")  #: waves starting at the point
+    boundary_region: str = unit_field("")  #: region of the wall or free-boundary condition
+    x: object = unit_field("m")
+    y: object = unit_field("m")
+
+
 class PatternSolution:
     """The solved wave pattern: region states, waves, and per-case status.
 
@@ -71,9 +131,26 @@ class PatternSolution:
         could not be reached, or that the iteration did not converge.
     iterations : int
         Newton iterations used (the largest over the batch).
+    gamma : float or ndarray
+        Ratio of specific heats of the gas, per case.
+
+    Notes
+    -----
+    Geometry: a wave given a ``start`` point is placed as a straight line
+    (a fan as its head and tail rays) through it, in the direction of
+    :attr:`WaveSolution.head_line_direction`. Starts the pattern implies are
+    added: where the wave that made a region's upstream region meets a wall
+    or free boundary given with ``through=``, the wave leaving towards that
+    condition starts (a reflection point); where exactly two placed waves
+    lead from a common region to the two sides of a slip line (two shocks
+    crossing or merging), both waves leaving towards the slip line start at
+    their crossing point. A fan meets a boundary with its head ray. The
+    triple point of a Mach reflection is not placed: its height depends on
+    the flow downstream. :attr:`meeting_points` lists every point so found.
     """
 
-    def __init__(self, pattern, regions, waves, ok, failure, iterations, shape):
+    def __init__(self, pattern, regions, waves, ok, failure, iterations, shape, *,
+                 gamma=None):
         self._pattern = pattern
         self._regions = regions
         self._waves = waves
@@ -82,6 +159,101 @@ class PatternSolution:
         failure = failure.reshape(shape)
         self.failure = str(failure) if not shape else failure
         self.iterations = iterations
+        self.gamma = gamma if gamma is not None else nx.scalar_or_array(
+            np.broadcast_to(pattern._gamma, shape).copy())
+        self._links = {w.name: w for w in pattern._order()[0]}
+        self._conditions = tuple(_condition_record(c) for c in pattern._conditions)
+        self._starts, self._sources, self._meetings = _place_waves(self, pattern)
+
+    # -- how the pattern is connected
+    @property
+    def inflow_name(self) -> str:
+        """Name of the inflow region."""
+        return self._pattern.inflow_name
+
+    @property
+    def inflow_state(self):
+        """The inflow :class:`~gasdyn2d.FlowState`, or None if the inflow was a Mach number."""
+        return self._pattern.inflow_state
+
+    def connection(self, name) -> WaveConnection:
+        """Regions, family, branch, specification and start point of wave ``name``."""
+        w = self._links.get(name)
+        if w is None:
+            raise nx.InvalidInputError(
+                f"no wave named {name!r}; the waves are {self.wave_names}.")
+        x, y = self._starts.get(name, (np.nan, np.nan))
+        return WaveConnection(w.upstream, w.downstream, "left" if w.sign > 0 else "right",
+                              "strong" if w.strong else "weak", w.spec,
+                              nx.scalar_or_array(x), nx.scalar_or_array(y),
+                              self._sources.get(name, ""))
+
+    def wave_start(self, name):
+        """Start point ``(x, y)`` [m] of wave ``name`` (given or implied), or None."""
+        self.connection(name)  # checks the name
+        point = self._starts.get(name)
+        return None if point is None else tuple(nx.scalar_or_array(v) for v in point)
+
+    @property
+    def conditions(self) -> tuple:
+        """The pattern's conditions, as :class:`PatternCondition` records, in the order added."""
+        return self._conditions
+
+    @property
+    def slip_lines(self) -> list:
+        """The region pairs ``(a, b)`` joined by slip lines."""
+        return [c.regions for c in self._conditions if c.kind == "slip line"]
+
+    @property
+    def meeting_points(self) -> tuple:
+        """Where placed waves meet walls, free boundaries and each other (:class:`MeetingPoint`)."""
+        return self._meetings
+
+    def made_by(self, region):
+        """Name of the wave whose downstream region is ``region`` (None for the inflow)."""
+        self.region(region)  # checks the name
+        return next((n for n, w in self._links.items() if w.downstream == region), None)
+
+    def region_label_point(self, name):
+        """A point [m] inside region ``name`` for its label, or None where geometry is missing.
+
+        For a region made by a placed wave whose end is a meeting point: a
+        quarter of the wave's length downstream of its middle, along the
+        region's flow. For the inflow region: that far upstream of the middle
+        of the first placed wave leaving it. The first case of a batch.
+        """
+        maker = self.made_by(name)
+        if maker is None:
+            placed = [n for n in self._links if n in self._starts
+                      and self._links[n].upstream == name]
+            if not placed:
+                return None
+            segment = self._placed_segment(placed[0])
+            if segment is None:
+                return None
+            (x0, y0), (x1, y1) = segment
+            scale = -0.25 * np.hypot(x1 - x0, y1 - y0)
+            mid = (0.5 * (x0 + x1), 0.5 * (y0 + y1))
+        else:
+            segment = self._placed_segment(maker)
+            if segment is None:
+                return None
+            (x0, y0), (x1, y1) = segment
+            scale = 0.25 * np.hypot(x1 - x0, y1 - y0)
+            mid = (0.5 * (x0 + x1), 0.5 * (y0 + y1))
+        d = _first(_radians(self.region(name).direction))
+        point = (mid[0] + scale * np.cos(d), mid[1] + scale * np.sin(d))
+        return None if not np.all(np.isfinite(point)) else tuple(float(v) for v in point)
+
+    def _placed_segment(self, name):
+        """(start, end) of a placed wave that ends at a meeting point, first case; or None."""
+        if name not in self._starts:
+            return None
+        end = next((m for m in self._meetings if name in m.incoming), None)
+        if end is None:
+            return None
+        start = tuple(_first(v) for v in self._starts[name])
+        return start, (_first(end.x), _first(end.y))
 
     @property
     def region_names(self):
@@ -181,7 +353,8 @@ class PatternSolution:
 
     def _line(self, item, ray):
         if isinstance(item, str):
-            start = self._pattern._waves[item].start if item in self._pattern._waves else None
+            self.connection(item)  # checks the name
+            start = self._starts.get(item)
             if start is None:
                 raise nx.InvalidInputError(
                     f"wave {item!r} has no start point; give add_wave(..., start=(x, y)).")
@@ -230,6 +403,94 @@ class PatternSolution:
         if bad:
             lines.append(f"  {len(bad)} failure(s); first: {bad[0]}")
         return "\n".join(lines)
+
+
+def _condition_record(c):
+    x, y = c.through if c.through is not None else (np.nan, np.nan)
+    value = np.nan if c.value is None else nx.scalar_or_array(np.asarray(c.value, float))
+    return PatternCondition(c.kind, tuple(c.regions), value, nx.scalar_or_array(x),
+                            nx.scalar_or_array(y))
+
+
+def _intersect(p1, a1, p2, a2):
+    """Crossing point of the lines (p1, direction a1) and (p2, a2) [m, rad]; NaN if parallel."""
+    (x1, y1), (x2, y2) = p1, p2
+    c1, s1, c2, s2 = np.cos(a1), np.sin(a1), np.cos(a2), np.sin(a2)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        den = c1 * s2 - s1 * c2
+        t = ((x2 - x1) * s2 - (y2 - y1) * c2) / den
+        t = np.where(np.abs(den) < 1e-14, np.nan, t)
+    return x1 + t * c1, y1 + t * s1
+
+
+def _chain(region, made_by):
+    """Waves and regions from ``region`` back to the inflow: ([wave, ...], [region, ...])."""
+    waves, regions = [], [region]
+    while region in made_by:
+        w = made_by[region]
+        waves.append(w)
+        region = w.upstream
+        regions.append(region)
+    return waves, regions
+
+
+def _place_waves(solution, pattern):
+    """Given and implied start points, their sources, and the meeting points."""
+    links = solution._links
+    made_by = {w.downstream: w for w in links.values()}
+    starts = {n: w.start for n, w in links.items() if w.start is not None}
+    sources = {n: "given" for n in starts}
+    meetings, seen = [], set()
+
+    def head(name):
+        return _radians(solution.wave(name).head_line_direction)
+
+    def meet(kind, incoming, outgoing, region, point):
+        key = (kind, incoming, region)
+        if key in seen:
+            return
+        seen.add(key)
+        x, y = (nx.scalar_or_array(np.asarray(v, float)) for v in point)
+        meetings.append(MeetingPoint(kind, incoming, outgoing, region, x, y))
+        for name in outgoing:
+            if name not in starts:
+                starts[name] = point
+                sources[name] = "wave meeting" if kind == "waves" else kind
+
+    for w in links.values():
+        parent = made_by.get(w.upstream)
+        for c in pattern._conditions:
+            if (c.kind == "slip line" or c.through is None or c.regions[0] != w.downstream
+                    or parent is None or parent.name not in starts):
+                continue
+            line = c.value if c.kind == "wall" else _radians(
+                solution.region(parent.upstream).direction)
+            point = _intersect(starts[parent.name], head(parent.name), c.through, line)
+            meet(c.kind, (parent.name,), (w.name,), c.regions[0], point)
+        for c in pattern._conditions:
+            if c.kind != "slip line" or w.downstream not in c.regions:
+                continue
+            a, b = c.regions
+            if a not in made_by or b not in made_by:
+                continue
+            (wa, *in_a), regions_a = _chain(a, made_by)
+            (wb, *in_b), regions_b = _chain(b, made_by)
+            common = next(r for r in regions_a if r in regions_b)
+            in_a = in_a[:regions_a.index(common) - 1]
+            in_b = in_b[:regions_b.index(common) - 1]
+            incoming = [v.name for v in in_a + in_b]
+            if len(incoming) != 2 or not all(n in starts for n in incoming):
+                continue
+            point = _intersect(starts[incoming[0]], head(incoming[0]),
+                               starts[incoming[1]], head(incoming[1]))
+            meet("waves", tuple(incoming), (wa.name, wb.name), "", point)
+    return starts, sources, tuple(meetings)
+
+
+def _first(value):
+    """The first case of a scalar or batch value, as a float."""
+    array = np.asarray(value, dtype=float)
+    return float(array.reshape(-1)[0]) if array.size else float("nan")
 
 
 def _radians(value):

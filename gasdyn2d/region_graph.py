@@ -68,6 +68,7 @@ class _Condition:
     kind: str  # "wall", "free boundary", "slip line"
     regions: tuple
     value: object
+    through: object = None  # (x, y) [m] on a straight wall or free boundary, or None
 
     def label(self):
         if self.kind == "slip line":
@@ -171,7 +172,12 @@ class WavePattern:
         guess : float or array_like, optional
             Starting turn [rad] for an unknown wave (default 0).
         start : (x, y), optional
-            Point [m] where the wave starts, for :meth:`PatternSolution.meeting_point`.
+            Point [m] where the wave starts (floats, batch arrays or length
+            Quantities). Without it the solution may place the wave itself:
+            at the point where the wave that made ``upstream`` meets a wall
+            or free boundary placed with ``through=``, or at the crossing of
+            two placed waves ahead of a slip line (see
+            :class:`PatternSolution`, Notes).
 
         Returns
         -------
@@ -207,24 +213,37 @@ class WavePattern:
         if guess is not None:
             guess = nx.to_si(guess, "guess", "angle")[0]
         self._waves[name] = _Wave(name, str(upstream), str(downstream), _FAMILY_SIGN[family],
-                                  spec, value, branch == "strong", guess, start)
+                                  spec, value, branch == "strong", guess,
+                                  _point(start, "start"))
         return self
 
-    def add_wall(self, region, direction):
-        """Require region ``region`` to flow along a wall of direction ``direction`` [rad]."""
+    def add_wall(self, region, direction, *, through=None):
+        """Require region ``region`` to flow along a wall of direction ``direction`` [rad].
+
+        ``through=(x, y)`` [m], a point of the (straight) wall, places it in
+        the plane: the wave that made ``region``'s upstream region then
+        meets the wall at a point the solution reports, and the wave leaving
+        into ``region`` starts there unless it was given a ``start``.
+        """
         value, unit = nx.to_si(direction, "direction", "angle")
         self._angle_units.append(unit)
-        self._conditions.append(_Condition("wall", (str(region),), value))
+        self._conditions.append(_Condition("wall", (str(region),), value,
+                                           _point(through, "through")))
         return self
 
-    def add_free_boundary(self, region, pressure):
+    def add_free_boundary(self, region, pressure, *, through=None):
         """Require region ``region`` to be at ``pressure`` (a free boundary of fixed pressure).
 
         ``pressure`` is absolute [Pa] when the inflow was a ``FlowState``,
-        a ratio to the inflow pressure otherwise.
+        a ratio to the inflow pressure otherwise. ``through=(x, y)`` [m] is a
+        point of the boundary upstream of where a wave meets it (that
+        stretch runs along the flow of the meeting wave's upstream region);
+        as for :meth:`add_wall`, it places the meeting point and the start
+        of the wave leaving into ``region``.
         """
         value = nx.to_si(pressure, "pressure", self._pressure_kind)[0] / self._pressure_scale
-        self._conditions.append(_Condition("free boundary", (str(region),), value))
+        self._conditions.append(_Condition("free boundary", (str(region),), value,
+                                           _point(through, "through")))
         return self
 
     def add_slip_line(self, region_a, region_b):
@@ -446,7 +465,7 @@ class WavePattern:
             raise NoSolutionError(
                 f"no solution{where}: {failure[first]} Pass errors='nan' to get NaN for "
                 "these cases, with the reason in solution.failure.")
-        return self._package(regions, waves, ok, failure, iterations, shape)
+        return self._package(regions, waves, ok, failure, iterations, shape, case["g"])
 
     def _newton(self, plan, x, case, max_iterations):
         """Batched damped Newton iteration; returns (x, converged, iterations, evaluation).
@@ -605,7 +624,7 @@ class WavePattern:
                 f"wave {w.name!r} would expand its stream beyond the maximum Prandtl–Meyer "
                 f"angle (to vacuum){context}.")
 
-    def _package(self, regions, waves, ok, failure, iterations, shape):
+    def _package(self, regions, waves, ok, failure, iterations, shape, gamma):
         out = lambda v: nx.scalar_or_array(np.where(ok, v, np.nan).reshape(shape))  # noqa: E731
         unit = next((u for u in self._angle_units if u is not None), None)
         unit = nx.output_angle_unit(unit)
@@ -629,7 +648,18 @@ class WavePattern:
                 angle(turn + 0 * M_up), out(s.p2_p1), angle(s.wave_angle), angle(mu_up),
                 angle(mu_dn), angle(head), angle(tail))
         return PatternSolution(self, region_results, wave_results, ok, failure, iterations,
-                               shape)
+                               shape, gamma=nx.scalar_or_array(gamma.reshape(shape)))
+
+
+def _point(point, name):
+    """An (x, y) point [m] (floats, arrays or length Quantities), or None."""
+    if point is None:
+        return None
+    try:
+        x, y = point
+    except (TypeError, ValueError):
+        raise nx.InvalidInputError(f"{name} must be a point (x, y) [m]; got {point!r}.") from None
+    return nx.to_si(x, f"{name}[0]", "length")[0], nx.to_si(y, f"{name}[1]", "length")[0]
 
 
 def _regions_lnp(regions):

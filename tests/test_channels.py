@@ -269,3 +269,20 @@ def test_bad_input_errors(kwargs, name):
     args.update(kwargs)
     with pytest.raises(InvalidInputError, match=name):
         channel_flow(args.pop("M_inlet"), **args)
+
+
+def test_wall_heights_are_the_contours_at_the_wall_nodes():
+    # invented: a 4° expansion bend in the roof of a Mach 2 channel 0.3 m high, over a 2°
+    # compression bend in its floor; the wall nodes lie on the given contours
+    lower = WallContour.bend(0.0, 0.4, np.radians(2.0), 0.4)
+    upper = WallContour.bend(0.3, 0.3, np.radians(4.0), 0.3)
+    channel = channel_flow(2.0, lower_wall=lower, upper_wall=upper, length=1.2, n_points=9)
+    for x, y, wall in ((channel.lower_wall_x, channel.lower_wall_y, lower),
+                       (channel.upper_wall_x, channel.upper_wall_y, upper)):
+        assert x.shape == y.shape and x.size >= 3
+        np.testing.assert_allclose(y, wall.height(x), rtol=1e-12, atol=1e-12)
+    np.testing.assert_array_equal(channel.lower_wall_y, channel.net.y[channel.lower_wall_nodes])
+    in_cm = channel_flow(2.0, lower_wall=lower, upper_wall=upper, length=120 * ureg.cm,
+                         n_points=9)
+    assert str(in_cm.upper_wall_y.units) == "centimeter"
+    np.testing.assert_allclose(in_cm.upper_wall_y.m_as("m"), channel.upper_wall_y, rtol=1e-12)

@@ -478,3 +478,88 @@ def test_free_boundary_reflects_a_shock_as_a_fan(tmp_path):
     fan = drawn["fans"]["edge fan"].get_segments()
     assert all(s[0] == pytest.approx([x[1], y[1]]) for s in fan)
     save_png(drawn["ax"], tmp_path, "free_boundary")
+
+
+# ------------------------------------------------------------------ public accessors only
+
+
+def test_plot_package_reads_no_private_solution_attributes():
+    # the drawings use PatternSolution's public accessors (connection, slip_lines, gamma, ...)
+    import pathlib
+
+    import gasdyn2d.plot as plot_package
+    for path in pathlib.Path(plot_package.__file__).parent.glob("*.py"):
+        text = path.read_text()
+        for private in ("._pattern", "._waves", "._conditions", "._regions", "._links"):
+            assert private not in text, f"{path.name} reads {private}"
+
+
+def test_reflection_placed_by_the_solution_is_drawn_from_the_wall_point(tmp_path):
+    # invented: the 6° ramp duct, the roof given to the pattern with through=(0, 1)
+    p = WavePattern(2.6)
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=RAMP,
+               start=(0.0, 0.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wall("3", direction=0.0, through=(0.0, 1.0))
+    solution = p.solve()
+    walls = [([-0.5, 0.0, 5.0], [0.0, 0.0, 5.0 * np.tan(RAMP)]), ([-0.5, 5.0], [1.0, 1.0])]
+    drawn = draw_wave_pattern(solution, walls=walls)
+    beta = weak_wave_angle(2.6, RAMP)
+    rx, ry = drawn["shocks"]["reflected"].get_data()
+    assert (rx[0], ry[0]) == pytest.approx((1.0 / np.tan(beta), 1.0), rel=1e-9)
+    # the label of region 2 is the solution's own point, inside region 2
+    assert drawn["labels"]["2"].get_position() == pytest.approx(
+        solution.region_label_point("2"), rel=1e-12)
+    lx, ly = drawn["labels"]["2"].get_position()
+    assert lx * np.tan(RAMP) < ly < min(1.0, lx * np.tan(beta))
+    save_png(drawn["ax"], tmp_path, "duct_reflection_placed")
+
+
+def test_crossing_waves_start_at_the_crossing_point():
+    solution = crossing_pattern()  # wedge tips at (0, 1) and (0, 0)
+    bu, bl = weak_wave_angle(2.4, np.radians(8.0)), weak_wave_angle(2.4, np.radians(5.0))
+    x = 1.0 / (np.tan(bu) + np.tan(bl))  # y = x tan βl = 1 - x tan βu
+    drawn = draw_wave_pattern(solution, extent=(-0.5, 6.0, -0.1, 1.1))
+    for name in ("through 2", "through 3"):
+        sx, sy = drawn["shocks"][name].get_data()
+        assert (sx[0], sy[0]) == pytest.approx((x, x * np.tan(bl)), rel=1e-9)
+
+
+def test_pattern_polars_use_the_solution_gamma():
+    # invented: a γ = 1.3 stream; the drawn free-stream polar reaches θmax(M, 1.3)
+    from scipy.optimize import minimize_scalar
+
+    M, g = 2.4, 1.3
+    p = WavePattern(M, gamma=g)
+    p.add_wave("wedge", upstream="1", downstream="2", family="left", turn=np.radians(8.0))
+    solution = p.solve()
+
+    def minus_theta(beta):  # θ-β-M relation, NACA Report 1135, eq. 138
+        return -np.arctan(2 / np.tan(beta) * (M**2 * np.sin(beta)**2 - 1)
+                          / (M**2 * (g + np.cos(2 * beta)) + 2))
+    best = minimize_scalar(minus_theta, bounds=(np.arcsin(1 / M), np.pi / 2), method="bounded",
+                           options={"xatol": 1e-12})
+    theta_max = np.degrees(-best.fun)
+    drawn = draw_pattern_polars(solution, ["1"], marks=["2"], n=4001)
+    x, _ = drawn["shock_polars"][0].get_data()
+    assert np.max(x) == pytest.approx(theta_max, rel=1e-4)
+    old = draw_pattern_polars(solution, ["1"], gamma=1.4, n=4001)  # the keyword still works
+    assert np.max(old["shock_polars"][0].get_data()[0]) < theta_max - 0.1
+
+
+def test_channel_net_draws_its_own_walls(tmp_path):
+    from gasdyn2d.channels import channel_flow
+    from gasdyn2d.characteristics import WallContour
+
+    # invented: a 4° expansion bend in the roof of a Mach 2 channel of unit height
+    lower, upper = WallContour.straight(0.0), WallContour.bend(1.0, 0.5, np.radians(4.0), 0.5)
+    channel = channel_flow(2.0, lower_wall=lower, upper_wall=upper, length=3.0, n_points=9)
+    drawn = draw_characteristic_net(channel)
+    assert len(drawn["walls"]) == 2
+    for line, wall, nodes_x in zip(drawn["walls"], (lower, upper),
+                                   (channel.lower_wall_x, channel.upper_wall_x)):
+        wx, wy = line.get_data()
+        assert wy == pytest.approx(wall.height(wx), abs=1e-12)  # on the contour
+        np.testing.assert_array_equal(wx, nodes_x)  # through the wall nodes of the march
+        assert wx[-1] >= 3.0  # the march reached the channel length
+    save_png(drawn["ax"], tmp_path, "channel_net_own_walls")

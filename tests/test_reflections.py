@@ -1,19 +1,9 @@
-"""Tests of gasdyn2d.reflections: the ready coupled problems, built on the region graph.
-
-The independent reference at the top of this file is written from the
-textbook wave relations, not from gasdyn2d's code: each coupled problem is
-reduced by hand to a single equation in one unknown and solved with mpmath's
-root finder at 30 digits (instead of the region graph's batched Newton
-iteration in several unknowns). Relations: NACA Report 1135 (1953), θ-β-M
-relation eq. 138, normal-shock pressure eq. 93 applied to M sin β,
-Prandtl–Meyer function eq. 171, isentropic pressure ratio eq. 44,
-maximum-deflection wave angle eq. 168 (equation numbers from memory, as in
-/work/shared/SOURCES.md).
+"""Tests of gasdyn2d.reflections: reflections from walls and free boundaries, built on
+the region graph, against the independent mpmath reference in wave_problem_reference.py.
 """
 
 from __future__ import annotations
 
-import zlib
 
 import mpmath as mp
 import numpy as np
@@ -23,276 +13,25 @@ from hypothesis import strategies as st
 
 from gasdyn2d import ureg
 from gasdyn2d.errors import DetachedShockError, InvalidInputError, NoSolutionError
-from gasdyn2d.expansion import prandtl_meyer_angle
 from gasdyn2d.oblique_shocks import detachment_angles
-from gasdyn2d.reflections import (
-    free_boundary_reflection,
-    merging_shocks,
-    reflection_transition,
-    shock_crossing,
-    turn_to_pressure,
-    wall_reflection,
+from gasdyn2d.reflections import free_boundary_reflection, reflection_transition, wall_reflection
+from gasdyn2d.wave_interactions import merging_shocks, shock_crossing, turn_to_pressure
+
+from wave_problem_reference import (
+    DPS,
+    _close,
+    _f,
+    _random_mach,
+    _random_regular,
+    _rng,
+    free_boundary_reflection_reference,
+    mach_bracket,
+    mach_reflection,
+    regular_reflection,
+    theta_max,
+    transition,
+    wave,
 )
-
-# ============================================================ independent reference
-DPS = 30
-
-
-def _f(x):
-    return mp.mpf(float(x))
-
-
-def theta_of_beta(M, b, g):
-    """tan θ = 2 cot β (M² sin²β - 1)/(M²(γ + cos 2β) + 2) (NACA Report 1135, eq. 138)."""
-    return mp.atan(2 / mp.tan(b) * (M**2 * mp.sin(b) ** 2 - 1) / (M**2 * (g + mp.cos(2 * b)) + 2))
-
-
-def beta_star(M, g):
-    """Wave angle at maximum deflection (NACA Report 1135, eq. 168)."""
-    s2 = ((g + 1) * M**2 / 4 - 1 + mp.sqrt((g + 1) * ((g + 1) * M**4 / 16
-                                                      + (g - 1) * M**2 / 2 + 1))) / (g * M**2)
-    return mp.asin(mp.sqrt(s2))
-
-
-def theta_max(M, g):
-    return theta_of_beta(M, beta_star(M, g), g)
-
-
-def beta_of_theta(M, theta, g, strong=False):
-    """β on the weak (μ..β*) or strong (β*..π/2) branch, by bracketed root finding."""
-    bs = beta_star(M, g)
-    lo, hi = (bs, mp.pi / 2) if strong else (mp.asin(1 / M), bs)
-    if theta == 0:
-        return hi if strong else lo
-    if theta > theta_of_beta(M, bs, g):
-        raise ValueError("detached: no attached shock for this deflection")
-    return mp.findroot(lambda b: theta_of_beta(M, b, g) - theta, (lo, hi), solver="anderson",
-                       verify=False)
-
-
-def shock(M, b, g):
-    """(M2, p2/p1, θ) behind a shock of wave angle β (normal-shock relations on M sin β)."""
-    mn = M * mp.sin(b)
-    p = 1 + 2 * g / (g + 1) * (mn**2 - 1)
-    mn2 = mp.sqrt((1 + (g - 1) / 2 * mn**2) / (g * mn**2 - (g - 1) / 2))
-    th = theta_of_beta(M, b, g)
-    return mn2 / mp.sin(b - th), p, th
-
-
-def nu(M, g):
-    """Prandtl–Meyer function (NACA Report 1135, eq. 171)."""
-    k = mp.sqrt((g + 1) / (g - 1))
-    z = mp.sqrt(M**2 - 1)
-    return k * mp.atan(z / k) - mp.atan(z)
-
-
-def mach_of_nu(v, g, start=2):
-    return mp.findroot(lambda m: nu(m, g) - v, mp.mpf(start))
-
-
-def p_over_p0(M, g):
-    """Isentropic p/p0 (NACA Report 1135, eq. 44)."""
-    return (1 + (g - 1) / 2 * M**2) ** (-g / (g - 1))
-
-
-def wave(M, compression_turn, g, strong=False):
-    """(M2, p2/p1) behind a shock (turn > 0) or a centred fan (turn < 0)."""
-    if compression_turn > 0:
-        M2, p, _ = shock(M, beta_of_theta(M, compression_turn, g, strong), g)
-        return M2, p
-    M2 = mach_of_nu(nu(M, g) - compression_turn, g, start=M)
-    return M2, p_over_p0(M2, g) / p_over_p0(M, g)
-
-
-def regular_reflection(M1, theta, g=1.4):
-    """(M2, M3, p3/p1, reflected angle to wall) of a regular reflection."""
-    with mp.workdps(DPS):
-        M1, theta, g = _f(M1), _f(theta), _f(g)
-        M2, p2, _ = shock(M1, beta_of_theta(M1, theta, g), g)
-        br = beta_of_theta(M2, theta, g)
-        M3, p3, _ = shock(M2, br, g)
-        return float(M2), float(M3), float(p2 * p3), float(br - theta)
-
-
-def mach_reflection(M1, theta, g=1.4, bracket=None):
-    """(M3, p3/p1, reflected angle to wall, M4, slip angle to wall) by three-shock theory.
-
-    One unknown: the stem wave angle βs on the strong branch of the free-stream
-    polar; the reflected shock's wave angle follows from p3 = p4, and the root
-    makes θ3 = θ4. ``bracket`` is (βs_low, βs_high) with a sign change.
-    """
-    with mp.workdps(DPS):
-        M1, theta, g = _f(M1), _f(theta), _f(g)
-        M2, p2, _ = shock(M1, beta_of_theta(M1, theta, g), g)
-
-        def reflected(bs):
-            _, p4, th4 = shock(M1, bs, g)
-            mn = mp.sqrt(1 + (p4 / p2 - 1) * (g + 1) / (2 * g))
-            br = mp.asin(mn / M2)
-            return br, p4, th4
-
-        def mismatch(bs):
-            br, _, th4 = reflected(bs)
-            return (-theta + theta_of_beta(M2, br, g)) + th4
-
-        lo, hi = (_f(bracket[0]), _f(bracket[1]))
-        bs = mp.findroot(mismatch, (lo, hi), solver="anderson", verify=False)
-        br, p4, th4 = reflected(bs)
-        M4, _, _ = shock(M1, bs, g)
-        M3, _, _ = shock(M2, br, g)
-        return float(M3), float(p4), float(br - theta), float(M4), float(th4)
-
-
-def mach_reflection_float_mismatch(M1, theta, bs, g=1.4):
-    """The same direction mismatch in floats, for locating a bracket by a scan."""
-    with mp.workdps(20):
-        M1, theta, g, bs = _f(M1), _f(theta), _f(g), _f(bs)
-        M2, p2, _ = shock(M1, beta_of_theta(M1, theta, g), g)
-        _, p4, th4 = shock(M1, bs, g)
-        mn2 = 1 + (p4 / p2 - 1) * (g + 1) / (2 * g)
-        if mn2 > M2**2 or M2 < 1:
-            return None
-        br = mp.asin(mp.sqrt(mn2) / M2)
-        if br > beta_star(M2, g):
-            return None  # reflected shock would be on its strong branch
-        return float((-theta + theta_of_beta(M2, br, g)) + th4)
-
-
-def shock_crossing_reference(M1, du, dl, g=1.4):
-    """(slip direction, p/p1, M above, M below): one unknown, the slip direction φ."""
-    with mp.workdps(DPS):
-        M1, du, dl, g = _f(M1), _f(du), _f(dl), _f(g)
-        M2, p2 = wave(M1, du, g)
-        M3, p3 = wave(M1, dl, g)
-
-        def gap(phi):
-            _, p4 = wave(M2, phi + du, g)  # left-running: compression turn = direction change
-            _, p5 = wave(M3, dl - phi, g)  # right-running: compression turn = -direction change
-            return mp.log(p2 * p4) - mp.log(p3 * p5)
-
-        phi = mp.findroot(gap, dl - du if dl != du else mp.mpf("1e-3"))
-        M4, p4 = wave(M2, phi + du, g)
-        M5, _ = wave(M3, dl - phi, g)
-        return float(phi), float(p2 * p4), float(M4), float(M5)
-
-
-def merging_shocks_reference(M1, d1, d2, g=1.4):
-    """(slip direction, p/p1, merged wave angle, reflected direction change): unknown θm."""
-    with mp.workdps(DPS):
-        M1, d1, d2, g = _f(M1), _f(d1), _f(d2), _f(g)
-        M2, p2 = wave(M1, d1, g)
-        M3, p3 = wave(M2, d2, g)
-
-        def gap(tm):
-            _, p4 = wave(M1, tm, g)
-            _, p5 = wave(M3, -(tm - d1 - d2), g)
-            return mp.log(p4) - mp.log(p2 * p3 * p5)
-
-        width = mp.mpf("0.01")  # the reflected wave is weak: θm is within 0.01 of δ1 + δ2
-        hi = min(d1 + d2 + width, theta_max(M1, g) * (1 - mp.mpf("1e-12")))
-        tm = mp.findroot(gap, (d1 + d2 - width, hi), solver="anderson", verify=False)
-        _, p4 = wave(M1, tm, g)
-        return float(tm), float(p4), float(beta_of_theta(M1, tm, g)), float(tm - d1 - d2)
-
-
-def free_boundary_reflection_reference(M1, theta, g=1.4):
-    """(M2, M3, fan deflection, boundary turn): the fan back to p1 is in closed form."""
-    with mp.workdps(DPS):
-        M1, theta, g = _f(M1), _f(theta), _f(g)
-        M2, p2 = wave(M1, theta, g)
-        # p3 = p1 with p03 = p02: p3/p03 = (p1/p2)(p2/p02)
-        target = p_over_p0(M2, g) / p2
-        M3 = mp.sqrt(2 / (g - 1) * (target ** (-(g - 1) / g) - 1))
-        fan = nu(M3, g) - nu(M2, g)
-        return float(M2), float(M3), float(fan), float(theta + fan)
-
-
-def turn_to_pressure_reference(M1, p21, g=1.4):
-    """(deflection, M2, wave angle or NaN): closed forms of the single wave."""
-    with mp.workdps(DPS):
-        M1, p21, g = _f(M1), _f(p21), _f(g)
-        if p21 > 1:
-            mn = mp.sqrt(1 + (p21 - 1) * (g + 1) / (2 * g))
-            b = mp.asin(mn / M1)
-            M2, _, th = shock(M1, b, g)
-            return float(th), float(M2), float(b)
-        target = p_over_p0(M1, g) * p21
-        M2 = mp.sqrt(2 / (g - 1) * (target ** (-(g - 1) / g) - 1))
-        return float(nu(M2, g) - nu(M1, g)), float(M2), float("nan")
-
-
-def transition(M1, g=1.4):
-    """(θ, β) at detachment and at the von Neumann condition (None if it does not exist)."""
-    with mp.workdps(DPS):
-        M1, g = _f(M1), _f(g)
-
-        def det_gap(th):
-            M2, _ = wave(M1, th, g)
-            return theta_max(M2, g) - th
-
-        s2 = ((g + 1) * M1**2 / 4 - (3 - g) / 4 + mp.sqrt((g + 1) * (
-            (9 + g) / 16 - (3 - g) * M1**2 / 8 + (g + 1) * M1**4 / 16))) / (g * M1**2)
-        th_sonic = theta_of_beta(M1, mp.asin(mp.sqrt(s2)), g)  # NACA Report 1135, eq. 167
-        th_det = mp.findroot(det_gap, (mp.mpf("0.001"), th_sonic * (1 - mp.mpf("1e-9"))),
-                             solver="illinois", verify=False)
-        pn = 1 + 2 * g / (g + 1) * (M1**2 - 1)
-
-        def vn_gap(th):
-            M2, p2 = wave(M1, th, g)
-            _, p3 = wave(M2, th, g)
-            return mp.log(p2 * p3) - mp.log(pn)
-
-        M2d, p2d = wave(M1, th_det, g)
-        _, p3d, _ = shock(M2d, beta_star(M2d, g), g)
-        vn = None
-        if p2d * p3d >= pn:
-            th_vn = mp.findroot(vn_gap, (mp.mpf("0.01"), th_det * (1 - mp.mpf("1e-12"))),
-                                solver="illinois", verify=False)
-            vn = (float(th_vn), float(beta_of_theta(M1, th_vn, g)))
-        return (float(th_det), float(beta_of_theta(M1, th_det, g))), vn
-
-
-def mach_bracket(M1, theta, g=1.4, samples=40):
-    """Bracket of the stem wave angle: scan from the normal stem towards β*(M1)."""
-    with mp.workdps(20):
-        bs_star = float(beta_star(_f(M1), _f(g)))
-    grid = np.linspace(np.pi / 2, bs_star, samples)
-    values = [mach_reflection_float_mismatch(M1, theta, b, g) for b in grid]
-    for a, b, fa, fb in zip(grid[:-1], grid[1:], values[:-1], values[1:]):
-        if fa is not None and fb is not None and fa * fb <= 0:
-            return b, a
-    return None
-
-
-# ============================================================ cases
-
-RTOL = 1e-10  # agreement asked of every ready function against the reference
-
-
-def _rng(label):
-    """A generator of invented random cases, seeded per test so each runs alone alike."""
-    return np.random.default_rng(zlib.crc32(label.encode()))
-
-
-def _random_regular(n):
-    """Invented random cases inside the regular-reflection domain (below detachment)."""
-    rng = _rng("regular")
-    M = rng.uniform(1.6, 5.0, n)
-    theta_det = np.asarray(reflection_transition(M).detachment.deflection)
-    return M, rng.uniform(0.05, 0.9, n) * theta_det
-
-
-def _random_mach(n):
-    """Invented random cases just beyond detachment, where only Mach reflection exists."""
-    rng = _rng("mach")
-    M = rng.uniform(2.6, 5.0, n)
-    theta_det = np.asarray(reflection_transition(M).detachment.deflection)
-    return M, theta_det + np.radians(rng.uniform(0.3, 2.0, n))
-
-
-def _close(actual, expected, rtol=RTOL, atol=1e-14):
-    np.testing.assert_allclose(actual, expected, rtol=rtol, atol=atol)
-
 
 # ============================================================ wall reflection
 
@@ -462,91 +201,6 @@ def test_criteria_meet_at_the_dual_domain_threshold():
     assert np.all(wide.von_neumann.wave_angle < wide.detachment.wave_angle)
 
 
-# ============================================================ shock crossing
-
-
-def test_shock_crossing_matches_reference():
-    rng = _rng("test_shock_crossing_matches_reference")
-    n = 8
-    M = rng.uniform(2.0, 5.0, n)
-    tmax = detachment_angles(M, 1.4)[0]
-    du = rng.uniform(0.05, 0.35, n) * tmax
-    dl = rng.uniform(0.05, 0.35, n) * tmax
-    batch = shock_crossing(M, du, dl)
-    for i in range(n):
-        expected = shock_crossing_reference(M[i], du[i], dl[i])
-        single = shock_crossing(float(M[i]), float(du[i]), float(dl[i]))
-        for result, j in ((batch, i), (single, ())):
-            got = [np.asarray(getattr(result, k))[j] for k in
-                   ("slip_direction", "p_p1", "M_above_slip", "M_below_slip")]
-            _close(got, expected)
-            assert np.asarray(result.transmitted_above_kind)[j] == "shock"
-
-
-def test_equal_crossing_shocks_give_an_axial_slip_line():
-    # symmetry (fact of the trade): equal wedges give a slip line parallel to the axis
-    x = shock_crossing([2.0, 3.0, 6.0], np.radians(7.0), np.radians(7.0))
-    assert np.all(np.abs(x.slip_direction) < 1e-14)
-    _close(x.M_above_slip, x.M_below_slip, rtol=1e-13)
-    _close(x.transmitted_above_turn, -x.transmitted_below_turn, rtol=1e-13)
-
-
-def test_shock_crossing_mirror_symmetry_and_quantities():
-    a = shock_crossing(3.0, 5.0 * ureg.deg, 11.0 * ureg.deg)
-    b = shock_crossing(3.0, 11.0 * ureg.deg, 5.0 * ureg.deg)
-    assert a.slip_direction.units == ureg.deg
-    _close(a.slip_direction.m, -b.slip_direction.m, rtol=1e-12)
-    _close(a.M_above_slip, b.M_below_slip, rtol=1e-12)
-    assert a.slip_direction.m > 0  # the stronger lower wedge pushes the slip line up
-
-
-def test_shock_crossing_errors():
-    with pytest.raises(DetachedShockError, match="deflection_upper"):
-        shock_crossing(2.0, np.radians(25.0), 0.1)
-    out = shock_crossing(2.0, [0.1, np.radians(25.0)], 0.1, errors="nan")
-    assert np.isfinite(out.p_p1[0]) and np.isnan(out.p_p1[1])
-
-
-# ============================================================ merging shocks
-
-
-def test_merging_shocks_match_reference():
-    rng = _rng("test_merging_shocks_match_reference")
-    n = 8
-    M = rng.uniform(1.8, 5.0, n)
-    d1 = np.radians(rng.uniform(2.0, 9.0, n))
-    d2 = np.radians(rng.uniform(2.0, 9.0, n))
-    batch = merging_shocks(M, d1, d2)
-    for i in range(n):
-        expected = merging_shocks_reference(M[i], d1[i], d2[i])
-        single = merging_shocks(float(M[i]), float(d1[i]), float(d2[i]))
-        for result, j in ((batch, i), (single, ())):
-            got = [np.asarray(getattr(result, k))[j] for k in
-                   ("slip_direction", "p_p1", "wave_angle", "reflected_turn")]
-            _close(got[:3], expected[:3])
-            # the reflected turn is a small difference of O(1) turns: absolute check
-            assert abs(got[3] - expected[3]) < 1e-12
-            kind = np.asarray(result.reflected_kind)[j]
-            assert kind == ("fan" if expected[3] > 0 else "shock")
-
-
-def test_merging_shocks_reflected_wave_is_weak():
-    # the reflected wave is of third order in the corner turns, since the two routes
-    # differ through the entropy jump, itself third order in shock strength (fact of
-    # the trade; NACA Report 1135 gives the third-order entropy rise, from memory)
-    m = merging_shocks(3.0, np.radians(5.0), np.radians(5.0))
-    assert abs(m.reflected_turn) < 0.01 * np.radians(10.0)
-    assert m.merged_turn > np.radians(9.9)
-    turns = merging_shocks(3.0, np.radians([1.0, 2.0]), np.radians([1.0, 2.0])).reflected_turn
-    order = np.log(turns[1] / turns[0]) / np.log(2.0)
-    assert 2.8 < order < 3.6
-
-
-def test_merging_shocks_second_corner_detached():
-    with pytest.raises(DetachedShockError, match=r"deflection_second.*θmax\(M2\)"):
-        merging_shocks(1.6, np.radians(8.0), np.radians(10.0))
-
-
 # ============================================================ free boundary
 
 
@@ -576,56 +230,118 @@ def test_free_boundary_reflection_is_a_fan_turning_outward():
     assert abs(weak.boundary_turn.m - 0.4) < 2e-3
 
 
-# ============================================================ turn to pressure
+# ============================================================ per-case failure reasons
 
 
-def test_turn_to_pressure_matches_reference():
-    rng = _rng("test_turn_to_pressure_matches_reference")
-    n = 12
-    M = rng.uniform(1.3, 6.0, n)
-    p_normal = 1 + 2.8 / 2.4 * (M**2 - 1)
-    p = np.where(np.arange(n) % 2 == 0, np.maximum(rng.uniform(0.3, 0.99, n) * p_normal, 1.05),
-                 rng.uniform(0.05, 0.99, n))
-    p = np.where(p > p_normal, 0.5 * (1 + p_normal), p)
-    batch = turn_to_pressure(M, p)
-    for i in range(n):
-        deflection, M2, beta = turn_to_pressure_reference(M[i], p[i])
-        single = turn_to_pressure(float(M[i]), float(p[i]))
-        for result, j in ((batch, i), (single, ())):
-            _close([np.asarray(result.deflection)[j], np.asarray(result.M2)[j]],
-                   [deflection, M2])
-            kind = np.asarray(result.kind)[j]
-            assert kind == ("shock" if p[i] > 1 else "fan")
-            if kind == "shock":
-                _close(np.asarray(result.wave_angle)[j], beta)
-            else:
-                _close(np.asarray(result.fan_head_angle)[j], np.arcsin(1 / M[i]))
-                _close(np.asarray(result.fan_tail_angle)[j], np.arcsin(1 / M2))
+def test_wall_reflection_failure_reasons_per_case():
+    # invented cases: solved at M 2.8; beyond detachment at M 1.8 and M 1.6 (below the
+    # Mach number where the detachment and von Neumann criteria meet); a subsonic M1
+    M = np.array([2.8, 1.8, 1.6, 0.8])
+    theta = np.radians([10.0, 12.5, 14.0, 5.0])
+    r = wall_reflection(M, theta, errors="nan")
+    assert list(r.kind) == ["regular", "none", "none", "none"]
+    assert r.failure[0] == ""
+    with mp.workdps(DPS):  # M2 and θmax(M2) from the mpmath reference
+        M2, _ = wave(_f(1.8), _f(np.radians(12.5)), mp.mpf(1.4))
+        reach = float(mp.degrees(theta_max(M2, mp.mpf(1.4))))
+    assert reach < 12.5
+    assert r.failure[1].startswith(
+        "no regular reflection (the reflected shock would detach: turning the flow behind "
+        f"the incident shock (M2 = {float(M2):.6g}) back by 12.5° exceeds its maximum "
+        f"deflection {reach:.6g}°) and no triple point with a weak reflected shock and a "
+        "strong-branch Mach stem.")
+    assert "strong-branch (subsonic) reflected shock exists" in r.failure[1]
+    assert "branch='strong'" in r.failure[1]
+    assert r.failure[2].endswith("A search with a strong-branch reflected shock found none "
+                                 "either.")
+    assert r.failure[3] == "M1 = 0.8 is not supersonic (M1 >= 1 needed)."
+    with pytest.raises(NoSolutionError, match=(
+            r"^wall_reflection has no solution at index \(1,\) \(2 of 3 cases\), for M1 = 1\.8, "
+            r"deflection = 12\.5°: no regular reflection")):
+        wall_reflection(M[:3], theta[:3])
+    single = wall_reflection(1.8, np.radians(12.5), errors="nan")
+    assert isinstance(single.failure, str) and single.failure == r.failure[1]
+    # NaN in, NaN out: not a failure
+    assert wall_reflection(np.nan, 0.1).failure == ""
 
 
-def test_turn_to_pressure_strong_branch_pressure():
-    # a pressure above that at maximum deflection needs a strong-branch shock
-    r = turn_to_pressure(2.0, 4.2)
-    deflection, M2, beta = turn_to_pressure_reference(2.0, 4.2)
-    assert r.kind == "shock" and r.M2 < 1.0
-    _close([r.deflection, r.M2, r.wave_angle], [deflection, M2, beta])
+def test_strong_reflected_triple_point_named_in_the_reason_exists():
+    # the reason above claims a triple point with a strong reflected shock at M 1.8, 12.5°:
+    # solve that pattern and check the slip-line conditions with the mpmath reference
+    from gasdyn2d.region_graph import WavePattern
+    M, theta = 1.8, np.radians(12.5)
+    p = WavePattern(M)
+    p.add_wave("incident", upstream="1", downstream="2", family="right", turn=-theta)
+    p.add_wave("reflected", upstream="2", downstream="3", family="left", branch="strong",
+               guess=0.05)
+    p.add_wave("stem", upstream="1", downstream="4", family="right", branch="strong",
+               guess=-0.1)
+    p.add_slip_line("3", "4")
+    s = p.solve()
+    with mp.workdps(DPS):
+        g = mp.mpf(1.4)
+        M2, p2 = wave(_f(M), _f(theta), g)
+        M3, p3 = wave(M2, _f(s.wave("reflected").turn), g, strong=True)
+        M4, p4 = wave(_f(M), _f(-s.wave("stem").turn), g, strong=True)
+        assert float(p2 * p3) == pytest.approx(float(p4), rel=1e-10)
+    assert float(M3) < 1.0 and float(M4) < 1.0  # both behind strong shocks
+    assert s.region("3").direction == pytest.approx(s.region("4").direction, abs=1e-12)
+    assert s.region("4").direction <= 0.0  # towards the wall, as a Mach stem's slip line
 
 
-def test_turn_to_pressure_unreachable_pressure():
-    # normal-shock pressure ratio at M1 = 2 is 4.5 (NACA Report 1135, Table II)
-    with pytest.raises(NoSolutionError, match=r"p2_p1 must be at most the normal-shock.*4\.5"):
-        turn_to_pressure(2.0, 5.0)
-    with pytest.raises(InvalidInputError, match="p2_p1 must be finite and > 0"):
-        turn_to_pressure(2.0, -1.0)
-    r = turn_to_pressure([2.0, 2.0], [5.0, 0.5], errors="nan")
-    assert np.isnan(r.M2[0]) and np.isfinite(r.M2[1])
+def test_shock_crossing_failure_names_the_detached_wave():
+    # equal 12° wedges: the transmitted shocks turn the flow back by 12° each (axial slip
+    # line); at M 1.6 that exceeds θmax behind the incident shock (mpmath reference)
+    with mp.workdps(DPS):
+        g = mp.mpf(1.4)
+        for M1, detached in ((3.0, False), (1.6, True)):
+            M3, _ = wave(_f(M1), _f(np.radians(12.0)), g)
+            assert (theta_max(M3, g) < mp.radians(12)) == detached
+    x = shock_crossing([3.0, 1.6], np.radians(12.0), np.radians(12.0), errors="nan")
+    assert x.failure[0] == "" and np.isnan(x.p_p1[1])
+    assert x.failure[1].startswith("wave 'transmitted below' detached")
+    with pytest.raises(NoSolutionError, match=(
+            r"^shock_crossing has no solution at index \(1,\) \(1 of 2 cases\), for M1 = 1\.6, "
+            r"deflection_upper = 12°, deflection_lower = 12°: wave 'transmitted below' "
+            r"detached.*errors='nan'")):
+        shock_crossing([3.0, 1.6], np.radians(12.0), np.radians(12.0))
+    out = shock_crossing(2.0, [0.1, np.radians(25.0), -0.01], 0.1, errors="nan")
+    assert out.failure[0] == ""
+    assert out.failure[1].startswith("the upper shock detached: deflection_upper = 25° exceeds "
+                                     "the detachment deflection θmax(M1 = 2) = 22.97")
+    assert out.failure[2] == ("deflection_upper = -0.572958° is negative: the upper shock "
+                              "needs a compression (>= 0).")
 
 
-@settings(max_examples=30, deadline=None)
-@given(M=st.floats(1.2, 8.0), log_p=st.floats(-3.0, 1.0))
-def test_turn_to_pressure_round_trip(M, log_p):
-    # the Prandtl–Meyer angle rises by the turn across a fan (fact of the trade)
-    p = min(np.exp(log_p), 0.999 * (1 + 2.8 / 2.4 * (M**2 - 1)))
-    r = turn_to_pressure(M, p)
-    if r.kind == "fan":
-        _close(prandtl_meyer_angle(r.M2) - prandtl_meyer_angle(M), r.deflection, rtol=1e-11)
+def test_merging_and_free_boundary_and_pressure_failures():
+    m = merging_shocks([3.0, 1.5], np.radians(8.0), np.radians(8.0), errors="nan")
+    M2 = float(free_boundary_reflection(1.5, np.radians(8.0)).M2)  # behind the first shock
+    limit = np.degrees(detachment_angles(M2)[0])
+    assert list(m.failure) == ["", (
+        f"the second shock detached: deflection_second = 8° exceeds the detachment deflection "
+        f"θmax(M2 = {M2:.6g}) = {limit:.6g}°, so no attached shock exists.")]
+    f = free_boundary_reflection(np.array([[3.0], [1.3]]), np.radians([6.0, 40.0]),
+                                 errors="nan")
+    assert f.failure.shape == (2, 2) and f.failure[0, 0] == "" and f.failure[1, 0] == ""
+    assert f.failure[0, 1].startswith("the shock detached: deflection = 40°")
+    t = turn_to_pressure([2.0, 2.0, 2.0], [1.5, 5.0, -1.0], errors="nan")
+    # normal-shock pressure at M 2: 1 + 2γ/(γ+1)(M² - 1) = 4.5 (NACA Report 1135, eq. 93)
+    assert list(t.failure) == [
+        "", "the wave cannot reach p2_p1 = 5: a single shock gives at most the normal-shock "
+        "ratio 4.5 of M1 = 2.", "p2_p1 = -1 is not a finite pressure ratio > 0."]
+    assert turn_to_pressure(2.0, 0.5).failure == ""
+
+
+def test_detached_incident_shocks_name_the_wave_and_the_stream():
+    with mp.workdps(DPS):  # M2 behind the first 8° shock at M 1.5 (mpmath reference)
+        M2 = float(wave(_f(1.5), _f(np.radians(8.0)), mp.mpf(1.4))[0])
+    with pytest.raises(DetachedShockError, match=(
+            r"deflection_second must be at most the detachment deflection θmax\(M2\); got "
+            r"0\.1396263402 rad \(8°\) at index \(1, 0\).*The second shock detaches there "
+            rf"\(M1 = 1\.5, M2 = {M2:.6g}\)\.")):
+        merging_shocks([[3.0], [1.5]], np.radians(8.0), np.radians(8.0))
+    with pytest.raises(DetachedShockError, match=(
+            r"deflection must be at most the detachment deflection θmax\(M1\); got 0\.5 rad "
+            r"\(28\.6479°\); the limit there.*The incident shock detaches there \(M1 = 2\)\.")):
+        wall_reflection(2.0, 0.5)  # a single case: no index in the message
+

@@ -308,3 +308,225 @@ def test_wave_segments_for_drawing():
     np.testing.assert_allclose(y[:, 0], [0.0, 0.1], atol=1e-15)
     x, y = s.wave_segment("ramp shock", length=2.0)
     np.testing.assert_allclose(np.hypot(x[1] - x[0], y[1] - y[0]), 2.0, rtol=1e-14)
+
+
+# ------------------------------------------------------------ placed geometry and accessors
+# Independent checks: the meeting points are found here by solving the 2×2 linear system of
+# the two straight lines by hand (numpy.linalg.solve), with wave angles from the θ-β-M
+# relation (gasdyn2d's plain core, checked against NACA Report 1135 in its own tests).
+
+
+def _cross(p1, a1, p2, a2):
+    """Crossing of two lines (point, direction) by hand: p1 + t u1 = p2 + s u2."""
+    A = np.array([[np.cos(a1), -np.cos(a2)], [np.sin(a1), -np.sin(a2)]])
+    t, _ = np.linalg.solve(A, np.subtract(p2, p1))
+    return p1[0] + t * np.cos(a1), p1[1] + t * np.sin(a1)
+
+
+def _placed_duct(M, ramp, height, *, through=True):
+    """Invented: a ramp from the origin under a flat roof; the reflection hits the ramp."""
+    p = WavePattern(M)
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=ramp,
+               start=(0.0, 0.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wall("3", direction=0.0, through=(0.0, height) if through else None)
+    p.add_wave("second reflection", upstream="3", downstream="4", family="left")
+    p.add_wall("4", direction=ramp, through=(0.0, 0.0) if through else None)
+    return p
+
+
+def test_reflection_points_on_placed_walls():
+    M, ramp, h = 2.6, np.radians(6.0), 0.1
+    s = _placed_duct(M, ramp, h).solve()
+    beta1 = wave_angle_from_deflection(M, ramp)
+    x1, y1 = _cross((0.0, 0.0), beta1, (0.0, h), 0.0)
+    assert (x1, y1) == pytest.approx((h / np.tan(beta1), h), rel=1e-14)
+    link = s.connection("reflected")
+    assert (link.upstream, link.downstream, link.family, link.branch, link.given_by,
+            link.start_source) == ("2", "3", "right", "weak", "unknown", "wall")
+    np.testing.assert_allclose([link.start_x, link.start_y], [x1, y1], rtol=1e-13)
+    # the reflected shock leans back from region 2's flow (direction = ramp) by its wave angle
+    M2 = s.region("2").M
+    beta2 = wave_angle_from_deflection(M2, ramp)
+    x2, y2 = _cross((x1, y1), ramp - beta2, (0.0, 0.0), ramp)
+    np.testing.assert_allclose(s.wave_start("second reflection"), (x2, y2), rtol=1e-12)
+    walls = [m for m in s.meeting_points if m.kind == "wall"]
+    assert [(m.incoming, m.outgoing, m.boundary_region) for m in walls] == [
+        (("ramp shock",), ("reflected",), "3"), (("reflected",), ("second reflection",), "4")]
+    np.testing.assert_allclose([walls[1].x, walls[1].y], [x2, y2], rtol=1e-12)
+    # meeting_point of the implied start agrees with the hand crossing too
+    np.testing.assert_allclose(s.meeting_point("reflected", ((0.0, 0.0), ramp)), (x2, y2),
+                               rtol=1e-12)
+    assert s.connection("ramp shock").start_source == "given"
+
+
+def test_unplaced_walls_place_nothing():
+    s = _placed_duct(2.6, np.radians(6.0), 0.1, through=False).solve()
+    assert s.meeting_points == ()
+    assert s.wave_start("reflected") is None
+    link = s.connection("reflected")
+    assert link.start_source == "" and np.isnan(link.start_x) and np.isnan(link.start_y)
+
+
+def test_reflection_points_batch_and_quantities():
+    # invented batch of roof heights given as a Quantity point in centimetres
+    M, ramp = np.array([2.2, 2.6, 3.4]), np.radians(5.0)
+    p = WavePattern(M)
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=ramp,
+               start=(0.0 * ureg.m, 0.0 * ureg.m))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wall("3", direction=0.0, through=(0.0 * ureg.cm, 12.0 * ureg.cm))
+    s = p.solve()
+    x, y = s.wave_start("reflected")
+    beta = wave_angle_from_deflection(M, ramp)
+    assert x.shape == (3,)
+    np.testing.assert_allclose(x, 0.12 / np.tan(beta), rtol=1e-13)
+    np.testing.assert_allclose(y, 0.12, rtol=1e-14)
+    assert s.conditions[0].through_y == pytest.approx(0.12, rel=1e-15)
+    with pytest.raises(InvalidInputError, match=r"through must be a point \(x, y\) \[m\]"):
+        WavePattern(2.0).add_wall("2", 0.0, through=0.5)
+
+
+def test_crossing_point_of_two_placed_shocks():
+    # invented: upper and lower wedge tips 1 m apart in a Mach 2.4 stream
+    M, du, dl = 2.4, np.radians(8.0), np.radians(5.0)
+    p = WavePattern(M)
+    p.add_wave("upper shock", upstream="1", downstream="2", family="right", turn=-du,
+               start=(0.0, 1.0))
+    p.add_wave("lower shock", upstream="1", downstream="3", family="left", turn=dl,
+               start=(0.0, 0.0))
+    p.add_wave("through 2", upstream="2", downstream="4", family="left")
+    p.add_wave("through 3", upstream="3", downstream="5", family="right")
+    p.add_slip_line("4", "5")
+    s = p.solve()
+    bu, bl = wave_angle_from_deflection(M, du), wave_angle_from_deflection(M, dl)
+    x = 1.0 / (np.tan(bu) + np.tan(bl))  # y = x tan βl = 1 - x tan βu
+    (meeting,) = s.meeting_points
+    assert meeting.kind == "waves" and meeting.boundary_region == ""
+    assert meeting.incoming == ("upper shock", "lower shock")
+    assert meeting.outgoing == ("through 2", "through 3")
+    np.testing.assert_allclose([meeting.x, meeting.y], [x, x * np.tan(bl)], rtol=1e-13)
+    for name in ("through 2", "through 3"):
+        assert s.connection(name).start_source == "wave meeting"
+        np.testing.assert_allclose(s.wave_start(name), (x, x * np.tan(bl)), rtol=1e-13)
+    assert s.slip_lines == [("4", "5")]
+    assert s.conditions[0].kind == "slip line" and np.isnan(s.conditions[0].value)
+
+
+def test_merging_point_of_two_shocks_from_successive_corners():
+    # invented: a 6° corner at the origin and a further 7° one 0.5 m downstream
+    M, d1, d2, L = 2.4, np.radians(6.0), np.radians(7.0), 0.5
+    corner = (L, L * np.tan(d1))
+    p = WavePattern(M)
+    p.add_wave("first", upstream="1", downstream="2", family="left", turn=d1, start=(0.0, 0.0))
+    p.add_wave("second", upstream="2", downstream="3", family="left", turn=d2, start=corner)
+    p.add_wave("merged", upstream="1", downstream="4", family="left", guess=d1 + d2)
+    p.add_wave("reflected", upstream="3", downstream="5", family="right")
+    p.add_slip_line("4", "5")
+    s = p.solve()
+    b1 = wave_angle_from_deflection(M, d1)
+    b2 = wave_angle_from_deflection(s.region("2").M, d2)
+    point = _cross((0.0, 0.0), b1, corner, d1 + b2)
+    (meeting,) = s.meeting_points
+    assert set(meeting.incoming) == {"first", "second"}
+    assert meeting.outgoing == ("merged", "reflected")
+    np.testing.assert_allclose([meeting.x, meeting.y], point, rtol=1e-12)
+    np.testing.assert_allclose(s.wave_start("merged"), point, rtol=1e-12)
+
+
+def test_free_boundary_meeting_point():
+    # invented: a 5° shock from the origin inside a jet whose edge runs along y = 0.2 m
+    M, d = 2.2, np.radians(5.0)
+    p = WavePattern(M)
+    p.add_wave("shock", upstream="1", downstream="2", family="left", turn=d, start=(0.0, 0.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_free_boundary("3", pressure=1.0, through=(-1.0, 0.2))
+    s = p.solve()
+    beta = wave_angle_from_deflection(M, d)
+    (meeting,) = s.meeting_points
+    assert meeting.kind == "free boundary" and meeting.boundary_region == "3"
+    np.testing.assert_allclose([meeting.x, meeting.y], [0.2 / np.tan(beta), 0.2], rtol=1e-13)
+    assert s.wave("reflected").kind == "fan"
+    assert s.connection("reflected").start_source == "free boundary"
+
+
+def test_triple_point_is_not_placed():
+    # a Mach reflection's triple point height depends on the downstream flow: nothing placed
+    M, theta = 2.8, np.radians(22.0)
+    p = WavePattern(M)
+    p.add_wave("incident", upstream="1", downstream="2", family="right", turn=-theta,
+               start=(0.0, 1.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="left", guess=0.2)
+    p.add_wave("stem", upstream="1", downstream="4", family="right", branch="strong",
+               guess=-0.3)
+    p.add_slip_line("3", "4")
+    s = p.solve()
+    assert s.meeting_points == () and s.wave_start("stem") is None
+    assert s.connection("stem").branch == "strong"
+
+
+def test_public_accessors():
+    s = _duct(np.array([2.0, 3.0]), np.radians(5.0), gamma=np.array([1.4, 1.3])).solve()
+    np.testing.assert_array_equal(s.gamma, [1.4, 1.3])
+    assert s.inflow_name == "1" and s.inflow_state is None
+    assert s.made_by("3") == "reflected" and s.made_by("1") is None
+    (wall,) = s.conditions
+    assert wall.kind == "wall" and wall.regions == ("3",) and wall.value == 0.0
+    assert np.isnan(wall.through_x)
+    assert s.connection("ramp shock").given_by == "turn"
+    with pytest.raises(InvalidInputError, match=r"no wave named 'roof'; the waves are "
+                                                r"\['ramp shock', 'reflected'\]"):
+        s.connection("roof")
+    with pytest.raises(InvalidInputError, match="no region named '9'"):
+        s.made_by("9")
+    state = FlowState(2.5, 40e3, 230.0)
+    s = _duct(state, np.radians(5.0)).solve()
+    assert s.inflow_state is state and s.gamma == pytest.approx(1.4)
+
+
+def test_region_label_points_lie_in_their_regions():
+    M, ramp, h = 2.6, np.radians(6.0), 0.1
+    s = _placed_duct(M, ramp, h).solve()
+    beta1 = wave_angle_from_deflection(M, ramp)
+    x, y = s.region_label_point("2")
+    # region 2: above the ramp, below the roof, behind the ramp shock, ahead of the reflection
+    assert x * np.tan(ramp) < y < h and y < x * np.tan(beta1)
+    x1, y1 = s.wave_start("reflected")
+    reflected = s.wave("reflected").head_line_direction
+    assert (y - y1) * np.cos(reflected) - (x - x1) * np.sin(reflected) < 0
+    x, y = s.region_label_point("1")
+    assert 0.0 < y < h and y > x * np.tan(beta1)  # ahead of the ramp shock
+    assert s.region_label_point("4") is None  # its wave ends nowhere the solution knows
+
+
+@settings(max_examples=25, deadline=None)
+@given(M=st.floats(2.5, 5.0), ramp_deg=st.floats(1.0, 7.0), height=st.floats(0.01, 10.0))
+def test_reflection_points_lie_on_both_lines(M, ramp_deg, height):
+    # property (straight-line geometry): each implied start lies on the placed wall and on
+    # the line of the wave that meets it
+    ramp = np.radians(ramp_deg)
+    s = _placed_duct(M, ramp, height).solve()
+    x1, y1 = s.wave_start("reflected")
+    assert y1 == pytest.approx(height, rel=1e-13)
+    assert np.arctan2(y1, x1) == pytest.approx(s.wave("ramp shock").head_line_direction,
+                                               rel=1e-12)
+    x2, y2 = s.wave_start("second reflection")
+    assert y2 == pytest.approx(x2 * np.tan(ramp), rel=1e-10, abs=1e-12 * height)
+    assert np.arctan2(y2 - y1, x2 - x1) == pytest.approx(
+        s.wave("reflected").head_line_direction, rel=1e-10)
+
+
+def test_meeting_points_are_nan_where_a_case_fails():
+    # invented cases: a 10° ramp at M 1.6 cannot reflect regularly; at M 3 it can
+    p = WavePattern(np.array([1.6, 3.0]))
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left",
+               turn=np.radians(10.0), start=(0.0, 0.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wave("again", upstream="3", downstream="4", family="left")
+    p.add_wall("3", direction=0.0, through=(0.0, 1.0))
+    p.add_wall("4", direction=np.radians(10.0), through=(0.0, 0.0))
+    s = p.solve(errors="nan")
+    first, second = s.meeting_points
+    beta = wave_angle_from_deflection(3.0, np.radians(10.0))
+    np.testing.assert_allclose(first.x, [np.nan, 1.0 / np.tan(beta)], rtol=1e-13)
+    assert np.isnan(second.x[0]) and np.isfinite(second.x[1])

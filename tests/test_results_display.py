@@ -23,8 +23,8 @@ from gasdyn2d.intakes import ramp_intake
 from gasdyn2d.jets import underexpanded_slot_jet
 from gasdyn2d.nozzles import minimum_length_nozzle, rounded_throat_nozzle
 from gasdyn2d.polars import pressure_deflection_polar
-from gasdyn2d.reflections import (free_boundary_reflection, merging_shocks, reflection_transition,
-                                  shock_crossing, turn_to_pressure, wall_reflection)
+from gasdyn2d.reflections import free_boundary_reflection, reflection_transition, wall_reflection
+from gasdyn2d.wave_interactions import merging_shocks, shock_crossing, turn_to_pressure
 from gasdyn2d.region_graph import WavePattern
 from gasdyn2d.section_loads import shock_expansion_loads
 from gasdyn2d.sections import Section
@@ -38,6 +38,16 @@ def _duct(M):
     p.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=6 * DEG)
     p.add_wave("reflected", upstream="2", downstream="3", family="right")
     p.add_wall("3", direction=0.0)
+    return p.solve()
+
+
+def _placed_duct(M):
+    # invented: a 6° ramp at the origin, a flat roof at 0.1 m
+    p = WavePattern(M)
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=6 * DEG,
+               start=(0.0, 0.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wall("3", direction=0.0, through=(0.0, 0.1))
     return p.solve()
 
 
@@ -64,7 +74,13 @@ CASES = {
                        lambda: wall_reflection(MACHS, 10 * DEG)),
     "TransitionCondition": (lambda: reflection_transition(3.0).detachment,
                             lambda: reflection_transition(MACHS).detachment),
-    "ReflectionTransition": (lambda: reflection_transition(3.0), None),
+    "ReflectionTransition": (lambda: reflection_transition(3.0),
+                             lambda: reflection_transition(MACHS)),
+    "WaveConnection": (lambda: _placed_duct(2.6).connection("reflected"),
+                       lambda: _placed_duct(MACHS).connection("reflected")),
+    "MeetingPoint": (lambda: _placed_duct(2.6).meeting_points[0],
+                     lambda: _placed_duct(MACHS).meeting_points[0]),
+    "PatternCondition": (lambda: _placed_duct(2.6).conditions[0], None),
     "ShockCrossing": (lambda: shock_crossing(2.5, 8 * DEG, 5 * DEG),
                       lambda: shock_crossing(MACHS, 8 * DEG, 5 * DEG)),
     "MergingShocks": (lambda: merging_shocks(3.0, 5 * DEG, 5 * DEG),
@@ -83,8 +99,8 @@ CASES = {
                                          n_points=5), None),
     "CharacteristicNet": (lambda: minimum_length_nozzle(2.0, n_characteristics=6).net, None),
 }
-# Types without a batch: one design or one stream per call (nets, polars, the gas), or only
-# nested results (ReflectionTransition holds two TransitionCondition batches, tested above).
+# Types without a batch: one design or one stream per call (nets, polars, the gas, a
+# pattern's conditions, which are the same for every case).
 
 
 def _result_types():
@@ -155,6 +171,24 @@ def test_dataframe_rows_hold_the_cases():
     assert "wave_angle [rad]" in frame.columns
     # NACA Report 1135 oblique-shock charts via SOURCES.md: M1 = 2, θ = 10°, β = 39.3139°
     assert np.degrees(frame["wave_angle [rad]"][0]) == pytest.approx(39.3139, abs=1e-4)
+
+
+def test_nested_results_flatten_into_columns():
+    # ReflectionTransition holds two TransitionCondition results: one column per inner field
+    frame = reflection_transition(MACHS).to_dataframe()
+    assert list(frame.columns) == ["detachment.deflection [rad]", "detachment.wave_angle [rad]",
+                                   "von_neumann.deflection [rad]", "von_neumann.wave_angle [rad]"]
+    inner = reflection_transition(MACHS).detachment.to_dataframe()
+    np.testing.assert_array_equal(frame["detachment.deflection [rad]"],
+                                  inner["deflection [rad]"])
+    # M1 = 2 is below the Mach number where the two criteria meet: no von Neumann condition
+    assert np.isnan(frame["von_neumann.wave_angle [rad]"][0])
+    assert np.all(np.isfinite(frame["von_neumann.wave_angle [rad]"][1:]))
+
+
+def test_tuples_of_names_read_as_lists():
+    text = repr(_placed_duct(2.6).meeting_points[0])
+    assert "incoming        = ramp shock" in text and "outgoing        = reflected" in text
 
 
 def test_quantity_fields_show_their_own_unit():

@@ -25,6 +25,10 @@ def _outline(result, walls, x_end):
             solid.append((x, np.asarray(wall.height(x), dtype=float)))
         else:
             solid.append((plain(wall[0]), plain(wall[1])))
+    if walls is None and getattr(result, "lower_wall_y", None) is not None:  # a channel
+        for side in ("lower", "upper"):
+            solid.append((plain(getattr(result, f"{side}_wall_x")),
+                          plain(getattr(result, f"{side}_wall_y"))))
     if hasattr(result, "wall_x"):  # a nozzle: contour from the throat corner, centreline
         x, y = plain(result.wall_x), plain(result.wall_y)
         solid.append((np.concatenate([[x[0]], x]), np.concatenate([[y[0]], y])))
@@ -57,8 +61,11 @@ def draw_characteristic_net(result, *, walls=None, ax=None, colourbar=True, leng
         centreline and a jet's boundary are drawn from the result's fields.
     walls : sequence, optional
         Extra walls: :class:`~gasdyn2d.characteristics.WallContour` objects
-        (sampled over the net's length; give a channel's two walls here) or
-        (x, y) polylines [m].
+        (sampled over the net's length) or (x, y) polylines [m]. A
+        :class:`~gasdyn2d.channels.ChannelFlow` draws its own two walls
+        through its wall nodes (``lower_wall_x``, ``lower_wall_y``, ...) when
+        ``walls`` is not given; given walls replace them (pass the contours
+        for a smooth outline between nodes).
     ax : matplotlib Axes, optional
     colourbar : bool
         Add a colour bar of the Mach number.

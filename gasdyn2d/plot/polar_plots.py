@@ -127,7 +127,7 @@ def _draw_marks(ax, marks, mark_labels, factor):
     return drawn, texts
 
 
-def draw_pattern_polars(solution, regions, *, marks=(), gamma=1.4, case=None, ax=None,
+def draw_pattern_polars(solution, regions, *, marks=(), gamma=None, case=None, ax=None,
                         angle_unit="deg", n=201, min_pressure_ratio=0.2):
     """Polars of regions of a solved wave pattern, with region states marked.
 
@@ -139,8 +139,9 @@ def draw_pattern_polars(solution, regions, *, marks=(), gamma=1.4, case=None, ax
         Regions whose polars to draw (e.g. the two sides of a wave crossing).
     marks : sequence of str
         Regions whose states to mark (e.g. the pair joined by the slip line).
-    gamma : float
-        Ratio of specific heats of the pattern's gas [-].
+    gamma : float, optional
+        Ratio of specific heats [-] overriding the solution's own
+        (:attr:`PatternSolution.gamma`, the default; kept for old calls).
     case : tuple of int, optional
         Which case of a batch solution to draw (default: the first).
     ax, angle_unit, n, min_pressure_ratio
@@ -167,7 +168,7 @@ def draw_pattern_polars(solution, regions, *, marks=(), gamma=1.4, case=None, ax
     >>> len(drawn["shock_polars"]), len(drawn["marks"])
     (2, 2)
     """
-    gas = Gas(gamma=gamma)
+    gas = Gas(gamma=_pick(solution.gamma if gamma is None else gamma, case))
     states, labels = [], []
     for name in regions:
         r = solution.region(name)

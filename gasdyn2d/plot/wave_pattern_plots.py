@@ -23,15 +23,20 @@ _TINY = 1e-9  # relative length below which a crossing is the line's own start p
 # --------------------------------------------------------------- geometry core
 
 
-def _pattern_waves(solution):
-    """(name, upstream, downstream, start) per wave, in solution order."""
-    pattern = solution._pattern  # the pattern the solution came from (no public accessor yet)
-    return [(name, pattern._waves[name].upstream, pattern._waves[name].downstream,
-             pattern._waves[name].start) for name in solution.wave_names]
+def _pattern_waves(solution, case):
+    """(name, upstream, downstream, start) per wave, in solution order.
 
-
-def _pattern_slip_lines(solution):
-    return [c.regions for c in solution._pattern._conditions if c.kind == "slip line"]
+    ``start`` is the solution's start point for the case (given, or implied
+    by a placed wall, free boundary or wave meeting), or None.
+    """
+    out = []
+    for name in solution.wave_names:
+        link = solution.connection(name)
+        start = (_pick(link.start_x, case), _pick(link.start_y, case))
+        placed = link.start_source != "" and np.all(np.isfinite(start))
+        out.append((name, link.upstream, link.downstream,
+                    tuple(float(v) for v in start) if placed else None))
+    return out
 
 
 def _segments_of(polyline):
@@ -127,7 +132,7 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
 
 def _solution_waves(solution, starts, case):
     waves = []
-    for name, up, down, start in _pattern_waves(solution):
+    for name, up, down, start in _pattern_waves(solution, case):
         w = solution.wave(name)
         kind = _pick(w.kind, case)
         waves.append({"name": name, "upstream": up, "downstream": down,
@@ -178,6 +183,17 @@ def _label_points(lines, waves, solution, case, extent):
             for k, p in points.items()}
 
 
+def _solution_label_points(solution, points, extent):
+    """The solution's own label points (where its geometry places them) inside the drawing."""
+    x0, x1, y0, y1 = extent
+    out = {}
+    for region in points:
+        p = solution.region_label_point(region)
+        if p is not None and x0 <= p[0] <= x1 and y0 <= p[1] <= y1:
+            out[region] = p
+    return out
+
+
 def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, slip_lines=None,
                       extent=None,
                       label_positions=None, case=None, stop_at_waves=True, n_fan_rays=5,
@@ -188,7 +204,10 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
     ----------
     solution : PatternSolution
         From :meth:`gasdyn2d.region_graph.WavePattern.solve`; waves placed with
-        ``add_wave(..., start=(x, y))`` keep their start points.
+        ``add_wave(..., start=(x, y))`` keep their start points, and so do
+        waves the solution places itself (a reflection from a wall given
+        with ``add_wall(..., through=(x, y))``, the waves leaving a crossing;
+        see :attr:`PatternSolution.meeting_points`).
     walls : sequence of (x, y) arrays, optional
         Solid walls as polylines [m]; wave lines end where they meet one.
     free_boundaries : sequence of (x, y) arrays, optional
@@ -204,7 +223,10 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
     extent : (xmin, xmax, ymin, ymax), optional
         Edges of the drawing [m] (default: the walls' bounding box).
     label_positions : dict, optional
-        {region name: (x, y)} for region labels placed by hand.
+        {region name: (x, y)} for region labels placed by hand (otherwise
+        :meth:`PatternSolution.region_label_point` where the solution's
+        geometry gives one, else a point just downstream of the drawn wave
+        that makes the region).
     case : tuple of int, optional
         Which case of a batch solution to draw (default: the first).
     stop_at_waves : bool
@@ -291,7 +313,7 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
     made_by = {w["downstream"]: w for w in waves}
     reach = 2.0 * np.hypot(extent[1] - extent[0], extent[3] - extent[2])
     fixed = np.vstack([wall_segments, _box_segments(extent)])
-    for a, b in (_pattern_slip_lines(solution) if slip_lines is None else slip_lines):
+    for a, b in (solution.slip_lines if slip_lines is None else slip_lines):
         maker = made_by.get(a) or made_by.get(b)
         if maker is None:
             raise ValueError(f"slip line between {a!r} and {b!r}: neither region is made by a "
@@ -303,6 +325,8 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
                           lw=1.2, ls="--", gid=f"slip:{a}|{b}")
         drawn["slip_lines"][(a, b)] = line
     points = _label_points(lines, waves, solution, case, extent)
+    if case is None or not np.shape(solution.ok):
+        points.update(_solution_label_points(solution, points, extent))
     points.update(label_positions or {})
     for region, (x, y) in points.items():
         M = float(_pick(solution.region(region).M, case))
