@@ -141,8 +141,22 @@ def quantity_out(value, si_unit: str, unit):
 # ----------------------------------------------------------------- shapes and NaNs
 
 
+def any_true(mask) -> bool:
+    """``mask.any()`` without numpy's dispatch overhead for 0-d masks (the scalar-call case)."""
+    mask = np.asarray(mask)
+    return bool(mask) if mask.ndim == 0 else bool(mask.any())
+
+
 def broadcast(**arrays):
-    """Broadcast named arrays together, with an error that names them if they do not fit."""
+    """Broadcast named arrays together, with an error that names them if they do not fit.
+
+    Returns fresh float arrays (never views of the caller's data); equal shapes, the
+    common case for scalar calls, skip the broadcasting machinery.
+    """
+    values = list(arrays.values())
+    shape = np.shape(values[0])
+    if all(np.shape(v) == shape for v in values[1:]):
+        return [np.array(a, dtype=float) for a in values]
     try:
         shaped = np.broadcast_arrays(*arrays.values())
     except ValueError:
@@ -193,10 +207,10 @@ def reject(
     quoted). With ``errors="nan"`` the returned copy has NaN at those elements.
     """
     bad = np.asarray(bad, dtype=bool)
-    if not np.any(bad):  # the common case: one pass, no NaN mask
+    if not any_true(bad):  # the common case: one pass, no NaN mask
         return array
     bad = bad & ~np.isnan(array)
-    if not np.any(bad):
+    if not any_true(bad):
         return array
     if errors == "nan":
         out = np.array(array, dtype=float, copy=True)
@@ -241,6 +255,10 @@ ROUNDING_SLACK = 1e-15
 
 def clamp_to_limit(value, limit, side, slack=ROUNDING_SLACK):
     """Move values within ``slack`` (relative) beyond ``limit`` onto it (side "lower"/"upper")."""
+    if np.ndim(value) == 0 and np.ndim(limit) == 0:  # scalar call: decide in plain floats
+        v, lim = float(value), float(limit)
+        if not (v < lim if side == "lower" else v > lim):
+            return value
     with np.errstate(invalid="ignore"):
         if not np.any(value < limit if side == "lower" else value > limit):
             return value
@@ -253,6 +271,8 @@ def clamp_to_limit(value, limit, side, slack=ROUNDING_SLACK):
 
 def check_gamma(gamma: np.ndarray, errors: str) -> np.ndarray:
     """γ must be a finite number above 1."""
+    if gamma.ndim == 0 and 1.0 < float(gamma) < math.inf:  # the scalar call: nothing to check
+        return gamma
     with np.errstate(invalid="ignore"):
         bad = ~(gamma > 1.0) | ~np.isfinite(gamma)
     return reject(bad, gamma, "gamma", "a finite ratio of specific heats > 1", errors)
@@ -260,6 +280,10 @@ def check_gamma(gamma: np.ndarray, errors: str) -> np.ndarray:
 
 def check_finite_at_least(array, name, lower, errors, *, what="", inclusive=True, allow_inf=False):
     """Reject elements below ``lower`` (or equal, if not inclusive) and non-finite ones."""
+    if array.ndim == 0:  # the scalar call: an in-range value needs no mask or message
+        v = float(array)
+        if (v >= lower if inclusive else v > lower) and (allow_inf or v < math.inf):
+            return array
     with np.errstate(invalid="ignore"):
         bad = (array < lower) if inclusive else (array <= lower)
         if not allow_inf:
@@ -284,36 +308,84 @@ def check_nonnegative_mach(M, name, errors):
 # ----------------------------------------------------------------- robust solver
 
 
-def safeguarded_newton(func, x0, lower, upper, *, max_iter=60, rtol=4e-16):
+#: Convergence tolerance of :func:`safeguarded_newton`, in ulp of the iterate.
+NEWTON_ULPS = 4.0
+
+
+def safeguarded_newton(func, x0, lower, upper, *, max_iter=60, rtol=None):
     """Vectorised Newton iteration kept inside a bracket, with bisection fallback.
 
     ``func(x)`` returns ``(residual, derivative)`` for an increasing or decreasing
     residual with a single root in ``[lower, upper]``. The bracket shrinks on every
     step (using the residual's sign at ``lower``), so the iteration cannot leave it;
-    the loop runs over iterations, never over elements.
+    the loop runs over iterations, never over elements. ``func`` is always called
+    on the full array (it may close over full-shape parameters such as γ), but the
+    bookkeeping and the early exit follow the still-active elements only.
+
+    An element stops when any of these holds: its residual is exactly zero; its
+    step is within ``rtol`` (default 4 ulp) of the iterate; its bracket has
+    collapsed to that width; or a small Newton step (below 1e-8 relative) failed to
+    reduce the residual, which means the iterates are flipping at rounding level.
+    The iterate with the smallest residual seen is returned.
     """
-    x = np.array(x0, dtype=float, copy=True)
-    lo = np.array(lower, dtype=float, copy=True)
-    hi = np.array(upper, dtype=float, copy=True)
-    f_lo, _ = func(lo)
-    sign_lo = np.sign(f_lo)
-    active = np.isfinite(x)
+    eps = np.finfo(float).eps
+    rtol = NEWTON_ULPS * eps if rtol is None else rtol
+    x_out = np.array(x0, dtype=float, copy=True)
+    shape = x_out.shape
+    x_out = x_out.reshape(-1)
+    lo = np.broadcast_to(np.asarray(lower, dtype=float), shape).reshape(-1).copy()
+    hi = np.broadcast_to(np.asarray(upper, dtype=float), shape).reshape(-1).copy()
     with np.errstate(all="ignore"):
+        f_lo, _ = func(lo.reshape(shape))
+        sign_lo = np.sign(np.asarray(f_lo, dtype=float)).reshape(-1)
+        index = np.flatnonzero(np.isfinite(x_out))
+        x, lo, hi, sign_lo = x_out[index], lo[index], hi[index], sign_lo[index]
+        best_f = np.full_like(x, np.inf)
+        small_step = np.zeros(x.shape, dtype=bool)
         for _ in range(max_iter):
-            f, df = func(x)
+            if index.size == 0:
+                break
+            f, df = func(_scatter(x, index, x_out, shape))
+            f = np.asarray(f, dtype=float).reshape(-1)[index]
+            df = np.asarray(df, dtype=float).reshape(-1)[index]
+            abs_f = np.abs(f)
+            stalled = small_step & ~(abs_f < best_f)  # rounding-level flip-flop: keep the best
+            improved = abs_f < best_f
+            x_out[index[improved]] = x[improved]
+            best_f = np.where(improved, abs_f, best_f)
             same = np.sign(f) == sign_lo
             lo = np.where(same, x, lo)
             hi = np.where(same, hi, x)
-            step = f / df
-            x_new = x - step
+            newton = f / df
+            x_new = x - newton
+            # a Newton step of a few ulp is convergence, even if it lands on the bracket end
+            scale = np.maximum(np.abs(x), np.finfo(float).tiny)
+            tiny_step = (np.abs(newton) <= rtol * scale) & np.isfinite(df)  # not f/inf = 0
             outside = ~((x_new > lo) & (x_new < hi)) | ~np.isfinite(x_new)
-            x_new = np.where(outside, 0.5 * (lo + hi), x_new)
-            done = (np.abs(x_new - x) <= rtol * np.abs(x)) | (f == 0)
-            x = np.where(active, np.where(f == 0, x, x_new), x)
-            active &= ~done
-            if not np.any(active):
-                break
-    return x
+            x_new = np.where(outside & ~tiny_step, 0.5 * (lo + hi), x_new)
+            small_step = ~outside & (np.abs(newton) <= 1e-8 * scale) & np.isfinite(df)
+            collapsed = np.abs(hi - lo) <= rtol * np.maximum(np.abs(lo), np.abs(hi))
+            undefined = np.isnan(f)
+            x_out[index[undefined]] = np.nan
+            done = (f == 0) | stalled | collapsed | tiny_step | undefined
+            keep = ~done
+            x, lo, hi, sign_lo = x_new[keep], lo[keep], hi[keep], sign_lo[keep]
+            best_f, small_step, index = best_f[keep], small_step[keep], index[keep]
+        if index.size:
+            x_out[index] = x
+    return x_out.reshape(shape)
+
+
+def _scatter(values, index, template, shape):
+    """The full-shape argument for ``func``: ``template`` with ``values`` at ``index``.
+
+    Elements that are no longer iterated keep their final value, so ``func`` sees a
+    full array (it may close over full-shape parameters such as γ) but only the active
+    elements' results are used.
+    """
+    full = template.copy()
+    full[index] = values
+    return full.reshape(shape)
 
 
 def output_angle_unit(angle_unit, *other_units):

@@ -43,12 +43,16 @@ def _atan_minus_x_series(x):
 
 def _nu_of_z(z, gamma):
     """ν as a function of z = sqrt(M² - 1) (plain core, radians)."""
-    z, k = np.broadcast_arrays(np.asarray(z, dtype=float),
-                               (np.asarray(gamma, dtype=float) - 1.0) / (gamma + 1.0))
+    z = np.asarray(z, dtype=float)
+    k = (np.asarray(gamma, dtype=float) - 1.0) / (gamma + 1.0)
+    if z.shape != k.shape:
+        z, k = np.broadcast_arrays(z, k)
     sk = np.sqrt(k)
-    nu = np.array(np.arctan(sk * z) / sk - np.arctan(z), dtype=float)  # NACA 1135, eq. 171
     small = z < _SERIES_LIMIT
-    if np.any(small):
+    if small.ndim == 0 and small:  # a scalar near M = 1: the series alone
+        return _atan_minus_x_series(sk * z) / sk - _atan_minus_x_series(z)
+    nu = np.array(np.arctan(sk * z) / sk - np.arctan(z), dtype=float)  # NACA 1135, eq. 171
+    if nx.any_true(small):
         # near M = 1 the two arctangents cancel: use [atan(√k z) - √k z]/√k - [atan z - z]
         zs, sks = z[small], sk[small]
         nu[small] = _atan_minus_x_series(sks * zs) / sks - _atan_minus_x_series(zs)
@@ -76,7 +80,10 @@ def prandtl_meyer_angle(M, gamma=1.4):
         z = np.sqrt((M - 1.0) * (M + 1.0))
         nu = _nu_of_z(z, gamma)
     # M = inf is the vacuum limit ν_max (0·inf must not turn it into NaN)
-    return np.where(np.isposinf(M), max_prandtl_meyer_angle(gamma), nu)
+    infinite = M == np.inf
+    if not nx.any_true(infinite):
+        return nu
+    return np.where(infinite, max_prandtl_meyer_angle(gamma), nu)
 
 
 def mach_from_prandtl_meyer_angle(nu, gamma=1.4):

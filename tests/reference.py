@@ -142,7 +142,8 @@ def _bisect_then_polish(f, lo, hi):
         root = mp.findroot(f, (lo, hi), solver="anderson")
         if lo <= root <= hi:
             return root
-    except (ValueError, ZeroDivisionError):  # pragma: no cover - slow but sure fallback
+    except (ValueError, ZeroDivisionError, TypeError):  # pragma: no cover - slow but sure
+        # (TypeError: the secant strayed into complex values, which cannot be compared)
         pass
     for _ in range(4 * DIGITS):  # pragma: no cover
         mid = (lo + hi) / 2

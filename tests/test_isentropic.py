@@ -310,3 +310,52 @@ def test_subsonic_flow_has_no_mach_or_prandtl_meyer_angle():
     flow = isentropic_flow(0.5)
     assert np.isnan(flow.mach_angle) and np.isnan(flow.prandtl_meyer)
     assert flow.A_Astar > 1.0
+
+
+# ----------------------------------------------------------------- fixed-step inverse
+
+from gasdyn2d.isentropic import _area_ratio_fallback, _area_ratio_halley  # noqa: E402
+
+
+@pytest.mark.parametrize("supersonic", [True, False])
+@pytest.mark.parametrize("gamma", [1.001, 1.01, 1.05, 1.3, 1.67, 3.0, 5.0])
+def test_area_ratio_inverse_for_awkward_gammas_matches_mpmath(gamma, supersonic):
+    # invented sweep: γ from nearly 1 (where the explicit start is poorest and the
+    # bracketed fallback finishes some elements, γ = 1.001) to 5, M over the range where
+    # the near-sonic and far-field starts hand over. Reference: mpmath root (40 digits).
+    # Bound: 1e-12 or 32 ulp times the condition number, as for the random cases above.
+    M = (np.array([1.02, 1.2, 1.7, 2.3, 3.1, 4.4, 7.0, 12.0, 30.0]) if supersonic
+         else np.array([0.02, 0.1, 0.3, 0.5, 0.7, 0.9, 0.98]))
+    A = area_ratio(M, gamma)
+    keep = np.isfinite(A)
+    M, A = M[keep], A[keep]
+    expected = np.array([ref.M_from_A_Astar(a, gamma, supersonic) for a in A])
+    kappa = [ref.inverse_condition(lambda x: ref._area(x, ref._mpf(gamma)), a, m)
+             for a, m in zip(A, expected)]
+    got = mach_from_area_ratio(A, gamma, supersonic=supersonic)
+    assert np.all(ref.relative_error(got, expected) <= _inverse_bound(kappa))
+
+
+def test_area_ratio_fixed_steps_converge_without_the_fallback_for_usual_gammas():
+    # invented: 10^4 random supersonic and subsonic cases, γ in [1.05, 1.67]; the three
+    # Halley steps must finish every one of them (the fallback is for γ close to 1)
+    rng = np.random.default_rng(7)
+    g = rng.uniform(1.05, 1.67, 10_000)
+    for M in (np.exp(rng.uniform(np.log(1.0001), np.log(50.0), 10_000)),
+              rng.uniform(1e-3, 0.9999, 10_000)):
+        A = area_ratio(M, g)
+        got, last = _area_ratio_halley(A, g, supersonic=bool(M[0] > 1))
+        assert np.all(last <= 1e-8)
+        np.testing.assert_allclose(area_ratio(got, g), A, rtol=2e-14)  # round trip
+
+
+@pytest.mark.parametrize("supersonic", [True, False])
+def test_area_ratio_fallback_alone_matches_mpmath(supersonic):
+    # the bracketed fallback on its own (it serves few elements in normal use), invented
+    # cases, against the mpmath root
+    M = np.array([1.05, 2.0, 6.0]) if supersonic else np.array([0.05, 0.4, 0.95])
+    g = np.array([1.001, 1.4, 2.0])
+    A = area_ratio(M, g)
+    got = _area_ratio_fallback(A, g, supersonic)
+    expected = [ref.M_from_A_Astar(a, gg, supersonic) for a, gg in zip(A, g)]
+    assert np.max(ref.relative_error(got, expected)) < 1e-13

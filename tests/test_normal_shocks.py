@@ -247,3 +247,42 @@ def test_pitot_ratio_at_the_sonic_limit_is_accepted():
     for g in (1.05, 1.4, 1.67):
         near_one = normal_shock(1 + 1e-15, gamma=g).p02_p1
         assert normal_shock(p02_p1=near_one, gamma=g).M1 == pytest.approx(1.0, abs=1e-7)
+
+
+# ----------------------------------------------------------------- fixed-step inverses
+
+from gasdyn2d.normal_shocks import (  # noqa: E402
+    _pitot_halley,
+    _stagnation_ratio_halley,
+    mach_from_pitot_ratio,
+    mach_from_stagnation_pressure_ratio,
+)
+
+
+@pytest.mark.parametrize("gamma", [1.001, 1.01, 1.3, 3.0, 5.0])
+@pytest.mark.parametrize("name", ["p02_p01", "p02_p1"])
+def test_iterative_inverses_for_awkward_gammas_match_mpmath(name, gamma):
+    # invented sweep across the hand-over between the weak- and strong-shock starts
+    # (M1 ≈ 2.5-3.5 is where they are poorest) and out to strong shocks, γ from nearly 1
+    # to 5. Reference: mpmath root (40 digits); bound 1e-12 or 32 ulp × conditioning.
+    M1 = np.array([1.05, 1.5, 2.2, 2.6, 3.0, 3.5, 5.0, 10.0, 40.0])
+    value = np.array([ref.normal_shock(m, gamma)[name] for m in M1])
+    keep = value > 1e-300  # p02/p01 underflows for strong shocks at γ near 1
+    M1, value = M1[keep], value[keep]
+    inverse = mach_from_stagnation_pressure_ratio if name == "p02_p01" else mach_from_pitot_ratio
+    got = inverse(value, gamma)
+    expected = np.array([ref.M1_from_normal_shock(name, v, gamma) for v in value])
+    kappa = np.array([ref.inverse_condition(lambda x: ref._ns(x, ref._mpf(gamma))[name], v, m)
+                      for v, m in zip(value, expected)])
+    assert np.all(ref.relative_error(got, expected) <= np.maximum(1e-12, 32 * ref.EPS * kappa))
+
+
+def test_fixed_halley_steps_finish_usual_cases_without_the_fallback():
+    # invented: 10^4 random M1 in [1.001, 50], γ in [1.05, 1.67]: the fixed Halley steps
+    # converge on every element of both inverses (the fallback is for γ close to 1)
+    M1, g = ref.random_mach_and_gamma(10_000, seed=11)
+    ratios = normal_shock_ratios((M1 - 1) * (M1 + 1), g)
+    _, converged = _stagnation_ratio_halley(-np.log(ratios.p02_p01), g)
+    assert np.all(converged)
+    _, converged = _pitot_halley(np.log(pitot_ratio(M1, g)), g)
+    assert np.all(converged)
