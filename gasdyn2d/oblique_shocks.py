@@ -87,30 +87,32 @@ def deflection_from_wave_angle(M1, beta, gamma=1.4):
 
 
 def _cubic_root(M1, tan_theta, gamma, strong):
-    """Middle (weak) or largest (strong) real root x = sin²β of the θ-β-M cubic.
+    """Middle (weak) or largest (strong) real root u = M1² sin²β of the θ-β-M cubic.
 
-    x³ + b x² + c x + d = 0 with b = -(M²+2)/M² - γ sin²θ,
-    c = (2M²+1)/M⁴ + [(γ+1)²/4 + (γ-1)/M²] sin²θ, d = -cos²θ/M⁴
-    (NACA Report 1135, eq. 150), solved by the trigonometric method for three
-    real roots (Wolf 1993 gives the equivalent form in tan β). sin²θ and cos²θ
-    come from tan θ, which the polishing step needs anyway.
+    In x = sin²β the cubic is x³ + b x² + c x + d = 0 with
+    b = -(M²+2)/M² - γ sin²θ, c = (2M²+1)/M⁴ + [(γ+1)²/4 + (γ-1)/M²] sin²θ,
+    d = -cos²θ/M⁴ (NACA Report 1135, eq. 150). Scaled to u = M² x it reads
+    u³ + B u² + C u + D = 0 with B = -(M²+2) - γM² sin²θ,
+    C = 2M²+1 + [(γ+1)²M⁴/4 + (γ-1)M²] sin²θ, D = -M² cos²θ, which gives
+    w = u - 1 directly. Solved by the trigonometric method for three real
+    roots (Wolf 1993 gives the equivalent form in tan β); sin²θ and cos²θ come
+    from tan θ, which the polishing step needs anyway.
     """
     m2 = M1 * M1
-    inv_m4 = 1.0 / (m2 * m2)
     c2 = 1.0 / (1.0 + tan_theta * tan_theta)  # cos²θ
     s2 = 1.0 - c2
-    b = -(m2 + 2.0) / m2 - gamma * s2
-    c = (2.0 * m2 + 1.0) * inv_m4 + (0.25 * (gamma + 1.0) ** 2 + (gamma - 1.0) / m2) * s2
-    d = -c2 * inv_m4
-    p = c - b * b / 3.0
-    q = (2.0 / 27.0) * b * b * b - b * c / 3.0 + d
-    radius = 2.0 * np.sqrt(np.maximum(-p / 3.0, 0.0))
+    b3 = -(m2 + 2.0 + gamma * m2 * s2) / 3.0  # B/3
+    C = 2.0 * m2 + 1.0 + m2 * (0.25 * (gamma + 1.0) ** 2 * m2 + (gamma - 1.0)) * s2
+    D = -m2 * c2
+    r2 = np.maximum(b3 * b3 - C / 3.0, 0.0)  # -p/3 of the depressed cubic
+    r = np.sqrt(r2)
+    q = 2.0 * b3 * b3 * b3 - b3 * C + D
     with np.errstate(divide="ignore", invalid="ignore"):
-        cos_arg = np.clip(3.0 * q / (p * radius), -1.0, 1.0)
+        cos_arg = np.clip(-0.5 * q / (r2 * r), -1.0, 1.0)
     phi = np.arccos(cos_arg) / 3.0
     if strong:
-        return radius * np.cos(phi) - b / 3.0
-    return radius * np.cos(phi - 2.0 * np.pi / 3.0) - b / 3.0
+        return 2.0 * r * np.cos(phi) - b3
+    return 2.0 * r * np.cos(phi - 2.0 * np.pi / 3.0) - b3
 
 
 def detachment_angles(M1, gamma=1.4):
@@ -268,8 +270,9 @@ def _polish_near_detachment(x, near, M1, target, gamma, x_star, tan_max, strong)
 def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     """Plain core: wave angle β [rad] of the shock that turns a stream M1 by θ [rad].
 
-    Closed-form root of the cubic (:func:`_cubic_root`) followed by two
-    Newton steps on tan θ(w) (weak branch) or tan θ(M1 cos β) (strong branch),
+    Closed-form root of the cubic (:func:`_cubic_root`; series starts near the
+    Mach wave and the normal shock) followed by one Newton step on tan θ(w)
+    (weak branch) or tan θ(M1 cos β) (strong branch),
     clamped to the branch's side of the detachment point. Within 0.1 % of
     detachment (in tan θ) the root is re-solved in a square-root variable
     (:func:`_polish_near_detachment`), where Newton on tan θ itself stalls.
@@ -318,7 +321,7 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
         near = ~at_max & (tan_max - tan_theta <= _NEAR_DETACHMENT * tan_max)
         if strong:
             c_star = np.sqrt(v_star)
-            c_cubic = M1 * np.sqrt(np.maximum(1.0 - x, 0.0))
+            c_cubic = np.sqrt(np.maximum(M1 * M1 - x, 0.0))
             c0 = np.clip(_strong_start(c_cubic, a, M1, tan_theta, gamma), 0.0, c_star)
             c = _newton_strong(c0, M1, tan_theta, gamma, c_star)
             c = _polish_near_detachment(c, near, M1, tan_theta, gamma, c_star, tan_max, True)
@@ -326,7 +329,7 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
             v = c * c
             return a - v, v, invalid
         else:
-            w0 = np.clip(_weak_start(M1 * M1 * x - 1.0, a, M1, tan_theta, gamma), 0.0, w_star)
+            w0 = np.clip(_weak_start(x - 1.0, a, M1, tan_theta, gamma), 0.0, w_star)
             w = _newton_weak(w0, M1, tan_theta, gamma, w_star)
             w = _polish_near_detachment(w, near, M1, tan_theta, gamma, w_star, tan_max, False)
             w = np.where(theta == 0.0, 0.0, np.where(at_max, w_star, w))
@@ -488,7 +491,7 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
     Notes
     -----
     From ``deflection`` the wave angle is the closed-form (trigonometric)
-    root of the θ-β-M cubic in sin²β, then two Newton steps in a
+    root of the θ-β-M cubic in sin²β, then one Newton step in a
     cancellation-free variable: exact to rounding from the Mach wave (θ → 0)
     to close to detachment, with no iteration to convergence.
 
