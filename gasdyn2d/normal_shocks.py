@@ -49,13 +49,15 @@ def normal_shock_ratios(w, gamma=1.4):
     """
     w = np.asarray(w, dtype=float)
     gp, gm = gamma + 1.0, gamma - 1.0
-    p2_p1 = 1.0 + 2.0 * gamma / gp * w  # eq. 93
-    rho_jump = 2.0 * w / (gm * w + gp)  # ρ2/ρ1 - 1, from eq. 94
+    p_jump = 2.0 * gamma / gp * w  # p2/p1 - 1, eq. 93
+    p2_p1 = 1.0 + p_jump
+    den = gm * w + gp
+    rho_jump = 2.0 * w / den  # ρ2/ρ1 - 1, from eq. 94
     rho2_rho1 = 1.0 + rho_jump
     T2_T1 = p2_p1 / rho2_rho1
-    M2 = np.sqrt((gm * w + gp) / (2.0 * gamma * w + gp))  # eq. 96
+    M2 = np.sqrt(den / (gp * p2_p1))  # eq. 96: 2γw + γ + 1 = (γ+1) p2/p1
     # eq. 99: p02/p01 = (ρ2/ρ1)^(γ/(γ-1)) (p2/p1)^(-1/(γ-1)), in logs to keep 1 - O(w³)
-    log_p0 = (gamma * np.log1p(rho_jump) - np.log1p(2.0 * gamma / gp * w)) / gm
+    log_p0 = (gamma * np.log1p(rho_jump) - np.log1p(p_jump)) / gm
     p02_p01 = np.exp(log_p0)
     return NormalShockRatios(M2, p2_p1, rho2_rho1, T2_T1, p02_p01)
 
