@@ -86,7 +86,7 @@ def deflection_from_wave_angle(M1, beta, gamma=1.4):
         return np.where(below_mach_wave | (mc < 0), np.nan, theta)
 
 
-def _cubic_root(M1, tan_theta, gamma, strong):
+def _cubic_root(M1, tan_theta, gamma, strong, m2=None):
     """Middle (weak) or largest (strong) real root u = M1² sin²β of the θ-β-M cubic.
 
     In x = sin²β the cubic is x³ + b x² + c x + d = 0 with
@@ -98,7 +98,7 @@ def _cubic_root(M1, tan_theta, gamma, strong):
     roots (Wolf 1993 gives the equivalent form in tan β); sin²θ and cos²θ come
     from tan θ, which the polishing step needs anyway.
     """
-    m2 = M1 * M1
+    m2 = M1 * M1 if m2 is None else m2
     c2 = 1.0 / (1.0 + tan_theta * tan_theta)  # cos²θ
     s2 = 1.0 - c2
     b3 = -(m2 + 2.0 + gamma * m2 * s2) / 3.0  # B/3
@@ -146,17 +146,19 @@ def sonic_angles(M1, gamma=1.4):
                           np.sqrt(big))
 
 
-def _detachment_wv(M1, gamma):
-    """(w*, v*) at the detachment point, cancellation-free (see :func:`detachment_angles`)."""
-    m2 = M1 * M1
-    big = (gamma + 1.0) * ((gamma + 1.0) * m2 * m2 / 16.0 + 0.5 * (gamma - 1.0) * m2 + 1.0)
-    return _wv_from_roots(M1, gamma, 0.25 * (3.0 * gamma - 1.0) * m2 + 1.0, np.sqrt(big))
+def _detachment_wv(M1, gamma, m2=None, a=None):
+    """(w*, v*) at the detachment point, cancellation-free (see :func:`detachment_angles`);
+    ``m2`` = M1² and ``a`` = M1² - 1 may be passed in when the caller has them."""
+    m2 = M1 * M1 if m2 is None else m2
+    big = (gamma + 1.0) * ((gamma + 1.0) / 16.0 * m2 * m2 + 0.5 * (gamma - 1.0) * m2 + 1.0)
+    return _wv_from_roots(M1, gamma, 0.25 * (3.0 * gamma - 1.0) * m2 + 1.0, np.sqrt(big), m2, a)
 
 
-def _wv_from_roots(M1, gamma, P, S):
+def _wv_from_roots(M1, gamma, P, S, m2=None, a=None):
     with np.errstate(invalid="ignore"):
-        a = (M1 - 1.0) * (M1 + 1.0)
-        v = ((gamma - 1.0) * M1 * M1 + 2.0) * a / (2.0 * (P + S))
+        a = (M1 - 1.0) * (M1 + 1.0) if a is None else a
+        m2 = M1 * M1 if m2 is None else m2
+        v = ((gamma - 1.0) * m2 + 2.0) * a / (2.0 * (P + S))
         return a - v, v
 
 
@@ -179,14 +181,14 @@ def _put(array, mask, values):
     return array
 
 
-def _weak_start(w_cubic, a, M1, tan_theta, gamma):
+def _weak_start(w_cubic, a, M1, tan_theta, gamma, m2):
     """Start for the weak root: the cubic's, or near the Mach wave (where the cubic's
     weak and spurious roots merge and it keeps only ~8 digits of w) the inverted
     small-deflection series tan θ = k w (1 + c w + ...), k = 2√(M1²-1)/((γ+1)M1²),
     c = 2/((γ+1)M1²) - M1²/(2(M1²-1)), good to (c w)³ there."""
-    b = (gamma + 1.0) * M1 * M1
+    b = (gamma + 1.0) * m2
     y = tan_theta * b / (2.0 * np.sqrt(a))
-    cy = (2.0 / b - 0.5 * M1 * M1 / a) * y
+    cy = (2.0 / b - 0.5 * m2 / a) * y
     small = np.abs(cy) < _SERIES_START
     if not small.any():
         return w_cubic
@@ -203,18 +205,20 @@ def _strong_start(c_cubic, a, M1, tan_theta, gamma):
     return _put(c_cubic, np.abs(dy2) < _SERIES_START, y * (1.0 - dy2))
 
 
-def _newton_weak(w, M1, target, gamma, w_star):
-    """Polish the weak root in w, clamped to [0, w*]; ``target`` is tan θ."""
-    a = (M1 - 1.0) * (M1 + 1.0)
-    cm = (gamma - 1.0) * M1 * M1 + 2.0
+def _newton_weak(w, M1, target, gamma, w_star, m2, a, cm):
+    """Polish the weak root in w, clamped to [0, w*]; ``target`` is tan θ.
+
+    With f = tan θ = w q, q = 2√(v/(1+w))/den, den = (γ-1)M² + 2 + 2v, v = M² - 1 - w,
+    the slope in logarithmic form is df/dw = q + f (2/den - M²/(2v(1+w))), finite at w = 0.
+    """
+    half_m2 = 0.5 * m2
     for _ in range(_NEWTON_STEPS):
-        v = a - w
-        r = np.sqrt(v / (1.0 + w))
-        den = cm + 2.0 * v
-        f = 2.0 * w * r / den
         one_w = 1.0 + w
-        dr = -(1.0 + a) / (2.0 * r * one_w * one_w)
-        df = 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
+        v = a - w
+        inv_den = 1.0 / (cm + 2.0 * v)
+        q = 2.0 * np.sqrt(v / one_w) * inv_den
+        f = w * q
+        df = q + f * (2.0 * inv_den - half_m2 / (v * one_w))
         w = np.clip(w - (f - target) / df, 0.0, w_star)
     return w
 
@@ -324,17 +328,19 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     already have equal shapes (γ may be a scalar).
     """
     with np.errstate(invalid="ignore", divide="ignore"):
+        m2 = M1 * M1
         a = (M1 - 1.0) * (M1 + 1.0)
-        w_star, v_star = _detachment_wv(M1, gamma)
+        cm = (gamma - 1.0) * m2 + 2.0
+        w_star, v_star = _detachment_wv(M1, gamma, m2, a)
         tan_theta = np.tan(theta)
-        tan_max = _tan_deflection(w_star, v_star, M1, gamma)
+        tan_max = 2.0 * w_star * np.sqrt(v_star / (1.0 + w_star)) / (cm + 2.0 * v_star)
         at_max = tan_theta >= tan_max  # the double root: Newton would crawl, take w*, v*
-        # a few ulp of θ above θmax is θmax; in tan θ that slack is (1 + tan²θ) times larger,
-        # which matters as θmax → 90° (γ → 1 at high M1)
-        slack = _DETACHMENT_SLACK * np.maximum(theta, 1.0) * (1.0 + tan_max * tan_max)
+        # a few ulp of θ (< π/2) above θmax is θmax; in tan θ that slack is (1 + tan²θ)
+        # times larger, which matters as θmax → 90° (γ → 1 at high M1)
+        slack = (0.5 * np.pi * _DETACHMENT_SLACK) * (1.0 + tan_max * tan_max)
         # tan is periodic: θ beyond π/2 must be rejected before tan θ is compared
         invalid = (theta < 0) | (theta >= 0.5 * np.pi) | (tan_theta > tan_max + slack) | (M1 < 1)
-        x = _cubic_root(M1, tan_theta, gamma, strong)
+        x = _cubic_root(M1, tan_theta, gamma, strong, m2)
         near = ~at_max & (tan_max - tan_theta <= _NEAR_DETACHMENT * tan_max)
         if strong:
             c_star = np.sqrt(v_star)
@@ -346,8 +352,8 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
             v = c * c
             return a - v, v, invalid
         else:
-            w0 = np.clip(_weak_start(x - 1.0, a, M1, tan_theta, gamma), 0.0, w_star)
-            w = _newton_weak(w0, M1, tan_theta, gamma, w_star)
+            w0 = np.clip(_weak_start(x - 1.0, a, M1, tan_theta, gamma, m2), 0.0, w_star)
+            w = _newton_weak(w0, M1, tan_theta, gamma, w_star, m2, a, cm)
             w = _polish_near_detachment(w, near, M1, tan_theta, gamma, w_star, tan_max, False)
             w = _put(_put(w, at_max, w_star), theta == 0.0, 0.0)
             return w, a - w, invalid
