@@ -58,12 +58,13 @@ _SI_UNITS = {
 }
 
 
-def to_si(value, name: str, kind: str):
+def to_si(value, name: str, kind: str, *, degrees_above: float = 2.0 * math.pi):
     """Convert ``value`` (number, sequence, ndarray or Quantity) to a float ndarray in SI.
 
     Returns ``(array, unit)`` where ``unit`` is the Quantity's unit (or ``None``
     for a plain number), so that angular results can be returned in the unit the
-    caller used.
+    caller used. A plain angle above ``degrees_above`` (2π, or a larger limit for
+    angles that can legitimately exceed it, like ν at γ < 1.08) warns.
     """
     if is_quantity(value):
         try:
@@ -88,19 +89,20 @@ def to_si(value, name: str, kind: str):
             f"{name} must be a real number or an array of real numbers; got {value!r}."
         ) from None
     if kind == "angle" and unit is None:
-        _warn_if_degrees(array, name)
+        _warn_if_degrees(array, name, degrees_above)
     return array, unit
 
 
-def _warn_if_degrees(array: np.ndarray, name: str) -> None:
+def _warn_if_degrees(array: np.ndarray, name: str, limit: float = 2.0 * math.pi) -> None:
     with np.errstate(invalid="ignore"):
-        if not np.any(np.abs(array) > 2.0 * math.pi):  # the common case, in one pass
+        if not np.any(np.abs(array) > limit):  # the common case, in one pass
             return
-        big = (np.abs(array) > 2.0 * math.pi) & np.isfinite(array)  # inf is no degree slip
+        big = (np.abs(array) > limit) & np.isfinite(array)  # inf is no degree slip
     if np.any(big):
         first = array[big].flat[0]
+        bound = "2π" if limit == 2.0 * math.pi else f"{limit:.4g} rad"
         warnings.warn(
-            f"{name} = {first:g} is larger than 2π as a plain number; plain angles are in "
+            f"{name} = {first:g} is larger than {bound} as a plain number; plain angles are in "
             f"radians, so this was probably meant in degrees. Pass np.radians({first:g}) "
             f"or a Quantity such as {first:g} * ureg.deg.",
             ProbablyDegreesWarning,
@@ -112,6 +114,19 @@ def _inside_package(filename: str) -> bool:
     """True for a file in the package folder or below it (not a sibling like "gasdyn2d_x")."""
     folder = os.path.dirname(os.path.abspath(filename))
     return folder == _PACKAGE_DIR or folder.startswith(_PACKAGE_DIR + os.sep)
+
+
+def prandtl_meyer_degree_limit(gamma) -> float:
+    """Largest plain ν [rad] not to be taken for degrees: 2π, or ν_max of the smallest γ
+    given when that is larger (ν_max exceeds 2π for γ below about 1.08)."""
+    with np.errstate(all="ignore"):
+        g = np.asarray(gamma, dtype=float)
+        g = g[np.isfinite(g) & (g > 1.0)] if g.ndim else (g if np.isfinite(g) and g > 1.0 else None)
+        if g is None or np.size(g) == 0:
+            return 2.0 * math.pi
+        g_min = float(np.min(g))
+    nu_max = 0.5 * math.pi * (math.sqrt((g_min + 1.0) / (g_min - 1.0)) - 1.0)
+    return max(2.0 * math.pi, nu_max)
 
 
 def caller_stacklevel() -> int:

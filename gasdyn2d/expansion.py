@@ -231,8 +231,8 @@ def mach_from_prandtl_meyer(nu, *, gamma=1.4, errors="raise"):
     2.0
     """
     nx.check_errors_mode(errors)
-    nu, _ = nx.to_si(nu, "nu", "angle")
     gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
+    nu, _ = nx.to_si(nu, "nu", "angle", degrees_above=nx.prandtl_meyer_degree_limit(gamma))
     nu, gamma = nx.broadcast(nu=nu, gamma=gamma)
     gamma = nx.check_gamma(gamma, errors)
     nu = _check_nu(nu, gamma, "nu", errors)

@@ -339,11 +339,15 @@ def isentropic_flow(M=None, *, T_T0=None, p_p0=None, rho_rho0=None, A_Astar=None
               "mach_angle": mach_angle, "prandtl_meyer": prandtl_meyer}
     name, value = nx.exactly_one(inputs, "isentropic_flow")
     is_angle = name in ("mach_angle", "prandtl_meyer")
-    value, unit = nx.to_si(value, name, "angle" if is_angle else "dimensionless")
     gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
+    limit = nx.prandtl_meyer_degree_limit(gamma) if name == "prandtl_meyer" else 2.0 * np.pi
+    value, unit = nx.to_si(value, name, "angle" if is_angle else "dimensionless",
+                           degrees_above=limit)
     value, gamma = nx.broadcast(**{name: value}, gamma=gamma)
     gamma = nx.check_gamma(gamma, errors)
     Mach = _mach_from_input(name, value, gamma, branch, errors)
+    if name != "M":  # an inverse that lands a few ulp below 1 is the sonic point (μ, ν exist)
+        Mach = nx.clamp_to_limit(Mach, 1.0, "lower")
     nan_gamma = np.isnan(gamma)
     if nx.any_true(nan_gamma):
         Mach = np.where(nan_gamma, np.nan, Mach)

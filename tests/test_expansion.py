@@ -8,7 +8,14 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import reference as ref
-from gasdyn2d import expansion_fan, isentropic_flow, mach_from_prandtl_meyer, prandtl_meyer, ureg
+from gasdyn2d import (
+    ProbablyDegreesWarning,
+    expansion_fan,
+    isentropic_flow,
+    mach_from_prandtl_meyer,
+    prandtl_meyer,
+    ureg,
+)
 from gasdyn2d.expansion import (
     fan_pressure_ratio,
     mach_from_prandtl_meyer_angle,
@@ -245,3 +252,17 @@ def test_nan_in_nan_out():
     assert np.isnan(fan.M2[1]) and np.isfinite(fan.M2[0])
     assert np.isnan(expansion_fan(2.0, p2_p1=np.nan).M2)
     assert np.isnan(expansion_fan(np.nan, deflection=0.1).M2)
+
+
+# fact of the trade: ν_max = (π/2)(√((γ+1)/(γ-1)) - 1) exceeds 2π for γ below about 1.08
+# (8.49 rad at γ = 1.05), so a plain ν of 7 rad is legal there and must not warn
+def test_large_plain_nu_legal_at_low_gamma_does_not_warn():
+    import warnings
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        M = mach_from_prandtl_meyer(7.0, gamma=1.05)
+        flow = isentropic_flow(prandtl_meyer=7.0, gamma=1.05)
+    assert M > 1 and flow.M == pytest.approx(M, rel=1e-14)
+    with pytest.warns(ProbablyDegreesWarning):  # above ν_max at γ = 1.4: degrees
+        mach_from_prandtl_meyer(26.0, errors="nan")

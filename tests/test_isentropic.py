@@ -359,3 +359,13 @@ def test_area_ratio_fallback_alone_matches_mpmath(supersonic):
     got = _area_ratio_fallback(A, g, supersonic)
     expected = [ref.M_from_A_Astar(a, gg, supersonic) for a, gg in zip(A, g)]
     assert np.max(ref.relative_error(got, expected)) < 1e-13
+
+
+# invented edge case: the sonic temperature ratio 2/(γ+1) rounds so that the closed-form
+# inverse lands a few ulp below M = 1; that is the sonic point, where μ = 90° and ν = 0
+@pytest.mark.parametrize("g", [1.1, 1.3, 1.4, 5 / 3])
+def test_sonic_ratio_inverse_gives_the_sonic_point_not_nan(g):
+    flow = isentropic_flow(T_T0=2.0 / (g + 1.0), gamma=g)
+    assert flow.M == pytest.approx(1.0, abs=1e-14)
+    assert flow.mach_angle == pytest.approx(np.pi / 2, abs=1e-6)
+    assert flow.prandtl_meyer == pytest.approx(0.0, abs=1e-12)
