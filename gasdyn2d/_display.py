@@ -60,11 +60,10 @@ class ResultTable:
     """Mixin giving a dataclass a text table ``repr``, an HTML table and ``to_dict``."""
 
     def _rows(self):
-        for field in dataclasses.fields(self):
+        for name, field, value in self._columns():
             if field.repr is False:
                 continue
-            value = getattr(self, field.name)
-            yield field.name, _format(value), _unit_of(field, value)
+            yield name, _format(value), _unit_of(field, value)
 
     def __repr__(self) -> str:
         rows = list(self._rows())

@@ -40,6 +40,7 @@ __all__ = [
     "wave_angle_from_deflection",
     "wv_from_deflection",
     "wave_angle_from_wv",
+    "deflection_slope_wv",
     "deflection_from_wave_angle",
     "detachment_angles",
     "sonic_angles",
@@ -56,14 +57,34 @@ _MACH_WAVE_SLACK = 4e-15  # |M1² sin²β - 1| that rounding of sin β alone can
 # ------------------------------------------------------------------ plain core
 
 
-def _tan_deflection(w, v, M1, gamma):
-    """tan θ = 2w √(v/(1+w)) / ((γ-1)M1² + 2 + 2v)  (θ-β-M relation in w, v)."""
-    return 2.0 * w * np.sqrt(v / (1.0 + w)) / ((gamma - 1.0) * M1 * M1 + 2.0 + 2.0 * v)
+def _tan_deflection(w, v, M1, gamma, cm=None):
+    """tan θ = 2w √(v/(1+w)) / ((γ-1)M1² + 2 + 2v)  (θ-β-M relation in w, v);
+    ``cm`` = (γ-1)M1² + 2 may be passed in when the caller has it."""
+    cm = (gamma - 1.0) * M1 * M1 + 2.0 if cm is None else cm
+    return 2.0 * w * np.sqrt(v / (1.0 + w)) / (cm + 2.0 * v)
 
 
 def wave_angle_from_wv(w, v):
     """Plain core: β = atan2(√(1+w), √v) [rad] from w = M1² sin²β - 1 and v = M1² cos²β,
-    accurate at both ends of the range (Mach wave and normal shock)."""
+    accurate at both ends of the range (Mach wave and normal shock).
+
+    Parameters
+    ----------
+    w, v : float or ndarray
+        Mn1² - 1 [-] and M1² cos²β [-]; w + v = M1² - 1.
+
+    Returns
+    -------
+    float or ndarray
+        Wave angle β [rad].
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.oblique_shocks import wave_angle_from_wv
+    >>> round(float(np.degrees(wave_angle_from_wv(0.0, 3.0))), 12)  # M1 = 2 Mach wave: μ = 30°
+    30.0
+    """
     return np.arctan2(np.sqrt(1.0 + w), np.sqrt(v))
 
 
@@ -225,40 +246,62 @@ def _newton_weak(w, M1, target, gamma, w_star, m2, a, cm):
 
 def _newton_strong(c, M1, target, gamma, c_star):
     """Polish the strong root in c = M1 cos β = √v, clamped to [0, c*]; ``target`` is tan θ."""
-    a = (M1 - 1.0) * (M1 + 1.0)
-    m2 = M1 * M1
-    cm = (gamma - 1.0) * m2 + 2.0
     for _ in range(_NEWTON_STEPS):
-        v = c * c
-        w = a - v
-        root = np.sqrt(m2 - v)
-        den = cm + 2.0 * v
-        f = 2.0 * w * c / (root * den)
-        # d/dc of 2 w c / (root den), with dw/dc = -2c, droot/dc = -c/root, dden/dc = 4c
-        df = 2.0 * ((-2.0 * c * c + w) * root * den - w * c * (-c / root * den + 4.0 * c * root)) / (
-            (root * den) ** 2)
+        f, df = _tan_deflection_and_slope(c, M1, gamma, True)
         c = np.clip(c - (f - target) / df, 0.0, c_star)
     return c
+
+
+def deflection_slope_wv(w, v, M1, gamma=1.4):
+    """Plain core: (tan θ, d tan θ/dw) along the shock polar at w = M1² sin²β - 1, v = M1² cos²β.
+
+    tan θ = 2w r/den with r = √(v/(1+w)), den = (γ-1)M1² + 2 + 2v (dv/dw = -1), so
+    d tan θ/dw = 2[(r + w r') den + 2wr]/den², r' = -M1²/(2r(1+w)²). Written in w with v
+    passed separately, it keeps its sign up to the normal shock (v → 0, where the
+    slope → -∞); it is zero at detachment. Used for Newton polishing and for the
+    pressure slope d ln(p2/p1)/dθ of :func:`gasdyn2d.waves.turn_state`.
+
+    Parameters
+    ----------
+    w, v : float or ndarray
+        Mn1² - 1 [-] and M1² cos²β [-] of the shock.
+    M1, gamma : float or ndarray
+        Upstream Mach number [-] and ratio of specific heats [-].
+
+    Returns
+    -------
+    tan_theta, slope : float or ndarray
+        tan θ [-] and d tan θ/dw [-].
+
+    Examples
+    --------
+    >>> from gasdyn2d.oblique_shocks import deflection_slope_wv
+    >>> tan_theta, slope = deflection_slope_wv(0.0, 3.0, 2.0)  # M1 = 2, Mach wave
+    >>> float(tan_theta), round(float(slope), 6)  # slope 2√(M1²-1)/((γ+1)M1²)
+    (0.0, 0.360844)
+    """
+    one_w = 1.0 + w
+    r = np.sqrt(v / one_w)
+    den = (gamma - 1.0) * M1 * M1 + 2.0 + 2.0 * v
+    dr = -(M1 * M1) / (2.0 * r * one_w * one_w)
+    return 2.0 * w * r / den, 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
 
 
 def _tan_deflection_and_slope(x, M1, gamma, strong):
     """tan θ and d tan θ/dx along the polar, x = w (weak branch) or c = M1 cos β (strong)."""
     a = (M1 - 1.0) * (M1 + 1.0)
+    if not strong:
+        return deflection_slope_wv(x, a - x, M1, gamma)
     cm = (gamma - 1.0) * M1 * M1 + 2.0
-    if strong:
-        v = x * x
-        w = a - v
-        root = np.sqrt(M1 * M1 - v)
-        den = cm + 2.0 * v
-        f = 2.0 * w * x / (root * den)
-        df = 2.0 * ((-2.0 * v + w) * root * den - w * x * (-x / root * den + 4.0 * x * root)) / (
-            (root * den) ** 2)
-        return f, df
-    v = a - x
-    r = np.sqrt(v / (1.0 + x))
+    v = x * x
+    w = a - v
+    root = np.sqrt(M1 * M1 - v)
     den = cm + 2.0 * v
-    dr = -(1.0 + a) / (2.0 * r * (1.0 + x) ** 2)
-    return 2.0 * x * r / den, 2.0 * ((r + x * dr) * den + 2.0 * x * r) / (den * den)
+    f = 2.0 * w * x / (root * den)
+    # d/dc of 2 w c / (root den), with dw/dc = -2c, droot/dc = -c/root, dden/dc = 4c
+    df = 2.0 * ((-2.0 * v + w) * root * den - w * x * (-x / root * den + 4.0 * x * root)) / (
+        (root * den) ** 2)
+    return f, df
 
 
 def _polish_near_detachment(x, near, M1, target, gamma, x_star, tan_max, strong):
@@ -326,6 +369,30 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     :func:`~gasdyn2d.normal_shocks.normal_shock_ratios`) and v = M1² cos²β;
     ``invalid`` marks θ < 0, θ beyond detachment or M1 < 1. Arrays must
     already have equal shapes (γ may be a scalar).
+
+    Parameters
+    ----------
+    M1, theta : ndarray
+        Upstream Mach number [-] and flow deflection [rad], of equal shapes.
+    gamma : float or ndarray, optional
+        Ratio of specific heats [-].
+    strong : bool, optional
+        Strong branch instead of weak.
+
+    Returns
+    -------
+    w, v : ndarray
+        M1² sin²β - 1 [-] and M1² cos²β [-].
+    invalid : ndarray of bool
+        Cases without an attached shock (their w, v are meaningless).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.oblique_shocks import wave_angle_from_wv, wv_from_deflection
+    >>> w, v, invalid = wv_from_deflection(np.array([2.0]), np.radians([10.0]))
+    >>> np.degrees(wave_angle_from_wv(w, v)).round(4), invalid
+    (array([39.3139]), array([False]))
     """
     with np.errstate(invalid="ignore", divide="ignore"):
         m2 = M1 * M1
@@ -333,7 +400,7 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
         cm = (gamma - 1.0) * m2 + 2.0
         w_star, v_star = _detachment_wv(M1, gamma, m2, a)
         tan_theta = np.tan(theta)
-        tan_max = 2.0 * w_star * np.sqrt(v_star / (1.0 + w_star)) / (cm + 2.0 * v_star)
+        tan_max = _tan_deflection(w_star, v_star, M1, gamma, cm)
         at_max = tan_theta >= tan_max  # the double root: Newton would crawl, take w*, v*
         # a few ulp of θ (< π/2) above θmax is θmax; in tan θ that slack is (1 + tan²θ)
         # times larger, which matters as θmax → 90° (γ → 1 at high M1)
@@ -389,22 +456,18 @@ class ObliqueShockRatios(NamedTuple):
     p02_p01: np.ndarray
 
 
-def oblique_shock_ratios(M1, beta, gamma=1.4, deflection=None):
+def oblique_shock_ratios(M1, beta, gamma=1.4):
     """Plain core: every quantity behind an oblique shock of wave angle β [rad].
 
     The normal component obeys the normal-shock relations with Mn1 = M1 sin β
-    (NACA Report 1135, eqs. 128-132); M2 = Mn2 / sin(β - θ). Pass the
-    ``deflection`` θ [rad] when it is already known to skip recomputing it.
+    (NACA Report 1135, eqs. 128-132); M2 = Mn2 / sin(β - θ).
     """
     M1, beta, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, beta, gamma)))
     with np.errstate(invalid="ignore", divide="ignore"):
         ms = M1 * np.sin(beta)
         w = np.maximum((ms - 1.0) * (ms + 1.0), 0.0)
         ms = np.where(ms < 1.0, np.sqrt(1.0 + w), ms)  # a Mach wave rounded below Mn1 = 1
-        if deflection is None:
-            theta = deflection_from_wave_angle(M1, beta, gamma)
-        else:
-            theta = np.broadcast_to(np.asarray(deflection, dtype=float), M1.shape)
+        theta = deflection_from_wave_angle(M1, beta, gamma)
         ratios = normal_shock_ratios(w, gamma)
         M2 = ratios.M2 / np.sin(beta - theta)
     return ObliqueShockRatios(theta, ms, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,

@@ -296,11 +296,6 @@ class ReflectionTransition(ResultTable):
     detachment: TransitionCondition = unit_field("")  #: regular reflection ceases to exist
     von_neumann: TransitionCondition = unit_field("")  #: Mach stem becomes normal (NaN if none)
 
-    def _rows(self):
-        for name in ("detachment", "von_neumann"):
-            for field, text, unit in getattr(self, name)._rows():
-                yield f"{name}.{field}", text, unit
-
 
 def _bisect(func, lo, hi, iterations=64):
     """Vectorised bisection for a decreasing-sign change from lo (f > 0) to hi (f <= 0)."""

@@ -7,7 +7,7 @@ import dataclasses
 import numpy as np
 
 from . import _numerics as nx
-from ._display import ResultTable, unit_field
+from ._display import ResultTable, _format, unit_field
 from .expansion import prandtl_meyer_angle
 from .gas import AIR, Gas
 from .isentropic import mach_angle_of
@@ -169,7 +169,6 @@ class FlowState(ResultTable):
             unit = f"{value.units:~P}" if hasattr(value, "units") else {
                 "rho": "kg/m³", "a": "m/s", "V": "m/s", "p0": "Pa", "T0": "K", "q": "Pa",
                 "nu": "rad", "mu": "rad"}[name]
-            from ._display import _format
             yield name, _format(value), unit
 
     def __eq__(self, other):

@@ -19,7 +19,12 @@ import numpy as np
 from .expansion import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
 from . import _numerics as nx
 from .normal_shocks import normal_shock_ratios
-from .oblique_shocks import oblique_shock_ratios, wave_angle_from_wv, wv_from_deflection
+from .oblique_shocks import (
+    deflection_slope_wv,
+    oblique_shock_ratios,
+    wave_angle_from_wv,
+    wv_from_deflection,
+)
 
 __all__ = ["WaveState", "turn_state", "turn_for_pressure_ratio"]
 
@@ -52,13 +57,7 @@ def _shock_log_pressure_slope(M1, w, v, gamma, strong=False):
     the branch's (> 0 weak, < 0 strong); only the magnitude is taken from dθ/dw,
     whose sign rounding can flip at detachment, where the slope is infinite.
     """
-    a = (M1 - 1.0) * (M1 + 1.0)
-    one_w = 1.0 + w
-    r = np.sqrt(v / one_w)
-    den = (gamma - 1.0) * M1 * M1 + 2.0 + 2.0 * v
-    f = 2.0 * w * r / den
-    dr = -(1.0 + a) / (2.0 * r * one_w * one_w)
-    df = 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
+    f, df = deflection_slope_wv(w, v, M1, gamma)
     dtheta_dw = np.abs(df) / (1.0 + f * f) * (-1.0 if strong else 1.0)
     p = 1.0 + 2.0 * gamma / (gamma + 1.0) * w
     return 2.0 * gamma / (gamma + 1.0) / p / dtheta_dw
