@@ -14,7 +14,7 @@ import numpy as np
 
 from . import _numerics as nx
 from ._display import ResultTable, unit_field
-from .isentropic import mach_angle_of
+from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
 
 __all__ = [
     "prandtl_meyer",
@@ -334,10 +334,7 @@ def expansion_fan(M1, *, deflection=None, p2_p1=None, M2=None, gamma=1.4, errors
         else:
             given = nx.reject((given < 0) | (given > 1), given, "p2_p1",
                               "between 0 and 1 (a fan lowers the pressure)", errors)
-            # ln(T0/T2) = ln(T0/T1) - (γ-1)/γ ln(p2/p1): no product of small ratios
-            log_T0_T2 = np.log1p(0.5 * (gamma - 1.0) * M1 * M1) - (gamma - 1.0) / gamma * np.log(
-                given)
-            M2 = np.sqrt(2.0 / (gamma - 1.0) * np.expm1(log_T0_T2))
+            M2 = mach_after_isentropic_pressure_change(M1, given, gamma)
             M2 = np.where(given == 1.0, M1, np.fmax(M2, M1))  # rounding must not slow the flow
             M2 = np.where(np.isnan(given), np.nan, M2)
             nu2 = prandtl_meyer_angle(M2, gamma)

@@ -28,6 +28,7 @@ __all__ = [
     "mach_from_pressure_ratio",
     "mach_from_density_ratio",
     "mach_from_area_ratio",
+    "mach_after_isentropic_pressure_change",
 ]
 
 
@@ -86,6 +87,37 @@ def mach_from_temperature_ratio(T_T0, gamma=1.4):
 
 def _mach_from_log_stagnation_temperature(log_T0_T, gamma):
     return np.sqrt(2.0 / (gamma - 1.0) * np.expm1(log_T0_T))
+
+
+def mach_after_isentropic_pressure_change(M1, p2_p1, gamma=1.4):
+    """Plain core: Mach number after an isentropic change of static pressure by p2/p1 > 0.
+
+    ln(T0/T2) = ln(T0/T1) - (γ-1)/γ ln(p2/p1), in logarithms so that no product of
+    small ratios loses digits (the fan of a strong expansion, p2/p1 → 0).
+
+    Parameters
+    ----------
+    M1 : float or ndarray
+        Mach number before the change [-].
+    p2_p1 : float or ndarray
+        Static pressure ratio [-], > 0.
+    gamma : float or ndarray, optional
+        Ratio of specific heats [-].
+
+    Returns
+    -------
+    float or ndarray
+        Mach number after the change [-].
+
+    Examples
+    --------
+    >>> from gasdyn2d.isentropic import mach_after_isentropic_pressure_change
+    >>> round(float(mach_after_isentropic_pressure_change(2.0, 0.5)), 5)  # a fan at Mach 2
+    2.44359
+    """
+    log_T0_T2 = (np.log1p(0.5 * (gamma - 1.0) * np.asarray(M1, dtype=float) ** 2)
+                 - (gamma - 1.0) / gamma * np.log(p2_p1))
+    return _mach_from_log_stagnation_temperature(log_T0_T2, gamma)
 
 
 def mach_from_pressure_ratio(p_p0, gamma=1.4):

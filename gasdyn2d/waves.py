@@ -19,9 +19,10 @@ import numpy as np
 from .expansion import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
 from . import _numerics as nx
 from .normal_shocks import normal_shock_ratios
+from .isentropic import mach_after_isentropic_pressure_change
 from .oblique_shocks import (
+    deflection_from_wave_angle,
     deflection_slope_wv,
-    oblique_shock_ratios,
     wave_angle_from_wv,
     wv_from_deflection,
 )
@@ -143,12 +144,11 @@ def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
     """
     M1, p, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, p2_p1, gamma)))
     with np.errstate(invalid="ignore", divide="ignore"):
-        mn2 = 1.0 + (p - 1.0) * (gamma + 1.0) / (2.0 * gamma)
-        beta = np.arcsin(np.sqrt(mn2) / M1)
-        theta = oblique_shock_ratios(M1, beta, gamma).deflection
-        log_T0_T1 = np.log1p(0.5 * (gamma - 1.0) * M1 * M1)
-        log_T0_T2 = log_T0_T1 - (gamma - 1.0) / gamma * np.log(p)
-        M2 = np.sqrt(2.0 / (gamma - 1.0) * np.expm1(log_T0_T2))
+        # the pressure fixes the normal Mach number, w = Mn1² - 1 (NACA Report 1135, eq. 93)
+        w = (p - 1.0) * (gamma + 1.0) / (2.0 * gamma)
+        beta = wave_angle_from_wv(w, (M1 - 1.0) * (M1 + 1.0) - w)
+        theta = deflection_from_wave_angle(M1, beta, gamma)
+        M2 = mach_after_isentropic_pressure_change(M1, p, gamma)
         fan = prandtl_meyer_angle(M1, gamma) - prandtl_meyer_angle(M2, gamma)
         return np.where(p >= 1.0, theta, fan)
 
