@@ -183,6 +183,20 @@ def broadcast(**arrays):
     return [np.array(a, dtype=float) for a in shaped]
 
 
+def broadcast_cases(gamma, *arrays):
+    """Plain-core broadcasting of case arrays, keeping a scalar γ a scalar.
+
+    Returns the float arrays broadcast together (views) and γ: a 0-d γ is returned
+    as it is, so that the γ-only terms of a relation cost nothing per case; an array
+    γ is broadcast with the rest.
+    """
+    gamma = np.asarray(gamma, dtype=float)
+    arrays = [np.asarray(a, dtype=float) for a in arrays]
+    if gamma.ndim == 0:
+        return (*np.broadcast_arrays(*arrays), gamma)
+    return tuple(np.broadcast_arrays(*arrays, gamma))
+
+
 def scalar_or_array(value):
     """Return a Python float for 0-d results, the ndarray otherwise."""
     value = np.asarray(value)

@@ -346,12 +346,7 @@ def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     θmax itself); θ(β) always reproduces θ to a few ulp. Returns NaN for
     θ < 0, θ > θmax or M1 < 1.
     """
-    gamma = np.asarray(gamma, dtype=float)
-    if gamma.ndim == 0:  # a scalar γ stays scalar: its terms then cost nothing per case
-        M1, theta = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(theta, dtype=float))
-    else:
-        M1, theta, gamma = np.broadcast_arrays(np.asarray(M1, dtype=float),
-                                               np.asarray(theta, dtype=float), gamma)
+    M1, theta, gamma = nx.broadcast_cases(gamma, M1, theta)
     return nx.chunked(lambda m, t, g: _wave_angle_block(m, t, g, strong), M1, theta, gamma)
 
 

@@ -87,12 +87,7 @@ def turn_state(M1, turn, gamma=1.4, strong=False):
     >>> np.round(state.p2_p1, 5)
     array([1.70658, 0.54797])
     """
-    gamma = np.asarray(gamma, dtype=float)
-    if gamma.ndim == 0:  # a scalar γ stays scalar: its terms then cost nothing per case
-        M1, turn = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(turn, dtype=float))
-    else:
-        M1, turn, gamma = np.broadcast_arrays(np.asarray(M1, dtype=float),
-                                              np.asarray(turn, dtype=float), gamma)
+    M1, turn, gamma = nx.broadcast_cases(gamma, M1, turn)
     return WaveState(*nx.chunked(lambda m, t, g: _turn_state_block(m, t, g, strong),
                                  M1, turn, gamma))
 
