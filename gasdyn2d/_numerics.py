@@ -341,18 +341,21 @@ def check_nonnegative_mach(M, name, errors):
 NEWTON_ULPS = 4.0
 
 
-def safeguarded_newton(func, x0, lower, upper, *, max_iter=60, rtol=None):
+def safeguarded_newton(func, x0, lower, upper, *, max_iter=60, rtol=None, atol=0.0,
+                       increasing=None):
     """Vectorised Newton iteration kept inside a bracket, with bisection fallback.
 
     ``func(x)`` returns ``(residual, derivative)`` for an increasing or decreasing
     residual with a single root in ``[lower, upper]``. The bracket shrinks on every
-    step (using the residual's sign at ``lower``), so the iteration cannot leave it;
+    step (using the residual's sign at ``lower``, evaluated once unless the caller
+    says the residual is ``increasing`` or not), so the iteration cannot leave it;
     the loop runs over iterations, never over elements. ``func`` is always called
     on the full array (it may close over full-shape parameters such as γ), but the
     bookkeeping and the early exit follow the still-active elements only.
 
     An element stops when any of these holds: its residual is exactly zero; its
-    step is within ``rtol`` (default 4 ulp) of the iterate; its bracket has
+    step is within ``rtol`` (default 4 ulp) of the iterate, or within ``atol``
+    (absolute, for unknowns such as angles that may be near zero); its bracket has
     collapsed to that width; or a small Newton step (below 1e-8 relative) failed to
     reduce the residual, which means the iterates are flipping at rounding level.
     The iterate with the smallest residual seen is returned.
@@ -365,8 +368,11 @@ def safeguarded_newton(func, x0, lower, upper, *, max_iter=60, rtol=None):
     lo = np.broadcast_to(np.asarray(lower, dtype=float), shape).reshape(-1).copy()
     hi = np.broadcast_to(np.asarray(upper, dtype=float), shape).reshape(-1).copy()
     with np.errstate(all="ignore"):
-        f_lo, _ = func(lo.reshape(shape))
-        sign_lo = np.sign(np.asarray(f_lo, dtype=float)).reshape(-1)
+        if increasing is None:
+            f_lo, _ = func(lo.reshape(shape))
+            sign_lo = np.sign(np.asarray(f_lo, dtype=float)).reshape(-1)
+        else:
+            sign_lo = np.full(lo.shape, -1.0 if increasing else 1.0)
         index = np.flatnonzero(np.isfinite(x_out))
         x, lo, hi, sign_lo = x_out[index], lo[index], hi[index], sign_lo[index]
         best_f = np.full_like(x, np.inf)
@@ -389,7 +395,8 @@ def safeguarded_newton(func, x0, lower, upper, *, max_iter=60, rtol=None):
             x_new = x - newton
             # a Newton step of a few ulp is convergence, even if it lands on the bracket end
             scale = np.maximum(np.abs(x), np.finfo(float).tiny)
-            tiny_step = (np.abs(newton) <= rtol * scale) & np.isfinite(df)  # not f/inf = 0
+            tiny_step = (np.abs(newton) <= np.maximum(rtol * scale, atol)) & np.isfinite(df)
+            # (np.isfinite(df): a step f/inf = 0 is no convergence)
             outside = ~((x_new > lo) & (x_new < hi)) | ~np.isfinite(x_new)
             x_new = np.where(outside & ~tiny_step, 0.5 * (lo + hi), x_new)
             small_step = ~outside & (np.abs(newton) <= 1e-8 * scale) & np.isfinite(df)

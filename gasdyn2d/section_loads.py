@@ -230,7 +230,8 @@ def _match_trailing_edge(upper, lower, gamma):
     ``upper`` and ``lower`` are (M, ln(p/p∞), direction [rad]) of the last
     panel of each surface. The upper stream turns by (phi - dir_u) and the
     lower by (dir_l - phi), each through one shock or fan; ln p_u - ln p_l
-    increases with phi, so a bracketed Newton iteration (slope from
+    increases with phi, so the bracketed Newton iteration of
+    :func:`gasdyn2d._numerics.safeguarded_newton` (slope from
     ``turn_state(...).dlnp_dturn``) finds the one root. The bracket keeps
     both waves attached and short of vacuum. This is the wake slip-line match
     of a two-stream wave pattern; it can be routed through the general
@@ -258,17 +259,10 @@ def _match_trailing_edge(upper, lower, gamma):
         s_l = gamma * M_l**2 / np.sqrt(M_l**2 - 1.0)
         phi = (s_u * dir_u + s_l * dir_l - lnp_u + lnp_l) / (s_u + s_l)  # linearised start
         phi = np.where(np.isfinite(phi), np.clip(phi, lo, hi), 0.5 * (lo + hi))
-        active = matched.copy()
-        for _ in range(_TE_MAX_ITER):
-            f, df, _ = _trailing_edge_residual(phi, upper, lower, gamma)
-            lo, hi = np.where(f < 0.0, phi, lo), np.where(f < 0.0, hi, phi)
-            new = phi - f / df
-            new = np.where((new >= lo) & (new <= hi), new, 0.5 * (lo + hi))
-            new = np.where(f == 0.0, phi, new)  # an exact root stays put
-            active &= np.abs(new - phi) > _TE_TOLERANCE
-            phi = np.where(active, new, phi)
-            if not np.any(active):
-                break
+        phi = nx.safeguarded_newton(  # unmatched cases (NaN start) are not iterated
+            lambda x: _trailing_edge_residual(x, upper, lower, gamma)[:2],
+            np.where(matched, phi, np.nan), lo, hi, max_iter=_TE_MAX_ITER, atol=_TE_TOLERANCE,
+            increasing=True)
         ln_p = _trailing_edge_residual(phi, upper, lower, gamma)[2]
     return np.where(matched, phi, np.nan), np.where(matched, ln_p, np.nan), matched
 

@@ -168,3 +168,24 @@ def test_broadcast_still_names_shapes_that_do_not_fit():
 def test_any_true():
     assert nx.any_true(np.array(True)) and not nx.any_true(np.array(False))
     assert nx.any_true(np.array([False, True])) and not nx.any_true(np.zeros(3, bool))
+
+
+# invented edge case: an unknown near zero (a slip direction, an angle) converges to an
+# absolute tolerance, and a residual known to increase skips the evaluation at ``lower``
+def test_safeguarded_newton_absolute_tolerance_and_known_direction():
+    root = np.array([1e-18, -3e-12, 0.2])
+    calls = {"n": 0}
+
+    def residual(x):
+        calls["n"] += 1
+        return np.sinh(x - root), np.cosh(x - root)  # increasing, root at ``root``
+
+    start = np.array([1e-3, 1e-3, 0.25])
+    lower, upper = np.full(3, -1.0), np.full(3, 1.0)
+    plain = nx.safeguarded_newton(residual, start, lower, upper)
+    n_plain = calls["n"]
+    calls["n"] = 0
+    known = nx.safeguarded_newton(residual, start, lower, upper, atol=1e-15, increasing=True)
+    assert np.all(np.abs(known - root) <= 1e-15)
+    assert np.all(np.abs(plain - root) <= 1e-15)
+    assert calls["n"] < n_plain  # no evaluation at ``lower``, and no chase below 1e-15
