@@ -17,6 +17,7 @@ from . import _numerics as nx
 from ._display import ResultTable, unit_field
 from .expansion import fan_pressure_ratio, max_prandtl_meyer_angle, prandtl_meyer_angle
 from .expansion import mach_from_prandtl_meyer_angle
+from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
 from .oblique_shocks import detachment_angles, oblique_shock_ratios
 from .state import FlowState
 
@@ -100,7 +101,7 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     M = M[..., None]
     g = state.gas.gamma
     d = state.direction_si[..., None]
-    mu = np.arcsin(1.0 / M)
+    mu = mach_angle_of(M)
     theta_max, beta_star = detachment_angles(M, g)
     # cluster points near both ends and near detachment with a cosine spacing in β
     s = 0.5 * (1.0 - np.cos(np.linspace(0.0, np.pi, n)))
@@ -117,13 +118,12 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     nu1 = prandtl_meyer_angle(M, g)
     nu_max = max_prandtl_meyer_angle(g)
     # fan to the lowest pressure: isentropic M from p/p0, then its ν
-    t0 = 1.0 + 0.5 * (g - 1.0) * M * M
-    M_low = np.sqrt(2.0 / (g - 1.0) * (t0 * min_pressure_ratio ** (-(g - 1.0) / g) - 1.0))
+    M_low = mach_after_isentropic_pressure_change(M, min_pressure_ratio, g)
     nu_low = np.minimum(prandtl_meyer_angle(M_low, g), nu_max)
     turn = (nu_low - nu1) * np.linspace(0.0, 1.0, n)
     M_fan = mach_from_prandtl_meyer_angle(nu1 + turn, g)
     p_fan = fan_pressure_ratio(M, M_fan, g)
-    unit = state._units["angle"]
+    unit = getattr(state.direction, "units", None)  # the state's own angle unit, if any
     out = lambda v: nx.angle_out(v, unit)  # noqa: E731
     return PressureDeflectionPolar(
         out(direction), pressure, out(wave_angle), strong, out(d - turn), out(d + turn),

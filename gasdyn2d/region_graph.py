@@ -133,7 +133,7 @@ class WavePattern:
         if isinstance(inflow, FlowState):
             self.inflow_state = inflow
             M, d, g = inflow.M_si, inflow.direction_si, np.asarray(inflow.gas.gamma)
-            self._angle_units = [inflow._units["angle"]]
+            self._angle_units = [getattr(inflow.direction, "units", None)]  # its angle unit
             self._pressure_scale = inflow.p_si
             self._pressure_kind = "pressure"
         else:
