@@ -11,9 +11,9 @@ characteristics and a rounded-throat nozzle. Two baselines are timed in the
 same run, on the same number of nodes as each case:
 
 - "relation": one vectorised ν(M) and M(ν) evaluation over that many nodes
-  (:func:`gasdyn2d.expansion.prandtl_meyer_angle` and its inverse), so the
+  (:func:`gasdyn2d.relations.expansion_fans.prandtl_meyer_angle` and its inverse), so the
   column reads "costs as much as N passes of the Prandtl–Meyer relation";
-- "scalar loop": :func:`gasdyn2d.characteristics.interior_point` called once
+- "scalar loop": :func:`gasdyn2d.characteristics.unit_processes.interior_point` called once
   per node on Python floats (timed on a subset, scaled per node), the plain
   way to write the method; the column is the speed-up over it.
 
@@ -29,11 +29,11 @@ import time
 
 import numpy as np
 
-from gasdyn2d.channels import channel_flow
-from gasdyn2d.characteristics import WallContour, interior_point
-from gasdyn2d.expansion import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
-from gasdyn2d.jets import underexpanded_slot_jet
-from gasdyn2d.nozzles import minimum_length_nozzle, rounded_throat_nozzle
+from gasdyn2d.characteristics.channels import channel_flow
+from gasdyn2d.characteristics.unit_processes import WallContour, interior_point
+from gasdyn2d.relations.expansion_fans import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
+from gasdyn2d.characteristics.jets import underexpanded_slot_jet
+from gasdyn2d.characteristics.nozzles import minimum_length_nozzle, rounded_throat_nozzle
 
 TARGET_N100_SECONDS = 0.1
 

@@ -9,7 +9,7 @@ Every figure is the best of several repeats timed with ``time.perf_counter``.
 Three kinds of ratio are printed, all against baselines timed in this run:
 
 - each relation's time per case over that of one plain isentropic p/p0
-  evaluation (:func:`gasdyn2d.isentropic.pressure_ratio` on the same array),
+  evaluation (:func:`gasdyn2d.relations.isentropic.pressure_ratio` on the same array),
   so the table reads as "costs as much as N pressure ratios";
 - the speed-up of ``oblique_shock(M1, deflection=...)`` over a scalar
   root-finding loop (``scipy.optimize.brentq`` on θ(β) - θ for each case,

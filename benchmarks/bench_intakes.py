@@ -18,9 +18,9 @@ import time
 import numpy as np
 from scipy import optimize
 
-from gasdyn2d.intake_design import optimal_ramps
-from gasdyn2d.intakes import ramp_intake
-from gasdyn2d.isentropic import pressure_ratio
+from gasdyn2d.design.intake_design import optimal_ramps
+from gasdyn2d.design.intakes import ramp_intake
+from gasdyn2d.relations.isentropic import pressure_ratio
 
 
 def best_time(function, repeats):

@@ -26,10 +26,10 @@ import time
 import numpy as np
 from scipy.optimize import root
 
-from gasdyn2d.oblique_shocks import detachment_angles
-from gasdyn2d.reflections import _stem_scan, reflection_transition, wall_reflection
-from gasdyn2d.wave_interactions import shock_crossing
-from gasdyn2d.waves import turn_state
+from gasdyn2d.relations.oblique_shocks import detachment_angles
+from gasdyn2d.patterns.reflections import _stem_scan, reflection_transition, wall_reflection
+from gasdyn2d.patterns.interactions import shock_crossing
+from gasdyn2d.relations.simple_waves import turn_state
 
 TARGET_SPEEDUP = 50.0  # issue 3: at least 50x faster per case than the scipy loop
 TARGET_REGULAR_SECONDS = 0.2  # issue 3: 10^4 regular reflections in under 0.2 s

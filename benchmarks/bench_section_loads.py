@@ -20,9 +20,9 @@ import time
 
 import numpy as np
 
-from gasdyn2d.isentropic import pressure_ratio
-from gasdyn2d.section_loads import linear_loads, second_order_loads, shock_expansion_loads
-from gasdyn2d.sections import Section
+from gasdyn2d.relations.isentropic import pressure_ratio
+from gasdyn2d.design.section_loads import linear_loads, second_order_loads, shock_expansion_loads
+from gasdyn2d.design.sections import Section
 
 
 def best_time(function, repeats):

@@ -8,14 +8,14 @@ from .errors import (
     NoSolutionError,
     ProbablyDegreesWarning,
 )
-from .gas import AIR, Gas
-from .isentropic import IsentropicFlow, isentropic_flow
-from .expansion import ExpansionFan, expansion_fan, mach_from_prandtl_meyer, prandtl_meyer
-from .normal_shocks import NormalShock, normal_shock
-from .oblique_shocks import ObliqueShock, max_deflection, oblique_shock, sonic_deflection
-from .state import FlowState
-from .region_graph import WavePattern
-from .pattern_solution import (
+from .relations.gas import AIR, Gas
+from .relations.isentropic import IsentropicFlow, isentropic_flow
+from .relations.expansion_fans import ExpansionFan, expansion_fan, mach_from_prandtl_meyer, prandtl_meyer
+from .relations.normal_shocks import NormalShock, normal_shock
+from .relations.oblique_shocks import ObliqueShock, max_deflection, oblique_shock, sonic_deflection
+from .relations.flow_state import FlowState
+from .patterns.graph import WavePattern
+from .patterns.solution import (
     MeetingPoint,
     PatternCondition,
     PatternSolution,
@@ -23,7 +23,7 @@ from .pattern_solution import (
     WaveConnection,
     WaveSolution,
 )
-from .reflections import (
+from .patterns.reflections import (
     FreeBoundaryReflection,
     ReflectionTransition,
     TransitionCondition,
@@ -32,7 +32,7 @@ from .reflections import (
     reflection_transition,
     wall_reflection,
 )
-from .wave_interactions import (
+from .patterns.interactions import (
     MergingShocks,
     PressureMatchingWave,
     ShockCrossing,
@@ -40,15 +40,15 @@ from .wave_interactions import (
     shock_crossing,
     turn_to_pressure,
 )
-from .polars import PressureDeflectionPolar, pressure_deflection_polar
-from .sections import Section
-from .characteristics import CharacteristicNet, WallContour
-from .nozzles import MinimumLengthNozzle, RoundedThroatNozzle, minimum_length_nozzle, rounded_throat_nozzle
-from .channels import ChannelFlow, channel_flow
-from .jets import SlotJet, underexpanded_slot_jet
-from .section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
-from .intakes import RampIntake, ramp_intake
-from .intake_design import ContractionLimits, OptimalRamps, contraction_limits, optimal_ramps
+from .patterns.polars import PressureDeflectionPolar, pressure_deflection_polar
+from .design.sections import Section
+from .characteristics.unit_processes import CharacteristicNet, WallContour
+from .characteristics.nozzles import MinimumLengthNozzle, RoundedThroatNozzle, minimum_length_nozzle, rounded_throat_nozzle
+from .characteristics.channels import ChannelFlow, channel_flow
+from .characteristics.jets import SlotJet, underexpanded_slot_jet
+from .design.section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
+from .design.intakes import RampIntake, ramp_intake
+from .design.intake_design import ContractionLimits, OptimalRamps, contraction_limits, optimal_ramps
 
 #: pint's application registry, for writing ``10 * ureg.deg``.
 from ._numerics import ureg as _ureg

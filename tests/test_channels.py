@@ -23,10 +23,10 @@ from hypothesis import strategies as st
 from scipy.integrate import cumulative_trapezoid, solve_ivp
 
 from gasdyn2d import ureg
-from gasdyn2d.channels import channel_flow
-from gasdyn2d.characteristics import WallContour
+from gasdyn2d.characteristics.channels import channel_flow
+from gasdyn2d.characteristics.unit_processes import WallContour
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.expansion import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
+from gasdyn2d.relations.expansion_fans import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
 
 
 def mp_nu(M, g=1.4):

@@ -16,7 +16,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from gasdyn2d.characteristics import (
+from gasdyn2d.characteristics.unit_processes import (
     CharacteristicNet,
     WallContour,
     cancellation_point,

@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.expansion: the Prandtl-Meyer function, its inverse, and centred fans."""
+"""Tests of gasdyn2d.relations.expansion_fans: the Prandtl-Meyer function, its inverse, and centred fans."""
 
 import math
 
@@ -16,7 +16,7 @@ from gasdyn2d import (
     prandtl_meyer,
     ureg,
 )
-from gasdyn2d.expansion import (
+from gasdyn2d.relations.expansion_fans import (
     fan_pressure_ratio,
     mach_from_prandtl_meyer_angle,
     max_prandtl_meyer_angle,

@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.intake_design: optimum ramps and the starting limits of internal contraction.
+"""Tests of gasdyn2d.design.intake_design: optimum ramps and the starting limits of internal contraction.
 
 Independent references:
 - Oswatitsch (1944), NACA TM 1140 (1947): at the recovery optimum the oblique shocks have
@@ -21,8 +21,8 @@ from scipy import optimize
 
 from gasdyn2d import ureg
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.intake_design import contraction_limits, equal_strength_normal_mach, optimal_ramps
-from gasdyn2d.intakes import ramp_intake
+from gasdyn2d.design.intake_design import contraction_limits, equal_strength_normal_mach, optimal_ramps
+from gasdyn2d.design.intakes import ramp_intake
 
 mp.mp.dps = 30
 G = mp.mpf("1.4")

@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.intakes: ramp shock trains, shock-on-lip geometry, spillage, separation flag.
+"""Tests of gasdyn2d.design.intakes: ramp shock trains, shock-on-lip geometry, spillage, separation flag.
 
 References used here, all independent of the code under test:
 - an mpmath reference written below from the textbook relations (θ-β-M solved for β by
@@ -18,7 +18,7 @@ from hypothesis import strategies as st
 
 from gasdyn2d import ureg
 from gasdyn2d.errors import DetachedShockError, InvalidInputError
-from gasdyn2d.intakes import (
+from gasdyn2d.design.intakes import (
     incipient_separation_pressure_ratio,
     lip_streamline_capture,
     ramp_intake,

@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.isentropic: published tables, an mpmath reference, properties, shapes."""
+"""Tests of gasdyn2d.relations.isentropic: published tables, an mpmath reference, properties, shapes."""
 
 import math
 
@@ -9,7 +9,7 @@ from hypothesis import strategies as st
 
 import reference as ref
 from gasdyn2d import isentropic_flow, ureg
-from gasdyn2d.isentropic import (
+from gasdyn2d.relations.isentropic import (
     area_ratio,
     density_ratio,
     mach_angle_of,
@@ -196,7 +196,7 @@ def test_mach_angle_inverse_matches_mpmath():
 def test_prandtl_meyer_input_matches_mpmath():
     # ν -> M through isentropic_flow(prandtl_meyer=...), same core as mach_from_prandtl_meyer;
     # bound 1e-12 or 32 ulp times the condition number ν/(M dν/dM) (large near ν_max)
-    from gasdyn2d.expansion import prandtl_meyer_angle
+    from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
 
     nu = prandtl_meyer_angle(M_CASES, G_CASES)
     expected = np.array([ref.M_from_nu(v, g) for v, g in zip(nu, G_CASES)])
@@ -314,7 +314,7 @@ def test_subsonic_flow_has_no_mach_or_prandtl_meyer_angle():
 
 # ----------------------------------------------------------------- fixed-step inverse
 
-from gasdyn2d.isentropic import _area_ratio_fallback, _area_ratio_halley  # noqa: E402
+from gasdyn2d.relations.isentropic import _area_ratio_fallback, _area_ratio_halley  # noqa: E402
 
 
 @pytest.mark.parametrize("supersonic", [True, False])

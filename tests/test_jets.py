@@ -22,7 +22,7 @@ from hypothesis import strategies as st
 
 from gasdyn2d import ureg
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.jets import linear_cell_length, underexpanded_slot_jet
+from gasdyn2d.characteristics.jets import linear_cell_length, underexpanded_slot_jet
 
 
 def mp_nu(M, g=1.4):
@@ -139,7 +139,7 @@ def test_strongly_underexpanded_jet_runs_and_stops_at_the_shock():
 def test_net_connectivity_carries_the_invariants():
     jet = underexpanded_slot_jet(2.2, 1.8, n_characteristics=20)
     net = jet.net
-    from gasdyn2d.expansion import prandtl_meyer_angle
+    from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
 
     nu = prandtl_meyer_angle(net.mach)
     families = ((net.plus_segments, net.theta - nu), (net.minus_segments, net.theta + nu))
@@ -180,8 +180,8 @@ def test_jet_properties(M_exit, ratio, gamma):
     # segment, boundary leaving the lip at the lip turn, nodes within the jet
     jet = underexpanded_slot_jet(M_exit, ratio, n_characteristics=12, gamma=gamma)
     net = jet.net
-    from gasdyn2d.expansion import prandtl_meyer_angle
-    from gasdyn2d.isentropic import pressure_ratio
+    from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
+    from gasdyn2d.relations.isentropic import pressure_ratio
 
     p_ambient_p0 = pressure_ratio(M_exit, gamma) / ratio
     assert net.p_p0[jet.boundary_nodes] == pytest.approx(p_ambient_p0, rel=1e-11)

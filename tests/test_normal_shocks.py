@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.normal_shocks: published tables, an mpmath reference, properties, shapes."""
+"""Tests of gasdyn2d.relations.normal_shocks: published tables, an mpmath reference, properties, shapes."""
 
 import math
 
@@ -9,7 +9,7 @@ from hypothesis import strategies as st
 
 import reference as ref
 from gasdyn2d import normal_shock
-from gasdyn2d.normal_shocks import normal_shock_ratios, pitot_ratio
+from gasdyn2d.relations.normal_shocks import normal_shock_ratios, pitot_ratio
 
 FIELDS = ("M2", "p2_p1", "rho2_rho1", "T2_T1", "p02_p01")
 INPUTS = ("M2", "p2_p1", "rho2_rho1", "T2_T1", "p02_p01", "p02_p1")
@@ -251,7 +251,7 @@ def test_pitot_ratio_at_the_sonic_limit_is_accepted():
 
 # ----------------------------------------------------------------- fixed-step inverses
 
-from gasdyn2d.normal_shocks import (  # noqa: E402
+from gasdyn2d.relations.normal_shocks import (  # noqa: E402
     _pitot_halley,
     _stagnation_ratio_halley,
     mach_from_pitot_ratio,

@@ -21,7 +21,7 @@ from hypothesis import strategies as st
 
 from gasdyn2d import ureg
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.nozzles import minimum_length_nozzle
+from gasdyn2d.characteristics.nozzles import minimum_length_nozzle
 
 
 def mp_nu(M, g=1.4):
@@ -109,7 +109,7 @@ def test_mass_flow_through_each_reflected_line():
     # wall it equals the throat's: ∫ (cos θ dy - sin θ dx)/(A/A*)(M) = h = 1.
     nozzle = minimum_length_nozzle(2.5, n_characteristics=80)
     net = nozzle.net
-    from gasdyn2d.isentropic import area_ratio
+    from gasdyn2d.relations.isentropic import area_ratio
 
     flux_density = 1.0 / area_ratio(net.mach)
     i, j = net.plus_segments.T
@@ -119,7 +119,7 @@ def test_mass_flow_through_each_reflected_line():
     mean_flux_x = 0.5 * (along_y[i] + along_y[j])
     seg_flux = mean_flux * (net.y[j] - net.y[i]) - mean_flux_x * (net.x[j] - net.x[i])
     # group segments by C+ line: invariant θ - ν labels the line
-    from gasdyn2d.expansion import prandtl_meyer_angle
+    from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
 
     label = np.round((net.theta - prandtl_meyer_angle(net.mach))[i], 9)
     totals = [seg_flux[label == value].sum() for value in np.unique(label)]
@@ -131,7 +131,7 @@ def test_net_connectivity_carries_the_invariants():
     # Fact of the trade: θ - ν is constant along every C+ segment, θ + ν along every C-
     nozzle = minimum_length_nozzle(2.2, n_characteristics=30)
     net = nozzle.net
-    from gasdyn2d.expansion import prandtl_meyer_angle
+    from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
 
     nu = prandtl_meyer_angle(net.mach)
     i, j = net.plus_segments.T
@@ -192,9 +192,9 @@ def test_bad_input_errors(kwargs, name):
 # from ρV/(ρ*a*) ≈ 1 - (γ+1)u'²/2 (fact of the trade: the mass flux peaks at M = 1).
 
 from gasdyn2d.errors import NoSolutionError  # noqa: E402
-from gasdyn2d.isentropic import area_ratio as _area_ratio  # noqa: E402
-from gasdyn2d.expansion import mach_from_prandtl_meyer_angle as _mach_of_nu  # noqa: E402
-from gasdyn2d.nozzles import (  # noqa: E402
+from gasdyn2d.relations.isentropic import area_ratio as _area_ratio  # noqa: E402
+from gasdyn2d.relations.expansion_fans import mach_from_prandtl_meyer_angle as _mach_of_nu  # noqa: E402
+from gasdyn2d.characteristics.nozzles import (  # noqa: E402
     rounded_throat_nozzle,
     sauer_discharge_coefficient,
     sauer_start_line,

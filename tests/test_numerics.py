@@ -10,7 +10,7 @@ from hypothesis import strategies as st
 import reference as ref
 from gasdyn2d import _numerics as nx
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.isentropic import _area_root_and_slopes, _area_ratio_start, area_ratio
+from gasdyn2d.relations.isentropic import _area_root_and_slopes, _area_ratio_start, area_ratio
 
 
 class CountingResidual:

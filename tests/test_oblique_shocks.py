@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.oblique_shocks: published θ-β-M values, an mpmath reference on both
+"""Tests of gasdyn2d.relations.oblique_shocks: published θ-β-M values, an mpmath reference on both
 branches from near-zero deflection to detachment, properties, shapes and units."""
 
 import math
@@ -11,7 +11,7 @@ from hypothesis import strategies as st
 import gasdyn2d
 import reference as ref
 from gasdyn2d import max_deflection, normal_shock, oblique_shock, sonic_deflection, ureg
-from gasdyn2d.oblique_shocks import (
+from gasdyn2d.relations.oblique_shocks import (
     deflection_from_wave_angle,
     detachment_angles,
     oblique_shock_ratios,
@@ -423,7 +423,7 @@ def test_detachment_point_accepted_when_theta_max_nears_ninety_degrees(M1, g):
 # invented edge case: tan θ is periodic, so a deflection of many radians must not wrap
 # around into the attached range (10 rad has tan 10 = 0.648, below tan θmax at M1 = 3)
 def test_deflection_beyond_half_turn_is_detached_not_wrapped():
-    from gasdyn2d.oblique_shocks import wave_angle_from_deflection
+    from gasdyn2d.relations.oblique_shocks import wave_angle_from_deflection
 
     big = np.array([10.0, np.pi + 0.1, 2 * np.pi + 0.1])
     assert np.all(np.isnan(wave_angle_from_deflection(3.0, big)))

@@ -18,12 +18,12 @@ import numpy as np  # noqa: E402
 import pytest  # noqa: E402
 from scipy.optimize import brentq  # noqa: E402
 
-from gasdyn2d.jets import underexpanded_slot_jet  # noqa: E402
-from gasdyn2d.nozzles import minimum_length_nozzle  # noqa: E402
+from gasdyn2d.characteristics.jets import underexpanded_slot_jet  # noqa: E402
+from gasdyn2d.characteristics.nozzles import minimum_length_nozzle  # noqa: E402
 from gasdyn2d.plot import (PALETTE, draw_characteristic_net, draw_pattern_polars,  # noqa: E402
                            draw_polars, draw_surface_pressures, draw_wave_pattern, tour_figure)
-from gasdyn2d.region_graph import WavePattern  # noqa: E402
-from gasdyn2d.sections import Section  # noqa: E402
+from gasdyn2d.patterns.graph import WavePattern  # noqa: E402
+from gasdyn2d.design.sections import Section  # noqa: E402
 
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"
 
@@ -345,9 +345,9 @@ def test_jet_net_boundary_dashed_and_shock_marked(tmp_path):
 
 
 def test_rounded_throat_and_channel_nets(tmp_path):
-    from gasdyn2d.channels import channel_flow
-    from gasdyn2d.characteristics import WallContour
-    from gasdyn2d.nozzles import rounded_throat_nozzle
+    from gasdyn2d.characteristics.channels import channel_flow
+    from gasdyn2d.characteristics.unit_processes import WallContour
+    from gasdyn2d.characteristics.nozzles import rounded_throat_nozzle
 
     nozzle = rounded_throat_nozzle(2.0, n_points=9)
     drawn = draw_characteristic_net(nozzle)
@@ -548,8 +548,8 @@ def test_pattern_polars_use_the_solution_gamma():
 
 
 def test_channel_net_draws_its_own_walls(tmp_path):
-    from gasdyn2d.channels import channel_flow
-    from gasdyn2d.characteristics import WallContour
+    from gasdyn2d.characteristics.channels import channel_flow
+    from gasdyn2d.characteristics.unit_processes import WallContour
 
     # invented: a 4° expansion bend in the roof of a Mach 2 channel of unit height
     lower, upper = WallContour.straight(0.0), WallContour.bend(1.0, 0.5, np.radians(4.0), 0.5)

@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.polars: the pressure–deflection polar of a stream.
+"""Tests of gasdyn2d.patterns.polars: the pressure–deflection polar of a stream.
 
 Checks: the polar's extreme points against the closed-form maximum deflection
 and the normal shock (values in /work/shared/SOURCES.md, computed; NACA
@@ -15,9 +15,9 @@ import pytest
 
 from gasdyn2d import FlowState, ureg
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.expansion import prandtl_meyer_angle
-from gasdyn2d.polars import pressure_deflection_polar
-from gasdyn2d.reflections import wall_reflection
+from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
+from gasdyn2d.patterns.polars import pressure_deflection_polar
+from gasdyn2d.patterns.reflections import wall_reflection
 
 # /work/shared/SOURCES.md, "Maximum deflection θmax" (computed), γ = 1.4
 SOURCES_MD_MAX_DEFLECTION_DEG = {1.5: 12.1127, 2.0: 22.9735, 3.0: 34.0734, 5.0: 41.1177}
@@ -75,7 +75,7 @@ def test_expansion_branch():
 def test_polar_explains_a_regular_reflection():
     # the reflected polar of region 2 crosses the wall direction at p3/p1
     r = wall_reflection(3.0, np.radians(10.0))
-    from gasdyn2d.waves import turn_state
+    from gasdyn2d.relations.simple_waves import turn_state
     s2 = turn_state(3.0, np.radians(10.0))
     region2 = FlowState(s2.M2, s2.p2_p1, 1.0, direction=-np.radians(10.0))
     polar = pressure_deflection_polar(region2, n=4001)

@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.reflections: reflections from walls and free boundaries, built on
+"""Tests of gasdyn2d.patterns.reflections: reflections from walls and free boundaries, built on
 the region graph, against the independent mpmath reference in wave_problem_reference.py.
 """
 
@@ -13,9 +13,9 @@ from hypothesis import strategies as st
 
 from gasdyn2d import ureg
 from gasdyn2d.errors import DetachedShockError, InvalidInputError, NoSolutionError
-from gasdyn2d.oblique_shocks import detachment_angles
-from gasdyn2d.reflections import free_boundary_reflection, reflection_transition, wall_reflection
-from gasdyn2d.wave_interactions import merging_shocks, shock_crossing, turn_to_pressure
+from gasdyn2d.relations.oblique_shocks import detachment_angles
+from gasdyn2d.patterns.reflections import free_boundary_reflection, reflection_transition, wall_reflection
+from gasdyn2d.patterns.interactions import merging_shocks, shock_crossing, turn_to_pressure
 
 from wave_problem_reference import (
     DPS,
@@ -268,7 +268,7 @@ def test_wall_reflection_failure_reasons_per_case():
 def test_strong_reflected_triple_point_named_in_the_reason_exists():
     # the reason above claims a triple point with a strong reflected shock at M 1.8, 12.5°:
     # solve that pattern and check the slip-line conditions with the mpmath reference
-    from gasdyn2d.region_graph import WavePattern
+    from gasdyn2d.patterns.graph import WavePattern
     M, theta = 1.8, np.radians(12.5)
     p = WavePattern(M)
     p.add_wave("incident", upstream="1", downstream="2", family="right", turn=-theta)

@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.region_graph: stating, checking and solving wave patterns.
+"""Tests of gasdyn2d.patterns.graph: stating, checking and solving wave patterns.
 
 Independent checks here use facts of the trade that do not depend on the
 graph's iteration: Riemann invariants across centred fans (ν ∓ θ constant
@@ -17,9 +17,9 @@ from hypothesis import strategies as st
 
 from gasdyn2d import FlowState, ureg
 from gasdyn2d.errors import IllPosedProblemError, InvalidInputError, NoSolutionError
-from gasdyn2d.expansion import prandtl_meyer_angle
-from gasdyn2d.oblique_shocks import oblique_shock_ratios, wave_angle_from_deflection
-from gasdyn2d.region_graph import WavePattern
+from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
+from gasdyn2d.relations.oblique_shocks import oblique_shock_ratios, wave_angle_from_deflection
+from gasdyn2d.patterns.graph import WavePattern
 
 
 def _duct(M, ramp, **kwargs):
@@ -239,7 +239,7 @@ def test_triple_point_with_strong_reflected_shock():
     # invented case below M1 = 2.2: wall_reflection finds no weak-reflected triple point,
     # but the pattern with a strong-branch reflected shock can be stated and solved
     from gasdyn2d import oblique_shock
-    from gasdyn2d.reflections import reflection_transition, wall_reflection
+    from gasdyn2d.patterns.reflections import reflection_transition, wall_reflection
 
     M, theta = 2.0, reflection_transition(2.0).detachment.deflection + np.radians(2.7)
     assert wall_reflection(M, theta, errors="nan").kind == "none"
@@ -265,7 +265,7 @@ def test_triple_point_with_strong_reflected_shock():
 @given(M=st.floats(1.5, 6.0), ramp=st.floats(0.01, 0.6))
 def test_shock_regions_lose_stagnation_pressure(M, ramp):
     # second law (fact of the trade): p0 falls across each shock, never rises
-    from gasdyn2d.oblique_shocks import detachment_angles
+    from gasdyn2d.relations.oblique_shocks import detachment_angles
 
     ramp = ramp * detachment_angles(M, 1.4)[0]
     s = _duct(M, ramp).solve(errors="nan")

@@ -16,18 +16,18 @@ import pytest
 
 import gasdyn2d
 from gasdyn2d._display import ResultTable
-from gasdyn2d.channels import channel_flow
-from gasdyn2d.characteristics import WallContour
-from gasdyn2d.intake_design import contraction_limits, optimal_ramps
-from gasdyn2d.intakes import ramp_intake
-from gasdyn2d.jets import underexpanded_slot_jet
-from gasdyn2d.nozzles import minimum_length_nozzle, rounded_throat_nozzle
-from gasdyn2d.polars import pressure_deflection_polar
-from gasdyn2d.reflections import free_boundary_reflection, reflection_transition, wall_reflection
-from gasdyn2d.wave_interactions import merging_shocks, shock_crossing, turn_to_pressure
-from gasdyn2d.region_graph import WavePattern
-from gasdyn2d.section_loads import shock_expansion_loads
-from gasdyn2d.sections import Section
+from gasdyn2d.characteristics.channels import channel_flow
+from gasdyn2d.characteristics.unit_processes import WallContour
+from gasdyn2d.design.intake_design import contraction_limits, optimal_ramps
+from gasdyn2d.design.intakes import ramp_intake
+from gasdyn2d.characteristics.jets import underexpanded_slot_jet
+from gasdyn2d.characteristics.nozzles import minimum_length_nozzle, rounded_throat_nozzle
+from gasdyn2d.patterns.polars import pressure_deflection_polar
+from gasdyn2d.patterns.reflections import free_boundary_reflection, reflection_transition, wall_reflection
+from gasdyn2d.patterns.interactions import merging_shocks, shock_crossing, turn_to_pressure
+from gasdyn2d.patterns.graph import WavePattern
+from gasdyn2d.design.section_loads import shock_expansion_loads
+from gasdyn2d.design.sections import Section
 
 MACHS = np.array([2.0, 2.5, 3.0])  # invented batch of three cases
 DEG = np.pi / 180

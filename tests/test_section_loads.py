@@ -1,4 +1,4 @@
-"""Tests for gasdyn2d.section_loads: shock-expansion, linear and second-order section loads.
+"""Tests for gasdyn2d.design.section_loads: shock-expansion, linear and second-order section loads.
 
 The references here are written independently of the code under test: the
 oblique-shock relation is solved by root finding on the θ-β-M relation in
@@ -19,14 +19,14 @@ from scipy import integrate, optimize
 
 from gasdyn2d.errors import DetachedShockError, InvalidInputError, NoSolutionError
 from gasdyn2d.errors import ProbablyDegreesWarning
-from gasdyn2d.section_loads import (
+from gasdyn2d.design.section_loads import (
     SectionLoads,
     linear_loads,
     second_order_loads,
     shock_expansion_loads,
     surface_pressure_ratios,
 )
-from gasdyn2d.sections import Section
+from gasdyn2d.design.sections import Section
 
 ureg = pint.get_application_registry()
 mp.mp.dps = 30

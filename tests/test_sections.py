@@ -1,4 +1,4 @@
-"""Tests for gasdyn2d.sections: section geometry, constructors and validation."""
+"""Tests for gasdyn2d.design.sections: section geometry, constructors and validation."""
 
 import dataclasses
 
@@ -8,7 +8,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.sections import Section
+from gasdyn2d.design.sections import Section
 
 
 # ------------------------------------------------------------------ constructors

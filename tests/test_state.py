@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.state.FlowState and gasdyn2d.gas.Gas."""
+"""Tests of gasdyn2d.relations.flow_state.FlowState and gasdyn2d.relations.gas.Gas."""
 
 import dataclasses
 import math
@@ -12,7 +12,7 @@ from hypothesis import strategies as st
 import reference as ref
 from gasdyn2d import AIR, FlowState, Gas, ProbablyDegreesWarning, isentropic_flow, ureg
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.expansion import prandtl_meyer_angle
+from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
 
 
 def test_sea_level_air_matches_the_standard_atmosphere():

@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.wave_interactions: crossing and merging shocks and pressure
+"""Tests of gasdyn2d.patterns.interactions: crossing and merging shocks and pressure
 matching, built on the region graph, against the independent mpmath reference in
 wave_problem_reference.py.
 """
@@ -13,9 +13,9 @@ from hypothesis import strategies as st
 
 from gasdyn2d import ureg
 from gasdyn2d.errors import DetachedShockError, InvalidInputError, NoSolutionError
-from gasdyn2d.expansion import prandtl_meyer_angle
-from gasdyn2d.oblique_shocks import detachment_angles
-from gasdyn2d.wave_interactions import merging_shocks, shock_crossing, turn_to_pressure
+from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
+from gasdyn2d.relations.oblique_shocks import detachment_angles
+from gasdyn2d.patterns.interactions import merging_shocks, shock_crossing, turn_to_pressure
 
 from wave_problem_reference import (
     _close,

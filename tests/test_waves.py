@@ -1,4 +1,4 @@
-"""Tests of gasdyn2d.waves: the signed-turn simple-wave primitive and its inverse."""
+"""Tests of gasdyn2d.relations.simple_waves: the signed-turn simple-wave primitive and its inverse."""
 
 import math
 
@@ -10,9 +10,9 @@ from hypothesis import strategies as st
 
 import reference as ref
 from gasdyn2d import expansion_fan, oblique_shock
-from gasdyn2d.expansion import max_prandtl_meyer_angle, prandtl_meyer_angle
-from gasdyn2d.oblique_shocks import detachment_angles
-from gasdyn2d.waves import turn_for_pressure_ratio, turn_state
+from gasdyn2d.relations.expansion_fans import max_prandtl_meyer_angle, prandtl_meyer_angle
+from gasdyn2d.relations.oblique_shocks import detachment_angles
+from gasdyn2d.relations.simple_waves import turn_for_pressure_ratio, turn_state
 
 mach = st.floats(1.05, 30.0)
 gammas = st.floats(1.05, 1.67)

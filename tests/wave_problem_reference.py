@@ -17,7 +17,7 @@ import zlib
 import mpmath as mp
 import numpy as np
 
-from gasdyn2d.reflections import reflection_transition
+from gasdyn2d.patterns.reflections import reflection_transition
 
 # ============================================================ independent reference
 DPS = 30

@@ -21,8 +21,8 @@ matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 
-from gasdyn2d.isentropic import isentropic_flow  # noqa: E402
-from gasdyn2d.nozzles import minimum_length_nozzle  # noqa: E402
+from gasdyn2d.relations.isentropic import isentropic_flow  # noqa: E402
+from gasdyn2d.characteristics.nozzles import minimum_length_nozzle  # noqa: E402
 from gasdyn2d.plot import draw_characteristic_net  # noqa: E402
 
 out = Path(sys.argv[1]) if len(sys.argv) > 1 else Path.cwd()

@@ -20,10 +20,10 @@ matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 
-from gasdyn2d.intake_design import optimal_ramps  # noqa: E402
-from gasdyn2d.intakes import ramp_intake  # noqa: E402
+from gasdyn2d.design.intake_design import optimal_ramps  # noqa: E402
+from gasdyn2d.design.intakes import ramp_intake  # noqa: E402
 from gasdyn2d.plot import PALETTE, draw_wave_pattern  # noqa: E402
-from gasdyn2d.region_graph import WavePattern  # noqa: E402
+from gasdyn2d.patterns.graph import WavePattern  # noqa: E402
 
 out = Path(sys.argv[1]) if len(sys.argv) > 1 else Path.cwd()
 out.mkdir(parents=True, exist_ok=True)

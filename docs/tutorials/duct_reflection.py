@@ -21,8 +21,8 @@ import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 
 from gasdyn2d.plot import draw_pattern_polars, draw_wave_pattern  # noqa: E402
-from gasdyn2d.reflections import wall_reflection  # noqa: E402
-from gasdyn2d.region_graph import WavePattern  # noqa: E402
+from gasdyn2d.patterns.reflections import wall_reflection  # noqa: E402
+from gasdyn2d.patterns.graph import WavePattern  # noqa: E402
 
 out = Path(sys.argv[1]) if len(sys.argv) > 1 else Path.cwd()
 out.mkdir(parents=True, exist_ok=True)

@@ -22,9 +22,9 @@ import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 
 from gasdyn2d.plot import PALETTE, draw_surface_pressures  # noqa: E402
-from gasdyn2d.section_loads import (linear_loads, second_order_loads,  # noqa: E402
+from gasdyn2d.design.section_loads import (linear_loads, second_order_loads,  # noqa: E402
                                     shock_expansion_loads)
-from gasdyn2d.sections import Section  # noqa: E402
+from gasdyn2d.design.sections import Section  # noqa: E402
 
 out = Path(sys.argv[1]) if len(sys.argv) > 1 else Path.cwd()
 out.mkdir(parents=True, exist_ok=True)

@@ -10,7 +10,7 @@ Public functions
 ----------------
 - :func:`draw_polars` — pressure–deflection polars of one or several streams,
   with solution points marked; :func:`draw_pattern_polars` does the same for
-  regions of a solved :class:`~gasdyn2d.region_graph.WavePattern`.
+  regions of a solved :class:`~gasdyn2d.patterns.graph.WavePattern`.
 - :func:`draw_wave_pattern` — the wave diagram of a solved pattern with its
   walls: shocks as lines, fans as rays from head to tail, slip lines dashed,
   regions labelled with their Mach numbers.

@@ -1,7 +1,7 @@
 """Characteristic nets of nozzles, channels and jets, coloured by Mach number.
 
 Draws the two families of Mach lines of a
-:class:`~gasdyn2d.characteristics.CharacteristicNet` as line segments
+:class:`~gasdyn2d.characteristics.unit_processes.CharacteristicNet` as line segments
 coloured by the mean Mach number of their end nodes, with the walls (a
 nozzle's contour and centreline, a channel's walls) or a jet's constant-pressure
 boundary.
@@ -60,9 +60,9 @@ def draw_characteristic_net(result, *, walls=None, ax=None, colourbar=True, leng
         Anything with a ``net`` (or a net itself). A nozzle's wall contour and
         centreline and a jet's boundary are drawn from the result's fields.
     walls : sequence, optional
-        Extra walls: :class:`~gasdyn2d.characteristics.WallContour` objects
+        Extra walls: :class:`~gasdyn2d.characteristics.unit_processes.WallContour` objects
         (sampled over the net's length) or (x, y) polylines [m]. A
-        :class:`~gasdyn2d.channels.ChannelFlow` draws its own two walls
+        :class:`~gasdyn2d.characteristics.channels.ChannelFlow` draws its own two walls
         through its wall nodes (``lower_wall_x``, ``lower_wall_y``, ...) when
         ``walls`` is not given; given walls replace them (pass the contours
         for a smooth outline between nodes).
@@ -87,7 +87,7 @@ def draw_characteristic_net(result, *, walls=None, ax=None, colourbar=True, leng
     --------
     >>> import matplotlib
     >>> matplotlib.use("Agg")
-    >>> from gasdyn2d.nozzles import minimum_length_nozzle
+    >>> from gasdyn2d.characteristics.nozzles import minimum_length_nozzle
     >>> from gasdyn2d.plot import draw_characteristic_net
     >>> drawn = draw_characteristic_net(minimum_length_nozzle(2.0, n_characteristics=8))
     >>> len(drawn["walls"]), drawn["colourbar"].ax.get_xlabel()

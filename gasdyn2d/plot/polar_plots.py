@@ -11,9 +11,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..gas import Gas
-from ..polars import pressure_deflection_polar
-from ..state import FlowState
+from ..relations.gas import Gas
+from ..patterns.polars import pressure_deflection_polar
+from ..relations.flow_state import FlowState
 from ._style import CYCLE, PALETTE, angle_unit_factor, axes_or_new, plain, tidy
 
 __all__ = ["draw_polars", "draw_pattern_polars"]
@@ -50,7 +50,7 @@ def draw_polars(streams, *, labels=None, marks=(), mark_labels=None, ax=None,
     angle_unit : {"deg", "rad"}
         Unit of the horizontal axis.
     n : int
-        Points per polar branch (see :func:`gasdyn2d.polars.pressure_deflection_polar`).
+        Points per polar branch (see :func:`gasdyn2d.patterns.polars.pressure_deflection_polar`).
     min_pressure_ratio : float
         Lowest pressure ratio of the expansion branches, relative to each stream.
     log_pressure : bool
@@ -134,7 +134,7 @@ def draw_pattern_polars(solution, regions, *, marks=(), gamma=None, case=None, a
     Parameters
     ----------
     solution : PatternSolution
-        From :meth:`gasdyn2d.region_graph.WavePattern.solve`.
+        From :meth:`gasdyn2d.patterns.graph.WavePattern.solve`.
     regions : sequence of str
         Regions whose polars to draw (e.g. the two sides of a wave crossing).
     marks : sequence of str
@@ -157,7 +157,7 @@ def draw_pattern_polars(solution, regions, *, marks=(), gamma=None, case=None, a
     >>> import matplotlib
     >>> matplotlib.use("Agg")
     >>> import numpy as np
-    >>> from gasdyn2d.region_graph import WavePattern
+    >>> from gasdyn2d.patterns.graph import WavePattern
     >>> from gasdyn2d.plot import draw_pattern_polars
     >>> duct = WavePattern(2.6)
     >>> _ = duct.add_wave("ramp shock", upstream="1", downstream="2", family="left",

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..section_loads import linear_loads, second_order_loads, shock_expansion_loads
+from ..design.section_loads import linear_loads, second_order_loads, shock_expansion_loads
 from ._style import CYCLE, angle_unit_factor, plain, tidy
 
 __all__ = ["draw_surface_pressures"]
@@ -62,7 +62,7 @@ def draw_surface_pressures(section, M, alpha, *, theories=("shock-expansion", "l
     >>> import matplotlib
     >>> matplotlib.use("Agg")
     >>> import numpy as np
-    >>> from gasdyn2d.sections import Section
+    >>> from gasdyn2d.design.sections import Section
     >>> from gasdyn2d.plot import draw_surface_pressures
     >>> drawn = draw_surface_pressures(Section.double_wedge(0.05), 2.0, np.radians(2.0))
     >>> sorted(drawn["upper"]), bool(drawn["ax"].yaxis_inverted())

@@ -38,7 +38,7 @@ def tour_figure(path, *, dpi=110):
     """
     from matplotlib.figure import Figure
 
-    from ..region_graph import WavePattern
+    from ..patterns.graph import WavePattern
     from .polar_plots import draw_pattern_polars
     from .wave_pattern_plots import draw_wave_pattern
 

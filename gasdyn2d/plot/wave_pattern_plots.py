@@ -1,6 +1,6 @@
 """The wave diagram of a solved region graph, placed in its geometry.
 
-A :class:`~gasdyn2d.region_graph.WavePattern` knows the states and the line
+A :class:`~gasdyn2d.patterns.graph.WavePattern` knows the states and the line
 directions of its waves, and where waves start when they were given a
 ``start`` point. This module places every wave as straight lines in the
 plane: a wave without a start begins where the wave that made its upstream
@@ -203,7 +203,7 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
     Parameters
     ----------
     solution : PatternSolution
-        From :meth:`gasdyn2d.region_graph.WavePattern.solve`; waves placed with
+        From :meth:`gasdyn2d.patterns.graph.WavePattern.solve`; waves placed with
         ``add_wave(..., start=(x, y))`` keep their start points, and so do
         waves the solution places itself (a reflection from a wall given
         with ``add_wall(..., through=(x, y))``, the waves leaving a crossing;
@@ -257,7 +257,7 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
     >>> import matplotlib
     >>> matplotlib.use("Agg")
     >>> import numpy as np
-    >>> from gasdyn2d.region_graph import WavePattern
+    >>> from gasdyn2d.patterns.graph import WavePattern
     >>> from gasdyn2d.plot import draw_wave_pattern
     >>> duct = WavePattern(2.6)
     >>> _ = duct.add_wave("ramp shock", upstream="1", downstream="2", family="left",

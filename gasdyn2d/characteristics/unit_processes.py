@@ -35,11 +35,11 @@ import numbers
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .errors import InvalidInputError
-from .expansion import mach_from_prandtl_meyer_angle
-from .isentropic import mach_angle_of, pressure_ratio
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from ..errors import InvalidInputError
+from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
+from ..relations.isentropic import mach_angle_of, pressure_ratio
 
 __all__ = [
     "mach_angle_from_nu",
@@ -84,7 +84,7 @@ def mach_angle_from_nu(nu, gamma=1.4):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.characteristics import mach_angle_from_nu
+    >>> from gasdyn2d.characteristics.unit_processes import mach_angle_from_nu
     >>> round(float(np.degrees(mach_angle_from_nu(np.radians(26.379760813416457)))), 9)
     30.0
     """
@@ -100,7 +100,7 @@ def state_from_invariants(minus_invariant, plus_invariant):
 
     Examples
     --------
-    >>> from gasdyn2d.characteristics import state_from_invariants
+    >>> from gasdyn2d.characteristics.unit_processes import state_from_invariants
     >>> state_from_invariants(0.5, -0.3)
     (0.1, 0.4)
     """
@@ -161,7 +161,7 @@ def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4):
     Two points of a uniform Mach 2 stream give a node of the same state:
 
     >>> import numpy as np
-    >>> from gasdyn2d.characteristics import interior_point
+    >>> from gasdyn2d.characteristics.unit_processes import interior_point
     >>> nu = np.radians(26.379760813416457)
     >>> x3, y3, th3, nu3, tp, tm = interior_point(0.0, 0.0, 0.0, nu, 0.0, 1.0, 0.0, nu)
     >>> round(float(x3), 12), round(float(y3), 12)   # √3/2, 1/2 for μ = 30°
@@ -194,7 +194,7 @@ def symmetry_point(x2, y2, theta2, nu2, gamma=1.4, y_axis=0.0):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.characteristics import symmetry_point
+    >>> from gasdyn2d.characteristics.unit_processes import symmetry_point
     >>> x3, y3, th3, nu3, t = symmetry_point(0.0, 1.0, 0.1, 0.3)
     >>> float(th3), round(float(nu3), 15)
     (0.0, 0.4)
@@ -252,7 +252,7 @@ def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=
 
     Examples
     --------
-    >>> from gasdyn2d.characteristics import free_boundary_point
+    >>> from gasdyn2d.characteristics.unit_processes import free_boundary_point
     >>> *_, th3, nu3, tp, ts = free_boundary_point(0.0, 0.0, 0.0, 0.5, -1.0, 1.0, 0.1, 0.45)
     >>> round(float(th3), 15), float(nu3)
     (-0.05, 0.45)
@@ -294,7 +294,7 @@ class WallContour:
         Examples
         --------
         >>> import numpy as np
-        >>> from gasdyn2d.characteristics import WallContour
+        >>> from gasdyn2d.characteristics.unit_processes import WallContour
         >>> wall = WallContour.bend(1.0, 2.0, np.radians(10.0), 5.0)
         >>> round(float(np.degrees(np.arctan(wall.slope(100.0)))), 10)
         10.0
@@ -380,7 +380,7 @@ def wall_point(x2, y2, theta2, nu2, wall, side="lower", gamma=1.4):
     A straight wall keeps the stream's state and only moves the node:
 
     >>> import numpy as np
-    >>> from gasdyn2d.characteristics import WallContour, wall_point
+    >>> from gasdyn2d.characteristics.unit_processes import WallContour, wall_point
     >>> nu = np.radians(26.379760813416457)
     >>> x3, y3, th, nu3, t = wall_point(0.0, 1.0, 0.0, nu, WallContour.straight(0.0))
     >>> round(float(x3), 12), float(th)

@@ -1,6 +1,6 @@
 """Solved wave patterns: region states, waves, per-case status, geometry and tables.
 
-:class:`PatternSolution` is what :meth:`gasdyn2d.region_graph.WavePattern.solve`
+:class:`PatternSolution` is what :meth:`gasdyn2d.patterns.graph.WavePattern.solve`
 returns: one :class:`RegionSolution` per region (ratios to the inflow) and one
 :class:`WaveSolution` per wave (type, turn, angles, directions of its lines in
 the plane), with the per-case status, a printable table, plain arrays for
@@ -14,9 +14,9 @@ import dataclasses
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .state import FlowState
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from ..relations.flow_state import FlowState
 
 __all__ = ["PatternSolution", "RegionSolution", "WaveSolution", "WaveConnection",
            "PatternCondition", "MeetingPoint"]

@@ -35,13 +35,13 @@ import dataclasses
 
 import numpy as np
 
-from . import _numerics as nx
-from .errors import IllPosedProblemError, NoSolutionError
-from .isentropic import mach_angle_of
-from .oblique_shocks import detachment_angles, oblique_shock_ratios
-from .pattern_solution import PatternSolution, RegionSolution, WaveSolution
-from .state import FlowState
-from .waves import turn_for_pressure_ratio, turn_state
+from .. import _numerics as nx
+from ..errors import IllPosedProblemError, NoSolutionError
+from ..relations.isentropic import mach_angle_of
+from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
+from .solution import PatternSolution, RegionSolution, WaveSolution
+from ..relations.flow_state import FlowState
+from ..relations.simple_waves import turn_for_pressure_ratio, turn_state
 
 __all__ = ["WavePattern", "PatternSolution", "RegionSolution", "WaveSolution"]
 
@@ -118,7 +118,7 @@ class WavePattern:
     opposite (upper) wall:
 
     >>> import numpy as np
-    >>> from gasdyn2d.region_graph import WavePattern
+    >>> from gasdyn2d.patterns.graph import WavePattern
     >>> duct = WavePattern(2.6)
     >>> _ = duct.add_wave("ramp shock", upstream="1", downstream="2", family="left",
     ...                   turn=np.radians(6.0))

@@ -21,12 +21,12 @@ from typing import NamedTuple
 import numpy as np
 from scipy import optimize
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .errors import InvalidInputError, NoSolutionError
-from .isentropic import area_ratio
-from .normal_shocks import normal_shock_ratios
-from .oblique_shocks import oblique_shock_ratios, sonic_angles
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from ..errors import InvalidInputError, NoSolutionError
+from ..relations.isentropic import area_ratio
+from ..relations.normal_shocks import normal_shock_ratios
+from ..relations.oblique_shocks import oblique_shock_ratios, sonic_angles
 
 __all__ = [
     "optimal_ramps",
@@ -108,7 +108,7 @@ def equal_strength_normal_mach(M, n_ramps, gamma=1.4):
 
     Examples
     --------
-    >>> from gasdyn2d.intake_design import equal_strength_normal_mach
+    >>> from gasdyn2d.design.intake_design import equal_strength_normal_mach
     >>> round(float(equal_strength_normal_mach(3.0, 2)), 6)
     1.572148
     """
@@ -218,7 +218,7 @@ def optimal_ramps(M, n_ramps, *, gamma=1.4, errors="raise"):
     -------
     OptimalRamps
         Angles in radians (radian Quantities when ``M`` was a Quantity); pass
-        ``deflections`` straight to :func:`gasdyn2d.intakes.ramp_intake`.
+        ``deflections`` straight to :func:`gasdyn2d.design.intakes.ramp_intake`.
 
     Raises
     ------
@@ -250,7 +250,7 @@ def optimal_ramps(M, n_ramps, *, gamma=1.4, errors="raise"):
 
     Examples
     --------
-    >>> from gasdyn2d.intake_design import optimal_ramps
+    >>> from gasdyn2d.design.intake_design import optimal_ramps
     >>> best = optimal_ramps(3.0, 2)
     >>> round(best.recovery, 6), round(best.equal_strength_recovery, 6)
     (0.743652, 0.742157)
@@ -358,7 +358,7 @@ def contraction_limits(entrance_mach, *, gamma=1.4, errors="raise"):
 
     Examples
     --------
-    >>> from gasdyn2d.intake_design import contraction_limits
+    >>> from gasdyn2d.design.intake_design import contraction_limits
     >>> limits = contraction_limits(2.0)
     >>> round(limits.self_starting, 5), round(limits.isentropic, 5)
     (0.82205, 0.59259)

@@ -13,8 +13,8 @@ import dataclasses
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
 
 __all__ = [
     "isentropic_flow",
@@ -111,7 +111,7 @@ def mach_after_isentropic_pressure_change(M1, p2_p1, gamma=1.4):
 
     Examples
     --------
-    >>> from gasdyn2d.isentropic import mach_after_isentropic_pressure_change
+    >>> from gasdyn2d.relations.isentropic import mach_after_isentropic_pressure_change
     >>> round(float(mach_after_isentropic_pressure_change(2.0, 0.5)), 5)  # a fan at Mach 2
     2.44359
     """
@@ -281,7 +281,7 @@ class IsentropicFlow(ResultTable):
 
 def _mach_from_input(name, value, gamma, branch, errors):
     """Check the single given input and turn it into a Mach number."""
-    from .expansion import _check_nu, mach_from_prandtl_meyer_angle
+    from .expansion_fans import _check_nu, mach_from_prandtl_meyer_angle
 
     with np.errstate(invalid="ignore"):
         if name == "M":
@@ -363,7 +363,7 @@ def isentropic_flow(M=None, *, T_T0=None, p_p0=None, rho_rho0=None, A_Astar=None
     >>> round(isentropic_flow(A_Astar=1.6875, branch="subsonic").M, 4)
     0.3722
     """
-    from .expansion import prandtl_meyer_angle
+    from .expansion_fans import prandtl_meyer_angle
 
     nx.check_errors_mode(errors)
     nx.check_branch(branch, ("supersonic", "subsonic"))

@@ -1,7 +1,7 @@
 """Planar supersonic nozzle contours designed by the method of characteristics.
 
 Unit boundary: :func:`minimum_length_nozzle` (sharp throat corner). The net
-is marched by :func:`gasdyn2d.characteristics.march_fan_band`.
+is marched by :func:`gasdyn2d.characteristics.unit_processes.march_fan_band`.
 """
 
 from __future__ import annotations
@@ -11,10 +11,10 @@ import numbers
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
 from .channels import march_rows
-from .characteristics import (
+from .unit_processes import (
     CharacteristicNet,
     check_design_input,
     check_line_count,
@@ -25,9 +25,9 @@ from .characteristics import (
     march_fan_band,
     symmetry_point,
 )
-from .errors import InvalidInputError, NoSolutionError
-from .expansion import prandtl_meyer_angle
-from .isentropic import area_ratio as isentropic_area_ratio
+from ..errors import InvalidInputError, NoSolutionError
+from ..relations.expansion_fans import prandtl_meyer_angle
+from ..relations.isentropic import area_ratio as isentropic_area_ratio
 
 __all__ = [
     "minimum_length_nozzle",
@@ -67,7 +67,7 @@ def minimum_length_contour(M_exit, n_characteristics, gamma=1.4):
     wall_x, wall_y : ndarray, shape (n + 1,)
         Wall nodes from the corner (0, 1) to the exit.
     band : _Band
-        The marched net (see :func:`gasdyn2d.characteristics.march_fan_band`).
+        The marched net (see :func:`gasdyn2d.characteristics.unit_processes.march_fan_band`).
     """
     n = int(n_characteristics)
     theta_max = 0.5 * float(prandtl_meyer_angle(M_exit, gamma))
@@ -132,7 +132,7 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     --------
     Contour for a small blowdown tunnel at Mach 2.8 with a 20 mm high throat:
 
-    >>> from gasdyn2d.nozzles import minimum_length_nozzle
+    >>> from gasdyn2d.characteristics.nozzles import minimum_length_nozzle
     >>> nozzle = minimum_length_nozzle(2.8, n_characteristics=100, throat_half_height=0.010)
     >>> round(nozzle.area_ratio, 3), round(nozzle.area_ratio_isentropic, 3)
     (3.498, 3.5)
@@ -252,7 +252,7 @@ def sauer_discharge_coefficient(throat_radius, gamma=1.4, n_points=2001):
 
     Examples
     --------
-    >>> from gasdyn2d.nozzles import sauer_discharge_coefficient
+    >>> from gasdyn2d.characteristics.nozzles import sauer_discharge_coefficient
     >>> round(sauer_discharge_coefficient(5.0), 6)
     0.998915
     """
@@ -319,7 +319,7 @@ def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
     --------
     The small Mach 2.8 blowdown tunnel with a rounded throat of radius 2h:
 
-    >>> from gasdyn2d.nozzles import rounded_throat_nozzle
+    >>> from gasdyn2d.characteristics.nozzles import rounded_throat_nozzle
     >>> nozzle = rounded_throat_nozzle(2.8, throat_radius=2.0, n_points=31)
     >>> round(nozzle.area_ratio / nozzle.area_ratio_isentropic, 3)   # the throat's mass deficit
     0.992

@@ -13,13 +13,13 @@ import dataclasses
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .expansion import fan_pressure_ratio, max_prandtl_meyer_angle, prandtl_meyer_angle
-from .expansion import mach_from_prandtl_meyer_angle
-from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
-from .oblique_shocks import detachment_angles, oblique_shock_ratios
-from .state import FlowState
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from ..relations.expansion_fans import fan_pressure_ratio, max_prandtl_meyer_angle, prandtl_meyer_angle
+from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
+from ..relations.isentropic import mach_after_isentropic_pressure_change, mach_angle_of
+from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
+from ..relations.flow_state import FlowState
 
 __all__ = ["pressure_deflection_polar", "PressureDeflectionPolar"]
 
@@ -82,7 +82,7 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.polars import pressure_deflection_polar
+    >>> from gasdyn2d.patterns.polars import pressure_deflection_polar
     >>> polar = pressure_deflection_polar(2.0, n=101)
     >>> round(float(np.degrees(np.max(polar.shock_direction))), 4)
     22.9735

@@ -14,8 +14,8 @@ from typing import NamedTuple
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
 
 __all__ = [
     "normal_shock",

@@ -1,6 +1,6 @@
 """Pressure, lift, wave drag and moment of supersonic sections and fins.
 
-Three theories for the same :class:`~gasdyn2d.sections.Section`, with the same
+Three theories for the same :class:`~gasdyn2d.design.sections.Section`, with the same
 result type :class:`SectionLoads`:
 
 - :func:`shock_expansion_loads`: exact shock-expansion theory (an oblique shock
@@ -26,14 +26,14 @@ from typing import NamedTuple
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .errors import DetachedShockError, InvalidInputError, NoSolutionError
-from .expansion import fan_pressure_ratio, mach_from_prandtl_meyer_angle, max_prandtl_meyer_angle
-from .expansion import prandtl_meyer_angle
-from .oblique_shocks import detachment_angles
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from ..errors import DetachedShockError, InvalidInputError, NoSolutionError
+from ..relations.expansion_fans import fan_pressure_ratio, mach_from_prandtl_meyer_angle, max_prandtl_meyer_angle
+from ..relations.expansion_fans import prandtl_meyer_angle
+from ..relations.oblique_shocks import detachment_angles
 from .sections import Section
-from .waves import turn_state
+from ..relations.simple_waves import turn_state
 
 __all__ = [
     "SectionLoads",
@@ -178,7 +178,7 @@ def surface_pressure_ratios(M, first_turn, corner_turns, gamma=1.4):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.section_loads import surface_pressure_ratios
+    >>> from gasdyn2d.design.section_loads import surface_pressure_ratios
     >>> flow = surface_pressure_ratios(2.0, np.radians(10.0), np.radians([-20.0]))
     >>> np.round(flow.p_ratio, 5)
     array([1.70658, 0.55078])
@@ -405,8 +405,8 @@ def shock_expansion_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.sections import Section
-    >>> from gasdyn2d.section_loads import shock_expansion_loads
+    >>> from gasdyn2d.design.sections import Section
+    >>> from gasdyn2d.design.section_loads import shock_expansion_loads
     >>> loads = shock_expansion_loads(Section.double_wedge(0.05), 2.5, np.radians([0.0, 4.0]))
     >>> np.round(loads.cl, 5), np.round(loads.cd, 5)
     (array([0.     , 0.12291]), array([0.00437, 0.01304]))
@@ -520,8 +520,8 @@ def linear_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.sections import Section
-    >>> from gasdyn2d.section_loads import linear_loads
+    >>> from gasdyn2d.design.sections import Section
+    >>> from gasdyn2d.design.section_loads import linear_loads
     >>> loads = linear_loads(Section.flat_plate(), 2.0, np.radians(3.0))
     >>> round(loads.cl, 6), round(float(4 * np.radians(3.0) / np.sqrt(3.0)), 6)
     (0.12092, 0.12092)
@@ -554,8 +554,8 @@ def second_order_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.sections import Section
-    >>> from gasdyn2d.section_loads import second_order_loads
+    >>> from gasdyn2d.design.sections import Section
+    >>> from gasdyn2d.design.section_loads import second_order_loads
     >>> loads = second_order_loads(Section.flat_plate(), 3.0, 0.05)
     >>> c1 = 2 / np.sqrt(8.0)
     >>> round(float((loads.cp_lower[0] - c1 * 0.05) / 0.05**2), 5)

@@ -19,7 +19,7 @@ Plain core (floats and ndarrays, radians, no pint):
   pressure rise that starts turbulent separation.
 
 Unit boundary: :func:`ramp_intake`. The optimum ramps and the starting limits
-of internal contraction live in :mod:`gasdyn2d.intake_design`.
+of internal contraction live in :mod:`gasdyn2d.design.intake_design`.
 
 Coordinates: the first ramp's leading edge is the origin, the free stream runs
 along +x, and the ramps turn the flow towards +y (the cowl side). Ramp k's
@@ -33,11 +33,11 @@ from typing import NamedTuple
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .errors import DetachedShockError, InvalidInputError
-from .normal_shocks import normal_shock_ratios
-from .oblique_shocks import detachment_angles, oblique_shock_ratios, wave_angle_from_deflection
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from ..errors import DetachedShockError, InvalidInputError
+from ..relations.normal_shocks import normal_shock_ratios
+from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios, wave_angle_from_deflection
 
 __all__ = [
     "ramp_intake",
@@ -103,7 +103,7 @@ def ramp_shock_train(M, deflections, gamma=1.4):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.intakes import ramp_shock_train
+    >>> from gasdyn2d.design.intakes import ramp_shock_train
     >>> train = ramp_shock_train(2.0, np.radians([10.0]))
     >>> round(float(np.degrees(train.wave_angle[0])), 4), round(float(train.mach[1]), 5)
     (39.3139, 1.64052)
@@ -190,7 +190,7 @@ def shock_on_lip_geometry(deflections, wave_angles, first_ramp_length=1.0):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.intakes import shock_on_lip_geometry
+    >>> from gasdyn2d.design.intakes import shock_on_lip_geometry
     >>> geometry = shock_on_lip_geometry(np.radians([10.0]), np.radians([39.3139]))
     >>> round(float(geometry.lip_x), 6), round(float(geometry.lip_y), 6)
     (0.887306, 0.726611)
@@ -326,7 +326,7 @@ def incipient_separation_pressure_ratio(M):
 
     Examples
     --------
-    >>> from gasdyn2d.intakes import incipient_separation_pressure_ratio
+    >>> from gasdyn2d.design.intakes import incipient_separation_pressure_ratio
     >>> round(float(incipient_separation_pressure_ratio(2.0)), 3)
     2.2
     """
@@ -508,7 +508,7 @@ def ramp_intake(M, deflections, *, design_mach=None, first_ramp_length=1.0, term
     Examples
     --------
     >>> from gasdyn2d import ureg
-    >>> from gasdyn2d.intakes import ramp_intake
+    >>> from gasdyn2d.design.intakes import ramp_intake
     >>> intake = ramp_intake(2.5, [8.0, 9.0] * ureg.deg, first_ramp_length=0.3 * ureg.m)
     >>> round(intake.recovery, 4), round(intake.terminal_mach, 4)
     (0.7774, 0.6094)

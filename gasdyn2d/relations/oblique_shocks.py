@@ -26,9 +26,9 @@ from typing import NamedTuple
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .errors import DetachedShockError
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from ..errors import DetachedShockError
 from .normal_shocks import normal_shock_ratios
 
 __all__ = [
@@ -81,7 +81,7 @@ def wave_angle_from_wv(w, v):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.oblique_shocks import wave_angle_from_wv
+    >>> from gasdyn2d.relations.oblique_shocks import wave_angle_from_wv
     >>> round(float(np.degrees(wave_angle_from_wv(0.0, 3.0))), 12)  # M1 = 2 Mach wave: μ = 30°
     30.0
     """
@@ -259,7 +259,7 @@ def deflection_slope_wv(w, v, M1, gamma=1.4):
     d tan θ/dw = 2[(r + w r') den + 2wr]/den², r' = -M1²/(2r(1+w)²). Written in w with v
     passed separately, it keeps its sign up to the normal shock (v → 0, where the
     slope → -∞); it is zero at detachment. Used for Newton polishing and for the
-    pressure slope d ln(p2/p1)/dθ of :func:`gasdyn2d.waves.turn_state`.
+    pressure slope d ln(p2/p1)/dθ of :func:`gasdyn2d.relations.simple_waves.turn_state`.
 
     Parameters
     ----------
@@ -275,7 +275,7 @@ def deflection_slope_wv(w, v, M1, gamma=1.4):
 
     Examples
     --------
-    >>> from gasdyn2d.oblique_shocks import deflection_slope_wv
+    >>> from gasdyn2d.relations.oblique_shocks import deflection_slope_wv
     >>> tan_theta, slope = deflection_slope_wv(0.0, 3.0, 2.0)  # M1 = 2, Mach wave
     >>> float(tan_theta), round(float(slope), 6)  # slope 2√(M1²-1)/((γ+1)M1²)
     (0.0, 0.360844)
@@ -361,7 +361,7 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     The solve behind :func:`wave_angle_from_deflection`, returned in the
     variables every downstream ratio needs without cancellation:
     w = M1² sin²β - 1 (the normal-shock variable of
-    :func:`~gasdyn2d.normal_shocks.normal_shock_ratios`) and v = M1² cos²β;
+    :func:`~gasdyn2d.relations.normal_shocks.normal_shock_ratios`) and v = M1² cos²β;
     ``invalid`` marks θ < 0, θ beyond detachment or M1 < 1. Arrays must
     already have equal shapes (γ may be a scalar).
 
@@ -384,7 +384,7 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.oblique_shocks import wave_angle_from_wv, wv_from_deflection
+    >>> from gasdyn2d.relations.oblique_shocks import wave_angle_from_wv, wv_from_deflection
     >>> w, v, invalid = wv_from_deflection(np.array([2.0]), np.radians([10.0]))
     >>> np.degrees(wave_angle_from_wv(w, v)).round(4), invalid
     (array([39.3139]), array([False]))

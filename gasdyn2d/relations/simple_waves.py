@@ -16,8 +16,8 @@ from typing import NamedTuple
 
 import numpy as np
 
-from .expansion import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
-from . import _numerics as nx
+from .expansion_fans import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
+from .. import _numerics as nx
 from .normal_shocks import normal_shock_ratios
 from .isentropic import mach_after_isentropic_pressure_change
 from .oblique_shocks import (
@@ -81,7 +81,7 @@ def turn_state(M1, turn, gamma=1.4, strong=False):
 
     Examples
     --------
-    >>> from gasdyn2d.waves import turn_state
+    >>> from gasdyn2d.relations.simple_waves import turn_state
     >>> import numpy as np
     >>> state = turn_state(2.0, np.radians([10.0, -10.0]))
     >>> np.round(state.p2_p1, 5)
@@ -132,7 +132,7 @@ def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
 
     Examples
     --------
-    >>> from gasdyn2d.waves import turn_for_pressure_ratio
+    >>> from gasdyn2d.relations.simple_waves import turn_for_pressure_ratio
     >>> import numpy as np
     >>> np.round(np.degrees(turn_for_pressure_ratio(2.0, [1.70658, 0.54797])), 3)
     array([ 10., -10.])

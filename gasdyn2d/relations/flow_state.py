@@ -6,9 +6,9 @@ import dataclasses
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, _format, unit_field
-from .expansion import prandtl_meyer_angle
+from .. import _numerics as nx
+from .._display import ResultTable, _format, unit_field
+from .expansion_fans import prandtl_meyer_angle
 from .gas import AIR, Gas
 from .isentropic import mach_angle_of
 

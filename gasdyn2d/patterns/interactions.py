@@ -1,6 +1,6 @@
 """Waves meeting waves: crossing and merging shocks, and pressure matching.
 
-Each function states its problem as a :class:`~gasdyn2d.region_graph.WavePattern`
+Each function states its problem as a :class:`~gasdyn2d.patterns.graph.WavePattern`
 (inflow region ``"1"`` along the x axis), solves it for all cases at once, and
 returns a small result object of fixed fields:
 
@@ -19,14 +19,14 @@ import dataclasses
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .errors import NoSolutionError
-from .normal_shocks import normal_shock_ratios
-from .oblique_shocks import detachment_angles
-from .region_graph import WavePattern
-from .waves import turn_state
-from ._ready_problems import (
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from ..errors import NoSolutionError
+from ..relations.normal_shocks import normal_shock_ratios
+from ..relations.oblique_shocks import detachment_angles
+from .graph import WavePattern
+from ..relations.simple_waves import turn_state
+from .ready_checks import (
     _input_reasons,
     _note,
     _check_shock_turn,

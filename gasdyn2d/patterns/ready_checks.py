@@ -1,6 +1,6 @@
 """Shared input checks and result shaping of the ready wave problems.
 
-Private to :mod:`gasdyn2d.reflections` and :mod:`gasdyn2d.wave_interactions`,
+Private to :mod:`gasdyn2d.patterns.reflections` and :mod:`gasdyn2d.patterns.interactions`,
 which both state their problems as region graphs and report per-case failures
 the same way.
 """
@@ -10,9 +10,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from . import _numerics as nx
-from .errors import DetachedShockError, NoSolutionError
-from .oblique_shocks import detachment_angles
+from .. import _numerics as nx
+from ..errors import DetachedShockError, NoSolutionError
+from ..relations.oblique_shocks import detachment_angles
 
 
 # ---------------------------------------------------------------- input checks

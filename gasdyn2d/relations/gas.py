@@ -5,8 +5,8 @@ from __future__ import annotations
 import dataclasses
 import math
 
-from ._display import ResultTable, unit_field
-from .errors import InvalidInputError
+from .._display import ResultTable, unit_field
+from ..errors import InvalidInputError
 
 __all__ = ["Gas", "AIR"]
 
@@ -35,7 +35,7 @@ class Gas(ResultTable):
     R: float = unit_field("J/(kg·K)", default=287.05)
 
     def __post_init__(self):
-        from ._numerics import is_quantity, to_si
+        from .._numerics import is_quantity, to_si
 
         gamma = self.gamma
         if is_quantity(gamma):

@@ -2,7 +2,7 @@
 
 A :class:`Section` is an immutable pair of surfaces, each a polyline from the
 leading edge (0, 0) to the trailing edge (1, 0) with strictly increasing x.
-The section-load theories (:mod:`gasdyn2d.section_loads`) treat every segment
+The section-load theories (:mod:`gasdyn2d.design.section_loads`) treat every segment
 between two points as a flat panel and every interior point as a corner.
 """
 
@@ -12,7 +12,7 @@ import dataclasses
 
 import numpy as np
 
-from .errors import InvalidInputError
+from ..errors import InvalidInputError
 
 __all__ = ["Section"]
 
@@ -116,7 +116,7 @@ class Section:
 
     Examples
     --------
-    >>> from gasdyn2d.sections import Section
+    >>> from gasdyn2d.design.sections import Section
     >>> fin = Section.double_wedge(0.04, ridge=0.4)
     >>> fin.n_panels, round(fin.thickness_ratio, 6)
     ((2, 2), 0.04)

@@ -1,7 +1,7 @@
 """Planar under-expanded supersonic jet from a slot, by the method of characteristics.
 
 Unit boundary: :func:`underexpanded_slot_jet`. The net is marched by
-:func:`gasdyn2d.characteristics.march_fan_band` with a constant-pressure
+:func:`gasdyn2d.characteristics.unit_processes.march_fan_band` with a constant-pressure
 upper boundary.
 """
 
@@ -11,18 +11,18 @@ import dataclasses
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .characteristics import (
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from .unit_processes import (
     CharacteristicNet,
     band_segments,
     check_design_input,
     check_line_count,
     march_fan_band,
 )
-from .errors import InvalidInputError
-from .expansion import prandtl_meyer_angle
-from .isentropic import mach_from_pressure_ratio, pressure_ratio
+from ..errors import InvalidInputError
+from ..relations.expansion_fans import prandtl_meyer_angle
+from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
 
 __all__ = ["underexpanded_slot_jet", "SlotJet", "linear_cell_length"]
 
@@ -43,7 +43,7 @@ def linear_cell_length(M_jet, slot_width):
 
     Examples
     --------
-    >>> from gasdyn2d.jets import linear_cell_length
+    >>> from gasdyn2d.characteristics.jets import linear_cell_length
     >>> round(float(linear_cell_length(2.0, 1.0)), 12)   # 2√3
     3.464101615138
     """
@@ -138,7 +138,7 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
     A cooling-air slot of a made-up test rig, 4 mm wide, at Mach 1.6 and
     10 % above ambient pressure:
 
-    >>> from gasdyn2d.jets import underexpanded_slot_jet
+    >>> from gasdyn2d.characteristics.jets import underexpanded_slot_jet
     >>> jet = underexpanded_slot_jet(1.6, 1.1, n_characteristics=60, slot_half_height=0.002)
     >>> round(float(jet.cell_length) * 1e3, 2), round(float(jet.cell_length_linear) * 1e3, 2)
     (11.09, 10.64)

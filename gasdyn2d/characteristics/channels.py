@@ -1,7 +1,7 @@
 """Supersonic flow through a planar channel with turning walls, by characteristics.
 
 Unit boundary: :func:`channel_flow`. Walls are
-:class:`gasdyn2d.characteristics.WallContour` objects (straight, circular
+:class:`gasdyn2d.characteristics.unit_processes.WallContour` objects (straight, circular
 bends, or splines through points).
 """
 
@@ -12,9 +12,9 @@ import numbers
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
-from .characteristics import (
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
+from .unit_processes import (
     CharacteristicNet,
     WallContour,
     _interior,
@@ -23,8 +23,8 @@ from .characteristics import (
     symmetry_point,
     wall_point,
 )
-from .errors import InvalidInputError
-from .expansion import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
+from ..errors import InvalidInputError
+from ..relations.expansion_fans import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
 
 
 __all__ = ["channel_flow", "ChannelFlow"]
@@ -121,8 +121,8 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     a 0.2 m arc, floor straight:
 
     >>> import numpy as np
-    >>> from gasdyn2d.characteristics import WallContour
-    >>> from gasdyn2d.channels import channel_flow
+    >>> from gasdyn2d.characteristics.unit_processes import WallContour
+    >>> from gasdyn2d.characteristics.channels import channel_flow
     >>> flow = channel_flow(2.2, lower_wall=WallContour.straight(0.0),
     ...                     upper_wall=WallContour.bend(0.1, 0.05, np.radians(6.0), 0.2),
     ...                     length=0.5, n_points=31)

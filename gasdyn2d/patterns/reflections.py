@@ -1,6 +1,6 @@
 """Reflections from walls and free boundaries, each stated and solved as a region graph.
 
-Every function here builds a :class:`~gasdyn2d.region_graph.WavePattern`
+Every function here builds a :class:`~gasdyn2d.patterns.graph.WavePattern`
 (inflow region ``"1"`` along the x axis), solves it for all cases at once, and
 returns a small result object of fixed fields:
 
@@ -11,7 +11,7 @@ returns a small result object of fixed fields:
   jet edge as a fan.
 
 Crossing and merging shocks and pressure matching live in
-:mod:`gasdyn2d.wave_interactions`.
+:mod:`gasdyn2d.patterns.interactions`.
 
 All are inviscid, perfect-gas results for preliminary design: in a real duct
 or jet the boundary layer interacts with a reflecting shock and may separate.
@@ -30,12 +30,12 @@ import dataclasses
 
 import numpy as np
 
-from ._display import ResultTable, unit_field
-from .normal_shocks import normal_shock_ratios
-from .oblique_shocks import detachment_angles, oblique_shock_ratios
-from .region_graph import WavePattern
-from .waves import turn_for_pressure_ratio, turn_state
-from ._ready_problems import (
+from .._display import ResultTable, unit_field
+from ..relations.normal_shocks import normal_shock_ratios
+from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
+from .graph import WavePattern
+from ..relations.simple_waves import turn_for_pressure_ratio, turn_state
+from .ready_checks import (
     _inputs,
     _check_shock_turn,
     _finish,
@@ -201,7 +201,7 @@ def wall_reflection(M1, deflection, *, gamma=1.4, errors="raise"):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.reflections import wall_reflection
+    >>> from gasdyn2d.patterns.reflections import wall_reflection
     >>> r = wall_reflection(2.8, np.radians(10.0))
     >>> r.kind, round(r.M3, 4), round(r.p3_p1, 4)
     ('regular', 1.9468, 3.5729)
@@ -338,7 +338,7 @@ def reflection_transition(M1, *, gamma=1.4, errors="raise"):
     back. Von Neumann: p3(θ) = p_normal(M1) with a weak reflected shock — the
     regular-reflection pressure equals that behind a normal stem. Both are
     single roots in θ, found by vectorised bisection to rounding on the
-    closed-form wave relations (:func:`gasdyn2d.waves.turn_state`), not by the
+    closed-form wave relations (:func:`gasdyn2d.relations.simple_waves.turn_state`), not by the
     region graph: they are conditions on one pattern, not patterns.
 
     References
@@ -348,7 +348,7 @@ def reflection_transition(M1, *, gamma=1.4, errors="raise"):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.reflections import reflection_transition
+    >>> from gasdyn2d.patterns.reflections import reflection_transition
     >>> t = reflection_transition(4.0)
     >>> np.round(np.degrees([t.von_neumann.wave_angle, t.detachment.wave_angle]), 3)
     array([33.444, 39.232])
@@ -426,7 +426,7 @@ def free_boundary_reflection(M1, deflection, *, gamma=1.4, errors="raise"):
     Examples
     --------
     >>> import numpy as np
-    >>> from gasdyn2d.reflections import free_boundary_reflection
+    >>> from gasdyn2d.patterns.reflections import free_boundary_reflection
     >>> r = free_boundary_reflection(2.2, np.radians(5.0))
     >>> round(r.M3, 4), round(float(np.degrees(r.boundary_turn)), 4)
     (2.1984, 10.0036)

@@ -12,8 +12,8 @@ import dataclasses
 
 import numpy as np
 
-from . import _numerics as nx
-from ._display import ResultTable, unit_field
+from .. import _numerics as nx
+from .._display import ResultTable, unit_field
 from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
 
 __all__ = [

@@ -1,0 +1,1 @@
+"""Floor 3: design tools (sections and their loads, intakes)."""

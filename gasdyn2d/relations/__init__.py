@@ -1,0 +1,1 @@
+"""Floor 1: the relations of one wave at a time."""
