@@ -15,7 +15,7 @@ import pandas as pd
 import pytest
 
 import gasdyn2d
-from gasdyn2d._display import ResultTable
+from gasdyn2d.boundary.results import ResultTable
 from gasdyn2d.characteristics.channels import channel_flow
 from gasdyn2d.characteristics.unit_processes import WallContour
 from gasdyn2d.design.intake_design import contraction_limits, optimal_ramps

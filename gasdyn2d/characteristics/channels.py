@@ -13,7 +13,7 @@ import numbers
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from .unit_processes import (
     CharacteristicNet,
     WallContour,

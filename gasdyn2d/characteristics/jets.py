@@ -12,7 +12,7 @@ import dataclasses
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from .unit_processes import (
     CharacteristicNet,
     band_segments,

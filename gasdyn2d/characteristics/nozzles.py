@@ -12,7 +12,7 @@ import numbers
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from .channels import march_rows
 from .unit_processes import (
     CharacteristicNet,

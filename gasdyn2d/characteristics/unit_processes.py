@@ -36,7 +36,7 @@ import numbers
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..errors import InvalidInputError
 from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
 from ..relations.isentropic import mach_angle_of, pressure_ratio

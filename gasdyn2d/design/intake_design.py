@@ -22,7 +22,7 @@ import numpy as np
 from scipy import optimize
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..errors import InvalidInputError, NoSolutionError
 from ..relations.isentropic import area_ratio
 from ..relations.normal_shocks import normal_shock_ratios

@@ -34,7 +34,7 @@ from typing import NamedTuple
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..errors import DetachedShockError, InvalidInputError
 from ..relations.normal_shocks import normal_shock_ratios
 from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios, wave_angle_from_deflection

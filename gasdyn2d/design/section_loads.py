@@ -27,7 +27,7 @@ from typing import NamedTuple
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..errors import DetachedShockError, InvalidInputError, NoSolutionError
 from ..relations.expansion_fans import fan_pressure_ratio, mach_from_prandtl_meyer_angle, max_prandtl_meyer_angle
 from ..relations.expansion_fans import prandtl_meyer_angle

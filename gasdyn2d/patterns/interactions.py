@@ -20,7 +20,7 @@ import dataclasses
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..errors import NoSolutionError
 from ..relations.normal_shocks import normal_shock_ratios
 from ..relations.oblique_shocks import detachment_angles

@@ -14,7 +14,7 @@ import dataclasses
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..relations.expansion_fans import fan_pressure_ratio, max_prandtl_meyer_angle, prandtl_meyer_angle
 from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
 from ..relations.isentropic import mach_after_isentropic_pressure_change, mach_angle_of

@@ -30,7 +30,7 @@ import dataclasses
 
 import numpy as np
 
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..relations.normal_shocks import normal_shock_ratios
 from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
 from .graph import WavePattern

@@ -15,7 +15,7 @@ import dataclasses
 import numpy as np
 
 from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..relations.flow_state import FlowState
 
 __all__ = ["PatternSolution", "RegionSolution", "WaveSolution", "WaveConnection",

@@ -1,20 +1,29 @@
 """Prandtl–Meyer function and centred expansion fans.
 
-Plain core (floats and ndarrays, radians, no pint): :func:`prandtl_meyer_angle`,
-:func:`mach_from_prandtl_meyer_angle`, :func:`max_prandtl_meyer_angle`,
-:func:`fan_pressure_ratio`. Unit boundary: :func:`prandtl_meyer`,
+Plain core (floats and ndarrays, radians, no pint): :func:`fan_pressure_ratio`,
+:func:`fan_temperature_ratio`, :func:`mach_after_turn`,
+:func:`mach_after_fan_pressure_ratio`; the Prandtl–Meyer function itself is in
+:mod:`gasdyn2d.relations.prandtl_meyer_function` (re-exported here). Unit boundary: :func:`prandtl_meyer`,
 :func:`mach_from_prandtl_meyer`, :func:`expansion_fan`.
 """
 
 from __future__ import annotations
 
 import dataclasses
+import math
 
 import numpy as np
 
-from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from ..boundary import Call, ResultTable, one_of, unit_field
+from ..boundary.types import ArrayInput, FloatArray
 from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
+from .prandtl_meyer_function import (
+    check_prandtl_meyer_angle,
+    mach_from_prandtl_meyer_angle,
+    max_prandtl_meyer_angle,
+    prandtl_meyer_angle,
+    prandtl_meyer_degree_limit,
+)
 
 __all__ = [
     "prandtl_meyer",
@@ -25,124 +34,74 @@ __all__ = [
     "mach_from_prandtl_meyer_angle",
     "max_prandtl_meyer_angle",
     "fan_pressure_ratio",
+    "fan_temperature_ratio",
+    "mach_after_turn",
+    "mach_after_fan_pressure_ratio",
 ]
 
-_SERIES_LIMIT = 0.5  # below this |x|, atan(x) - x comes from its Taylor series
-_SERIES_TERMS = 30  # 0.5**60 < 1e-18: the series is exact to rounding at the limit
-_HALLEY_STEPS = 3  # cubic convergence: start error 0.2 -> 1e-3 -> 1e-9 -> rounding
-
-
-def _atan_minus_x_series(x):
-    """atan(x) - x for 0 <= x <= 0.5 by its Taylor series (no cancellation)."""
-    x2 = x * x
-    acc = np.zeros_like(x)
-    for n in range(_SERIES_TERMS, 0, -1):  # Horner over a fixed number of terms
-        acc = acc * x2 + (-1.0) ** n / (2 * n + 1)
-    return acc * x2 * x
-
-
-def _nu_of_z(z, gamma):
-    """ν as a function of z = sqrt(M² - 1) (plain core, radians)."""
-    z = np.asarray(z, dtype=float)
-    k = (np.asarray(gamma, dtype=float) - 1.0) / (gamma + 1.0)
-    if z.shape != k.shape:
-        z, k = np.broadcast_arrays(z, k)
-    sk = np.sqrt(k)
-    small = z < _SERIES_LIMIT
-    if small.ndim == 0 and small:  # a scalar near M = 1: the series alone
-        return _atan_minus_x_series(sk * z) / sk - _atan_minus_x_series(z)
-    nu = np.array(np.arctan(sk * z) / sk - np.arctan(z), dtype=float)  # NACA 1135, eq. 171
-    if nx.any_true(small):
-        # near M = 1 the two arctangents cancel: use [atan(√k z) - √k z]/√k - [atan z - z]
-        zs, sks = z[small], sk[small]
-        nu[small] = _atan_minus_x_series(sks * zs) / sks - _atan_minus_x_series(zs)
-    return nu
-
-
-def _dnu_dz(z, gamma):
-    z2 = z * z
-    return z2 / ((1.0 + z2) * (1.0 + 0.5 * (gamma - 1.0) * (1.0 + z2)))
-
-
-def max_prandtl_meyer_angle(gamma=1.4):
-    """ν_max = (π/2)(√((γ+1)/(γ-1)) - 1) [rad], the turn that expands a sonic flow to vacuum."""
-    gamma = np.asarray(gamma, dtype=float)
-    return 0.5 * np.pi * (np.sqrt((gamma + 1.0) / (gamma - 1.0)) - 1.0)
-
-
-def prandtl_meyer_angle(M, gamma=1.4):
-    """Plain core: Prandtl–Meyer function ν(M) [rad] for M >= 1 (NaN below 1).
-
-    Accurate to a few ulp from M = 1 (series form) to M → ∞ (ν → ν_max).
-    """
-    M = np.asarray(M, dtype=float)
-    with np.errstate(invalid="ignore"):
-        z = np.sqrt((M - 1.0) * (M + 1.0))
-        nu = _nu_of_z(z, gamma)
-    # M = inf is the vacuum limit ν_max (0·inf must not turn it into NaN)
-    infinite = M == np.inf
-    if not nx.any_true(infinite):
-        return nu
-    return np.where(infinite, max_prandtl_meyer_angle(gamma), nu)
-
-
-def mach_from_prandtl_meyer_angle(nu, gamma=1.4):
-    """Plain core: Mach number from ν [rad], 0 <= ν <= ν_max (NaN outside).
-
-    Start from an explicit blend of the two asymptotes, z ≈ (3ν/(1-k))^(1/3)
-    near ν = 0 and z ≈ (1/k - 1)/(ν_max - ν) near ν_max (k = (γ-1)/(γ+1),
-    z = √(M²-1)), then three Halley steps (cubically convergent) in ln z.
-    The start is within 20 % for 1.01 <= γ <= 3, so three steps reach
-    rounding: a few ulp times the condition number of the inverse,
-    |d ln M/d ln ν| = ν √(M²-1)(1 + (γ-1)M²/2)/M², which is 1 to 3 for
-    moderate M and grows like M near ν_max (the problem itself amplifies the
-    rounding of ν there).
-    """
-    nu = np.asarray(nu, dtype=float)
-    gamma = np.asarray(gamma, dtype=float)
-    k = (gamma - 1.0) / (gamma + 1.0)
-    nu_max = max_prandtl_meyer_angle(gamma)
-    with np.errstate(all="ignore"):
-        bad = (nu < 0.0) | (nu > nu_max)
-        z = (3.0 * nu / (1.0 - k)) ** (1.0 / 3.0) + (1.0 / k - 1.0) * (
-            1.0 / (nu_max - nu) - 1.0 / nu_max
-        )
-        log_z = np.log(z)
-        h = 0.5 * (gamma - 1.0)
-        for _ in range(_HALLEY_STEPS):
-            z = np.exp(log_z)
-            z2 = z * z
-            # f(u) = ν(e^u) - ν, u = ln z; f' = z dν/dz; f''/f' = d ln f'/du
-            slope = z * _dnu_dz(z, gamma)
-            curvature = 3.0 - 2.0 * z2 / (1.0 + z2) - 2.0 * h * z2 / (1.0 + h + h * z2)
-            newton = (_nu_of_z(z, gamma) - nu) / slope
-            log_z = log_z - newton / (1.0 - 0.5 * newton * curvature)
-        M = np.hypot(1.0, np.exp(log_z))
-    M = np.where(nu == 0.0, 1.0, M)
-    M = np.where(nu == nu_max, np.inf, M)
-    return np.where(bad, np.nan, M)
-
-
 def fan_pressure_ratio(M1, M2, gamma=1.4):
-    """Plain core: p2/p1 across an isentropic turn from M1 to M2."""
+    """Plain core: p2/p1 across an isentropic turn from M1 to M2 (0 when M2 is infinite)."""
+    if type(M1) is float and type(M2) is float and type(gamma) is float:
+        h = 0.5 * (gamma - 1.0)
+        if M2 == math.inf:
+            return 0.0
+        return math.exp(gamma / (gamma - 1.0) * (math.log1p(h * M1 * M1) - math.log1p(h * M2 * M2)))
     h = 0.5 * (np.asarray(gamma, dtype=float) - 1.0)
-    return np.exp(gamma / (gamma - 1.0) * (np.log1p(h * M1 * M1) - np.log1p(h * M2 * M2)))
+    with np.errstate(over="ignore"):
+        return np.exp(gamma / (gamma - 1.0) * (np.log1p(h * M1 * M1) - np.log1p(h * M2 * M2)))
+
+
+def fan_temperature_ratio(M1, M2, gamma=1.4):
+    """Plain core: T2/T1 across an isentropic turn from M1 to M2 (0 when M2 is infinite)."""
+    if type(M1) is float and type(M2) is float and type(gamma) is float:
+        h = 0.5 * (gamma - 1.0)
+        return 0.0 if M2 == math.inf else (1.0 + h * M1 * M1) / (1.0 + h * M2 * M2)
+    h = 0.5 * (np.asarray(gamma, dtype=float) - 1.0)
+    with np.errstate(over="ignore", invalid="ignore"):
+        ratio = (1.0 + h * M1 * M1) / (1.0 + h * M2 * M2)
+    return np.where(np.isinf(M2), 0.0, ratio)
+
+
+def mach_after_turn(M1, nu1, turn, gamma=1.4):
+    """Plain core: Mach number after a fan of ``turn`` >= 0 [rad] from M1 (ν(M1) = ``nu1``).
+
+    A fan never slows the flow: the inverse's rounding may not give M2 < M1.
+    """
+    if type(M1) is float and type(turn) is float and type(nu1) is float:
+        if turn == 0.0:
+            return M1
+        M2 = mach_from_prandtl_meyer_angle(nu1 + turn, gamma)
+        return max(M2, M1) if M2 == M2 else M2
+    M2 = mach_from_prandtl_meyer_angle(nu1 + turn, gamma)
+    with np.errstate(invalid="ignore"):
+        M2 = np.where(turn == 0.0, M1, np.fmax(M2, M1))
+    return np.where(np.isnan(nu1 + turn) | np.isnan(M1 + turn), np.nan, M2)  # fmax hid NaN
+
+
+def mach_after_fan_pressure_ratio(M1, p2_p1, gamma=1.4):
+    """Plain core: Mach number after a fan to pressure ratio 0 <= p2/p1 <= 1 (inf at 0)."""
+    if type(M1) is float and type(p2_p1) is float:
+        if p2_p1 == 1.0:
+            return M1
+        if p2_p1 == 0.0:
+            return math.inf
+        M2 = mach_after_isentropic_pressure_change(M1, p2_p1, gamma)
+        return max(M2, M1) if M2 == M2 else M2
+    with np.errstate(divide="ignore", invalid="ignore"):
+        M2 = mach_after_isentropic_pressure_change(M1, p2_p1, gamma)
+        M2 = np.where(p2_p1 == 1.0, M1, np.fmax(M2, M1))  # rounding must not slow the flow
+    return np.where(np.isnan(p2_p1) | np.isnan(M1), np.nan, M2)
 
 
 # ------------------------------------------------------------------ unit boundary
 
 
-def _check_nu(nu, gamma, name, errors):
-    nu_max = max_prandtl_meyer_angle(gamma)
-    with np.errstate(invalid="ignore"):
-        nu = nx.reject(nu < 0.0, nu, name, ">= 0 rad", errors)
-        return nx.reject(
-            nu > nu_max, nu, name, "<= ν_max = (π/2)(√((γ+1)/(γ-1)) - 1)", errors,
-            limit=nu_max, unit_text="rad",
-        )
+def _prandtl_meyer_core(M, gamma, check):
+    gamma = check.gamma(gamma)
+    return prandtl_meyer_angle(check.supersonic_mach(M, "M"), gamma)
 
 
-def prandtl_meyer(M, *, gamma=1.4, errors="raise"):
+def prandtl_meyer(M: ArrayInput, *, gamma: ArrayInput = 1.4, errors: str = "raise") -> FloatArray:
     """Prandtl–Meyer function ν(M): the turn that expands a sonic stream to Mach M.
 
     Parameters
@@ -180,17 +139,19 @@ def prandtl_meyer(M, *, gamma=1.4, errors="raise"):
     >>> round(float(np.degrees(prandtl_meyer(2.0))), 4)
     26.3798
     """
-    nx.check_errors_mode(errors)
-    M, unit = nx.to_si(M, "M", "dimensionless")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    M, gamma = nx.broadcast(M=M, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    M = nx.check_mach_supersonic(M, "M", errors)
-    nu = nx.scalar_or_array(prandtl_meyer_angle(M, gamma))
-    return nx.angle_out(nu, nx.output_angle_unit(None, unit))
+    call = Call(errors)
+    call.take("M", M)
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run_value(_prandtl_meyer_core, "rad", "prandtl_meyer", "Prandtl–Meyer angle ν")
 
 
-def mach_from_prandtl_meyer(nu, *, gamma=1.4, errors="raise"):
+def _mach_from_prandtl_meyer_core(nu, gamma, check):
+    gamma = check.gamma(gamma)
+    return mach_from_prandtl_meyer_angle(check_prandtl_meyer_angle(nu, gamma, "nu", check), gamma)
+
+
+def mach_from_prandtl_meyer(nu: ArrayInput, *, gamma: ArrayInput = 1.4,
+                            errors: str = "raise") -> FloatArray:
     """Mach number whose Prandtl–Meyer function is ``nu``.
 
     Parameters
@@ -230,13 +191,10 @@ def mach_from_prandtl_meyer(nu, *, gamma=1.4, errors="raise"):
     >>> round(mach_from_prandtl_meyer(26.3798 * ureg.deg), 4)
     2.0
     """
-    nx.check_errors_mode(errors)
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    nu, _ = nx.to_si(nu, "nu", "angle", degrees_above=nx.prandtl_meyer_degree_limit(gamma))
-    nu, gamma = nx.broadcast(nu=nu, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    nu = _check_nu(nu, gamma, "nu", errors)
-    return nx.scalar_or_array(mach_from_prandtl_meyer_angle(nu, gamma))
+    call = Call(errors)
+    call.take("nu", nu, "rad", degrees_above=prandtl_meyer_degree_limit(gamma))
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run_value(_mach_from_prandtl_meyer_core, "", "M", "Mach number")
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
@@ -248,19 +206,55 @@ class ExpansionFan(ResultTable):
     Mach lines measured from the local flow direction on each side.
     """
 
-    M1: object = unit_field("")  #: upstream Mach number
-    M2: object = unit_field("")  #: downstream Mach number
-    deflection: object = unit_field("rad")  #: flow turn through the fan, >= 0
-    nu1: object = unit_field("rad")  #: Prandtl–Meyer angle upstream
-    nu2: object = unit_field("rad")  #: Prandtl–Meyer angle downstream
-    p2_p1: object = unit_field("")  #: static pressure ratio
-    T2_T1: object = unit_field("")  #: static temperature ratio
-    rho2_rho1: object = unit_field("")  #: density ratio
-    mu1: object = unit_field("rad")  #: Mach angle upstream (head of the fan)
-    mu2: object = unit_field("rad")  #: Mach angle downstream (tail of the fan)
+    M1: FloatArray = unit_field("", "upstream Mach number")
+    M2: FloatArray = unit_field("", "downstream Mach number")
+    deflection: FloatArray = unit_field("rad", "flow turn through the fan, >= 0")
+    nu1: FloatArray = unit_field("rad", "Prandtl–Meyer angle upstream")
+    nu2: FloatArray = unit_field("rad", "Prandtl–Meyer angle downstream")
+    p2_p1: FloatArray = unit_field("", "static pressure ratio")
+    T2_T1: FloatArray = unit_field("", "static temperature ratio")
+    rho2_rho1: FloatArray = unit_field("", "density ratio")
+    mu1: FloatArray = unit_field("rad", "Mach angle upstream (head of the fan)")
+    mu2: FloatArray = unit_field("rad", "Mach angle downstream (tail of the fan)")
 
 
-def expansion_fan(M1, *, deflection=None, p2_p1=None, M2=None, gamma=1.4, errors="raise"):
+
+def _fan_core(M1, given, gamma, check, *, name):
+    """Checked core of :func:`expansion_fan` (floats or arrays): the fields in order."""
+    gamma = check.gamma(gamma)
+    M1 = check.supersonic_mach(M1, "M1")
+    nu1 = prandtl_meyer_angle(M1, gamma)
+    if name == "deflection":
+        given = check.at_least(given, "deflection", 0.0, allow_inf=True, unit_text="rad",
+                               what="a fan turns the flow away from a compression; use "
+                                    "oblique_shock for compressions")
+        room = max_prandtl_meyer_angle(gamma) - nu1
+        given = check.within(given, "deflection", -math.inf, room,
+                             "<= ν_max - ν(M1), the turn that expands the stream to vacuum",
+                             limit=room, unit_text="rad")
+        M2 = mach_after_turn(M1, nu1, given, gamma)
+        nu2 = nu1 + given
+    else:
+        if name == "M2":
+            given = check.within(given, "M2", M1, math.inf,
+                                 "finite and >= M1 (a fan accelerates the flow)",
+                                 upper_open=True, limit=M1)
+            M2 = given
+        else:
+            given = check.within(given, "p2_p1", 0.0, 1.0,
+                                 "between 0 and 1 (a fan lowers the pressure)")
+            M2 = mach_after_fan_pressure_ratio(M1, given, gamma)
+        nu2 = prandtl_meyer_angle(M2, gamma)
+    p2_p1 = given if name == "p2_p1" else fan_pressure_ratio(M1, M2, gamma)
+    T2_T1 = fan_temperature_ratio(M1, M2, gamma)
+    return (M1, M2, given if name == "deflection" else nu2 - nu1, nu1, nu2, p2_p1, T2_T1,
+            p2_p1 ** (1.0 / gamma),  # isentropic: ρ ∝ p^(1/γ)
+            mach_angle_of(M1), mach_angle_of(M2))
+
+
+def expansion_fan(M1: ArrayInput, *, deflection: ArrayInput = None, p2_p1: ArrayInput = None,
+                  M2: ArrayInput = None, gamma: ArrayInput = 1.4,
+                  errors: str = "raise") -> ExpansionFan:
     """Centred expansion fan from its upstream Mach number and one of turn, p2/p1 or M2.
 
     Parameters
@@ -303,54 +297,12 @@ def expansion_fan(M1, *, deflection=None, p2_p1=None, M2=None, gamma=1.4, errors
     >>> round(fan.M2, 4), round(fan.p2_p1, 4)
     (2.3849, 0.548)
     """
-    nx.check_errors_mode(errors)
-    name, value = nx.exactly_one(
-        {"deflection": deflection, "p2_p1": p2_p1, "M2": M2}, "expansion_fan"
-    )
-    M1, unit_m = nx.to_si(M1, "M1", "dimensionless")
-    given, unit_in = nx.to_si(value, name, "angle" if name == "deflection" else "dimensionless")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    M1, given, gamma = nx.broadcast(M1=M1, **{name: given}, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    M1 = nx.check_mach_supersonic(M1, "M1", errors)
-    nu1 = prandtl_meyer_angle(M1, gamma)
-    nu_max = max_prandtl_meyer_angle(gamma)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        if name == "deflection":
-            given = nx.reject(given < 0, given, "deflection", ">= 0 (a fan turns the flow away "
-                              "from a compression; use oblique_shock for compressions)", errors)
-            given = nx.reject(given > nu_max - nu1, given, "deflection",
-                              "<= ν_max - ν(M1), the turn that expands the stream to vacuum",
-                              errors, limit=nu_max - nu1, unit_text="rad")
-            nu2 = nu1 + given
-            # a fan never slows the flow: keep the inverse's rounding from giving M2 < M1
-            M2 = np.where(given == 0.0, M1, np.fmax(mach_from_prandtl_meyer_angle(nu2, gamma), M1))
-            M2 = np.where(np.isnan(nu2) | np.isnan(nu_max), np.nan, M2)  # fmax hid NaN
-        elif name == "M2":
-            given = nx.reject(~(given >= M1) | np.isinf(given), given, "M2",
-                              "finite and >= M1 (a fan accelerates the flow)", errors, limit=M1)
-            M2 = given
-            nu2 = prandtl_meyer_angle(M2, gamma)
-        else:
-            given = nx.reject((given < 0) | (given > 1), given, "p2_p1",
-                              "between 0 and 1 (a fan lowers the pressure)", errors)
-            M2 = mach_after_isentropic_pressure_change(M1, given, gamma)
-            M2 = np.where(given == 1.0, M1, np.fmax(M2, M1))  # rounding must not slow the flow
-            M2 = np.where(np.isnan(given), np.nan, M2)
-            nu2 = prandtl_meyer_angle(M2, gamma)
-        nan = np.isnan(given)
-        M2 = np.where(nan, np.nan, M2)
-        nu2 = np.where(nan, np.nan, nu2)
-        deflection_out = given if name == "deflection" else nu2 - nu1
-        p_ratio = fan_pressure_ratio(M1, M2, gamma)
-        T_ratio = (1.0 + 0.5 * (gamma - 1.0) * M1**2) / (1.0 + 0.5 * (gamma - 1.0) * M2**2)
-        T_ratio = np.where(np.isinf(M2), 0.0, T_ratio)
-        rho_ratio = p_ratio ** (1.0 / gamma)  # isentropic: ρ ∝ p^(1/γ)
-    angle_unit = nx.output_angle_unit(unit_in if name == "deflection" else None, unit_m, unit_in)
-    s = nx.scalar_or_array
-    a = lambda v: nx.angle_out(s(v), angle_unit)  # noqa: E731
-    return ExpansionFan(
-        M1=s(M1), M2=s(M2), deflection=a(deflection_out), nu1=a(nu1), nu2=a(nu2),
-        p2_p1=s(p_ratio), T2_T1=s(T_ratio), rho2_rho1=s(rho_ratio),
-        mu1=a(mach_angle_of(M1)), mu2=a(mach_angle_of(M2)),
-    )
+    name, value = one_of("expansion_fan", deflection=deflection, p2_p1=p2_p1, M2=M2)
+    call = Call(errors)
+    call.take("M1", M1)
+    if name == "deflection":
+        call.take(name, value, "rad", degrees_above=prandtl_meyer_degree_limit(gamma))
+    else:
+        call.take(name, value)
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run(ExpansionFan, _fan_core, name=name)

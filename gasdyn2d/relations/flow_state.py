@@ -6,10 +6,12 @@ import dataclasses
 
 import numpy as np
 
-from .. import _numerics as nx
-from .._display import ResultTable, _format, unit_field
-from .expansion_fans import prandtl_meyer_angle
+from ..boundary import Call, ResultTable, unit_field
+from ..boundary.results import _format
+from ..boundary.types import ArrayInput, FloatArray
+from ..errors import InvalidInputError
 from .gas import AIR, Gas
+from .prandtl_meyer_function import prandtl_meyer_angle
 from .isentropic import mach_angle_of
 
 __all__ = ["FlowState"]
@@ -49,50 +51,58 @@ class FlowState(ResultTable):
     (653.4, 307.55)
     """
 
-    M: object = unit_field("")  #: Mach number
-    p: object = unit_field("Pa")  #: static pressure
-    T: object = unit_field("K")  #: static temperature
-    direction: object = unit_field("rad")  #: flow direction from the x axis
+    M: FloatArray = unit_field("", "Mach number")
+    p: FloatArray = unit_field("Pa", "static pressure")
+    T: FloatArray = unit_field("K", "static temperature")
+    direction: FloatArray = unit_field("rad", "flow direction from the x axis")
     gas: Gas = dataclasses.field(default=AIR, repr=False)
 
-    def __init__(self, M, p, T, direction=0.0, gas=AIR):
+    def __init__(self, M: ArrayInput, p: ArrayInput, T: ArrayInput,
+                 direction: ArrayInput = 0.0, gas: Gas = AIR, *, errors: str = "raise"):
         if not isinstance(gas, Gas):
-            raise nx.InvalidInputError(f"gas must be a gasdyn2d.Gas; got {gas!r}.")
-        M_si, _ = nx.to_si(M, "M", "dimensionless")
-        p_si, p_unit = nx.to_si(p, "p", "pressure")
-        T_si, T_unit = nx.to_si(T, "T", "temperature")
-        d_si, d_unit = nx.to_si(direction, "direction", "angle")
-        M_si, p_si, T_si, d_si = nx.broadcast(M=M_si, p=p_si, T=T_si, direction=d_si)
-        M_si = nx.check_nonnegative_mach(M_si, "M", "raise")
-        with np.errstate(invalid="ignore"):
-            nx.reject(~(p_si > 0) | np.isinf(p_si), p_si, "p", "finite and > 0 Pa", "raise")
-            nx.reject(~(T_si > 0) | np.isinf(T_si), T_si, "T", "finite and > 0 K", "raise")
-            nx.reject(np.isinf(d_si), d_si, "direction", "finite", "raise")
-        object.__setattr__(self, "gas", gas)
+            raise InvalidInputError(f"gas must be a gasdyn2d.Gas; got {gas!r}.")
+        call = Call(errors)
+        call.take("M", M)
+        call.take("p", p, "Pa")
+        call.take("T", T, "K")
+        call.take("direction", direction, "rad")
+        if call.lazy:
+            raise InvalidInputError(
+                "FlowState holds computed states: give numbers, arrays, Quantities, DataArrays "
+                "or Series, not dask arrays (compute them first, or sweep the relations, which "
+                "stay lazy).")
+        M_si, p_si, T_si, d_si = call.prepare()
+        check = call.check
+        M_si = check.mach(M_si, "M")
+        p_si = check.positive(p_si, "p", "Pa")
+        T_si = check.positive(T_si, "T", "K")
+        d_si = check.finite(d_si, "direction", "rad")
+        scalars = (M_si, p_si, T_si, d_si)
+        # the *_si attributes are always read-only ndarrays (0-d for one state), the form
+        # every plain core and the region graph take
+        M_si, p_si, T_si, d_si = (np.array(v, dtype=float) for v in np.broadcast_arrays(
+            M_si, p_si, T_si, d_si))
+        for value in (M_si, p_si, T_si, d_si):
+            value.flags.writeable = False
+        set_field = object.__setattr__
+        set_field(self, "gas", gas)
+        set_field(self, "_boundary", call)
         for name, value in (("M_si", M_si), ("p_si", p_si), ("T_si", T_si),
                             ("direction_si", d_si)):
-            value.setflags(write=False)
-            object.__setattr__(self, name, value)
-        any_unit = p_unit is not None or T_unit is not None or d_unit is not None
-        object.__setattr__(self, "_units", {
-            "p": p_unit if p_unit is not None else ("Pa" if any_unit else None),
-            "T": T_unit if T_unit is not None else ("K" if any_unit else None),
-            "angle": nx.output_angle_unit(d_unit, p_unit, T_unit),
-            "si": any_unit,
-        })
-        s = nx.scalar_or_array
-        object.__setattr__(self, "M", s(M_si))
-        object.__setattr__(self, "p", self._out(p_si, "Pa", "p"))
-        object.__setattr__(self, "T", self._out(T_si, "K", "T"))
-        object.__setattr__(self, "direction", nx.angle_out(s(d_si), self._units["angle"]))
+            set_field(self, name, value)
+        if call.scalar:
+            M_si, p_si, T_si, d_si = scalars
+        set_field(self, "M", call.wrap(M_si, "", "M", "Mach number"))
+        set_field(self, "p", call.wrap(p_si, "Pa", "p", "static pressure"))
+        set_field(self, "T", call.wrap(T_si, "K", "T", "static temperature"))
+        set_field(self, "direction", call.wrap(d_si, "rad", "direction", "flow direction"))
 
     # -- unit helpers
-    def _out(self, value, si_unit, kind=None):
-        unit = self._units.get(kind) if kind else (si_unit if self._units["si"] else None)
-        return nx.quantity_out(nx.scalar_or_array(value), si_unit, unit)
+    def _out(self, value, unit_text, name=""):
+        return self._boundary.wrap(value, unit_text, name)
 
-    def _angle(self, value):
-        return nx.angle_out(nx.scalar_or_array(value), self._units["angle"])
+    def _angle(self, value, name=""):
+        return self._boundary.wrap(value, "rad", name)
 
     # -- plain SI derived values
     @property
@@ -120,47 +130,47 @@ class FlowState(ResultTable):
     @property
     def rho(self):
         """Density [kg/m³]."""
-        return self._out(self.rho_si, "kg/m**3")
+        return self._out(self.rho_si, "kg/m³", "rho")
 
     @property
     def a(self):
         """Speed of sound [m/s]."""
-        return self._out(self.a_si, "m/s")
+        return self._out(self.a_si, "m/s", "a")
 
     @property
     def V(self):
         """Flow speed [m/s]."""
-        return self._out(self.M_si * self.a_si, "m/s")
+        return self._out(self.M_si * self.a_si, "m/s", "V")
 
     @property
     def p0(self):
         """Stagnation pressure [Pa] (unit of ``p`` when it was a Quantity)."""
-        return self._out(self.p0_si, "Pa", "p")
+        return self._out(self.p0_si, "Pa", "p0")
 
     @property
     def T0(self):
         """Stagnation temperature [K] (unit of ``T`` when it was a Quantity)."""
-        return self._out(self.T0_si, "K", "T")
+        return self._out(self.T0_si, "K", "T0")
 
     @property
     def q(self):
         """Dynamic pressure ρV²/2 = γpM²/2 [Pa] (unit of ``p`` when it was a Quantity)."""
-        return self._out(0.5 * self.gas.gamma * self.p_si * self.M_si**2, "Pa", "p")
+        return self._out(0.5 * self.gas.gamma * self.p_si * self.M_si**2, "Pa", "q")
 
     @property
     def nu(self):
         """Prandtl–Meyer angle [rad] (NaN for subsonic flow)."""
-        return self._angle(prandtl_meyer_angle(self.M_si, self.gas.gamma))
+        return self._angle(prandtl_meyer_angle(self.M_si, self.gas.gamma), "nu")
 
     @property
     def mu(self):
         """Mach angle [rad] (NaN for subsonic flow)."""
-        return self._angle(mach_angle_of(self.M_si))
+        return self._angle(mach_angle_of(self.M_si), "mu")
 
     @property
     def shape(self):
         """Broadcast shape of the state's arrays (``()`` for a single state)."""
-        return self.M_si.shape
+        return np.shape(self.M_si)
 
     def _rows(self):
         yield from super()._rows()

@@ -5,7 +5,7 @@ from __future__ import annotations
 import dataclasses
 import math
 
-from .._display import ResultTable, unit_field
+from ..boundary.results import ResultTable, unit_field
 from ..errors import InvalidInputError
 
 __all__ = ["Gas", "AIR"]

@@ -10,11 +10,21 @@ Plain core (floats and ndarrays, no pint): :func:`temperature_ratio`,
 from __future__ import annotations
 
 import dataclasses
+import math
 
 import numpy as np
 
-from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from .. import numerics as nx
+from ..boundary import Call, ResultTable, choice, clamp_to_limit, one_of, unit_field
+from ..boundary.types import ArrayInput, FloatArray
+from ..boundary.units import TWO_PI
+from ..numerics import nan_where_nan
+from .prandtl_meyer_function import (
+    check_prandtl_meyer_angle,
+    mach_from_prandtl_meyer_angle,
+    prandtl_meyer_angle,
+    prandtl_meyer_degree_limit,
+)
 
 __all__ = [
     "isentropic_flow",
@@ -24,6 +34,7 @@ __all__ = [
     "density_ratio",
     "area_ratio",
     "mach_angle_of",
+    "mach_from_mach_angle",
     "mach_from_temperature_ratio",
     "mach_from_pressure_ratio",
     "mach_from_density_ratio",
@@ -76,6 +87,13 @@ def mach_angle_of(M):
     M = np.asarray(M, dtype=float)
     with np.errstate(invalid="ignore"):
         return np.arctan2(1.0, np.sqrt((M - 1.0) * (M + 1.0)))
+
+
+def mach_from_mach_angle(mu):
+    """M = 1/sin μ for 0 < μ <= π/2."""
+    if type(mu) is float:
+        return 1.0 / math.sin(mu)
+    return 1.0 / np.sin(np.asarray(mu, dtype=float))
 
 
 def mach_from_temperature_ratio(T_T0, gamma=1.4):
@@ -270,44 +288,64 @@ class IsentropicFlow(ResultTable):
     exist.
     """
 
-    M: object = unit_field("")  #: Mach number
-    T_T0: object = unit_field("")  #: static over stagnation temperature
-    p_p0: object = unit_field("")  #: static over stagnation pressure
-    rho_rho0: object = unit_field("")  #: static over stagnation density
-    A_Astar: object = unit_field("")  #: area over sonic-throat area
-    mach_angle: object = unit_field("rad")  #: μ = asin(1/M)
-    prandtl_meyer: object = unit_field("rad")  #: ν(M)
+    M: FloatArray = unit_field("", "Mach number")
+    T_T0: FloatArray = unit_field("", "static over stagnation temperature")
+    p_p0: FloatArray = unit_field("", "static over stagnation pressure")
+    rho_rho0: FloatArray = unit_field("", "static over stagnation density")
+    A_Astar: FloatArray = unit_field("", "area over sonic-throat area")
+    mach_angle: FloatArray = unit_field("rad", "Mach angle μ = asin(1/M)")
+    prandtl_meyer: FloatArray = unit_field("rad", "Prandtl–Meyer angle ν(M)")
 
 
-def _mach_from_input(name, value, gamma, branch, errors):
-    """Check the single given input and turn it into a Mach number."""
-    from .expansion_fans import _check_nu, mach_from_prandtl_meyer_angle
-
-    with np.errstate(invalid="ignore"):
-        if name == "M":
-            return nx.check_nonnegative_mach(value, "M", errors)
-        if name in ("T_T0", "p_p0", "rho_rho0"):
-            value = nx.reject(~(value > 0) | (value > 1), value, name,
-                              "in (0, 1] (a static-to-stagnation ratio)", errors)
-            inverse = {"T_T0": mach_from_temperature_ratio, "p_p0": mach_from_pressure_ratio,
-                       "rho_rho0": mach_from_density_ratio}[name]
-            return inverse(value, gamma)
-        if name == "A_Astar":
-            value = nx.reject((value < 1) | np.isinf(value), value, "A_Astar",
-                              "finite and >= 1 (no section is smaller than the sonic throat)",
-                              errors)
-            return mach_from_area_ratio(value, gamma, supersonic=(branch == "supersonic"))
-        if name == "mach_angle":
-            value = nx.reject(~(value > 0) | (value > np.pi / 2), value, "mach_angle",
-                              "in (0, π/2] rad (0 to 90°)", errors)
-            return 1.0 / np.sin(value)
-        value = _check_nu(value, gamma, "prandtl_meyer", errors)
-        return mach_from_prandtl_meyer_angle(value, gamma)
+_STAGNATION_INVERSES = {"T_T0": mach_from_temperature_ratio, "p_p0": mach_from_pressure_ratio,
+                        "rho_rho0": mach_from_density_ratio}
 
 
-def isentropic_flow(M=None, *, T_T0=None, p_p0=None, rho_rho0=None, A_Astar=None,
-                    mach_angle=None, prandtl_meyer=None, branch="supersonic", gamma=1.4,
-                    errors="raise"):
+def _checked_mach(name, value, gamma, check, supersonic):
+    """(the checked input, the Mach number it gives)."""
+    if name == "M":
+        value = check.mach(value, "M")
+        return value, value
+    if name in _STAGNATION_INVERSES:
+        value = check.within(value, name, 0.0, 1.0, "in (0, 1] (a static-to-stagnation ratio)",
+                             lower_open=True)
+        return value, _STAGNATION_INVERSES[name](value, gamma)
+    if name == "A_Astar":
+        value = check.within(value, "A_Astar", 1.0, math.inf,
+                             "finite and >= 1 (no section is smaller than the sonic throat)",
+                             upper_open=True)
+        return value, mach_from_area_ratio(value, gamma, supersonic=supersonic)
+    if name == "mach_angle":
+        value = check.within(value, "mach_angle", 0.0, 0.5 * math.pi, "in (0, π/2] rad (0 to 90°)",
+                             lower_open=True)
+        return value, mach_from_mach_angle(value)
+    value = check_prandtl_meyer_angle(value, gamma, "prandtl_meyer", check)
+    return value, mach_from_prandtl_meyer_angle(value, gamma)
+
+
+def _isentropic_core(value, gamma, check, *, name, supersonic):
+    """Checked core of :func:`isentropic_flow` (floats or arrays): the fields in order."""
+    gamma = check.gamma(gamma)
+    value, M = _checked_mach(name, value, gamma, check, supersonic)
+    if name != "M":  # an inverse that lands a few ulp below 1 is the sonic point (μ, ν exist)
+        M = clamp_to_limit(M, 1.0, "lower")
+    M = nan_where_nan(gamma, M)
+    return (
+        M,
+        value if name == "T_T0" else temperature_ratio(M, gamma),
+        value if name == "p_p0" else pressure_ratio(M, gamma),
+        value if name == "rho_rho0" else density_ratio(M, gamma),
+        value if name == "A_Astar" else area_ratio(M, gamma),
+        value if name == "mach_angle" else mach_angle_of(M),
+        value if name == "prandtl_meyer" else prandtl_meyer_angle(M, gamma),
+    )
+
+
+def isentropic_flow(M: ArrayInput = None, *, T_T0: ArrayInput = None, p_p0: ArrayInput = None,
+                    rho_rho0: ArrayInput = None, A_Astar: ArrayInput = None,
+                    mach_angle: ArrayInput = None, prandtl_meyer: ArrayInput = None,
+                    branch: str = "supersonic", gamma: ArrayInput = 1.4,
+                    errors: str = "raise") -> IsentropicFlow:
     """Isentropic ratios at a Mach number, or the Mach number from any one of them.
 
     Parameters
@@ -337,7 +375,7 @@ def isentropic_flow(M=None, *, T_T0=None, p_p0=None, rho_rho0=None, A_Astar=None
     ------
     InvalidInputError
         No or several inputs, a value outside the range above, gamma <= 1,
-        a wrong unit, or shapes that do not broadcast.
+        a wrong unit or type, or shapes that do not broadcast.
 
     Notes
     -----
@@ -363,38 +401,14 @@ def isentropic_flow(M=None, *, T_T0=None, p_p0=None, rho_rho0=None, A_Astar=None
     >>> round(isentropic_flow(A_Astar=1.6875, branch="subsonic").M, 4)
     0.3722
     """
-    from .expansion_fans import prandtl_meyer_angle
-
-    nx.check_errors_mode(errors)
-    nx.check_branch(branch, ("supersonic", "subsonic"))
-    inputs = {"M": M, "T_T0": T_T0, "p_p0": p_p0, "rho_rho0": rho_rho0, "A_Astar": A_Astar,
-              "mach_angle": mach_angle, "prandtl_meyer": prandtl_meyer}
-    name, value = nx.exactly_one(inputs, "isentropic_flow")
-    is_angle = name in ("mach_angle", "prandtl_meyer")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    limit = nx.prandtl_meyer_degree_limit(gamma) if name == "prandtl_meyer" else 2.0 * np.pi
-    value, unit = nx.to_si(value, name, "angle" if is_angle else "dimensionless",
-                           degrees_above=limit)
-    value, gamma = nx.broadcast(**{name: value}, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    Mach = _mach_from_input(name, value, gamma, branch, errors)
-    if name != "M":  # an inverse that lands a few ulp below 1 is the sonic point (μ, ν exist)
-        Mach = nx.clamp_to_limit(Mach, 1.0, "lower")
-    nan_gamma = np.isnan(gamma)
-    if nx.any_true(nan_gamma):
-        Mach = np.where(nan_gamma, np.nan, Mach)
-    angle_unit = nx.output_angle_unit(unit if is_angle else None, unit)
-    sonic_or_more = nx.clamp_to_limit(Mach, 1.0, "lower")  # M = 1 - ulp from an inverse has μ, ν
-    s = nx.scalar_or_array
-    return IsentropicFlow(
-        M=s(Mach),
-        T_T0=s(value if name == "T_T0" else temperature_ratio(Mach, gamma)),
-        p_p0=s(value if name == "p_p0" else pressure_ratio(Mach, gamma)),
-        rho_rho0=s(value if name == "rho_rho0" else density_ratio(Mach, gamma)),
-        A_Astar=s(value if name == "A_Astar" else area_ratio(Mach, gamma)),
-        mach_angle=nx.angle_out(
-            s(value if name == "mach_angle" else mach_angle_of(sonic_or_more)), angle_unit),
-        prandtl_meyer=nx.angle_out(
-            s(value if name == "prandtl_meyer" else prandtl_meyer_angle(sonic_or_more, gamma)),
-            angle_unit),
-    )
+    name, value = one_of("isentropic_flow", M=M, T_T0=T_T0, p_p0=p_p0, rho_rho0=rho_rho0,
+                         A_Astar=A_Astar, mach_angle=mach_angle, prandtl_meyer=prandtl_meyer)
+    supersonic = choice("branch", branch, {"supersonic": True, "subsonic": False})
+    call = Call(errors)
+    if name in ("mach_angle", "prandtl_meyer"):
+        limit = prandtl_meyer_degree_limit(gamma) if name == "prandtl_meyer" else TWO_PI
+        call.take(name, value, "rad", degrees_above=limit)
+    else:
+        call.take(name, value)
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run(IsentropicFlow, _isentropic_core, name=name, supersonic=supersonic)

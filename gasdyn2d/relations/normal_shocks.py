@@ -10,12 +10,16 @@ the inverses :func:`mach_from_downstream_mach`, :func:`mach_from_density_jump`,
 from __future__ import annotations
 
 import dataclasses
+import math
 from typing import NamedTuple
 
 import numpy as np
 
-from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from .. import numerics as nx
+from ..boundary import Call, ResultTable, clamp_to_limit, one_of, unit_field
+from ..boundary.checks import ROUNDING_SLACK
+from ..boundary.types import ArrayInput, FloatArray
+from ..numerics import nan_where_nan
 
 __all__ = [
     "normal_shock",
@@ -28,6 +32,8 @@ __all__ = [
     "mach_from_stagnation_pressure_ratio",
     "mach_from_pitot_ratio",
     "pitot_ratio",
+    "mach_from_pressure_jump",
+    "lowest_downstream_mach",
 ]
 
 
@@ -270,6 +276,15 @@ def mach_from_pitot_ratio(p02_p1, gamma=1.4):
     return np.where(r == np.inf, np.inf, np.exp(log_M))
 
 
+def mach_from_pressure_jump(p2_p1, gamma=1.4):
+    """M1 from p2/p1 >= 1: M1² - 1 = (p2/p1 - 1)(γ+1)/(2γ) (NACA Report 1135, eq. 93 inverted)."""
+    if type(p2_p1) is float and type(gamma) is float:
+        w = (p2_p1 - 1.0) * (gamma + 1.0) / (2.0 * gamma)
+        return math.sqrt(1.0 + w) if w >= -1.0 else math.nan
+    with np.errstate(invalid="ignore"):
+        return np.sqrt(1.0 + (np.asarray(p2_p1, dtype=float) - 1.0) * (gamma + 1.0) / (2.0 * gamma))
+
+
 # ------------------------------------------------------------------ unit boundary
 
 
@@ -277,57 +292,79 @@ def mach_from_pitot_ratio(p02_p1, gamma=1.4):
 class NormalShock(ResultTable):
     """Flow on both sides of a normal shock (all fields dimensionless)."""
 
-    M1: object = unit_field("")  #: upstream Mach number
-    M2: object = unit_field("")  #: downstream Mach number
-    p2_p1: object = unit_field("")  #: static pressure ratio
-    rho2_rho1: object = unit_field("")  #: density ratio
-    T2_T1: object = unit_field("")  #: static temperature ratio
-    p02_p01: object = unit_field("")  #: stagnation pressure ratio (recovery), <= 1
-    p02_p1: object = unit_field("")  #: pitot ratio: stagnation pressure behind over static ahead
+    M1: FloatArray = unit_field("", "upstream Mach number")
+    M2: FloatArray = unit_field("", "downstream Mach number")
+    p2_p1: FloatArray = unit_field("", "static pressure ratio")
+    rho2_rho1: FloatArray = unit_field("", "density ratio")
+    T2_T1: FloatArray = unit_field("", "static temperature ratio")
+    p02_p01: FloatArray = unit_field("", "stagnation pressure ratio (recovery), <= 1")
+    p02_p1: FloatArray = unit_field(
+        "", "pitot ratio: stagnation pressure behind over static pressure ahead")
 
 
-def _upstream_mach(name, value, gamma, errors):
-    gp, gm = gamma + 1.0, gamma - 1.0
-    with np.errstate(invalid="ignore", divide="ignore"):
-        if name == "M1":
-            return nx.check_mach_supersonic(value, "M1", errors)
-        if name == "M2":
-            low = np.sqrt(gm / (2.0 * gamma))
-            value = nx.reject(~(value > low) | (value > 1.0), value, "M2",
-                              "in (√((γ-1)/(2γ)), 1], the range behind a normal shock", errors,
-                              limit=low)
-            return mach_from_downstream_mach(value, gamma)
-        if name == "p2_p1":
-            value = nx.reject((value < 1.0) | np.isinf(value), value, "p2_p1",
-                              "finite and >= 1 (a shock compresses)", errors)
-            return np.sqrt(1.0 + (value - 1.0) * gp / (2.0 * gamma))
-        if name == "rho2_rho1":
-            high = gp / gm
-            value = nx.reject((value < 1.0) | (value >= high), value, "rho2_rho1",
-                              "in [1, (γ+1)/(γ-1)) (the strong-shock density limit)", errors,
-                              limit=high)
-            return mach_from_density_jump(value, gamma)
-        if name == "T2_T1":
-            value = nx.reject((value < 1.0) | np.isinf(value), value, "T2_T1",
-                              "finite and >= 1 (a shock heats the gas)", errors)
-            return mach_from_temperature_jump(value, gamma)
-        if name == "p02_p01":
-            value = nx.reject(~(value > 0.0) | (value > 1.0), value, "p02_p01",
-                              "in (0, 1] (entropy rises across a shock)", errors)
-            return mach_from_stagnation_pressure_ratio(value, gamma)
-        low = pitot_ratio(1.0, gamma)
-        # the pitot ratio near M1 = 1 carries ~γ/(γ-1) ulp from its exponent: that close
-        # below the limit is the limit
-        value = nx.clamp_to_limit(value, low, "lower",
-                                  slack=nx.ROUNDING_SLACK * (1.0 + gamma / (gamma - 1.0)))
-        value = nx.reject((value < low) | np.isinf(value), value, "p02_p1",
-                          "finite and >= ((γ+1)/2)^(γ/(γ-1)), its value at M1 = 1", errors,
-                          limit=low)
-        return mach_from_pitot_ratio(value, gamma)
+def _checked_upstream_mach(name, value, gamma, check):
+    """(the checked input, the upstream Mach number it gives)."""
+    if name == "M1":
+        value = check.supersonic_mach(value, "M1")
+        return value, value
+    if name == "M2":
+        low = lowest_downstream_mach(gamma)
+        value = check.within(value, "M2", low, 1.0,
+                             "in (√((γ-1)/(2γ)), 1], the range behind a normal shock",
+                             lower_open=True, limit=low)
+        return value, mach_from_downstream_mach(value, gamma)
+    if name == "p2_p1":
+        value = check.within(value, "p2_p1", 1.0, math.inf, "finite and >= 1 (a shock compresses)",
+                             upper_open=True)
+        return value, mach_from_pressure_jump(value, gamma)
+    if name == "rho2_rho1":
+        high = (gamma + 1.0) / (gamma - 1.0)
+        value = check.within(value, "rho2_rho1", 1.0, high,
+                             "in [1, (γ+1)/(γ-1)) (the strong-shock density limit, reached "
+                             "only as M1 → ∞)", upper_open=True, limit=high)
+        return value, mach_from_density_jump(value, gamma)
+    if name == "T2_T1":
+        value = check.within(value, "T2_T1", 1.0, math.inf,
+                             "finite and >= 1 (a shock heats the gas)", upper_open=True)
+        return value, mach_from_temperature_jump(value, gamma)
+    if name == "p02_p01":
+        value = check.within(value, "p02_p01", 0.0, 1.0, "in (0, 1] (entropy rises across a shock)",
+                             lower_open=True)
+        return value, mach_from_stagnation_pressure_ratio(value, gamma)
+    low = pitot_ratio(1.0, gamma)
+    # the pitot ratio near M1 = 1 carries ~γ/(γ-1) ulp from its exponent: that close below
+    # the limit is the limit
+    clamped = clamp_to_limit(value, low, "lower",
+                             slack=ROUNDING_SLACK * (1.0 + gamma / (gamma - 1.0)))
+    clamped = check.within(clamped, "p02_p1", low, math.inf,
+                           "finite and >= ((γ+1)/2)^(γ/(γ-1)), its value at M1 = 1",
+                           upper_open=True, limit=low)
+    return nan_where_nan(clamped, value), mach_from_pitot_ratio(clamped, gamma)
 
 
-def normal_shock(M1=None, *, M2=None, p2_p1=None, rho2_rho1=None, T2_T1=None, p02_p01=None,
-                 p02_p1=None, gamma=1.4, errors="raise"):
+def lowest_downstream_mach(gamma=1.4):
+    """√((γ-1)/(2γ)): the Mach number behind a normal shock as M1 → ∞."""
+    if type(gamma) is float:
+        return math.sqrt((gamma - 1.0) / (2.0 * gamma))
+    return np.sqrt((gamma - 1.0) / (2.0 * gamma))
+
+
+def _normal_shock_core(value, gamma, check, *, name):
+    """Checked core of :func:`normal_shock` (floats or arrays): the fields in order."""
+    gamma = check.gamma(gamma)
+    value, M1 = _checked_upstream_mach(name, value, gamma, check)
+    M1 = nan_where_nan(gamma, M1)
+    ratios = normal_shock_ratios((M1 - 1.0) * (M1 + 1.0), gamma)._asdict()
+    if name in ratios:
+        ratios[name] = value  # the caller's exact value, not a round trip
+    return (M1, ratios["M2"], ratios["p2_p1"], ratios["rho2_rho1"], ratios["T2_T1"],
+            ratios["p02_p01"], value if name == "p02_p1" else pitot_ratio(M1, gamma))
+
+
+def normal_shock(M1: ArrayInput = None, *, M2: ArrayInput = None, p2_p1: ArrayInput = None,
+                 rho2_rho1: ArrayInput = None, T2_T1: ArrayInput = None,
+                 p02_p01: ArrayInput = None, p02_p1: ArrayInput = None, gamma: ArrayInput = 1.4,
+                 errors: str = "raise") -> NormalShock:
     """Normal shock from its upstream Mach number or from any one downstream ratio.
 
     Parameters
@@ -377,26 +414,9 @@ def normal_shock(M1=None, *, M2=None, p2_p1=None, rho2_rho1=None, T2_T1=None, p0
     >>> round(normal_shock(p2_p1=4.5).M1, 12)
     2.0
     """
-    nx.check_errors_mode(errors)
-    inputs = {"M1": M1, "M2": M2, "p2_p1": p2_p1, "rho2_rho1": rho2_rho1, "T2_T1": T2_T1,
-              "p02_p01": p02_p01, "p02_p1": p02_p1}
-    name, value = nx.exactly_one(inputs, "normal_shock")
-    value, _ = nx.to_si(value, name, "dimensionless")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    value, gamma = nx.broadcast(**{name: value}, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    mach = _upstream_mach(name, value, gamma, errors)
-    nan_input = np.isnan(gamma) | np.isnan(value)
-    if nx.any_true(nan_input):
-        mach = np.where(nan_input, np.nan, mach)
-    ratios = normal_shock_ratios((mach - 1.0) * (mach + 1.0), gamma)
-    fields = ratios._asdict()
-    if name in fields:
-        fields[name] = value  # return the caller's exact value, not a round trip
-    s = nx.scalar_or_array
-    return NormalShock(
-        M1=s(mach), M2=s(fields["M2"]), p2_p1=s(fields["p2_p1"]),
-        rho2_rho1=s(fields["rho2_rho1"]), T2_T1=s(fields["T2_T1"]),
-        p02_p01=s(fields["p02_p01"]),
-        p02_p1=s(value if name == "p02_p1" else pitot_ratio(mach, gamma)),
-    )
+    name, value = one_of("normal_shock", M1=M1, M2=M2, p2_p1=p2_p1, rho2_rho1=rho2_rho1,
+                         T2_T1=T2_T1, p02_p01=p02_p01, p02_p1=p02_p1)
+    call = Call(errors)
+    call.take(name, value)
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run(NormalShock, _normal_shock_core, name=name)

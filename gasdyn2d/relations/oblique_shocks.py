@@ -22,12 +22,16 @@ w + v = M1² - 1.
 from __future__ import annotations
 
 import dataclasses
+import math
 from typing import NamedTuple
 
 import numpy as np
 
-from .. import _numerics as nx
-from .._display import ResultTable, unit_field
+from .. import numerics as nx
+from ..boundary import Call, ResultTable, choice, clamp_to_limit, one_of, unit_field
+from ..boundary.results import FieldInfo
+from ..boundary.types import ArrayInput, FloatArray
+from .isentropic import mach_angle_of
 from ..errors import DetachedShockError
 from .normal_shocks import normal_shock_ratios
 
@@ -481,63 +485,95 @@ class ObliqueShock(ResultTable):
     between the shock and the upstream flow.
     """
 
-    M1: object = unit_field("")  #: upstream Mach number
-    deflection: object = unit_field("rad")  #: flow turn θ
-    wave_angle: object = unit_field("rad")  #: shock angle β from the upstream flow
-    Mn1: object = unit_field("")  #: upstream normal Mach number M1 sin β
-    Mn2: object = unit_field("")  #: downstream normal Mach number M2 sin(β - θ)
-    M2: object = unit_field("")  #: downstream Mach number
-    p2_p1: object = unit_field("")  #: static pressure ratio
-    rho2_rho1: object = unit_field("")  #: density ratio
-    T2_T1: object = unit_field("")  #: static temperature ratio
-    p02_p01: object = unit_field("")  #: stagnation pressure ratio, <= 1
+    M1: FloatArray = unit_field("", "upstream Mach number")
+    deflection: FloatArray = unit_field("rad", "flow turn θ")
+    wave_angle: FloatArray = unit_field("rad", "shock angle β from the upstream flow")
+    Mn1: FloatArray = unit_field("", "upstream normal Mach number M1 sin β")
+    Mn2: FloatArray = unit_field("", "downstream normal Mach number M2 sin(β - θ)")
+    M2: FloatArray = unit_field("", "downstream Mach number")
+    p2_p1: FloatArray = unit_field("", "static pressure ratio")
+    rho2_rho1: FloatArray = unit_field("", "density ratio")
+    T2_T1: FloatArray = unit_field("", "static temperature ratio")
+    p02_p01: FloatArray = unit_field("", "stagnation pressure ratio, <= 1")
 
 
-def _check_deflection(theta, M1, gamma, errors):
+def _check_deflection(theta, M1, gamma, check):
+    theta = check.at_least(theta, "deflection", 0.0, allow_inf=True, unit_text="rad",
+                           what="a shock turns the flow into itself; for a turn away from the "
+                                "wall use expansion_fan")
     theta_max, _ = detachment_angles(M1, gamma)
-    with np.errstate(invalid="ignore"):
-        theta = nx.reject(theta < 0, theta, "deflection",
-                          ">= 0 (a shock turns the flow into itself; for a turn away from the "
-                          "wall use expansion_fan)", errors)
-        return nx.reject(
-            theta > theta_max, theta, "deflection",
-            "at most the detachment deflection θmax(M1, γ)", errors, limit=theta_max,
-            unit_text="rad", error_class=DetachedShockError,
-            hint="Beyond θmax no attached shock exists: the shock stands off as a curved "
-                 "bow wave. Lower the deflection or raise M1.",
-        )
+    return check.within(
+        theta, "deflection", -math.inf, theta_max,
+        "at most the detachment deflection θmax(M1, γ)", limit=theta_max, unit_text="rad",
+        error_class=DetachedShockError,
+        hint="Beyond θmax no attached shock exists: the shock stands off as a curved bow wave. "
+             "Lower the deflection or raise M1.")
 
 
-def _wave_angle_from_input(name, value, M1, gamma, branch, errors):
-    mu = np.arctan2(1.0, np.sqrt((M1 - 1.0) * (M1 + 1.0)))
-    with np.errstate(invalid="ignore"):
-        if name == "wave_angle":
-            value = nx.clamp_to_limit(value, mu, "lower")  # asin(1/M1) may round below μ
-            value = nx.reject(value < mu, value, "wave_angle",
-                              "at least the Mach angle μ = asin(1/M1)", errors, limit=mu,
-                              unit_text="rad")
-            value = nx.reject(value > np.pi / 2, value, "wave_angle", "at most π/2 (90°)", errors)
-            return value, value
-        a = (M1 - 1.0) * (M1 + 1.0)
-        if name == "Mn1":
-            value = nx.clamp_to_limit(value, 1.0, "lower")
-            value = nx.clamp_to_limit(value, M1, "upper")
-            value = nx.reject((value < 1.0) | (value > M1), value, "Mn1",
-                              "between 1 and M1 (the normal Mach number of a shock)", errors,
-                              limit=M1)
-            w = (value - 1.0) * (value + 1.0)
-            return value, wave_angle_from_wv(w, np.maximum(a - w, 0.0))
-        p_max = 1.0 + 2.0 * gamma / (gamma + 1.0) * (M1 - 1.0) * (M1 + 1.0)
-        value = nx.clamp_to_limit(value, p_max, "upper")
-        value = nx.reject((value < 1.0) | (value > p_max), value, "p2_p1",
-                          "between 1 and the normal-shock pressure ratio at M1", errors,
-                          limit=p_max)
+def _from_deflection(M1, theta, gamma, check, strong):
+    """Checked core from θ: solve first, check only if something failed (the limits cost as
+    much as the solve); a failure no check explains is a bug, never a silent NaN."""
+    beta, *fields = _shock_from_deflection_checked_block(M1, theta, gamma, strong)
+    failed = beta != beta if type(beta) is float else np.isnan(beta)
+    if failed if type(beta) is float else failed.any():
+        theta = _check_deflection(theta, M1, gamma, check)  # raises, or NaNs the same cases
+    return (theta, beta, *fields)
+
+
+def _shock_from_deflection_checked_block(M1, theta, gamma, strong):
+    if type(M1) is float and type(theta) is float:  # TODO(scalar path): math form
+        return tuple(float(x) for x in _shock_from_deflection(
+            np.array(M1), np.array(theta), gamma, strong))
+    M1, theta = np.broadcast_arrays(M1, theta)
+    return nx.chunked(lambda m, t, g: _shock_from_deflection(m, t, g, strong), M1, theta, gamma)
+
+
+def _checked_wave_angle(name, value, M1, gamma, check):
+    """(the checked input, the wave angle it gives) for wave_angle, Mn1 or p2_p1."""
+    a = (M1 - 1.0) * (M1 + 1.0)
+    if name == "wave_angle":
+        mu = mach_angle_of(M1)
+        value = clamp_to_limit(value, mu, "lower")  # asin(1/M1) may round below μ
+        value = check.within(value, "wave_angle", mu, 0.5 * math.pi,
+                             "between the Mach angle μ = asin(1/M1) and π/2 (90°)", limit=mu,
+                             unit_text="rad")
+        return value, value
+    if name == "Mn1":
+        value = clamp_to_limit(clamp_to_limit(value, 1.0, "lower"), M1, "upper")
+        value = check.within(value, "Mn1", 1.0, M1,
+                             "between 1 and M1 (the normal Mach number of a shock)", limit=M1)
+        w = (value - 1.0) * (value + 1.0)
+    else:
+        p_max = 1.0 + 2.0 * gamma / (gamma + 1.0) * a
+        value = clamp_to_limit(value, p_max, "upper")
+        value = check.within(value, "p2_p1", 1.0, p_max,
+                             "between 1 and the normal-shock pressure ratio at M1", limit=p_max)
         w = (value - 1.0) * (gamma + 1.0) / (2.0 * gamma)  # Mn1² - 1, from eq. 93
-        return value, wave_angle_from_wv(w, np.maximum(a - w, 0.0))
+    return value, wave_angle_from_wv(w, nx.clip_below(a - w, 0.0))
 
 
-def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None, branch="weak",
-                  gamma=1.4, errors="raise"):
+def _oblique_core(M1, value, gamma, check, *, name, strong):
+    """Checked core of :func:`oblique_shock` (floats or arrays): the fields in order."""
+    gamma = check.gamma(gamma)
+    M1 = check.supersonic_mach(M1, "M1")
+    if name == "deflection":
+        theta, beta, Mn1, Mn2, M2, p2_p1, rho2_rho1, T2_T1, p02_p01 = _from_deflection(
+            M1, value, gamma, check, strong)
+        return (M1, theta, beta, Mn1, Mn2, M2, p2_p1, rho2_rho1, T2_T1, p02_p01)
+    value, beta = _checked_wave_angle(name, value, M1, gamma, check)
+    if type(M1) is float and type(beta) is float:  # TODO(scalar path): math form
+        ratios = ObliqueShockRatios(*(float(x) for x in oblique_shock_ratios(M1, beta, gamma)))
+    else:
+        M1, beta = np.broadcast_arrays(M1, beta)
+        ratios = nx.chunked(oblique_shock_ratios, M1, beta, gamma)
+    return (M1, ratios.deflection, beta, value if name == "Mn1" else ratios.Mn1, ratios.Mn2,
+            ratios.M2, value if name == "p2_p1" else ratios.p2_p1, ratios.rho2_rho1,
+            ratios.T2_T1, ratios.p02_p01)
+
+
+def oblique_shock(M1: ArrayInput, *, deflection: ArrayInput = None, wave_angle: ArrayInput = None,
+                  Mn1: ArrayInput = None, p2_p1: ArrayInput = None, branch: str = "weak",
+                  gamma: ArrayInput = 1.4, errors: str = "raise") -> ObliqueShock:
     """Oblique shock from the upstream Mach number and one of θ, β, Mn1 or p2/p1.
 
     Parameters
@@ -594,59 +630,35 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
     >>> round(oblique_shock(2.0, deflection=10 * ureg.deg, branch="strong").wave_angle.m, 4)
     83.7001
     """
-    nx.check_errors_mode(errors)
-    nx.check_branch(branch, ("weak", "strong"))
-    inputs = {"deflection": deflection, "wave_angle": wave_angle, "Mn1": Mn1, "p2_p1": p2_p1}
-    name, value = nx.exactly_one(inputs, "oblique_shock")
-    is_angle = name in ("deflection", "wave_angle")
-    M1, unit_m = nx.to_si(M1, "M1", "dimensionless")
-    value, unit_in = nx.to_si(value, name, "angle" if is_angle else "dimensionless")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    if gamma.ndim == 0:  # the usual case: keep γ a scalar, so its terms cost nothing per case
-        gamma = nx.check_gamma(gamma, errors)
-        M1, value = nx.broadcast(M1=M1, **{name: value})
-    else:
-        M1, value, gamma = nx.broadcast(M1=M1, **{name: value}, gamma=gamma)
-        gamma = nx.check_gamma(gamma, errors)
-    M1 = nx.check_mach_supersonic(M1, "M1", errors)
-    if name == "deflection":
-        # solve first, check only if something failed: the limits cost as much as the solve
-        strong = branch == "strong"
-        beta, *fields = nx.chunked(lambda m, t, g: _shock_from_deflection(m, t, g, strong),
-                                   M1, value, gamma)
-        ratios = ObliqueShockRatios(value, *fields)
-        failed = np.isnan(beta)
-        if np.any(failed) and np.any(failed & ~np.isnan(value) & ~np.isnan(M1) & ~np.isnan(gamma)):
-            value = _check_deflection(value, M1, gamma, errors)  # raises, or NaNs the same cases
-    else:
-        value, beta = _wave_angle_from_input(name, value, M1, gamma, branch, errors)
-        ratios = nx.chunked(oblique_shock_ratios, M1, beta, gamma)
-    theta = value if name == "deflection" else ratios.deflection
-    angle_unit = nx.output_angle_unit(unit_in if is_angle else None, unit_m, unit_in)
-    s = nx.scalar_or_array
-    return ObliqueShock(
-        M1=s(M1), deflection=nx.angle_out(s(theta), angle_unit),
-        wave_angle=nx.angle_out(s(beta), angle_unit),
-        Mn1=s(value if name == "Mn1" else ratios.Mn1), Mn2=s(ratios.Mn2), M2=s(ratios.M2),
-        p2_p1=s(value if name == "p2_p1" else ratios.p2_p1), rho2_rho1=s(ratios.rho2_rho1),
-        T2_T1=s(ratios.T2_T1), p02_p01=s(ratios.p02_p01),
-    )
+    name, value = one_of("oblique_shock", deflection=deflection, wave_angle=wave_angle, Mn1=Mn1,
+                         p2_p1=p2_p1)
+    strong = choice("branch", branch, {"weak": False, "strong": True})
+    call = Call(errors)
+    call.take("M1", M1)
+    call.take(name, value, "rad" if name in ("deflection", "wave_angle") else "")
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run(ObliqueShock, _oblique_core, name=name, strong=strong)
+
+
+_ANGLE_PAIR = (FieldInfo("deflection", "rad", np.dtype(float), "flow deflection θ", "rad"),
+               FieldInfo("wave_angle", "rad", np.dtype(float), "wave angle β", "rad"))
 
 
 def _angle_pair(M1, gamma, errors, plain):
-    nx.check_errors_mode(errors)
-    M1, unit = nx.to_si(M1, "M1", "dimensionless")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    M1, gamma = nx.broadcast(M1=M1, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    M1 = nx.check_mach_supersonic(M1, "M1", errors)
-    theta, beta = plain(M1, gamma)
-    unit = nx.output_angle_unit(None, unit)
-    return (nx.angle_out(nx.scalar_or_array(theta), unit),
-            nx.angle_out(nx.scalar_or_array(beta), unit))
+    call = Call(errors)
+    call.take("M1", M1)
+    call.take("gamma", gamma, keep_scalar=True)
+
+    def core(M1, gamma, check):
+        gamma = check.gamma(gamma)
+        return plain(check.supersonic_mach(M1, "M1"), gamma)
+
+    theta, beta = call.evaluate(_ANGLE_PAIR, core)
+    return theta, beta
 
 
-def max_deflection(M1, *, gamma=1.4, errors="raise"):
+def max_deflection(M1: ArrayInput, *, gamma: ArrayInput = 1.4,
+                   errors: str = "raise") -> tuple[FloatArray, FloatArray]:
     """Detachment point: the largest deflection an attached shock can give, and its wave angle.
 
     Parameters
@@ -682,7 +694,8 @@ def max_deflection(M1, *, gamma=1.4, errors="raise"):
     return _angle_pair(M1, gamma, errors, detachment_angles)
 
 
-def sonic_deflection(M1, *, gamma=1.4, errors="raise"):
+def sonic_deflection(M1: ArrayInput, *, gamma: ArrayInput = 1.4,
+                     errors: str = "raise") -> tuple[FloatArray, FloatArray]:
     """Deflection and wave angle at which the flow behind the shock is exactly sonic.
 
     Parameters

@@ -1,22 +1,67 @@
-"""Readable text and HTML tables for result objects, and conversion to pandas.
+"""Result objects: immutable, readable as tables, convertible to pandas and xarray.
 
 Every result type of gasdyn2d is a frozen dataclass that inherits
-:class:`ResultTable`; each field carries its unit in the dataclass metadata
-(``field(metadata={"unit": "rad"})``), which is what the tables and the
-DataFrame column names show.
+:class:`ResultTable`; each field carries its unit, its dtype and a one-line
+description in the dataclass metadata (:func:`unit_field`), which is what the
+boundary uses to attach units, what the tables and the DataFrame column names
+show and what :meth:`ResultTable.to_xarray` writes into the attributes.
+
+Results are immutable in fact: fields cannot be reassigned, array fields are
+read-only ndarrays, and no two fields (of one result or of two results) share
+memory, so that changing a copy of one can never change another.
 """
 
 from __future__ import annotations
 
 import dataclasses
 import html
+from typing import NamedTuple
 
 import numpy as np
 
+__all__ = ["FieldInfo", "ResultTable", "pint_unit", "result_fields", "unit_field"]
 
-def unit_field(unit: str = "", **kwargs):
-    """A dataclass field whose metadata records its unit ("" for ratios and Mach numbers)."""
-    return dataclasses.field(metadata={"unit": unit}, **kwargs)
+#: pint spellings of the field unit texts, for DataArray "units" attributes.
+_PINT_UNITS = {"rad": "rad", "Pa": "Pa", "K": "K", "m": "m", "m/s": "m/s",
+               "kg/m³": "kg/m**3", "J/(kg·K)": "J/(kg*K)", "kg/s": "kg/s",
+               "kg/(s·m)": "kg/(s*m)", "N": "N", "N/m": "N/m", "s": "s", "m²": "m**2"}
+
+
+def unit_field(unit: str = "", doc: str = "", *, dtype=float, **kwargs):
+    """A dataclass field with its unit ("" for ratios and Mach numbers), description and dtype."""
+    return dataclasses.field(metadata={"unit": unit, "doc": doc, "dtype": np.dtype(dtype)},
+                             **kwargs)
+
+
+class FieldInfo(NamedTuple):
+    """What the boundary needs to know of one result field."""
+
+    name: str
+    unit: str  #: SI unit text ("" for plain numbers)
+    dtype: np.dtype
+    description: str
+    pint_unit: str  #: the unit as pint spells it
+
+
+def pint_unit(unit_text: str) -> str:
+    """The pint spelling of a field's unit text ("" when it has none)."""
+    return _PINT_UNITS.get(unit_text, "")
+
+
+_FIELDS: dict = {}
+
+
+def result_fields(result_type) -> tuple:
+    """The :class:`FieldInfo` of every field of a result type, in order (cached)."""
+    found = _FIELDS.get(result_type)
+    if found is None:
+        found = tuple(
+            FieldInfo(f.name, f.metadata.get("unit", ""),
+                      f.metadata.get("dtype", np.dtype(float)), f.metadata.get("doc", ""),
+                      _PINT_UNITS.get(f.metadata.get("unit", ""), ""))
+            for f in dataclasses.fields(result_type))
+        _FIELDS[result_type] = found
+    return found
 
 
 def _magnitude(value):
@@ -57,7 +102,16 @@ def _format(value) -> str:
 
 
 class ResultTable:
-    """Mixin giving a dataclass a text table ``repr``, an HTML table and ``to_dict``."""
+    """Mixin giving a dataclass a text table ``repr``, an HTML table, ``to_dict``,
+    ``to_dataframe`` and ``to_xarray``."""
+
+    @classmethod
+    def from_fields(cls, values):
+        """The result with the given field values, in field order (no checks: the boundary's
+        constructor, which has prepared every value)."""
+        result = object.__new__(cls)
+        result.__dict__.update(zip([f.name for f in result_fields(cls)], values))
+        return result
 
     def _rows(self):
         for name, field, value in self._columns():
@@ -126,6 +180,27 @@ class ResultTable:
                 columns[name] = array.reshape(-1)
         return pd.DataFrame(columns)
 
+    def to_xarray(self):
+        """An ``xarray.Dataset``, one variable per field of the case shape.
+
+        Needs xarray (``pip install "gasdyn2d[sweeps]"``). The dimensions are those of
+        the inputs when they were DataArrays (their coordinates kept) or a pandas
+        index; otherwise ``case`` for one dimension and ``case_0``, ``case_1``, ...
+        for more. Units are in each variable's ``units`` attribute (or in the data,
+        for Quantities, as pint-xarray keeps them); descriptions in ``long_name``.
+        """
+        try:
+            import xarray as xr
+        except ImportError as exc:  # pragma: no cover - depends on the environment
+            raise ImportError("to_xarray needs xarray: pip install xarray") from exc
+        variables = {}
+        for info in result_fields(type(self)):
+            value = getattr(self, info.name)
+            variables[info.name] = _as_variable(value, info, xr)
+        shapes = {v.shape for v in variables.values() if v.ndim}
+        keep = {k: v for k, v in variables.items() if not shapes or v.shape in shapes or v.ndim == 0}
+        return xr.Dataset(keep)
+
     def _columns(self):
         """(column name, field, value) per field; shown nested results flattened one level."""
         for field in dataclasses.fields(self):
@@ -135,3 +210,21 @@ class ResultTable:
                     yield f"{field.name}.{inner.name}", inner, getattr(value, inner.name)
             else:
                 yield field.name, field, value
+
+
+def _as_variable(value, info, xr):
+    """One field as a DataArray (labels kept when it has them)."""
+    if isinstance(value, xr.DataArray):
+        return value
+    if type(value).__module__.startswith("pandas"):
+        array = xr.DataArray.from_series(value)
+    else:
+        magnitude = getattr(value, "magnitude", None)
+        data = value if magnitude is None or type(value).__module__.startswith("pint") else value
+        ndim = np.ndim(getattr(data, "magnitude", data))
+        dims = ("case",) if ndim == 1 else tuple(f"case_{i}" for i in range(ndim))
+        array = xr.DataArray(data, dims=dims)
+    attrs = {"long_name": info.description} if info.description else {}
+    if info.unit and not hasattr(array.data, "units"):
+        attrs["units"] = info.pint_unit
+    return array.assign_attrs(attrs).rename(info.name)
