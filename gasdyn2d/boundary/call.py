@@ -73,6 +73,19 @@ def refuse_type(name: str, value, what: str = "a real number or an array of real
     return InvalidInputError(f"{name} must be {what}; got {got}.")
 
 
+def _flatten(value):
+    """The leaves of a nested list/tuple and its shape (None when ragged)."""
+    if not isinstance(value, (list, tuple)):
+        return [value], ()
+    parts = [_flatten(item) for item in value]
+    shapes = {shape for _, shape in parts}
+    leaves = [leaf for part, _ in parts for leaf in part]
+    if len(shapes) > 1 or None in shapes:
+        return leaves, None
+    inner = shapes.pop() if shapes else ()
+    return leaves, (len(value), *inner)
+
+
 def _library(value) -> str:
     return type(value).__module__.partition(".")[0]
 
@@ -189,28 +202,24 @@ class Call:
 
     def _take_sequence(self, name, value, unit_text):
         """A (nested) list: of numbers (numpy does it), or of Quantities (converted here)."""
-        try:
-            items = np.asarray(value, dtype=object)
-        except ValueError:
-            raise InvalidInputError(
-                f"{name} must be a rectangular list of numbers; got a ragged list.") from None
-        flat = items.reshape(-1)
-        quantities = [is_quantity(v) for v in flat]
+        leaves, shape = _flatten(value)
+        quantities = [is_quantity(v) for v in leaves]
         if not any(quantities):
             return value, None
-        if not all(quantities):
+        if not all(quantities) or shape is None:
             raise InvalidInputError(
-                f"{name} mixes Quantities and plain numbers; give every element with a unit "
-                "(or convert the list to one Quantity array).")
-        units = [unit_of_quantity(v, unit_text, name) for v in flat]
+                f"{name} mixes Quantities and plain numbers, or is a ragged list; give every "
+                "element with a unit in a rectangular list (or one Quantity array).")
+        units = [unit_of_quantity(v, unit_text, name) for v in leaves]
         if self.registry is None:
             self.registry = units[0].registry
-        magnitudes = [v.magnitude for v in flat]
-        for magnitude in magnitudes:
+        si = np.empty(len(leaves))
+        for i, (leaf, unit) in enumerate(zip(leaves, units)):
+            magnitude = leaf.magnitude
             if not isinstance(magnitude, numbers.Real) or isinstance(magnitude, (bool, np.bool_)):
-                raise refuse_type(name, magnitude)
-        si = np.array([m * u.scale + u.offset for m, u in zip(magnitudes, units)], dtype=float)
-        return si.reshape(items.shape), units[0]
+                raise refuse_type(name, magnitude, "a list of scalar Quantities")
+            si[i] = magnitude * unit.scale + unit.offset
+        return si.reshape(shape), units[0]
 
     def _take_masked(self, name, value):
         data = _float_array(name, np.ma.getdata(value))
