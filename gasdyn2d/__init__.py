@@ -50,10 +50,16 @@ from .design.section_loads import SectionLoads, linear_loads, second_order_loads
 from .design.intakes import RampIntake, ramp_intake
 from .design.intake_design import ContractionLimits, OptimalRamps, contraction_limits, optimal_ramps
 
-#: pint's application registry, for writing ``10 * ureg.deg``.
-from ._numerics import ureg as _ureg
 
-ureg = _ureg()
+def __getattr__(name):
+    """``gasdyn2d.ureg``: pint's application registry, for writing ``10 * ureg.deg``
+    (looked up when first asked for, so that ``import gasdyn2d`` does not import pint)."""
+    if name == "ureg":
+        from .boundary.units import application_registry
+
+        return application_registry()
+    raise AttributeError(f"module 'gasdyn2d' has no attribute {name!r}")
+
 
 __all__ = [
     "AIR", "Gas", "FlowState", "ureg",

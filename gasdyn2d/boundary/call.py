@@ -41,6 +41,7 @@ from __future__ import annotations
 
 import numbers
 import os
+from typing import Any
 import sys
 import warnings
 
@@ -363,9 +364,11 @@ class Call:
 
         positions = [i for i, v in enumerate(values) if _library(v) == "dask"]
         block_check = Check(self.check.nan, in_block=True)
+        # the block function travels to the workers: it carries the scalar arguments only
+        scalars = [None if i in positions else v for i, v in enumerate(values)]
 
         def block(*blocks):
-            args = list(values)
+            args = list(scalars)
             for i, b in zip(positions, blocks):
                 args[i] = np.asarray(b, dtype=float)
             shape = blocks[0].shape
@@ -594,7 +597,7 @@ def _inside_package(filename: str) -> bool:
 
 def caller_stacklevel() -> int:
     """The ``stacklevel`` that points a warning at the first frame outside gasdyn2d."""
-    frame = sys._getframe(1)
+    frame: Any = sys._getframe(1)
     level = 1
     while frame is not None and _inside_package(frame.f_code.co_filename):
         frame = frame.f_back

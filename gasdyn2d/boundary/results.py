@@ -143,7 +143,7 @@ class ResultTable:
 
     def to_dict(self) -> dict:
         """The fields as a plain ``{name: value}`` dictionary."""
-        return {f.name: getattr(self, f.name) for f in dataclasses.fields(self)}
+        return {f.name: getattr(self, f.name) for f in result_fields(type(self))}
 
     def to_dataframe(self):
         """One row per case, one column per array field, named with its unit.

@@ -11,9 +11,8 @@ modified and no pint warning is silenced.
 from __future__ import annotations
 
 import math
-from typing import NamedTuple
-
-import pint
+import sys
+from typing import Any, NamedTuple
 
 from ..errors import InvalidInputError
 
@@ -55,12 +54,19 @@ KINDS = {
 
 def application_registry():
     """pint's application registry (looked up on every call, never modified)."""
+    import pint
+
     return pint.get_application_registry()
 
 
 def is_quantity(value) -> bool:
-    """True for a pint Quantity of any registry."""
-    return isinstance(value, pint.Quantity)
+    """True for a pint Quantity of any registry.
+
+    pint is imported only when a caller uses it: a value cannot be a Quantity unless
+    pint is already imported, so ``import gasdyn2d`` does not pay for pint.
+    """
+    pint = sys.modules.get("pint")
+    return pint is not None and isinstance(value, pint.Quantity)
 
 
 class UnitOf(NamedTuple):
@@ -70,8 +76,8 @@ class UnitOf(NamedTuple):
     temperatures on an offset scale (°C, °F).
     """
 
-    units: object
-    registry: object
+    units: Any
+    registry: Any
     scale: float
     offset: float
 

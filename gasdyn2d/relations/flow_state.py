@@ -188,4 +188,4 @@ class FlowState(ResultTable):
             np.array_equal(getattr(self, k), getattr(other, k), equal_nan=True)
             for k in ("M_si", "p_si", "T_si", "direction_si"))
 
-    __hash__ = None
+    __hash__ = None  # type: ignore[assignment]  # holds arrays: unhashable
