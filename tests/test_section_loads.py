@@ -800,3 +800,20 @@ def test_many_cases_are_evaluated_in_blocks_with_the_same_numbers():
     tail = shock_expansion_loads(section, M[-37:], alpha[-37:], errors="nan")
     np.testing.assert_array_equal(whole.cl[-37:], tail.cl)
     np.testing.assert_array_equal(whole.cp_upper[-37:], tail.cp_upper)
+
+
+@settings(max_examples=60, deadline=None)
+@given(M=st.floats(1.2, 8.0), alpha=st.floats(-0.3, 0.3), tau=st.floats(0.01, 0.2),
+       ridge=st.floats(0.2, 0.8))
+def test_single_case_float_path_matches_the_array_path(M, alpha, tau, ridge):
+    # A single case on a few-panel section runs on floats (the fast path of a single
+    # call); it must give the array path's numbers (to rounding: 1e-13 relative) and flags.
+    section = Section.double_wedge(tau, ridge)
+    one = shock_expansion_loads(section, M, alpha, errors="nan")
+    batch = shock_expansion_loads(section, np.array([M]), np.array([alpha]), errors="nan")
+    for name in FLAGS:
+        assert getattr(one, name) == getattr(batch, name)[0], name
+    for name in ("cl", "cd", "cm_le", "slip_direction", "wake_pressure_ratio"):
+        np.testing.assert_allclose(getattr(one, name), getattr(batch, name)[0], rtol=1e-13,
+                                   atol=1e-15, err_msg=name)
+    np.testing.assert_allclose(one.cp_upper, batch.cp_upper[0], rtol=1e-13, atol=1e-15)

@@ -52,6 +52,7 @@ __all__ = [
 
 _TE_MAX_ITER = 40
 _TE_TOLERANCE = 1e-15  # [rad], absolute, on the slip direction
+_TE_MATCHED = 1e-10  # |ln p_upper - ln p_lower| below which the two streams are matched
 
 
 # --------------------------------------------------------------------- result type
@@ -257,7 +258,9 @@ def _match_trailing_edge(upper, lower, gamma):
     increases with phi, so the bracketed Newton iteration of
     :func:`gasdyn2d.numerics.safeguarded_newton` (slope from
     ``turn_state(...).dlnp_dturn``) finds the one root. The bracket keeps
-    both waves attached and short of vacuum. This is the wake slip-line match
+    both waves attached and short of vacuum; without a root in it the iteration
+    ends on a bracket end with a residual far from zero (unmatched). This is the
+    wake slip-line match
     of a two-stream wave pattern; it can be routed through the general
     region graph later without changing its inputs or outputs.
 
@@ -276,18 +279,18 @@ def _match_trailing_edge(upper, lower, gamma):
                         dir_l + (nu_room - prandtl_meyer_angle(M_l, gamma)))
         margin = 1e-9 * (hi - lo)
         lo, hi = lo + margin, hi - margin
-        f_lo = _trailing_edge_residual(lo, upper, lower, gamma)[0]
-        f_hi = _trailing_edge_residual(hi, upper, lower, gamma)[0]
-        matched = (f_lo <= 0.0) & (f_hi >= 0.0)
         s_u = gamma * M_u**2 / np.sqrt(M_u**2 - 1.0)
         s_l = gamma * M_l**2 / np.sqrt(M_l**2 - 1.0)
         phi = (s_u * dir_u + s_l * dir_l - lnp_u + lnp_l) / (s_u + s_l)  # linearised start
         phi = np.where(np.isfinite(phi), np.clip(phi, lo, hi), 0.5 * (lo + hi))
-        phi = nx.safeguarded_newton(  # unmatched cases (NaN start) are not iterated
+        solvable = (lo < hi) & np.isfinite(lnp_u) & np.isfinite(lnp_l)
+        phi = nx.safeguarded_newton(  # cases with no bracket (NaN start) are not iterated
             lambda x: _trailing_edge_residual(x, upper, lower, gamma)[:2],
-            np.where(matched, phi, np.nan), lo, hi, max_iter=_TE_MAX_ITER, atol=_TE_TOLERANCE,
+            np.where(solvable, phi, np.nan), lo, hi, max_iter=_TE_MAX_ITER, atol=_TE_TOLERANCE,
             increasing=True)
-        ln_p = _trailing_edge_residual(phi, upper, lower, gamma)[2]
+        residual, _, ln_p = _trailing_edge_residual(phi, upper, lower, gamma)
+        # without a root in the bracket the iteration ends on a bracket end, short of zero
+        matched = np.abs(residual) <= _TE_MATCHED
     return np.where(matched, phi, np.nan), np.where(matched, ln_p, np.nan), matched
 
 
@@ -423,6 +426,9 @@ def _loads_core(M, alpha, gamma, check, *, theory, section, geometry):
         M = check.at_least(M, "M", 1.0, inclusive=False, what="supersonic flow")
     alpha = check.finite(alpha, "alpha", "rad")
     scalar = type(M) is float and type(alpha) is float
+    if (scalar and type(gamma) is float and theory == "shock-expansion"
+            and sum(section.n_panels) <= _SCALAR_PANELS):
+        return (M, alpha, *_shock_expansion_scalar(M, alpha, gamma, section, geometry, check))
     if scalar:
         M_a, alpha_a = np.array([M]), np.array([alpha])
     else:
@@ -442,6 +448,110 @@ def _loads_core(M, alpha, gamma, check, *, theory, section, geometry):
     if scalar:
         return (M, alpha, *(f[0] for f in fields))
     return (M, alpha, *fields)
+
+
+#: Panels (both surfaces) up to which a single case is marched on floats, one wave per
+#: corner; longer surfaces go through the array march, which takes a run of fans at once.
+_SCALAR_PANELS = 8
+
+
+def _march_scalar(M, turns, gamma):
+    """One surface of one case on floats: (p/p∞ per panel, M at the end, flags)."""
+    p, m, pressures = 1.0, M, []
+    detached = subsonic = vacuum = False
+    for turn in turns:
+        wave = turn_state(m, float(turn), gamma)
+        detached, vacuum = bool(wave.detached), bool(wave.vacuum)
+        m = float(wave.M2)
+        subsonic = bool(wave.is_shock) and m < 1.0
+        p *= float(wave.p2_p1)
+        pressures.append(p)
+        if detached or vacuum or subsonic:  # the surface fails here: the first reason only
+            pressures += [math.nan] * (len(turns) - len(pressures))
+            break
+    return np.array(pressures), m, detached, subsonic, vacuum
+
+
+def _match_trailing_edge_scalar(upper, lower, gamma):
+    """:func:`_match_trailing_edge` for one case, on floats (the same bracket, start,
+    Newton step with bisection fallback, tolerances and matched test)."""
+    (M_u, lnp_u, dir_u), (M_l, lnp_l, dir_l) = upper, lower
+
+    def residual(phi):
+        wave_u = turn_state(M_u, phi - dir_u, gamma)
+        wave_l = turn_state(M_l, dir_l - phi, gamma)
+        ln_p = lnp_u + math.log(float(wave_u.p2_p1))
+        return (ln_p - lnp_l - math.log(float(wave_l.p2_p1)),
+                float(wave_u.dlnp_dturn) + float(wave_l.dlnp_dturn), ln_p)
+
+    nu_room = float(max_prandtl_meyer_angle(gamma))
+    lo = max(dir_u - (nu_room - float(prandtl_meyer_angle(M_u, gamma))),
+             dir_l - float(detachment_angles(M_l, gamma)[0]))
+    hi = min(dir_u + float(detachment_angles(M_u, gamma)[0]),
+             dir_l + (nu_room - float(prandtl_meyer_angle(M_l, gamma))))
+    margin = 1e-9 * (hi - lo)
+    lo, hi = lo + margin, hi - margin
+    if not (lo < hi and math.isfinite(lnp_u) and math.isfinite(lnp_l)):
+        return math.nan, math.nan, False
+    s_u = gamma * M_u * M_u / math.sqrt(M_u * M_u - 1.0) if M_u > 1.0 else math.inf
+    s_l = gamma * M_l * M_l / math.sqrt(M_l * M_l - 1.0) if M_l > 1.0 else math.inf
+    phi = (s_u * dir_u + s_l * dir_l - lnp_u + lnp_l) / (s_u + s_l)
+    phi = min(max(phi, lo), hi) if math.isfinite(phi) else 0.5 * (lo + hi)
+    best = (math.inf, phi)
+    for _ in range(_TE_MAX_ITER):
+        f, df, _ = residual(phi)
+        if abs(f) < best[0]:
+            best = (abs(f), phi)
+        if f == 0.0 or f != f:
+            break
+        if f < 0.0:
+            lo = phi
+        else:
+            hi = phi
+        step = f / df
+        new = phi - step
+        if abs(step) <= max(4.0 * 2.2e-16 * abs(phi), _TE_TOLERANCE):
+            phi = new if lo <= new <= hi else phi
+            break
+        if not lo < new < hi:
+            new = 0.5 * (lo + hi)
+        if hi - lo <= 4.0 * 2.2e-16 * max(abs(lo), abs(hi)):
+            break
+        phi = new
+    f, _, ln_p = residual(phi)
+    if not abs(f) <= abs(best[0]):
+        phi = best[1]
+        f, _, ln_p = residual(phi)
+    if abs(f) <= _TE_MATCHED:
+        return phi, ln_p, True
+    return math.nan, math.nan, False
+
+
+def _shock_expansion_scalar(M, alpha, gamma, section, geometry, check):
+    """Shock-expansion loads of one case on floats (the fast path of a single call on a
+    few-panel section): the per-case fields after M and α, panel fields as arrays."""
+    (le_u, corners_u), (le_l, corners_l) = _surface_turns(section, alpha)
+    p_u, M_u, *flags_u = _march_scalar(M, [le_u, *corners_u], gamma)
+    p_l, M_l, *flags_l = _march_scalar(M, [le_l, *corners_l], gamma)
+    detached, subsonic, vacuum = (a or b for a, b in zip(flags_u, flags_l))
+    bad = detached or subsonic or vacuum
+    if bad and not check.nan:
+        _raise_for_case(section, np.array([M]), np.array([alpha]), gamma, np.array([True]),
+                        check)
+    nan = math.nan
+    q = 0.5 * gamma * M * M
+    if bad or M != M or alpha != alpha or gamma != gamma:  # a failed surface is NaN, as in
+        cp_u = np.full(len(p_u), nan) if any(flags_u) else (p_u - 1.0) / q  # the array march
+        cp_l = np.full(len(p_l), nan) if any(flags_l) else (p_l - 1.0) / q
+        return (nan, nan, nan, nan, nan, nan, cp_u, cp_l, detached, subsonic, vacuum, False)
+    phi, ln_p, matched = _match_trailing_edge_scalar(
+        (M_u, math.log(p_u[-1]), float(section.upper_angles[-1])),
+        (M_l, math.log(p_l[-1]), float(section.lower_angles[-1])), gamma)
+    cp_u, cp_l = (p_u - 1.0) / q, (p_l - 1.0) / q
+    cl, cd, cm_le, x_cp = (float(v[0]) for v in _coefficients(
+        geometry, cp_u[None], cp_l[None], np.array([alpha]), True))
+    return (cl, cd, cm_le, x_cp, phi - alpha, math.exp(ln_p), cp_u, cp_l, detached, subsonic,
+            vacuum, not matched)
 
 
 def _raise_for_case(section, M, alpha, gamma, bad, check):
