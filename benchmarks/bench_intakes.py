@@ -5,6 +5,9 @@ Cases:
   Mach number, so the off-design spillage is computed too), against one numpy call of the
   isentropic p/p0 on the same 10^4 numbers, and per case against ``ramp_intake`` called on
   scalars in a Python loop;
+- single ``ramp_intake`` calls (the design-code loop): on design, below design (where the
+  ramp shocks merge ahead of the cowl and ``merging_shocks`` solves the merger), and with
+  an isentropic second stage, against one scalar scipy ``brentq`` θ-β-M solve;
 - ``optimal_ramps`` with 3 ramps, time per case, against one scalar scipy ``brentq`` solve of
   the θ-β-M relation (the cost unit of a hand-written optimiser's inner step).
 
@@ -62,6 +65,16 @@ def main(argv=None):
     t_brentq = best_time(lambda: [scalar_wave_angle(2.5, math.radians(10.0))
                                   for _ in range(200)], repeats) / 200
 
+    n_single = 20 if args.quick else 200
+    single = {
+        "on design": lambda: ramp_intake(2.5, ramps),
+        "below design (shocks merge)": lambda: ramp_intake(2.2, ramps, design_mach=2.5),
+        "isentropic 2nd stage, off design": lambda: ramp_intake(
+            2.3, ramps, design_mach=2.5, stages=["shock", "isentropic"]),
+    }
+    single_times = {name: best_time(lambda: [f() for _ in range(n_single)], repeats) / n_single
+                    for name, f in single.items()}
+
     rows = [
         ("ramp_intake, 10^4 Mach numbers (per case)", t_vector / n_mach,
          f"{t_vector / t_numpy:8.1f} x numpy p/p0 on 10^4",
@@ -69,6 +82,8 @@ def main(argv=None):
         ("ramp_intake, scalar call in a loop (per case)", t_loop, "", ""),
         ("optimal_ramps, 3 ramps (per case)", t_optimal,
          f"{t_optimal / t_brentq:8.0f} x one scalar brentq θ-β-M solve", ""),
+        *((f"single ramp_intake call, {name}", t, f"{t / t_brentq:8.0f} x one scalar brentq "
+           "θ-β-M solve", "") for name, t in single_times.items()),
         ("baseline: scalar brentq θ-β-M solve", t_brentq, "", ""),
         ("baseline: numpy p/p0 on 10^4 (per element)", t_numpy / n_mach, "", ""),
     ]

@@ -131,6 +131,8 @@ def chunked(func, *arrays, size=CHUNK_SIZE):
 
     ``func`` takes 1-d arrays and returns an array or a tuple (NamedTuple) of
     arrays of the same length; the results are reassembled in the input shape.
+    A result may have trailing axes beyond the block (one entry per panel, say):
+    they are kept after the input shape.
     Scalars (0-d) are passed to every block unchanged. Small inputs go straight
     through. The loop runs over blocks, never elements.
     """
@@ -144,10 +146,10 @@ def chunked(func, *arrays, size=CHUNK_SIZE):
         result = func(*(a if np.ndim(a) == 0 else a[start:start + size] for a in flat))
         parts = result if isinstance(result, tuple) else (result,)
         if outputs is None:
-            outputs = [np.empty(n, dtype=np.result_type(p)) for p in parts]
+            outputs = [np.empty((n, *np.shape(p)[1:]), dtype=np.result_type(p)) for p in parts]
         for out, part in zip(outputs, parts):
             out[start:start + size] = part
-    outputs = [o.reshape(shape) for o in outputs]
+    outputs = [o.reshape(shape + o.shape[1:]) for o in outputs]
     if not isinstance(result, tuple):
         return outputs[0]
     return type(result)(*outputs) if hasattr(result, "_fields") else tuple(outputs)

@@ -212,3 +212,40 @@ def test_mixed_compression_chain():
     limits = contraction_limits(external.stage_mach[-1])
     ref = ref_kantrowitz(mp.mpf(external.stage_mach[-1]))
     assert limits.self_starting == pytest.approx(float(ref), rel=1e-13)
+
+
+# ------------------------------------------------------- the boundary (issues 9, 10)
+
+
+@pytest.mark.parametrize("n", ["2", True, 2.5, None])
+def test_ramp_count_of_the_wrong_type_is_invalid_input(n):
+    # Regression: a string or bool count was not an InvalidInputError naming n_ramps.
+    with pytest.raises(InvalidInputError, match="n_ramps"):
+        optimal_ramps(3.0, n)
+
+
+def test_contraction_limits_keep_labels_and_refuse_bad_types():
+    pd = pytest.importorskip("pandas")
+    xr = pytest.importorskip("xarray")
+    index = pd.Index([1.5, 2.0, 3.0], name="entrance")
+    limits = contraction_limits(pd.Series([1.5, 2.0, 3.0], index=index))
+    plain = contraction_limits(np.array([1.5, 2.0, 3.0]))
+    assert limits.self_starting.index.equals(index)
+    np.testing.assert_array_equal(limits.self_starting.to_numpy(), plain.self_starting)
+    labelled = contraction_limits(xr.DataArray([2.0, 3.0], dims="station"))
+    assert labelled.isentropic.dims == ("station",)
+    assert labelled.to_xarray()["self_starting"].dims == ("station",)
+    with pytest.raises(InvalidInputError, match="entrance_mach"):
+        contraction_limits("2.0")
+    with pytest.raises(InvalidInputError, match="gamma"):
+        contraction_limits(2.0, gamma=True)
+
+
+def test_optimal_ramps_per_ramp_fields_are_labelled():
+    xr = pytest.importorskip("xarray")
+    best = optimal_ramps(xr.DataArray([2.5, 3.0], dims="design"), 2)
+    assert best.deflections.dims == ("design", "ramp")
+    assert best.normal_mach.dims == ("design", "shock")
+    one = optimal_ramps(3.0, 2)
+    np.testing.assert_allclose(best.deflections.values[1], one.deflections, rtol=1e-12)
+    assert not one.deflections.flags.writeable

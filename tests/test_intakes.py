@@ -390,7 +390,7 @@ def test_subsonic_stage_names_the_ramp():
     ({"errors": "ignore"}, "errors"),
     ({"first_ramp_length": 2 * ureg.s}, "first_ramp_length"),
     ({"deflections": []}, "at least one ramp"),
-    ({"M": [2.0, 3.0, 4.0], "deflections": np.full((2, 2), 0.1)}, "sets_of_deflections"),
+    ({"M": [2.0, 3.0, 4.0], "deflections": np.full((2, 2), 0.1)}, r"deflections\[0\] \(2,\)"),
     ({"deflections": [0.1, 0.0, 0.0]}, r"deflections\[2\] must be > 0 when deflections\[1\] is 0"),
 ])
 def test_bad_inputs_raise_clear_errors(kwargs, match):
@@ -479,3 +479,241 @@ def test_geometry_focuses_every_shock_on_the_lip_and_conserves_mass(M, fractions
     ratio = np.prod(intake.stagnation_pressure_ratios[:-1]) * flux(intake.stage_mach[-1]) / flux(M)
     assert intake.lip_y == pytest.approx(ratio * intake.entrance_height, rel=1e-10)
     assert np.all(np.asarray(intake.ramp_lengths) > 0)
+
+
+# ------------------------------------------------------- merged ramp shocks (issue 14)
+# Invented two- and three-ramp layouts; the merged-shock state is checked against
+# gasdyn2d.merging_shocks called directly (the region-graph solution of the merger, itself
+# tested against an independent reference in test_wave_interactions.py).
+
+
+def _merging_reference(M_up, first, second):
+    from gasdyn2d import merging_shocks
+    return merging_shocks(M_up, first, second)
+
+
+@pytest.mark.parametrize("M", [2.0, 2.2, 2.4])
+def test_below_design_ramp_shocks_merge_ahead_of_the_lip_with_the_merging_state(M):
+    theta = np.radians([8.0, 9.0])
+    intake = ramp_intake(M, theta, design_mach=2.5)
+    assert intake.merges.tolist() == [True]
+    x, y = float(intake.merge_x[0]), float(intake.merge_y[0])
+    assert x < intake.lip_x and y > intake.lip_y  # ahead of the cowl, in the spilled flow
+    # the meeting point lies on both ramp shocks (geometry)
+    for k, angle in ((0, intake.wave_angles[0]), (1, theta[0] + intake.wave_angles[1])):
+        cx, cy = intake.corner_x[k], intake.corner_y[k]
+        assert math.atan2(y - cy, x - cx) == pytest.approx(angle, rel=1e-12)
+    ref = _merging_reference(M, theta[0], theta[1])
+    assert intake.merged_wave_angle[0] == pytest.approx(ref.wave_angle, rel=1e-13)
+    assert intake.merged_turn[0] == pytest.approx(ref.merged_turn, rel=1e-13)
+    assert intake.merged_mach[0] == pytest.approx(ref.M_above_slip, rel=1e-13)
+    assert intake.merged_pressure_ratio[0] == pytest.approx(ref.p_p1, rel=1e-13)
+    assert intake.slip_direction[0] == pytest.approx(ref.slip_direction, rel=1e-13)
+    assert intake.reflected_kind[0] == ref.reflected_kind
+    assert intake.reflected_turn[0] == pytest.approx(ref.reflected_turn, rel=1e-10, abs=1e-15)
+    # the merged shock is stronger than either ramp shock and loses more than the two in turn
+    # (the entropy rise of one shock of the summed turn exceeds that of two weaker ones)
+    assert intake.merged_pressure_ratio[0] == pytest.approx(np.prod(intake.pressure_ratios[:2]),
+                                                            rel=0.02)
+    assert intake.merged_recovery[0] < np.prod(intake.stagnation_pressure_ratios[:2])
+    assert not intake.slip_line_enters_cowl[0] and not intake.reflected_enters_cowl[0]
+
+
+def test_merging_of_the_second_pair_is_solved_in_the_frame_of_its_upstream_flow():
+    theta = np.radians([6.0, 7.0, 8.0])
+    intake = ramp_intake(2.4, theta, design_mach=3.0)
+    assert intake.merges.tolist() == [True, True]
+    ref = _merging_reference(intake.stage_mach[0], theta[1], theta[2])
+    assert intake.merged_wave_angle[1] == pytest.approx(theta[0] + ref.wave_angle, rel=1e-13)
+    assert intake.slip_direction[1] == pytest.approx(theta[0] + ref.slip_direction, rel=1e-13)
+    assert intake.merged_pressure_ratio[1] == pytest.approx(
+        intake.pressure_ratios[0] * ref.p_p1, rel=1e-13)
+
+
+def test_on_design_nothing_merges_and_above_design_the_merger_enters_the_cowl():
+    intake = ramp_intake([2.5, 2.8], np.radians([8.0, 9.0]), design_mach=2.5)
+    assert intake.merges.tolist() == [[False], [True]]
+    assert np.isnan(intake.merge_x[0, 0]) and intake.reflected_kind[0, 0] == ""
+    # above design the shocks meet below the lip: what leaves the merger enters the intake
+    assert intake.merge_y[1, 0] < intake.lip_y[1]
+    assert intake.slip_line_enters_cowl[1, 0] and intake.reflected_enters_cowl[1, 0]
+
+
+def test_one_ramp_has_no_pairs():
+    intake = ramp_intake([2.2, 2.5], np.radians([10.0]), design_mach=2.5)
+    assert intake.merges.shape == (2, 0) and intake.merge_x.shape == (2, 0)
+
+
+# ------------------------------------------------------- isentropic compression stage
+
+
+def ref_nu(M, g=G):
+    """Prandtl–Meyer function (NACA Report 1135, eq. 171), mpmath."""
+    M = mp.mpf(M)
+    k = mp.sqrt((g + 1) / (g - 1))
+    return k * mp.atan(mp.sqrt(M**2 - 1) / k) - mp.atan(mp.sqrt(M**2 - 1))
+
+
+def ref_mach_from_nu(nu, g=G):
+    return mp.findroot(lambda m: ref_nu(m, g) - nu, (mp.mpf("1.000001"), mp.mpf(50)),
+                       solver="anderson")
+
+
+@pytest.mark.parametrize("M, degrees", [(2.5, [8.0, 9.0]), (3.0, [6.0, 8.0, 7.0])])
+def test_isentropic_stage_keeps_stagnation_pressure_against_mpmath(M, degrees):
+    stages = ["shock"] + ["isentropic"] * (len(degrees) - 1)
+    intake = ramp_intake(M, np.radians(degrees), stages=stages)
+    assert np.all(intake.stagnation_pressure_ratios[1:-1] == 1.0)  # recovery 1 through it
+    ref = ref_train(M, [mp.radians(degrees[0])], terminal=False)
+    mach = ref["mach"][-1]
+    for k, d in enumerate(degrees[1:], start=1):
+        down = ref_mach_from_nu(ref_nu(mach) - mp.radians(d))
+        p = ((1 + (G - 1) / 2 * mach**2) / (1 + (G - 1) / 2 * down**2)) ** (G / (G - 1))
+        assert intake.stage_mach[k] == pytest.approx(float(down), rel=1e-12)
+        assert intake.pressure_ratios[k] == pytest.approx(float(p), rel=1e-12)
+        mach = down
+    assert intake.recovery == pytest.approx(float(ref["p0"][0] * ref_normal_shock(mach)[2]),
+                                            rel=1e-12)
+    assert not np.any(intake.separation_risk[1:-1])  # no shock to separate at
+
+
+@settings(max_examples=25, deadline=None)
+@given(M=st.floats(2.0, 4.0), first=st.floats(3.0, 9.0), second=st.floats(2.0, 9.0))
+def test_recovery_rises_when_a_shock_stage_becomes_isentropic(M, first, second):
+    # Fact of the trade: the isentropic stage loses no stagnation pressure, where the shock
+    # of the same turn loses some; it also leaves a slightly lower Mach number (the shock
+    # turns the flow with less pressure rise for its loss), so the later shocks are weaker
+    # too. Invented two-ramp layouts, drawn at random.
+    theta = np.radians([first, second])
+    shock = ramp_intake(M, theta, errors="nan")
+    iso = ramp_intake(M, theta, stages=["shock", "isentropic"], errors="nan")
+    if np.isnan(shock.recovery):
+        return
+    assert iso.recovery > shock.recovery
+    assert iso.stagnation_pressure_ratios[1] == 1.0 > shock.stagnation_pressure_ratios[1]
+
+
+@pytest.mark.parametrize("M, degrees", [(2.5, [8.0, 9.0]), (3.0, [6.0, 8.0, 7.0]),
+                                        (3.0, [6.0, 8.0, 4.0])])
+def test_isentropic_design_focuses_on_the_lip_and_conserves_mass(M, degrees):
+    from gasdyn2d.design.intake_waves import isentropic_ramp_contour
+    stages = ["shock", "isentropic"] + ["shock"] * (len(degrees) - 2)
+    intake = ramp_intake(M, np.radians(degrees), stages=stages)
+    theta = np.radians(degrees)
+    # every characteristic through the lip: the first from the stage start, the last
+    # from the end of the curved wall (geometry of the centred wave)
+    for corner, direction, mach in (("corner", intake.ramp_angles[0], intake.stage_mach[0]),
+                                    ("compression_end", intake.ramp_angles[1],
+                                     intake.stage_mach[1])):
+        x, y = getattr(intake, f"{corner}_x")[1], getattr(intake, f"{corner}_y")[1]
+        angle = math.atan2(intake.lip_y - y, intake.lip_x - x)
+        assert angle == pytest.approx(direction + math.asin(1 / mach), rel=1e-12)
+    x, y = isentropic_ramp_contour(intake.corner_x[1], intake.corner_y[1], intake.lip_x,
+                                   intake.lip_y, intake.ramp_angles[0], intake.stage_mach[0],
+                                   theta[1], n_points=4001)
+    assert x[-1] == pytest.approx(intake.compression_end_x[1], rel=1e-12)
+    assert y[-1] == pytest.approx(intake.compression_end_y[1], rel=1e-12)
+    arc = np.sum(np.hypot(np.diff(x), np.diff(y)))
+    straight = math.hypot(intake.corner_x[2] - x[-1], intake.corner_y[2] - y[-1]) \
+        if len(degrees) > 2 else None
+    if straight is not None:  # the polyline's chord error is O(h²) ~ 1e-8 here
+        assert intake.ramp_lengths[1] == pytest.approx(arc + straight, rel=1e-7)
+    # continuity at design (fact of the trade), as for the all-shock intake
+    ref_p0 = np.prod(intake.stagnation_pressure_ratios[:-1])
+    flux = float(ref_mass_flux(mp.mpf(float(intake.stage_mach[-1]))) * ref_p0
+                 / ref_mass_flux(mp.mpf(M)))
+    assert intake.lip_y == pytest.approx(flux * intake.entrance_height, rel=1e-11)
+    assert not np.any(intake.compression_coalesces) and intake.mass_flow_ratio == 1.0
+
+
+def test_isentropic_stage_off_design_flags_where_characteristics_cross_ahead():
+    theta = np.radians([8.0, 9.0])
+    intake = ramp_intake([2.3, 2.5], theta, design_mach=2.5, stages=["shock", "isentropic"])
+    assert intake.compression_coalesces.tolist() == [[False, True], [False, False]]
+    x, y = intake.coalescence_x[0, 1], intake.coalescence_y[0, 1]
+    assert x < intake.lip_x[0]
+    assert np.isnan(intake.coalescence_x[1, 1])
+    assert not intake.merges.any()  # a compression fan beside a shock is no shock merger
+    assert np.isfinite(y)
+
+
+def test_stage_kinds_are_checked():
+    with pytest.raises(InvalidInputError, match=r"stages\[1\] must be 'shock' or 'isentropic'"):
+        ramp_intake(2.5, np.radians([8.0, 9.0]), stages=["shock", "fan"])
+    with pytest.raises(InvalidInputError, match=r"stages\[0\] must be 'shock'"):
+        ramp_intake(2.5, np.radians([8.0, 9.0]), stages=["isentropic", "shock"])
+    with pytest.raises(InvalidInputError, match="one kind per ramp"):
+        ramp_intake(2.5, np.radians([8.0, 9.0]), stages=["shock"])
+    with pytest.raises(DetachedShockError, match="M = 1"):
+        ramp_intake(1.5, np.radians([2.0, 30.0]), stages=["shock", "isentropic"])
+
+
+# ------------------------------------------------------- the boundary (issues 9, 10)
+
+
+def test_results_are_read_only_and_share_no_memory():
+    intake = ramp_intake(np.array([2.2, 2.5]), np.radians([8.0, 9.0]), design_mach=2.5)
+    arrays = [np.asarray(v) for v in intake.to_dict().values() if isinstance(v, np.ndarray)]
+    for i, first in enumerate(arrays):
+        assert not first.flags.writeable
+        for second in arrays[i + 1:]:
+            assert not np.shares_memory(first, second)
+
+
+@pytest.mark.parametrize("kwargs, words", [
+    ({"M": "2.5"}, ["M", "string"]),
+    ({"M": True}, ["M", "bool"]),
+    ({"deflections": [0.1, 0.1 + 0.02j]}, ["deflections", "complex"]),
+    ({"deflections": "0.1"}, ["deflections", "string"]),
+    ({"design_mach": False}, ["design_mach", "bool"]),
+    ({"first_ramp_length": "1 m"}, ["first_ramp_length", "string"]),
+    ({"gamma": 1.4 + 0j}, ["gamma", "complex"]),
+])
+def test_bad_types_are_refused_naming_the_argument(kwargs, words):
+    args = {"M": 2.5, "deflections": np.radians([8.0, 9.0])}
+    args.update(kwargs)
+    M, deflections = args.pop("M"), args.pop("deflections")
+    with pytest.raises(InvalidInputError) as info:
+        ramp_intake(M, deflections, **args)
+    for word in words:
+        assert word in str(info.value)
+
+
+def test_labelled_and_lazy_inputs():
+    xr = pytest.importorskip("xarray")
+    pd = pytest.importorskip("pandas")
+    dask_array = pytest.importorskip("dask.array")
+    theta = np.radians([8.0, 9.0])
+    machs = np.array([2.2, 2.5, 2.8])
+    plain = ramp_intake(machs, theta, design_mach=2.5)
+    M = xr.DataArray(machs, dims="flight_mach", coords={"flight_mach": machs})
+    labelled = ramp_intake(M, theta, design_mach=2.5)
+    assert labelled.recovery.dims == ("flight_mach",)
+    assert labelled.stage_mach.dims == ("flight_mach", "ramp")
+    assert labelled.merge_x.dims == ("flight_mach", "ramp_pair")
+    np.testing.assert_array_equal(labelled.merge_x.values, plain.merge_x)
+    # ramps given as a DataArray with a "ramp" dimension, broadcast against the Mach numbers
+    sets = xr.DataArray(np.radians([[8.0, 9.0], [7.0, 10.0]]), dims=("layout", "ramp"))
+    grid = ramp_intake(M, sets, design_mach=2.5)
+    assert grid.recovery.dims == ("flight_mach", "layout")
+    assert grid.recovery.values[0, 1] == ramp_intake(2.2, np.radians([7.0, 10.0]),
+                                                     design_mach=2.5).recovery
+    series = ramp_intake(pd.Series(machs, index=pd.Index(["a", "b", "c"])), theta, design_mach=2.5)
+    assert list(series.recovery.index) == ["a", "b", "c"]
+    assert isinstance(series.stage_mach, pd.DataFrame)
+    lazy = ramp_intake(dask_array.from_array(machs, chunks=2), theta, design_mach=2.5)
+    assert type(lazy.recovery).__module__.startswith("dask")
+    np.testing.assert_array_equal(lazy.recovery.compute(), plain.recovery)
+    np.testing.assert_array_equal(lazy.reflected_kind.compute(), plain.reflected_kind)
+    assert plain.to_xarray()["merge_x"].dims == ("case", "ramp_pair")
+
+
+def test_quantity_of_a_second_registry():
+    import pint
+    own = pint.UnitRegistry()
+    intake = ramp_intake(2.5, own.Quantity([8.0, 9.0], "deg"),
+                         first_ramp_length=own.Quantity(120.0, "mm"))
+    plain = ramp_intake(2.5, np.radians([8.0, 9.0]), first_ramp_length=0.12)
+    assert intake.lip_x._REGISTRY is own and intake.lip_x.units == own.mm
+    assert intake.lip_x.m_as("m") == pytest.approx(plain.lip_x, rel=1e-14)
+    assert intake.merged_wave_angle.units == own.deg

@@ -6,6 +6,7 @@ mpmath (or scipy brentq), the Prandtl–Meyer function is inverted by root
 finding, and the forces are summed in wind axes panel by panel.
 """
 
+import dataclasses
 import math
 import warnings
 
@@ -447,7 +448,7 @@ def test_mirrored_section_at_opposite_incidence_mirrors_the_loads(M, alpha, camb
 
 
 @settings(max_examples=40, deadline=None)
-@given(M=mach, alpha=small_angle, tau=thickness, n=st.integers(1, 30))
+@given(M=mach, alpha=small_angle, tau=thickness, n=st.integers(2, 30))
 def test_wave_drag_is_not_negative(M, alpha, tau, n):
     loads = shock_expansion_loads(Section.biconvex(tau, n=n), M, alpha, errors="nan")
     assume(np.isfinite(loads.cd))  # attached
@@ -641,3 +642,178 @@ def test_unmatched_trailing_edge_keeps_the_surface_loads():
     cl, cd, cm, *_ = mp_loads(Section.flat_plate(), 3.1523076923076925, math.radians(34.91638795986622))
     assert_close(loads.cl, cl, 1e-10)
     assert_close(loads.cd, cd, 1e-10)
+
+
+# ============================== the boundary: every input kind, reliability (issues 9, 10)
+# Invented cases throughout; each is compared with the plain-ndarray call of the same cases.
+
+THEORIES = [shock_expansion_loads, linear_loads, second_order_loads]
+CASE_FIELDS = ("M", "alpha", "cl", "cd", "cm_le", "x_cp", "slip_direction", "wake_pressure_ratio")
+FLAGS = ("detached", "subsonic", "vacuum", "wake_unmatched")
+
+
+@pytest.mark.parametrize("theory", THEORIES)
+def test_flags_and_fields_share_no_memory_and_are_read_only(theory):
+    # Regression: the four flags of linear_loads and second_order_loads were one array,
+    # so setting one flipped all four.
+    loads = theory(Section.double_wedge(0.05), np.array([2.0, 3.0]), 0.02)
+    arrays = [np.asarray(getattr(loads, name)) for name in CASE_FIELDS + FLAGS
+              + ("cp_upper", "cp_lower", "x_upper", "x_lower")]
+    for i, first in enumerate(arrays):
+        assert not first.flags.writeable
+        for second in arrays[i + 1:]:
+            assert not np.shares_memory(first, second)
+    with pytest.raises(ValueError):
+        loads.detached[0] = True
+    with pytest.raises(dataclasses.FrozenInstanceError):
+        loads.cl = 0.0
+    again = theory(Section.double_wedge(0.05), np.array([2.0, 3.0]), 0.02)
+    assert not np.shares_memory(again.x_upper, loads.x_upper)
+
+
+@pytest.mark.parametrize("theory", THEORIES)
+def test_nan_in_any_input_gives_nan_out_for_that_case_only(theory):
+    section = Section.double_wedge(0.05)
+    loads = theory(section, np.array([2.0, np.nan, 2.0, 2.0]), np.array([0.02, 0.02, np.nan, 0.02]),
+                   gamma=np.array([1.4, 1.4, 1.4, np.nan]))
+    assert np.isfinite(loads.cl[0]) and np.all(np.isnan(loads.cl[1:]))
+    assert np.all(np.isnan(loads.cp_upper[1:])) and np.all(np.isnan(loads.x_cp[1:]))
+    for flag in FLAGS:
+        assert not np.any(getattr(loads, flag))
+    single = theory(section, math.nan, 0.02)
+    assert math.isnan(single.cl) and not single.detached
+
+
+@pytest.mark.parametrize("theory", THEORIES)
+@pytest.mark.parametrize("name, value, words", [
+    ("M", "2.5", ["M", "string"]),
+    ("M", True, ["M", "bool"]),
+    ("alpha", 0.02 + 0.01j, ["alpha", "complex"]),
+    ("alpha", np.array([0.01, 0.02], dtype=complex), ["alpha", "complex"]),
+    ("gamma", "1.3", ["gamma", "string"]),
+    ("M", None, ["M", "None"]),
+])
+def test_bad_types_are_refused_naming_the_argument(theory, name, value, words):
+    # Regression (issue 9): strings, bools and complex numbers were taken as numbers.
+    arguments = {"M": 2.0, "alpha": 0.02, "gamma": 1.4}
+    arguments[name] = value
+    with pytest.raises(InvalidInputError) as info:
+        theory(Section.flat_plate(), arguments["M"], arguments["alpha"], gamma=arguments["gamma"])
+    for word in words:
+        assert word in str(info.value)
+
+
+def test_theory_names_are_checked_with_a_clear_error():
+    # Regression (issue 9): an unknown theory name was a plain ValueError.
+    from gasdyn2d.design.section_loads import loads_function
+    assert loads_function("second-order") is second_order_loads
+    with pytest.raises(InvalidInputError, match="theories must name a section-load theory"):
+        loads_function("bogus", name="theories")
+
+
+def test_quantity_of_a_second_registry_comes_back_in_that_registry():
+    own = pint.UnitRegistry()
+    section = Section.double_wedge(0.05)
+    loads = shock_expansion_loads(section, 2.0, own.Quantity(3.0, "deg"))
+    plain = shock_expansion_loads(section, 2.0, math.radians(3.0))
+    assert loads.alpha._REGISTRY is own and loads.slip_direction.units == own.deg
+    assert loads.cl == pytest.approx(plain.cl, rel=1e-14)
+    listed = linear_loads(section, 2.0, [own.Quantity(3.0, "deg"), own.Quantity(0.05, "rad")])
+    assert listed.alpha.units == own.deg
+    np.testing.assert_allclose(listed.alpha.m_as("rad"), [math.radians(3.0), 0.05], rtol=1e-15)
+
+
+def test_dataarrays_broadcast_by_name_and_keep_coordinates():
+    xr = pytest.importorskip("xarray")
+    section = Section.double_wedge(0.05)
+    M = xr.DataArray([2.0, 2.5, 3.0], dims="mach", coords={"mach": [2.0, 2.5, 3.0]})
+    alpha = xr.DataArray(np.radians([0.0, 2.0]), dims="incidence", coords={"incidence": [0, 2]})
+    loads = shock_expansion_loads(section, M, alpha)
+    grid = shock_expansion_loads(section, np.array([[2.0], [2.5], [3.0]]), np.radians([0.0, 2.0]))
+    assert loads.cl.dims == ("mach", "incidence") and list(loads.cl.incidence) == [0, 2]
+    assert loads.cp_upper.dims == ("mach", "incidence", "panel_upper")
+    np.testing.assert_array_equal(loads.cl.values, grid.cl)
+    np.testing.assert_array_equal(loads.cp_lower.values, grid.cp_lower)
+    data = loads.to_xarray()
+    assert data["cl"].dims == ("mach", "incidence") and data.sizes["panel_lower"] == 2
+
+
+def test_pint_xarray_degrees_are_honoured_not_stripped():
+    xr = pytest.importorskip("xarray")
+    pytest.importorskip("pint_xarray")
+    section = Section.double_wedge(0.05)
+    alpha = xr.DataArray([1.0, 3.0], dims="incidence").pint.quantify("deg")
+    loads = shock_expansion_loads(section, 2.5, alpha)
+    plain = shock_expansion_loads(section, 2.5, np.radians([1.0, 3.0]))
+    np.testing.assert_array_equal(loads.cl.values, plain.cl)
+    assert str(loads.alpha.data.units) == "degree"
+    np.testing.assert_allclose(loads.alpha.data.magnitude, [1.0, 3.0], rtol=1e-15)
+
+
+def test_series_keep_their_index_and_panels_become_columns():
+    pd = pytest.importorskip("pandas")
+    index = pd.Index(["climb", "cruise"], name="point")
+    loads = second_order_loads(Section.double_wedge(0.05), pd.Series([2.0, 3.0], index=index), 0.03)
+    plain = second_order_loads(Section.double_wedge(0.05), np.array([2.0, 3.0]), 0.03)
+    assert isinstance(loads.cl, pd.Series) and loads.cl.index.equals(index)
+    assert isinstance(loads.cp_upper, pd.DataFrame) and loads.cp_upper.index.equals(index)
+    np.testing.assert_array_equal(loads.cp_upper.to_numpy(), plain.cp_upper)
+    assert loads.to_xarray()["cl"].dims == ("point",)
+
+
+def test_dask_stays_lazy_until_computed_and_gives_the_same_numbers():
+    dask_array = pytest.importorskip("dask.array")
+    section = Section.biconvex(0.06, n=8)
+    M = np.linspace(1.5, 4.0, 50)
+    alpha = np.linspace(-0.05, 0.05, 50)
+    calls = []
+
+    def spy(block):
+        calls.append(block.shape)
+        return block
+
+    lazy_M = dask_array.from_array(M, chunks=16).map_blocks(spy, dtype=float)
+    loads = shock_expansion_loads(section, lazy_M, alpha, errors="nan")
+    assert calls == [] or all(shape == (0,) or 0 in shape for shape in calls)  # meta only
+    assert type(loads.cl).__module__.startswith("dask") and loads.cp_upper.shape == (50, 8)
+    plain = shock_expansion_loads(section, M, alpha, errors="nan")
+    np.testing.assert_array_equal(loads.cl.compute(), plain.cl)
+    np.testing.assert_array_equal(loads.cp_upper.compute(), plain.cp_upper)
+    np.testing.assert_array_equal(loads.detached.compute(), plain.detached)
+
+
+def test_masked_cases_stay_masked():
+    loads = linear_loads(Section.flat_plate(), np.ma.array([2.0, 3.0], mask=[False, True]), 0.02)
+    assert isinstance(loads.cl, np.ma.MaskedArray) and loads.cl.mask.tolist() == [False, True]
+    assert loads.cp_upper.mask.tolist() == [[False], [True]]
+
+
+def test_many_cases_are_evaluated_in_blocks_with_the_same_numbers():
+    # More cases than one block of gasdyn2d.numerics.CHUNK_SIZE: the blocked evaluation
+    # must agree exactly with the cases computed one block at a time.
+    from gasdyn2d.numerics import CHUNK_SIZE
+    section = Section.from_points([(0, 0), (0.3, 0.03), (0.6, 0.035), (1, 0)], [(0, 0), (1, 0)])
+    rng = np.random.default_rng(7)
+    M = rng.uniform(1.5, 4.0, CHUNK_SIZE + 37)
+    alpha = rng.uniform(-0.04, 0.04, M.size)
+    whole = shock_expansion_loads(section, M, alpha, errors="nan")
+    tail = shock_expansion_loads(section, M[-37:], alpha[-37:], errors="nan")
+    np.testing.assert_array_equal(whole.cl[-37:], tail.cl)
+    np.testing.assert_array_equal(whole.cp_upper[-37:], tail.cp_upper)
+
+
+@settings(max_examples=60, deadline=None)
+@given(M=st.floats(1.2, 8.0), alpha=st.floats(-0.3, 0.3), tau=st.floats(0.01, 0.2),
+       ridge=st.floats(0.2, 0.8))
+def test_single_case_float_path_matches_the_array_path(M, alpha, tau, ridge):
+    # A single case on a few-panel section runs on floats (the fast path of a single
+    # call); it must give the array path's numbers (to rounding: 1e-13 relative) and flags.
+    section = Section.double_wedge(tau, ridge)
+    one = shock_expansion_loads(section, M, alpha, errors="nan")
+    batch = shock_expansion_loads(section, np.array([M]), np.array([alpha]), errors="nan")
+    for name in FLAGS:
+        assert getattr(one, name) == getattr(batch, name)[0], name
+    for name in ("cl", "cd", "cm_le", "slip_direction", "wake_pressure_ratio"):
+        np.testing.assert_allclose(getattr(one, name), getattr(batch, name)[0], rtol=1e-13,
+                                   atol=1e-15, err_msg=name)
+    np.testing.assert_allclose(one.cp_upper, batch.cp_upper[0], rtol=1e-13, atol=1e-15)

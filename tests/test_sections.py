@@ -35,7 +35,7 @@ def test_double_wedge_geometry():
 
 
 @pytest.mark.parametrize("tau", [0.01, 0.1, 0.5])
-@pytest.mark.parametrize("n", [1, 4, 33])
+@pytest.mark.parametrize("n", [2, 4, 33])
 def test_biconvex_points_lie_on_the_circular_arc(tau, n):
     arc = Section.biconvex(tau, n=n)
     h = tau / 2
@@ -151,3 +151,33 @@ def test_random_nonnegative_upper_over_flat_lower_is_accepted(xs, ys):
     twice = section.mirrored().mirrored()
     np.testing.assert_array_equal(twice.upper, section.upper)
     np.testing.assert_array_equal(twice.lower, section.lower)
+
+
+@pytest.mark.parametrize(
+    "make, words",
+    [
+        # Regression (issue 9): n = 1 silently gave a flat plate of zero thickness.
+        (lambda: Section.biconvex(0.1, n=1), ["n must be", ">= 2", "flat plate"]),
+        (lambda: Section.biconvex(0.1, n=True), ["n must be", "bool"]),
+        (lambda: Section.biconvex(0.1, n="8"), ["n must be", "string"]),
+        # Regression (issue 9): a plain ValueError from float("abc").
+        (lambda: Section.double_wedge("abc"), ["thickness_ratio", "string"]),
+        (lambda: Section.double_wedge(True), ["thickness_ratio", "bool"]),
+        (lambda: Section.double_wedge(0.05, ridge=0.5 + 0.1j), ["ridge", "complex"]),
+        (lambda: Section.double_wedge(float("nan")), ["thickness_ratio", "nan"]),
+        (lambda: Section.from_points([(0, 0), (1 + 0j, 0)], [(0, 0), (1, 0)]), ["upper", "complex"]),
+        (lambda: Section.from_points([(0, 0), (1, 0)], [(False, False), (True, False)]),
+         ["lower", "bool"]),
+    ],
+)
+def test_bad_parameter_types_are_invalid_input_naming_the_argument(make, words):
+    with pytest.raises(InvalidInputError) as info:
+        make()
+    for word in words:
+        assert word in str(info.value)
+
+
+def test_two_panel_biconvex_is_the_inscribed_double_wedge():
+    # Geometry: with n = 2 the arc is sampled at both edges and at mid-chord.
+    arc = Section.biconvex(0.1, n=2)
+    np.testing.assert_allclose(arc.upper, [(0, 0), (0.5, 0.05), (1, 0)], atol=1e-15)

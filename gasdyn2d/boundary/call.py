@@ -50,7 +50,7 @@ import numpy as np
 from ..errors import InvalidInputError, ProbablyDegreesWarning
 from .checks import Check, errors_mode
 from .results import FieldInfo, pint_unit as _pint_unit, result_fields
-from .units import TWO_PI, degrees_hint, is_quantity, to_caller_units, unit_of_quantity
+from .units import KINDS, TWO_PI, degrees_hint, is_quantity, to_caller_units, unit_of_quantity
 
 __all__ = ["Call", "as_si_scalar", "caller_stacklevel", "refuse_type"]
 
@@ -124,7 +124,7 @@ class Call:
     """
 
     __slots__ = ("check", "names", "values", "unit_texts", "units", "registry", "scalar",
-                 "lazy", "labels", "keep_scalar", "_shape_template")
+                 "lazy", "labels", "keep_scalar", "trailing_sizes", "_shape_template")
 
     def __init__(self, errors="raise"):
         self.check = _NAN if errors_mode(errors) else _RAISE
@@ -137,6 +137,7 @@ class Call:
         self.lazy = False  # some argument is a dask array
         self.labels = None  # _Labels, once a labelled argument is seen
         self.keep_scalar = []
+        self.trailing_sizes = {}  # length of each named trailing axis of the result fields
 
     # ------------------------------------------------------------------ inputs
     def take(self, name: str, value, unit_text: str = "", *, degrees_above: float = TWO_PI,
@@ -271,6 +272,12 @@ class Call:
             self.labels = _Labels()
         return self.labels
 
+    def trailing(self, name: str, size: int):
+        """Declare the length of the trailing axis ``name`` that some result fields have
+        beyond the case shape (:func:`~gasdyn2d.boundary.results.unit_field` ``trailing``);
+        lazy (dask) calls need it before anything is computed."""
+        self.trailing_sizes[name] = int(size)
+
     # ------------------------------------------------------------------ the call
     def run(self, result_type, core, *, elementwise=True, **options):
         """Call the checked ``core`` on the taken arguments; package its fields as
@@ -376,22 +383,30 @@ class Call:
                 out = _in_blocks(fields, array_core, args, block_check, options)
             else:
                 out = array_core(*args, block_check, **options)
-            out = tuple(np.broadcast_to(o, shape).astype(f.dtype, copy=False)
-                        for o, f in zip(out, fields))
+            out = tuple(np.broadcast_to(o, shape + self._trailing_shape(f)).astype(
+                f.dtype, copy=False) for o, f in zip(out, fields))
             return out if len(out) > 1 else out[0]
 
-        signature = ",".join("()" for _ in positions) + "->" + ",".join("()" for _ in fields)
+        outputs = ",".join(f"({f.trailing})" if f.trailing else "()" for f in fields)
+        signature = ",".join("()" for _ in positions) + "->" + outputs
+        sizes = {f.trailing: self.trailing_sizes[f.trailing] for f in fields if f.trailing}
         out = da.apply_gufunc(block, signature, *(values[i] for i in positions),
-                              output_dtypes=[f.dtype for f in fields], vectorize=False)
+                              output_dtypes=[f.dtype for f in fields], vectorize=False,
+                              output_sizes=sizes or None)
         return out if isinstance(out, tuple) else (out,)
 
     # ------------------------------------------------------------------ outputs
+    def _trailing_shape(self, field):
+        return (self.trailing_sizes[field.trailing],) if field.trailing else ()
+
     def _package_scalar(self, fields, values):
-        out = [value if type(value) is float else _plain_scalar(value) for value in values]
+        out = [value if type(value) is float else
+               _fresh_read_only(value, np.shape(value), field.dtype, set()) if field.trailing
+               else _plain_scalar(value) for value, field in zip(values, fields)]
         if self.registry is None:
             return out
         for i, field in enumerate(fields):
-            if field.unit and type(out[i]) is float:
+            if field.unit and field.unit in KINDS and (type(out[i]) is float or field.trailing):
                 out[i] = to_caller_units(out[i], field.unit, self._like(field.unit), self.registry)
         return out
 
@@ -400,11 +415,13 @@ class Call:
         seen = {id(_root(v)) for v in self.values if isinstance(v, np.ndarray)}
         out = []
         for value, field in zip(values, fields):
+            full = shape + (np.shape(value)[-1:] if field.trailing else ())
             if not self.lazy:
-                value = _fresh_read_only(value, shape, field.dtype, seen)
+                value = _fresh_read_only(value, full, field.dtype, seen)
                 if labels is not None and labels.mask is not None:
-                    value = np.ma.array(value, mask=np.broadcast_to(labels.mask, shape))
-            if field.unit and self.registry is not None:
+                    mask = labels.mask[..., None] if field.trailing else labels.mask
+                    value = np.ma.array(value, mask=np.broadcast_to(mask, full))
+            if field.unit and field.unit in KINDS and self.registry is not None:
                 value = to_caller_units(value, field.unit, self._like(field.unit), self.registry)
             if template is not None:
                 value = _as_dataarray(value, template, field)
@@ -442,21 +459,25 @@ def _in_blocks(fields, core, values, check, options):
     if n <= BLOCK_SIZE:
         return core(*values, check, **options)
     flat = {i: np.ravel(values[i]) for i in positions}
-    outputs = [np.empty(n, dtype=f.dtype) for f in fields]
+    outputs = None
     args = list(values)
     try:
         for start in range(0, n, BLOCK_SIZE):
             stop = min(start + BLOCK_SIZE, n)
             for i in positions:
                 args[i] = flat[i][start:stop]
-            for out, part in zip(outputs, core(*args, check, **options)):
+            parts = [np.asarray(p) for p in core(*args, check, **options)]
+            if outputs is None:  # a field may have trailing axes beyond the cases
+                outputs = [np.empty((n,) + p.shape[1:] if p.ndim else (n,), dtype=f.dtype)
+                           for p, f in zip(parts, fields)]
+            for out, part in zip(outputs, parts):
                 out[start:stop] = part
     except InvalidInputError:
         if check.nan:
             raise
         core(*values, check, **options)  # raises with the whole-array message
         raise
-    return [out.reshape(shape) for out in outputs]
+    return [out.reshape(shape + out.shape[1:]) for out in outputs]
 
 
 def _plain_scalar(value):
@@ -537,15 +558,20 @@ def _as_dataarray(value, template, field):
     import xarray as xr
 
     attrs = {"long_name": field.description} if field.description else {}
-    if field.unit and not is_quantity(value):
+    if field.unit and field.pint_unit and not is_quantity(value):
         attrs["units"] = field.pint_unit
-    return xr.DataArray(value, dims=template.dims, coords=template.coords, name=field.name,
-                        attrs=attrs)
+    dims = template.dims + ((field.trailing,) if field.trailing else ())
+    return xr.DataArray(value, dims=dims, coords=template.coords, name=field.name, attrs=attrs)
 
 
 def _as_series(value, index, field):
+    """A Series on the input's index; a field with a trailing axis becomes a DataFrame
+    (one row per case, one column per entry of the axis)."""
     import pandas as pd
 
+    if field.trailing:
+        columns = pd.RangeIndex(np.shape(value)[-1], name=field.trailing)
+        return pd.DataFrame(value, index=index, columns=columns, copy=False)
     return pd.Series(value, index=index, name=field.name, copy=False)
 
 

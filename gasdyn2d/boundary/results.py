@@ -27,10 +27,15 @@ _PINT_UNITS = {"rad": "rad", "Pa": "Pa", "K": "K", "m": "m", "m/s": "m/s",
                "kg/(s·m)": "kg/(s*m)", "N": "N", "N/m": "N/m", "s": "s", "m²": "m**2"}
 
 
-def unit_field(unit: str = "", doc: str = "", *, dtype=float, **kwargs):
-    """A dataclass field with its unit ("" for ratios and Mach numbers), description and dtype."""
-    return dataclasses.field(metadata={"unit": unit, "doc": doc, "dtype": np.dtype(dtype)},
-                             **kwargs)
+def unit_field(unit: str = "", doc: str = "", *, dtype=float, trailing: str = "", **kwargs):
+    """A dataclass field with its unit ("" for ratios and Mach numbers), description and dtype.
+
+    ``trailing`` names a last axis that the field has beyond the case shape (one entry
+    per panel of a section, per ramp of an intake): the boundary keeps that axis and
+    labels it with this name in DataArrays (pandas Series inputs give a DataFrame).
+    """
+    return dataclasses.field(metadata={"unit": unit, "doc": doc, "dtype": np.dtype(dtype),
+                                       "trailing": trailing}, **kwargs)
 
 
 class FieldInfo(NamedTuple):
@@ -41,6 +46,7 @@ class FieldInfo(NamedTuple):
     dtype: np.dtype
     description: str
     pint_unit: str  #: the unit as pint spells it
+    trailing: str = ""  #: name of a last axis beyond the case shape ("" for none)
 
 
 def pint_unit(unit_text: str) -> str:
@@ -58,7 +64,8 @@ def result_fields(result_type) -> tuple:
         found = tuple(
             FieldInfo(f.name, f.metadata.get("unit", ""),
                       f.metadata.get("dtype", np.dtype(float)), f.metadata.get("doc", ""),
-                      _PINT_UNITS.get(f.metadata.get("unit", ""), ""))
+                      _PINT_UNITS.get(f.metadata.get("unit", ""), ""),
+                      f.metadata.get("trailing", ""))
             for f in dataclasses.fields(result_type))
         _FIELDS[result_type] = found
     return found
@@ -217,13 +224,19 @@ def _as_variable(value, info, xr):
     if isinstance(value, xr.DataArray):
         return value
     if type(value).__module__.startswith("pandas"):
-        array = xr.DataArray.from_series(value)
+        if value.ndim == 2:  # a field with a trailing axis, from a Series input
+            index = value.index
+            array = xr.DataArray(value.to_numpy(), dims=(index.name or "case", info.trailing),
+                                 coords={index.name or "case": index})
+        else:
+            array = xr.DataArray.from_series(value)
     else:
-        magnitude = getattr(value, "magnitude", None)
-        data = value if magnitude is None or type(value).__module__.startswith("pint") else value
+        data = value
         ndim = np.ndim(getattr(data, "magnitude", data))
+        trailing = (info.trailing,) if info.trailing and ndim else ()
+        ndim -= len(trailing)
         dims = ("case",) if ndim == 1 else tuple(f"case_{i}" for i in range(ndim))
-        array = xr.DataArray(data, dims=dims)
+        array = xr.DataArray(data, dims=dims + trailing)
     attrs = {"long_name": info.description} if info.description else {}
     if info.unit and not hasattr(array.data, "units"):
         attrs["units"] = info.pint_unit

@@ -30,7 +30,8 @@ class Kind(NamedTuple):
 
 
 #: Every kind of quantity that crosses the boundary, by the unit text used in result
-#: field metadata ("" for a plain ratio or Mach number).
+#: field metadata ("" for a plain ratio or Mach number). A field unit text that is not
+#: here ("chord") is a label for tables only: such fields stay plain numbers.
 KINDS = {
     "": Kind("dimensionless", "[]", "dimensionless", "a dimensionless number"),
     "rad": Kind("angle", "[]", "radian", "an angle"),

@@ -18,11 +18,12 @@ from __future__ import annotations
 import dataclasses
 from typing import NamedTuple
 
-import numpy as np
-from scipy import optimize
+import numbers
 
-from .. import _numerics as nx
-from ..boundary.results import ResultTable, unit_field
+import numpy as np
+
+from ..boundary import Call, ResultTable, refuse_type, unit_field
+from ..boundary.types import ArrayInput, FloatArray
 from ..errors import InvalidInputError, NoSolutionError
 from ..relations.isentropic import area_ratio
 from ..relations.normal_shocks import normal_shock_ratios
@@ -156,6 +157,8 @@ def _logits_from_normal_machs(M, mn, gamma):
 
 def _optimise_one(M, n_ramps, gamma, start):
     """Maximise ln recovery over the logits of one case (BFGS, vectorised central differences)."""
+    from scipy import optimize  # imported when first used: it is slow to import
+
     n = n_ramps
     steps = np.vstack([np.zeros(n), _DIFFERENCE_STEP * np.eye(n), -_DIFFERENCE_STEP * np.eye(n)])
 
@@ -190,17 +193,55 @@ class OptimalRamps(ResultTable):
     for ``normal_mach`` the terminal normal shock last.
     """
 
-    M: object = unit_field("")  #: free-stream Mach number
-    deflections: object = unit_field("rad")  #: optimum turn of each ramp (n)
-    recovery: object = unit_field("")  #: optimum stagnation-pressure recovery
-    normal_mach: object = unit_field("")  #: upstream normal Mach number of every shock (n + 1)
-    stage_mach: object = unit_field("")  #: Mach number behind each ramp shock (n)
-    equal_strength_deflections: object = unit_field("rad")  #: ramp turns of the equal rule (n)
-    equal_strength_recovery: object = unit_field("")  #: recovery of the all-shocks-equal rule
-    equal_strength_normal_mach: object = unit_field("")  #: the shared normal Mach number
+    M: FloatArray = unit_field("", "free-stream Mach number")
+    deflections: FloatArray = unit_field("rad", "optimum turn of each ramp", trailing="ramp")
+    recovery: FloatArray = unit_field("", "optimum stagnation-pressure recovery")
+    normal_mach: FloatArray = unit_field("", "upstream normal Mach number of every shock",
+                                         trailing="shock")
+    stage_mach: FloatArray = unit_field("", "Mach number behind each ramp shock", trailing="ramp")
+    equal_strength_deflections: FloatArray = unit_field("rad", "ramp turns of the equal rule",
+                                                        trailing="ramp")
+    equal_strength_recovery: FloatArray = unit_field("", "recovery of the all-shocks-equal rule")
+    equal_strength_normal_mach: FloatArray = unit_field("", "the shared normal Mach number")
 
 
-def optimal_ramps(M, n_ramps, *, gamma=1.4, errors="raise"):
+def _optimal_core(M, gamma, check, *, n_ramps):
+    """Checked core of :func:`optimal_ramps` (floats or arrays): the fields in order."""
+    scalar = type(M) is float
+    gamma = check.gamma(gamma)
+    M = check.at_least(np.array([M]) if scalar else M, "M", 1.0, inclusive=False,
+                       what="supersonic flow")
+    gamma_a = np.broadcast_to(np.asarray(gamma, dtype=float), M.shape)
+    equal = equal_strength_normal_mach(M, n_ramps, gamma_a)
+    equal_train = train_from_normal_machs(M, np.repeat(equal[..., None], n_ramps, axis=-1),
+                                          gamma_a)
+    best = np.full(M.shape + (n_ramps,), np.nan)
+    for index in np.ndindex(M.shape):  # one optimisation per case (a few ms each)
+        if np.isfinite(M[index]) and np.isfinite(gamma_a[index]):
+            start = np.full(n_ramps, equal[index])
+            best[index] = _optimise_one(float(M[index]), n_ramps, float(gamma_a[index]), start)
+    train = train_from_normal_machs(M, best, gamma_a)
+    fields = (M, train.deflections, np.exp(train.log_recovery),
+              np.concatenate([best, train.terminal_normal_mach[..., None]], axis=-1),
+              train.mach[..., 1:], equal_train.deflections, np.exp(equal_train.log_recovery),
+              equal)
+    return tuple(f[0] for f in fields) if scalar else fields
+
+
+def _ramp_count(n_ramps):
+    if isinstance(n_ramps, (bool, np.bool_)) or not isinstance(n_ramps, numbers.Integral):
+        if isinstance(n_ramps, numbers.Real) and not isinstance(n_ramps, (bool, np.bool_)) and \
+                float(n_ramps).is_integer():
+            n_ramps = int(n_ramps)
+        else:
+            raise refuse_type("n_ramps", n_ramps, "a positive whole number of ramps")
+    if n_ramps < 1:
+        raise InvalidInputError(f"n_ramps must be a positive integer; got {n_ramps!r}.")
+    return int(n_ramps)
+
+
+def optimal_ramps(M: ArrayInput, n_ramps: int, *, gamma: ArrayInput = 1.4,
+                  errors: str = "raise") -> OptimalRamps:
     """The n ramp turns that maximise the recovery of an external-compression intake.
 
     Parameters
@@ -257,33 +298,13 @@ def optimal_ramps(M, n_ramps, *, gamma=1.4, errors="raise"):
     >>> [round(float(m), 5) for m in best.normal_mach]
     [1.59936, 1.59936, 1.50727]
     """
-    nx.check_errors_mode(errors)
-    if isinstance(n_ramps, bool) or not isinstance(n_ramps, (int, np.integer)) or n_ramps < 1:
-        raise InvalidInputError(f"n_ramps must be a positive integer; got {n_ramps!r}.")
-    M, unit_m = nx.to_si(M, "M", "dimensionless")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    M, gamma = nx.broadcast(M=M, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    M = nx.check_finite_at_least(M, "M", 1.0, errors, what="supersonic flow", inclusive=False)
-    angle_unit = nx.output_angle_unit(None, unit_m)
-    equal = equal_strength_normal_mach(M, n_ramps, gamma)
-    equal_train = train_from_normal_machs(M, np.repeat(equal[..., None], n_ramps, axis=-1), gamma)
-    best = np.full(M.shape + (n_ramps,), np.nan)
-    for index in np.ndindex(M.shape):
-        if np.isfinite(M[index]) and np.isfinite(gamma[index]):
-            start = np.full(n_ramps, equal[index])
-            best[index] = _optimise_one(float(M[index]), n_ramps, float(gamma[index]), start)
-    train = train_from_normal_machs(M, best, gamma)
-    s = nx.scalar_or_array
-    return OptimalRamps(
-        M=s(M), deflections=nx.angle_out(s(train.deflections), angle_unit),
-        recovery=s(np.exp(train.log_recovery)),
-        normal_mach=s(np.concatenate([best, train.terminal_normal_mach[..., None]], axis=-1)),
-        stage_mach=s(train.mach[..., 1:]),
-        equal_strength_deflections=nx.angle_out(s(equal_train.deflections), angle_unit),
-        equal_strength_recovery=s(np.exp(equal_train.log_recovery)),
-        equal_strength_normal_mach=s(equal),
-    )
+    n_ramps = _ramp_count(n_ramps)
+    call = Call(errors)
+    call.take("M", M)
+    call.take("gamma", gamma, keep_scalar=True)
+    call.trailing("ramp", n_ramps)
+    call.trailing("shock", n_ramps + 1)
+    return call.run(OptimalRamps, _optimal_core, n_ramps=n_ramps)
 
 
 # ------------------------------------------------------------------ starting limits
@@ -315,12 +336,22 @@ def isentropic_area_ratio_limit(M, gamma=1.4):
 class ContractionLimits(ResultTable):
     """How much an internal-contraction duct may contract, as throat/entrance area ratios."""
 
-    entrance_mach: object = unit_field("")  #: Mach number entering the internal contraction
-    self_starting: object = unit_field("")  #: Kantrowitz limit: largest contraction that starts
-    isentropic: object = unit_field("")  #: A*/A: most contraction a started duct can run at
+    entrance_mach: FloatArray = unit_field("", "Mach number entering the internal contraction")
+    self_starting: FloatArray = unit_field("", "Kantrowitz limit: largest contraction that starts")
+    isentropic: FloatArray = unit_field("", "A*/A: most contraction a started duct can run at")
 
 
-def contraction_limits(entrance_mach, *, gamma=1.4, errors="raise"):
+def _contraction_core(M, gamma, check):
+    gamma = check.gamma(gamma)
+    M = check.supersonic_mach(M, "entrance_mach")
+    if type(M) is float:
+        return (M, float(kantrowitz_area_ratio(M, gamma)),
+                float(isentropic_area_ratio_limit(M, gamma)))
+    return M, kantrowitz_area_ratio(M, gamma), isentropic_area_ratio_limit(M, gamma)
+
+
+def contraction_limits(entrance_mach: ArrayInput, *, gamma: ArrayInput = 1.4,
+                       errors: str = "raise") -> ContractionLimits:
     """Starting limits of an internal-contraction duct at a supersonic entrance Mach number.
 
     Parameters
@@ -363,12 +394,7 @@ def contraction_limits(entrance_mach, *, gamma=1.4, errors="raise"):
     >>> round(limits.self_starting, 5), round(limits.isentropic, 5)
     (0.82205, 0.59259)
     """
-    nx.check_errors_mode(errors)
-    M, _ = nx.to_si(entrance_mach, "entrance_mach", "dimensionless")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    M, gamma = nx.broadcast(entrance_mach=M, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    M = nx.check_mach_supersonic(M, "entrance_mach", errors)
-    s = nx.scalar_or_array
-    return ContractionLimits(entrance_mach=s(M), self_starting=s(kantrowitz_area_ratio(M, gamma)),
-                             isentropic=s(isentropic_area_ratio_limit(M, gamma)))
+    call = Call(errors)
+    call.take("entrance_mach", entrance_mach)
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run(ContractionLimits, _contraction_core)

@@ -1,22 +1,25 @@
 """Planar external-compression ramp intakes: shock trains, shock-on-lip geometry, spillage.
 
 A ramp intake turns the free stream through a sequence of planar compression
-ramps, each starting an oblique shock, and ends the supersonic compression with
-a terminal normal shock at the cowl lip. This module gives the flow through
-that shock train, the ramp and cowl-lip geometry that focuses every ramp shock
-on the lip at the design Mach number, the spillage of that fixed geometry off
-design, and a flag for shocks strong enough to separate a turbulent boundary
-layer.
+ramps, each starting an oblique shock (or, for an isentropic stage, a
+Prandtl–Meyer compression focused on the cowl lip), and ends the supersonic
+compression with a terminal normal shock at the cowl lip. This module gives the
+flow through that wave train, the ramp and cowl-lip geometry that focuses every
+ramp wave on the lip at the design Mach number, the spillage of that fixed
+geometry off design, the ramp shocks that merge ahead of the cowl off design,
+and a flag for shocks strong enough to separate a turbulent boundary layer.
 
 Plain core (floats and ndarrays, radians, no pint):
 
 - :func:`ramp_shock_train` — Mach number, wave angle, normal Mach number and
-  pressure ratios behind each ramp shock;
+  pressure ratios behind each ramp stage;
 - :func:`shock_on_lip_geometry` — ramp corners, ramp lengths and the lip;
-- :func:`lip_streamline_capture` — where each shock crosses the lip height and
+- :func:`lip_streamline_capture` — where each wave crosses the lip height and
   the captured free-stream height, for any Mach number with the geometry fixed;
 - :func:`incipient_separation_pressure_ratio` — Korkegi's estimate of the
-  pressure rise that starts turbulent separation.
+  pressure rise that starts turbulent separation;
+- :mod:`gasdyn2d.design.intake_waves` — the isentropic stage's wall and where its
+  characteristics cross, and where two ramp waves meet.
 
 Unit boundary: :func:`ramp_intake`. The optimum ramps and the starting limits
 of internal contraction live in :mod:`gasdyn2d.design.intake_design`.
@@ -33,11 +36,26 @@ from typing import NamedTuple
 
 import numpy as np
 
-from .. import _numerics as nx
-from ..boundary.results import ResultTable, unit_field
+from ..boundary import Call, ResultTable, choice, refuse_type, unit_field
+from ..boundary.results import result_fields
+from ..boundary.types import ArrayInput, FloatArray
+from ..boundary.units import is_quantity
 from ..errors import DetachedShockError, InvalidInputError
+from ..patterns.interactions import merging_shocks
+from ..relations.expansion_fans import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
+from ..relations.isentropic import mach_angle_of
 from ..relations.normal_shocks import normal_shock_ratios
-from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios, wave_angle_from_deflection
+from ..relations.oblique_shocks import (
+    detachment_angles,
+    oblique_shock_ratios,
+    wave_angle_from_deflection,
+)
+from .intake_waves import (
+    first_coalescence,
+    isentropic_arc_length,
+    isentropic_radius_ratio,
+    wave_meeting_points,
+)
 
 __all__ = [
     "ramp_intake",
@@ -45,15 +63,17 @@ __all__ = [
     "ShockTrain",
     "IntakeGeometry",
     "LipCapture",
+    "STAGE_KINDS",
     "ramp_shock_train",
     "shock_on_lip_geometry",
     "lip_streamline_capture",
     "incipient_separation_pressure_ratio",
 ]
 
-_TERMINALS = ("normal", "none")
 _KORKEGI_SWITCH_MACH = 4.5  # Korkegi (1975): the two fits meet near M = 4.5 (from memory)
 _ON_LIP_TOLERANCE = 1e-9  # relative to the lip's distance: "shock on the lip" below this
+#: The kinds of ramp stage: an oblique shock, or an isentropic (Prandtl–Meyer) compression.
+STAGE_KINDS = ("shock", "isentropic")
 
 
 # ------------------------------------------------------------------ plain core
@@ -63,7 +83,10 @@ class ShockTrain(NamedTuple):
     """Plain-core result of :func:`ramp_shock_train` (ndarrays; angles in radians).
 
     Per-ramp arrays have the ramps on the last axis (length n); ``mach`` has
-    n + 1 entries: the free stream first, then the flow behind each ramp shock.
+    n + 1 entries: the free stream first, then the flow behind each ramp stage.
+    For an isentropic stage ``wave_angle`` is the Mach angle of its first
+    characteristic, ``normal_mach`` is 1 and ``detachment_deflection`` the turn
+    that would bring the flow to M = 1.
     """
 
     mach: np.ndarray
@@ -74,8 +97,14 @@ class ShockTrain(NamedTuple):
     detachment_deflection: np.ndarray
 
 
-def ramp_shock_train(M, deflections, gamma=1.4):
-    """Plain core: the oblique shocks of a train of compression ramps.
+def _isentropic_flags(isentropic, n):
+    if isentropic is None:
+        return np.zeros(n, dtype=bool)
+    return np.broadcast_to(np.asarray(isentropic, dtype=bool), (n,))
+
+
+def ramp_shock_train(M, deflections, gamma=1.4, isentropic=None):
+    """Plain core: the waves of a train of compression ramps.
 
     Parameters
     ----------
@@ -86,19 +115,24 @@ def ramp_shock_train(M, deflections, gamma=1.4):
         broadcast with ``M`` and ``gamma``.
     gamma : float or ndarray
         Ratio of specific heats [-].
+    isentropic : sequence of bool, optional
+        Per ramp: an isentropic (Prandtl–Meyer) compression instead of an
+        oblique shock. Default: every ramp a shock.
 
     Returns
     -------
     ShockTrain
         NaN from the first ramp whose turn exceeds the detachment deflection at
-        its upstream Mach number (``detachment_deflection`` says which).
+        its upstream Mach number (``detachment_deflection`` says which), or, for an
+        isentropic stage, the turn that brings the flow to M = 1.
 
     Notes
     -----
-    Shock k sees the flow behind shock k - 1 (Mach M(k-1), already parallel to
+    Shock k sees the flow behind stage k - 1 (Mach M(k-1), already parallel to
     ramp k - 1) and turns it by θk: β(k) from the θ-β-M relation on the weak
     branch, M(k) = Mn2/sin(β - θ) (NACA Report 1135, eqs. 128-150). A zero turn
-    gives a Mach wave with no loss.
+    gives a Mach wave with no loss. An isentropic stage keeps p0 and lowers the
+    Prandtl–Meyer function by θk: ν(M(k)) = ν(M(k-1)) - θk (eq. 171).
 
     Examples
     --------
@@ -107,19 +141,36 @@ def ramp_shock_train(M, deflections, gamma=1.4):
     >>> train = ramp_shock_train(2.0, np.radians([10.0]))
     >>> round(float(np.degrees(train.wave_angle[0])), 4), round(float(train.mach[1]), 5)
     (39.3139, 1.64052)
+    >>> iso = ramp_shock_train(2.0, np.radians([10.0]), isentropic=[True])
+    >>> round(float(iso.stagnation_pressure_ratio[0]), 12), round(float(iso.mach[1]), 5)
+    (1.0, 1.65142)
     """
     theta = np.atleast_1d(np.asarray(deflections, dtype=float))
     M = np.asarray(M, dtype=float)
     gamma = np.asarray(gamma, dtype=float)
     shape = np.broadcast_shapes(M.shape, theta.shape[:-1], gamma.shape)
     n = theta.shape[-1]
+    iso = _isentropic_flags(isentropic, n)
     theta = np.broadcast_to(theta, shape + (n,))
-    gamma = np.broadcast_to(gamma, shape)
+    gamma = np.broadcast_to(gamma, shape) if gamma.ndim else gamma
     machs = [np.broadcast_to(M, shape).astype(float)]
     columns = {name: [] for name in ShockTrain._fields[1:]}
     with np.errstate(invalid="ignore", divide="ignore"):
         for k in range(n):
             upstream = machs[-1]
+            if iso[k]:
+                nu = prandtl_meyer_angle(upstream, gamma)
+                downstream = mach_from_prandtl_meyer_angle(nu - theta[..., k], gamma)
+                beyond = np.isnan(downstream) | (theta[..., k] > nu)
+                downstream = np.where(beyond, np.nan, downstream)
+                nan = np.isnan(downstream)
+                machs.append(downstream)
+                columns["wave_angle"].append(mach_angle_of(upstream))
+                columns["normal_mach"].append(np.where(nan, np.nan, 1.0))
+                columns["pressure_ratio"].append(fan_pressure_ratio(upstream, downstream, gamma))
+                columns["stagnation_pressure_ratio"].append(np.where(nan, np.nan, 1.0))
+                columns["detachment_deflection"].append(nu)
+                continue
             theta_max, _ = detachment_angles(upstream, gamma)
             beta = wave_angle_from_deflection(upstream, theta[..., k], gamma)
             ratios = oblique_shock_ratios(upstream, beta, gamma)
@@ -128,8 +179,8 @@ def ramp_shock_train(M, deflections, gamma=1.4):
             columns["normal_mach"].append(ratios.Mn1)
             columns["pressure_ratio"].append(ratios.p2_p1)
             columns["stagnation_pressure_ratio"].append(ratios.p02_p01)
-            columns["detachment_deflection"].append(theta_max)
-    stack = lambda arrays: np.stack(arrays, axis=-1)  # noqa: E731
+            columns["detachment_deflection"].append(np.broadcast_to(theta_max, shape))
+    stack = lambda arrays: np.stack(np.broadcast_arrays(*arrays), axis=-1)  # noqa: E731
     return ShockTrain(stack(machs), *(stack(columns[name]) for name in ShockTrain._fields[1:]))
 
 
@@ -147,9 +198,12 @@ class IntakeGeometry(NamedTuple):
     ``first_ramp_length``; per-ramp arrays on the last axis).
 
     ``corner_x``, ``corner_y`` are the n ramp starts (the leading edge first);
-    ``ramp_lengths`` run along each ramp surface, the last one to the entrance
-    plane (the normal dropped from the lip onto the last ramp);
-    ``entrance_height`` is the length of that normal.
+    ``ramp_lengths`` run along each ramp surface (an isentropic stage's curved
+    wall included), the last one to the entrance plane (the normal dropped from
+    the lip onto the last ramp); ``entrance_height`` is the length of that
+    normal. ``compression_end_x``, ``compression_end_y`` are where each stage's
+    compression ends on the wall: its start for a shock stage, the end of the
+    curved wall for an isentropic one (from there the ramp is straight).
     """
 
     ramp_angle: np.ndarray
@@ -159,18 +213,30 @@ class IntakeGeometry(NamedTuple):
     lip_x: np.ndarray
     lip_y: np.ndarray
     entrance_height: np.ndarray
+    compression_end_x: np.ndarray
+    compression_end_y: np.ndarray
 
 
-def shock_on_lip_geometry(deflections, wave_angles, first_ramp_length=1.0):
-    """Plain core: ramp lengths and lip position at which every ramp shock meets the lip.
+def shock_on_lip_geometry(deflections, wave_angles, first_ramp_length=1.0, *, stage_mach=None,
+                          isentropic=None, gamma=1.4):
+    """Plain core: ramp lengths and lip position at which every ramp wave meets the lip.
 
     Parameters
     ----------
     deflections, wave_angles : ndarray
-        Turn of each ramp and wave angle of its shock relative to its upstream
-        flow [rad] at the design Mach number, ramps on the last axis.
+        Turn of each ramp and wave angle of its shock (for an isentropic stage, the
+        Mach angle of its first characteristic) relative to its upstream flow [rad]
+        at the design Mach number, ramps on the last axis.
     first_ramp_length : float or ndarray
         Length of the first ramp along its surface [any length unit].
+    stage_mach : ndarray, optional
+        Mach numbers of the train at design (n + 1 entries, free stream first;
+        :attr:`ShockTrain.mach`): needed for isentropic stages only.
+    isentropic : sequence of bool, optional
+        Per ramp: an isentropic compression focused on the lip. The first stage must
+        be a shock (it sizes the intake from the leading edge); NaN otherwise.
+    gamma : float or ndarray, optional
+        Ratio of specific heats [-] (isentropic stages only).
 
     Returns
     -------
@@ -178,14 +244,20 @@ def shock_on_lip_geometry(deflections, wave_angles, first_ramp_length=1.0):
 
     Notes
     -----
-    Shock k starts at the corner C(k-1) at the angle σk = δ(k-1) + βk to the
-    free stream. The lip is where shocks 1 and 2 cross; each later corner C(k)
+    Wave k starts at the corner C(k-1) at the angle σk = δ(k-1) + βk to the
+    free stream. The lip is where waves 1 and 2 cross; each later corner C(k)
     is where ramp k's surface meets the line drawn back from the lip at σ(k+1).
     The last ramp ends at the entrance plane, the normal from the lip to its
     surface (where the terminal shock stands); that also places the lip of a
     single-ramp intake, on the shock above the ramp's end. Because σ(k+1) > σk always (a shock is
     slower than the Mach waves behind it), every length comes out positive,
     unless two ramps in a row have zero turn (parallel Mach waves: NaN).
+
+    An isentropic stage k is a centred compression centred on the lip: its wall
+    runs from C(k-1) (on its first characteristic through the lip) to the point
+    at distance r(M(k)) = |lip - C(k-1)| · [(1 + hM(k)²)/(1 + hM(k-1)²)]^((γ+1)/(2(γ-1)))
+    from the lip on the last characteristic, σ = δk + μ(M(k))
+    (:mod:`gasdyn2d.design.intake_waves`); then the ramp is straight at δk.
 
     Examples
     --------
@@ -201,12 +273,15 @@ def shock_on_lip_geometry(deflections, wave_angles, first_ramp_length=1.0):
     length = np.asarray(first_ramp_length, dtype=float)
     shape = np.broadcast_shapes(theta.shape[:-1], length.shape)
     n = theta.shape[-1]
+    iso = _isentropic_flags(isentropic, n)
     theta = np.broadcast_to(theta, shape + (n,))
     beta = np.broadcast_to(beta, shape + (n,))
     length = np.broadcast_to(length, shape)
     delta = np.cumsum(theta, axis=-1)
     upstream_delta = delta - theta
     sigma = upstream_delta + beta
+    if iso.any():
+        mach = np.broadcast_to(np.asarray(stage_mach, dtype=float), shape + (n + 1,))
     with np.errstate(invalid="ignore", divide="ignore"):
         cx1, cy1 = length * np.cos(delta[..., 0]), length * np.sin(delta[..., 0])
         if n == 1:  # the lip stands on the shock, normal to the ramp at its end
@@ -218,23 +293,37 @@ def shock_on_lip_geometry(deflections, wave_angles, first_ramp_length=1.0):
             vx, vy = _direction(sigma[..., 1])
             t = _line_parameter(0.0, 0.0, ux, uy, cx1, cy1, vx, vy)
             lip_x, lip_y = t * ux, t * uy
-        corners_x, corners_y, lengths = [np.zeros(shape)], [np.zeros(shape)], [length]
+        if iso[0]:  # a first isentropic stage cannot be sized from the leading edge
+            lip_x, lip_y = lip_x * np.nan, lip_y * np.nan
+        zero = np.zeros(shape)
+        starts_x, starts_y, ends_x, ends_y, lengths = [zero], [zero], [zero], [zero], [length]
+        straight = length  # the straight part of the ramp before the next corner
         for k in range(1, n):
+            px = ends_x[-1] + straight * np.cos(delta[..., k - 1])
+            py = ends_y[-1] + straight * np.sin(delta[..., k - 1])
+            starts_x.append(px)
+            starts_y.append(py)
+            arc = 0.0
+            if iso[k]:
+                r0 = np.hypot(lip_x - px, lip_y - py)
+                r_end = r0 * isentropic_radius_ratio(mach[..., k], mach[..., k + 1], gamma)
+                tail = delta[..., k] + mach_angle_of(mach[..., k + 1])
+                px, py = lip_x - r_end * np.cos(tail), lip_y - r_end * np.sin(tail)
+                arc = isentropic_arc_length(r0, mach[..., k], mach[..., k + 1], gamma)
+            ends_x.append(px)
+            ends_y.append(py)
             rx, ry = _direction(delta[..., k])
-            px, py = corners_x[-1] + lengths[-1] * np.cos(delta[..., k - 1]), \
-                corners_y[-1] + lengths[-1] * np.sin(delta[..., k - 1])
-            corners_x.append(px)
-            corners_y.append(py)
             if k < n - 1:
                 vx, vy = _direction(sigma[..., k + 1])
-                lengths.append(_line_parameter(px, py, rx, ry, lip_x, lip_y, vx, vy))
+                straight = _line_parameter(px, py, rx, ry, lip_x, lip_y, vx, vy)
             else:  # to the foot of the normal from the lip: the entrance plane
-                lengths.append((lip_x - px) * rx + (lip_y - py) * ry)
+                straight = (lip_x - px) * rx + (lip_y - py) * ry
+            lengths.append(arc + straight)
         last = delta[..., -1]
-        entrance = (lip_y - corners_y[-1]) * np.cos(last) - (lip_x - corners_x[-1]) * np.sin(last)
-    stack = lambda arrays: np.stack(arrays, axis=-1)  # noqa: E731
-    return IntakeGeometry(delta, stack(corners_x), stack(corners_y), stack(lengths), lip_x,
-                          lip_y, entrance)
+        entrance = (lip_y - ends_y[-1]) * np.cos(last) - (lip_x - ends_x[-1]) * np.sin(last)
+    stack = lambda arrays: np.stack(np.broadcast_arrays(*arrays), axis=-1)  # noqa: E731
+    return IntakeGeometry(delta, stack(starts_x), stack(starts_y), stack(lengths), lip_x, lip_y,
+                          entrance, stack(ends_x), stack(ends_y))
 
 
 class LipCapture(NamedTuple):
@@ -342,85 +431,198 @@ def incipient_separation_pressure_ratio(M):
 class RampIntake(ResultTable):
     """Flow through a planar external-compression ramp intake and its geometry.
 
-    Per-shock fields have the shocks on the last axis: the n ramp shocks, and
-    for the fields of length n + 1 the terminal normal shock last. Angles are
-    in radians (Quantities in the caller's angle unit when the deflections
-    were Quantities); lengths are in the unit of ``first_ramp_length``
-    (Quantities when it was one).
+    Per-stage fields have the stages on the last axis (``ramp``, n entries): the
+    n ramp waves; the fields of length n + 1 (``shock``) have the terminal normal
+    shock last; the merging fields (``ramp_pair``, n - 1 entries) describe ramp
+    waves k and k + 1 meeting ahead of the cowl off design. Angles are in radians
+    (Quantities in the caller's angle unit when the deflections were Quantities);
+    lengths are in metres, or in the unit of ``first_ramp_length`` when it was a
+    Quantity (plain numbers: the unit of the plain first_ramp_length).
+
+    For a drawing: the ramp wall runs through ``corner_x/y`` (each stage's start),
+    ``compression_end_x/y`` (the end of an isentropic stage's curved wall, whose
+    points :func:`gasdyn2d.design.intake_waves.isentropic_ramp_contour` gives with
+    the lip as focus at ``design_mach``) and on straight at ``ramp_angles`` for
+    ``ramp_lengths``. Ramp wave k leaves ``corner_x/y[k]`` at ``ramp_angles[k-1] +
+    wave_angles[k]`` from the free stream; where ``merges[k]`` it ends at
+    ``merge_x/y[k]``, as does wave k + 1, and from there run the merged shock (at
+    ``merged_wave_angle``), the slip line (at ``slip_direction``) and the reflected
+    wave (at ``reflected_wave_angle``). An isentropic stage whose characteristics
+    cross ahead of the cowl has ``compression_coalesces`` and the point
+    ``coalescence_x/y`` where the shock forms.
     """
 
-    M: object = unit_field("")  #: free-stream Mach number
-    design_mach: object = unit_field("")  #: Mach number at which every ramp shock meets the lip
-    deflections: object = unit_field("rad")  #: turn of each ramp (n)
-    ramp_angles: object = unit_field("rad")  #: ramp surface inclination to the free stream (n)
-    stage_mach: object = unit_field("")  #: Mach number behind each ramp shock (n)
-    wave_angles: object = unit_field("rad")  #: angle of each ramp shock to its upstream flow (n)
-    normal_mach: object = unit_field("")  #: upstream normal Mach number of every shock (n + 1)
-    pressure_ratios: object = unit_field("")  #: static pressure ratio across every shock (n + 1)
-    stagnation_pressure_ratios: object = unit_field("")  #: p0 ratio across every shock (n + 1)
-    terminal_mach: object = unit_field("")  #: subsonic Mach number behind the terminal shock
-    recovery: object = unit_field("")  #: overall stagnation-pressure ratio p0(out)/p0(free stream)
-    static_pressure_rise: object = unit_field("")  #: static pressure out over free-stream static
-    ramp_lengths: object = unit_field("m")  #: length of each ramp along its surface (n)
-    lip_x: object = unit_field("m")  #: cowl lip, streamwise from the leading edge
-    lip_y: object = unit_field("m")  #: cowl lip height above the leading edge (capture height)
-    entrance_height: object = unit_field("m")  #: lip to last ramp surface, normal to it
-    shock_lead: object = unit_field("m")  #: how far each ramp shock is ahead of the lip (n)
-    shock_enters_cowl: object = unit_field("")  #: ramp shock passes behind the lip (n)
-    mass_flow_ratio: object = unit_field("")  #: captured over geometric-capture mass flow, <= 1
-    separation_pressure_ratios: object = unit_field("")  #: Korkegi estimate per shock (n + 1)
-    separation_risk: object = unit_field("")  #: shock pressure rise above the estimate (n + 1)
+    M: FloatArray = unit_field("", "free-stream Mach number")
+    design_mach: FloatArray = unit_field("", "Mach number at which every ramp wave meets the lip")
+    deflections: FloatArray = unit_field("rad", "turn of each ramp", trailing="ramp")
+    ramp_angles: FloatArray = unit_field("rad", "ramp surface inclination to the free stream",
+                                         trailing="ramp")
+    stage_mach: FloatArray = unit_field("", "Mach number behind each ramp stage", trailing="ramp")
+    wave_angles: FloatArray = unit_field(
+        "rad", "angle of each ramp shock (isentropic stage: first characteristic) to its "
+        "upstream flow", trailing="ramp")
+    normal_mach: FloatArray = unit_field("", "upstream normal Mach number of every wave",
+                                         trailing="shock")
+    pressure_ratios: FloatArray = unit_field("", "static pressure ratio across every wave",
+                                             trailing="shock")
+    stagnation_pressure_ratios: FloatArray = unit_field("", "p0 ratio across every wave",
+                                                        trailing="shock")
+    terminal_mach: FloatArray = unit_field("", "subsonic Mach number behind the terminal shock")
+    recovery: FloatArray = unit_field("", "overall stagnation-pressure ratio p0(out)/p0(free stream)")
+    static_pressure_rise: FloatArray = unit_field("", "static pressure out over free-stream static")
+    ramp_lengths: FloatArray = unit_field("m", "length of each ramp along its surface",
+                                          trailing="ramp")
+    lip_x: FloatArray = unit_field("m", "cowl lip, streamwise from the leading edge")
+    lip_y: FloatArray = unit_field("m", "cowl lip height above the leading edge (capture height)")
+    entrance_height: FloatArray = unit_field("m", "lip to last ramp surface, normal to it")
+    shock_lead: FloatArray = unit_field("m", "how far each ramp wave is ahead of the lip",
+                                        trailing="ramp")
+    shock_enters_cowl: FloatArray = unit_field("", "ramp wave passes behind the lip", dtype=bool,
+                                               trailing="ramp")
+    mass_flow_ratio: FloatArray = unit_field("", "captured over geometric-capture mass flow, <= 1")
+    separation_pressure_ratios: FloatArray = unit_field("", "Korkegi estimate per shock",
+                                                        trailing="shock")
+    separation_risk: FloatArray = unit_field("", "shock pressure rise above the estimate",
+                                             dtype=bool, trailing="shock")
+    stages: np.ndarray = unit_field("", "kind of each ramp stage: shock or isentropic",
+                                    dtype=str, trailing="ramp")
+    corner_x: FloatArray = unit_field("m", "start of each ramp stage on the wall", trailing="ramp")
+    corner_y: FloatArray = unit_field("m", "start of each ramp stage on the wall", trailing="ramp")
+    compression_end_x: FloatArray = unit_field(
+        "m", "end of each stage's compression on the wall (its start for a shock stage)",
+        trailing="ramp")
+    compression_end_y: FloatArray = unit_field(
+        "m", "end of each stage's compression on the wall (its start for a shock stage)",
+        trailing="ramp")
+    compression_coalesces: FloatArray = unit_field(
+        "", "an isentropic stage's characteristics cross ahead of the cowl (a shock forms)",
+        dtype=bool, trailing="ramp")
+    coalescence_x: FloatArray = unit_field("m", "where they first cross (NaN if not ahead)",
+                                           trailing="ramp")
+    coalescence_y: FloatArray = unit_field("m", "where they first cross (NaN if not ahead)",
+                                           trailing="ramp")
+    merges: FloatArray = unit_field("", "ramp shocks k and k+1 meet outside the duct",
+                                    dtype=bool, trailing="ramp_pair")
+    merge_x: FloatArray = unit_field("m", "where they meet (NaN if they do not)",
+                                     trailing="ramp_pair")
+    merge_y: FloatArray = unit_field("m", "where they meet (NaN if they do not)",
+                                     trailing="ramp_pair")
+    merged_wave_angle: FloatArray = unit_field("rad", "merged shock angle from the free stream",
+                                               trailing="ramp_pair")
+    merged_turn: FloatArray = unit_field("rad", "flow turn across the merged shock",
+                                         trailing="ramp_pair")
+    merged_mach: FloatArray = unit_field("", "Mach number behind the merged shock",
+                                         trailing="ramp_pair")
+    merged_pressure_ratio: FloatArray = unit_field(
+        "", "static pressure behind the merged shock over free-stream static", trailing="ramp_pair")
+    merged_recovery: FloatArray = unit_field(
+        "", "stagnation pressure behind the merged shock over free-stream p0", trailing="ramp_pair")
+    reflected_kind: FloatArray = unit_field("", "wave sent back from the merge: shock or fan",
+                                            dtype=str, trailing="ramp_pair")
+    reflected_turn: FloatArray = unit_field("rad", "signed flow turn across the reflected wave",
+                                            trailing="ramp_pair")
+    reflected_wave_angle: FloatArray = unit_field(
+        "rad", "reflected shock (or fan head) from the free stream", trailing="ramp_pair")
+    slip_direction: FloatArray = unit_field("rad", "slip line from the merge, from the free stream",
+                                            trailing="ramp_pair")
+    slip_line_enters_cowl: FloatArray = unit_field(
+        "", "the slip line passes below the lip (into the intake)", dtype=bool,
+        trailing="ramp_pair")
+    reflected_enters_cowl: FloatArray = unit_field(
+        "", "the reflected wave passes below the lip (into the intake)", dtype=bool,
+        trailing="ramp_pair")
 
 
-def _deflections_to_si(deflections):
-    """Deflections as an ndarray [rad]; a list of Quantities is converted one by one."""
-    if isinstance(deflections, (list, tuple)) and any(nx.is_quantity(d) for d in deflections):
-        converted = [nx.to_si(d, f"deflections[{i}]", "angle") for i, d in enumerate(deflections)]
-        units = [u for _, u in converted if u is not None]
-        return np.stack([np.asarray(a) for a, _ in converted], axis=-1), units[0]
-    theta, unit = nx.to_si(deflections, "deflections", "angle")
-    if theta.ndim == 0:
-        theta = theta[None]
-    if theta.shape[-1] == 0:
+_CASE_FIELDS = tuple(f for f in result_fields(RampIntake) if f.name != "stages")
+
+
+def _take_ramps(call, deflections):
+    """Take the ramp turns as n case arguments ``deflections[k]`` (the last axis split), so
+    that each broadcasts with M like any case argument; returns n."""
+    if deflections is None:
+        raise InvalidInputError("deflections is required; got None.")
+    if isinstance(deflections, (str, bytes, bool, np.bool_, complex)):
+        raise refuse_type("deflections", deflections, "a sequence of ramp turns")
+    module = type(deflections).__module__.partition(".")[0]
+    if module == "pandas":
+        raise InvalidInputError(
+            "deflections must be a list or array with the ramps on the last axis (or a "
+            "DataArray with a 'ramp' dimension); a pandas object is ambiguous here. Give "
+            "the ramp turns of each case as a row of a 2-D array.")
+    if module == "xarray":
+        dim = "ramp" if "ramp" in deflections.dims else deflections.dims[-1]
+        parts = [deflections.isel({dim: k}, drop=True) for k in range(deflections.sizes[dim])]
+    elif isinstance(deflections, (list, tuple)) and any(is_quantity(d) for d in deflections):
+        parts = list(deflections)  # one Quantity per ramp
+    elif is_quantity(deflections) or module == "dask" or isinstance(deflections, np.ndarray):
+        parts = [deflections] if np.ndim(deflections) == 0 else [
+            deflections[..., k] for k in range(deflections.shape[-1])]
+    else:
+        array = np.asarray(deflections) if isinstance(deflections, (list, tuple)) else deflections
+        parts = [array] if np.ndim(array) == 0 else [array[..., k] for k in range(array.shape[-1])]
+    if not parts:
         raise InvalidInputError("deflections must hold at least one ramp turn; got none.")
-    return theta, unit
+    for k, part in enumerate(parts):
+        call.take(f"deflections[{k}]", part, "rad")
+    return len(parts)
 
 
-def _check_turns(theta, errors):
+def _stage_kinds(stages, n):
+    if stages is None:
+        return ("shock",) * n
+    if isinstance(stages, str) or not isinstance(stages, (list, tuple)):
+        raise InvalidInputError(
+            f"stages must be a list of 'shock' or 'isentropic', one per ramp; got {stages!r}.")
+    if len(stages) != n:
+        raise InvalidInputError(
+            f"stages must name one kind per ramp ({n} ramps); got {len(stages)}: {stages!r}.")
+    kinds = tuple(choice(f"stages[{k}]", kind, {name: name for name in STAGE_KINDS})
+                  for k, kind in enumerate(stages))
+    if kinds[0] != "shock":
+        raise InvalidInputError(
+            "stages[0] must be 'shock': the first ramp starts at the sharp leading edge, and "
+            "the intake is sized from it (give a small first turn for a nearly isentropic "
+            "intake).")
+    return kinds
+
+
+def _checked_turns(thetas, check):
     """Reject negative turns and two zero turns in a row (NaN under errors='nan')."""
-    theta = np.array(theta, dtype=float)
-    for k in range(theta.shape[-1]):
+    out = []
+    for k, theta in enumerate(thetas):
         with np.errstate(invalid="ignore"):
-            theta[..., k] = nx.reject(theta[..., k] < 0, theta[..., k], f"deflections[{k}]",
-                                      f">= 0 (ramp {k + 1} must compress the flow)", errors,
-                                      unit_text="rad")
+            theta = check.reject(theta < 0, theta, f"deflections[{k}]",
+                                 f">= 0 (ramp {k + 1} must compress the flow)", unit_text="rad")
             if k:
-                theta[..., k] = nx.reject(
-                    (theta[..., k] == 0) & (theta[..., k - 1] == 0), theta[..., k],
-                    f"deflections[{k}]", f"> 0 when deflections[{k - 1}] is 0", errors,
-                    unit_text="rad", hint="Two zero turns in a row make parallel Mach waves "
-                    "that never meet at a lip; merge the two ramps into one.")
-    return theta
+                theta = check.reject(
+                    (theta == 0) & (out[-1] == 0), theta, f"deflections[{k}]",
+                    f"> 0 when deflections[{k - 1}] is 0", unit_text="rad",
+                    hint="Two zero turns in a row make parallel Mach waves that never meet at a "
+                         "lip; merge the two ramps into one.")
+        out.append(theta)
+    return np.stack(out, axis=-1)
 
 
-def _attached_train(M, theta, gamma, errors, mach_name):
-    """The shock train, with every ramp checked against detachment at its stage's Mach number.
-
-    One train is computed; a detached stage is NaN in it and in every later stage, so
-    under errors='nan' the whole case comes out NaN. Under 'raise' the first failing ramp
-    is named with its upstream Mach number.
-    """
-    train = ramp_shock_train(M, theta, gamma)
+def _attached_train(M, theta, gamma, check, mach_name, iso):
+    """The wave train, every ramp checked against detachment (or, for an isentropic stage,
+    against reaching M = 1) at its stage's Mach number. A failing stage is NaN in the
+    train and so is every later one; under 'raise' the first failing ramp is named."""
+    train = ramp_shock_train(M, theta, gamma, iso)
     theta = np.array(theta, dtype=float)
     for k in range(theta.shape[-1]):
         upstream, theta_max = train.mach[..., k], train.detachment_deflection[..., k]
         with np.errstate(invalid="ignore"):
             bad = ~(theta[..., k] <= theta_max) & ~np.isnan(upstream) & ~np.isnan(theta[..., k])
         limit, hint = None, ""
-        if np.any(bad) and errors == "raise":
+        if not check.nan and bad.any():
             index = tuple(np.argwhere(bad)[0]) if bad.ndim else ()
             stage_mach = float(upstream[index])
-            if stage_mach >= 1.0:
+            if iso[k] and stage_mach >= 1.0:
+                limit = theta_max
+                hint = (f"Ramp {k + 1} (isentropic) sees the flow at M = {stage_mach:.6g} "
+                        f"({mach_name} {float(M[index]):.6g}); a larger turn would compress it "
+                        f"below M = 1. Lower the turn of ramp {k + 1} or of the ramps ahead.")
+            elif stage_mach >= 1.0:
                 limit = theta_max
                 hint = (f"Ramp {k + 1} sees the flow at M = {stage_mach:.6g} ({mach_name} "
                         f"{float(M[index]):.6g}); above θmax no attached shock exists. Lower "
@@ -429,25 +631,186 @@ def _attached_train(M, theta, gamma, errors, mach_name):
                 hint = (f"The flow behind ramp {k} is subsonic (M = {stage_mach:.6g}) at "
                         f"{mach_name} {float(M[index]):.6g}, so ramp {k + 1} cannot start an "
                         f"attached shock. Lower the turns of the ramps ahead of it.")
-        theta[..., k] = nx.reject(
-            bad, theta[..., k], f"deflections[{k}]",
-            f"at most the detachment deflection of ramp {k + 1} at its upstream Mach number",
-            errors, limit=limit, unit_text="rad", error_class=DetachedShockError, hint=hint)
+        requirement = (f"at most the turn that brings ramp {k + 1}'s flow to M = 1"
+                       if iso[k] else f"at most the detachment deflection of ramp {k + 1} at "
+                       "its upstream Mach number")
+        theta[..., k] = check.reject(bad, theta[..., k], f"deflections[{k}]", requirement,
+                                     limit=limit, unit_text="rad",
+                                     error_class=DetachedShockError, hint=hint)
     return theta, train
 
 
-def ramp_intake(M, deflections, *, design_mach=None, first_ramp_length=1.0, terminal="normal",
-                gamma=1.4, errors="raise"):
+def _ramp_intake_core(*args, n, has_design, terminal, iso):
+    """Checked core of :func:`ramp_intake` (floats or arrays): the fields in order.
+
+    ``args`` are M, the n ramp turns, design_mach (if given), first_ramp_length, gamma
+    and the Check. A single case (floats) runs as one-element arrays.
+    """
+    *values, check = args
+    scalar = all(type(v) is float for v in values[:-1])
+    gamma = check.gamma(values[-1])
+    length = values[-2]
+    M, thetas = values[0], values[1:1 + n]
+    design = values[1 + n] if has_design else None
+    if scalar:
+        M, length = np.array([M]), np.array([length])
+        thetas = [np.array([t]) for t in thetas]
+        design = None if design is None else np.array([design])
+    M = check.at_least(M, "M", 1.0, inclusive=False, what="supersonic flow")
+    if design is not None:
+        design = check.at_least(design, "design_mach", 1.0, inclusive=False,
+                                what="supersonic flow")
+    length = check.positive(length, "first_ramp_length", "m", what="a ramp length")
+    theta = _checked_turns(thetas, check)
+    gamma_a = np.asarray(gamma, dtype=float)
+    theta, train = _attached_train(M, theta, gamma_a, check, "free-stream M", iso)
+    design_train = train
+    if design is not None:
+        theta, design_train = _attached_train(design, theta, gamma_a, check, "design_mach", iso)
+    else:
+        design = M
+    case_nan = np.isnan(M) | np.isnan(design) | np.isnan(length) | np.isnan(gamma_a)
+    case_nan |= np.isnan(theta).any(axis=-1)
+    if case_nan.any():  # blank whole cases: every field of a rejected case is NaN
+        M, design = np.where(case_nan, np.nan, M), np.where(case_nan, np.nan, design)
+        theta = np.where(case_nan[..., None], np.nan, theta)
+        train = ramp_shock_train(M, theta, gamma_a, iso)
+        design_train = ramp_shock_train(design, theta, gamma_a, iso)
+    fields = _assemble(M, design, theta, length, gamma_a, terminal, train, design_train, iso)
+    if scalar:
+        return tuple(f[0] for f in fields)
+    return fields
+
+
+def _assemble(M, design, theta, length, gamma, terminal, train, design_train, iso):
+    geometry = shock_on_lip_geometry(theta, design_train.wave_angle, length,
+                                     stage_mach=design_train.mach, isentropic=iso, gamma=gamma)
+    capture = lip_streamline_capture(geometry, train.wave_angle)
+    last = train.mach[..., -1]
+    with np.errstate(invalid="ignore"):
+        ns = normal_shock_ratios((last - 1.0) * (last + 1.0), gamma)
+        if not terminal:
+            ns = ns._replace(**{k: np.full_like(last, np.nan) for k in ns._fields})
+        shock_machs = np.concatenate([train.normal_mach, last[..., None] + 0.0 * ns.M2[..., None]],
+                                     axis=-1)
+        p_ratios = np.concatenate([train.pressure_ratio, ns.p2_p1[..., None]], axis=-1)
+        p0_ratios = np.concatenate([train.stagnation_pressure_ratio, ns.p02_p01[..., None]],
+                                   axis=-1)
+        counted = p0_ratios if terminal else p0_ratios[..., :-1]
+        counted_p = p_ratios if terminal else p_ratios[..., :-1]
+        ahead = np.concatenate([train.mach[..., :-1], last[..., None]], axis=-1)
+        separation = incipient_separation_pressure_ratio(ahead)
+        risk = p_ratios > separation
+        risk[..., :-1] &= ~iso  # an isentropic compression has no shock to separate at
+        lip_distance = np.hypot(geometry.lip_x, geometry.lip_y)
+        enters = capture.shock_lead < -_ON_LIP_TOLERANCE * lip_distance[..., None]
+        on_design = np.all(np.abs(capture.shock_lead)
+                           <= _ON_LIP_TOLERANCE * lip_distance[..., None], axis=-1)
+        ratio = np.where(on_design, 1.0, capture.captured_height / geometry.lip_y)
+    coalescence = _coalescence(geometry, theta, train, design_train, gamma, iso, lip_distance)
+    merging = _merging(geometry, theta, train, gamma, iso, lip_distance)
+    return (M, design, theta, geometry.ramp_angle, train.mach[..., 1:], train.wave_angle,
+            shock_machs, p_ratios, p0_ratios, ns.M2, np.prod(counted, axis=-1),
+            np.prod(counted_p, axis=-1), geometry.ramp_lengths, geometry.lip_x, geometry.lip_y,
+            geometry.entrance_height, capture.shock_lead, enters, ratio, separation, risk,
+            geometry.corner_x, geometry.corner_y, geometry.compression_end_x,
+            geometry.compression_end_y, *coalescence, *merging)
+
+
+def _coalescence(geometry, theta, train, design_train, gamma, iso, lip_distance):
+    """Per stage: do an isentropic stage's characteristics cross ahead of the cowl, and where."""
+    shape = theta.shape
+    flag = np.zeros(shape, dtype=bool)
+    x, y = np.full(shape, np.nan), np.full(shape, np.nan)
+    upstream = geometry.ramp_angle - theta
+    for k in np.flatnonzero(iso):
+        point = first_coalescence(
+            geometry.corner_x[..., k], geometry.corner_y[..., k], geometry.lip_x, geometry.lip_y,
+            upstream[..., k], design_train.mach[..., k], train.mach[..., k], theta[..., k], gamma)
+        with np.errstate(invalid="ignore"):
+            ahead = point.x < geometry.lip_x - _ON_LIP_TOLERANCE * lip_distance
+        flag[..., k] = ahead
+        x[..., k] = np.where(ahead, point.x, np.nan)
+        y[..., k] = np.where(ahead, point.y, np.nan)
+    return flag, x, y
+
+
+def _merging(geometry, theta, train, gamma, iso, lip_distance):
+    """Per pair of successive shock stages: where they meet outside the duct (ahead of the lip
+    plane or above the lip), and the merged shock, reflected wave and slip line there
+    (:func:`gasdyn2d.merging_shocks`)."""
+    shape = theta.shape[:-1] + (theta.shape[-1] - 1,)
+    merges = np.zeros(shape, dtype=bool)
+    out = {name: np.full(shape, np.nan) for name in (
+        "x", "y", "wave_angle", "turn", "mach", "p", "p0", "reflected_turn", "reflected_angle",
+        "slip")}
+    kinds = np.full(shape, "", dtype="<U5")
+    slip_in, reflected_in = np.zeros(shape, dtype=bool), np.zeros(shape, dtype=bool)
+    upstream = geometry.ramp_angle - theta
+    sigma = upstream + train.wave_angle
+    p_ahead = np.cumprod(train.pressure_ratio, axis=-1) / train.pressure_ratio
+    p0_ahead = np.cumprod(train.stagnation_pressure_ratio, axis=-1) / train.stagnation_pressure_ratio
+    for k in range(shape[-1]):
+        if iso[k] or iso[k + 1]:
+            continue  # a compression fan beside a shock is not a shock merger
+        meet = wave_meeting_points(geometry.corner_x[..., k], geometry.corner_y[..., k],
+                                   sigma[..., k], geometry.corner_x[..., k + 1],
+                                   geometry.corner_y[..., k + 1], sigma[..., k + 1])
+        slack = _ON_LIP_TOLERANCE * lip_distance
+        with np.errstate(invalid="ignore"):
+            outside_duct = (meet.x < geometry.lip_x - slack) | (meet.y > geometry.lip_y + slack)
+            here = (meet.along_first > 0.0) & (meet.along_second > 0.0) & outside_duct
+        if not here.any():
+            continue
+        merges[..., k] = here
+        index = np.nonzero(here)
+        g = float(gamma) if np.ndim(gamma) == 0 else gamma[index]
+        M_up = train.mach[..., k][index]
+        merged = merging_shocks(M_up, theta[..., k][index], theta[..., k + 1][index], gamma=g,
+                                errors="nan")
+        direction = upstream[..., k][index]
+        x, y = meet.x[index], meet.y[index]
+        lip_x, lip_y = geometry.lip_x[index], geometry.lip_y[index]
+        kind = np.asarray(merged.reflected_kind, dtype="<U5")
+        turn = np.asarray(merged.reflected_turn, dtype=float)
+        behind = geometry.ramp_angle[..., k + 1][index]  # flow direction ahead of the reflection
+        M3 = train.mach[..., k + 2][index]
+        with np.errstate(invalid="ignore"):
+            reflected_beta = wave_angle_from_deflection(M3, np.abs(turn), g)
+            reflected_angle = behind - np.where(kind == "shock", reflected_beta, mach_angle_of(M3))
+            wave_angle = direction + np.asarray(merged.wave_angle, dtype=float)
+            slip = direction + np.asarray(merged.slip_direction, dtype=float)
+            merged_p0 = oblique_shock_ratios(M_up, np.asarray(merged.wave_angle, dtype=float),
+                                             g).p02_p01
+            run = lip_x - x  # from the merge to the lip plane; none from behind the lip
+            slip_in[..., k][index] = (run > 0.0) & (y + run * np.tan(slip) < lip_y)
+            reflected_in[..., k][index] = (run > 0.0) & (y + run * np.tan(reflected_angle) < lip_y)
+        kinds[..., k][index] = kind
+        for name, value in (("x", x), ("y", y), ("wave_angle", wave_angle),
+                            ("turn", merged.merged_turn), ("mach", merged.M_above_slip),
+                            ("p", p_ahead[..., k][index] * np.asarray(merged.p_p1, dtype=float)),
+                            ("p0", p0_ahead[..., k][index] * merged_p0),
+                            ("reflected_turn", turn), ("reflected_angle", reflected_angle),
+                            ("slip", slip)):
+            out[name][..., k][index] = value
+    return (merges, out["x"], out["y"], out["wave_angle"], out["turn"], out["mach"], out["p"],
+            out["p0"], kinds, out["reflected_turn"], out["reflected_angle"], out["slip"],
+            slip_in, reflected_in)
+def ramp_intake(M: ArrayInput, deflections: ArrayInput, *, design_mach: ArrayInput = None,
+                first_ramp_length: ArrayInput = 1.0, terminal: str = "normal", stages=None,
+                gamma: ArrayInput = 1.4, errors: str = "raise") -> RampIntake:
     """Flow, losses and shock-on-lip geometry of a planar external-compression ramp intake.
 
     Parameters
     ----------
-    M : float or array_like
+    M : float, array_like, DataArray, Series or dask array
         Free-stream Mach number [-], > 1.
     deflections : array_like or Quantity
         Turn of each ramp [rad] (n values, first ramp first, each >= 0); a
         2-D array gives one set of ramps per row, broadcasting with ``M``. A
-        list of angle Quantities is accepted.
+        list of angle Quantities is accepted, and a DataArray whose ``ramp``
+        dimension (or last one) holds the ramps; pandas objects are refused
+        (ambiguous).
     design_mach : float or array_like, optional
         Mach number at which the ramp shocks all meet at the cowl lip; fixes the
         geometry. Default: ``M`` (on design).
@@ -458,6 +821,10 @@ def ramp_intake(M, deflections, *, design_mach=None, first_ramp_length=1.0, term
         ``"normal"``: a terminal normal shock at the lip at the Mach number
         behind the last ramp (critical operation). ``"none"``: the ramp shocks
         only (as for the external part of a mixed-compression intake).
+    stages : sequence of {"shock", "isentropic"}, optional
+        Kind of each ramp stage (default: every one a shock). An isentropic stage
+        is a concave ramp whose Prandtl–Meyer compression is focused on the lip at
+        ``design_mach``; the first stage must be a shock.
     gamma : float or array_like, optional
         Ratio of specific heats [-], > 1.
     errors : {"raise", "nan"}, optional
@@ -466,6 +833,10 @@ def ramp_intake(M, deflections, *, design_mach=None, first_ramp_length=1.0, term
     Returns
     -------
     RampIntake
+        Immutable (read-only arrays, no shared memory), in the inputs' container:
+        floats for a single case; DataArrays with the inputs' dimensions (per-ramp
+        fields add ``ramp``, ``shock`` or ``ramp_pair``); Series on the input's index
+        (per-ramp fields as DataFrames); lazy dask arrays, computed blockwise.
 
     Raises
     ------
@@ -493,6 +864,29 @@ def ramp_intake(M, deflections, *, design_mach=None, first_ramp_length=1.0, term
     (``shock_enters_cowl``), the full stream tube is captured (ratio 1) and
     the shocks reflect inside the duct, which this model does not follow.
 
+    **Merging shocks.** Off design two successive ramp shocks meet short of the
+    lip (at design they meet on it). Where they meet outside the duct (ahead of the
+    lip plane, or above the lip) they merge (:func:`gasdyn2d.merging_shocks`, in the frame of the flow ahead of
+    the first): the merged shock runs on outward, a weak reflected wave (shock or
+    fan) and a slip line run downstream; the result gives where (``merge_x``,
+    ``merge_y``), the merged shock's angle and the state behind it, and whether the
+    slip line and the reflected wave pass below the lip into the intake. Below
+    design the merge lies above the lip, in the spilled flow; above design the
+    shocks can meet below the lip, and the merged shock, the slip line and the
+    reflected wave then enter the cowl. The spillage estimate traces the lip
+    streamline through the single shocks, and the recovery is that of the stream
+    below the merge, which holds while the merge lies above the lip streamline
+    (the tests check typical layouts). With three or more ramps each successive
+    pair is treated on its own.
+
+    **Isentropic stages.** ν falls by the turn and p0 is kept; at ``design_mach``
+    the compression is focused on the lip and exact. Off design the built wall's
+    characteristics cross: ``compression_coalesces`` flags a stage where they first
+    cross ahead of the lip plane (a shock forms there, which the model does not
+    follow; the stage's numbers are then those of the isentropic compression), and
+    the spillage trace turns the flow on the stage's first characteristic (exact at
+    design, an approximation off it).
+
     ``separation_risk`` compares each shock's pressure ratio with Korkegi's
     incipient-separation estimate for turbulent boundary layers at the Mach
     number ahead of it (:func:`incipient_separation_pressure_ratio`).
@@ -517,81 +911,22 @@ def ramp_intake(M, deflections, *, design_mach=None, first_ramp_length=1.0, term
     >>> round(ramp_intake(2.2, [8.0, 9.0] * ureg.deg, design_mach=2.5).mass_flow_ratio, 4)
     0.9131
     """
-    nx.check_errors_mode(errors)
-    if terminal not in _TERMINALS:
-        raise InvalidInputError(f"terminal must be 'normal' or 'none'; got {terminal!r}.")
-    M, unit_m = nx.to_si(M, "M", "dimensionless")
-    theta, unit_theta = _deflections_to_si(deflections)
-    length, unit_length = nx.to_si(first_ramp_length, "first_ramp_length", "length")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    design, _ = nx.to_si(M if design_mach is None else design_mach, "design_mach", "dimensionless")
-    n = theta.shape[-1]
-    M, design, length, gamma, _ = nx.broadcast(
-        M=M, design_mach=design, first_ramp_length=length, gamma=gamma,
-        sets_of_deflections=theta[..., 0])  # the batch axes of deflections (ramps last)
-    theta = np.broadcast_to(theta, M.shape + (n,))
-    gamma = nx.check_gamma(gamma, errors)
-    M = nx.check_finite_at_least(M, "M", 1.0, errors, what="supersonic flow", inclusive=False)
-    design = nx.check_finite_at_least(design, "design_mach", 1.0, errors,
-                                      what="supersonic flow", inclusive=False)
-    length = nx.check_finite_at_least(length, "first_ramp_length", 0.0, errors,
-                                      what="a ramp length", inclusive=False)
-    theta = _check_turns(theta, errors)
-    theta, train = _attached_train(M, theta, gamma, errors, "free-stream M")
-    design_train = train
-    if design_mach is not None:
-        theta, design_train = _attached_train(design, theta, gamma, errors, "design_mach")
-    case_nan = np.isnan(M) | np.isnan(design) | np.isnan(length) | np.isnan(gamma)
-    case_nan |= np.isnan(theta).any(axis=-1)
-    if np.any(case_nan):  # blank whole cases: every field of a rejected case is NaN
-        M, design = np.where(case_nan, np.nan, M), np.where(case_nan, np.nan, design)
-        theta = np.where(case_nan[..., None], np.nan, theta)
-        train = ramp_shock_train(M, theta, gamma)
-        design_train = ramp_shock_train(design, theta, gamma)
-    return _assemble(M, design, theta, length, gamma, terminal, train, design_train,
-                     unit_m, unit_theta, unit_length)
-
-
-def _assemble(M, design, theta, length, gamma, terminal, train, design_train, unit_m,
-              unit_theta, unit_length):
-    geometry = shock_on_lip_geometry(theta, design_train.wave_angle, length)
-    capture = lip_streamline_capture(geometry, train.wave_angle)
-    last = train.mach[..., -1]
-    with np.errstate(invalid="ignore"):
-        ns = normal_shock_ratios((last - 1.0) * (last + 1.0), gamma)
-        if terminal == "none":
-            ns = ns._replace(**{k: np.full_like(last, np.nan) for k in ns._fields})
-        shock_machs = np.concatenate([train.normal_mach, last[..., None] + 0.0 * ns.M2[..., None]],
-                                     axis=-1)
-        p_ratios = np.concatenate([train.pressure_ratio, ns.p2_p1[..., None]], axis=-1)
-        p0_ratios = np.concatenate([train.stagnation_pressure_ratio, ns.p02_p01[..., None]],
-                                   axis=-1)
-        counted = p0_ratios if terminal == "normal" else p0_ratios[..., :-1]
-        recovery = np.prod(counted, axis=-1)
-        counted_p = p_ratios if terminal == "normal" else p_ratios[..., :-1]
-        ahead = np.concatenate([train.mach[..., :-1], last[..., None]], axis=-1)
-        separation = incipient_separation_pressure_ratio(ahead)
-        risk = p_ratios > separation
-        lip_distance = np.hypot(geometry.lip_x, geometry.lip_y)[..., None]
-        enters = capture.shock_lead < -_ON_LIP_TOLERANCE * lip_distance
-        on_design = np.all(np.abs(capture.shock_lead) <= _ON_LIP_TOLERANCE * lip_distance, axis=-1)
-        ratio = np.where(on_design, 1.0, capture.captured_height / geometry.lip_y)
-    s = nx.scalar_or_array
-    angle_unit = nx.output_angle_unit(unit_theta, unit_m, unit_length)
-    angle = lambda value: nx.angle_out(s(value), angle_unit)  # noqa: E731
-    if unit_length is None and (unit_theta is not None or unit_m is not None):
-        unit_length = nx.ureg().meter  # a Quantity anywhere in: lengths come out as Quantities
-    size = lambda value: nx.quantity_out(s(value), "meter", unit_length)  # noqa: E731
-    return RampIntake(
-        M=s(M), design_mach=s(design), deflections=angle(theta),
-        ramp_angles=angle(geometry.ramp_angle), stage_mach=s(train.mach[..., 1:]),
-        wave_angles=angle(train.wave_angle), normal_mach=s(shock_machs),
-        pressure_ratios=s(p_ratios), stagnation_pressure_ratios=s(p0_ratios),
-        terminal_mach=s(ns.M2), recovery=s(recovery),
-        static_pressure_rise=s(np.prod(counted_p, axis=-1)),
-        ramp_lengths=size(geometry.ramp_lengths), lip_x=size(geometry.lip_x),
-        lip_y=size(geometry.lip_y), entrance_height=size(geometry.entrance_height),
-        shock_lead=size(capture.shock_lead), shock_enters_cowl=np.asarray(enters),
-        mass_flow_ratio=s(ratio), separation_pressure_ratios=s(separation),
-        separation_risk=np.asarray(risk),
-    )
+    terminal = choice("terminal", terminal, {"normal": True, "none": False})
+    call = Call(errors)
+    call.take("M", M)
+    n = _take_ramps(call, deflections)
+    kinds = _stage_kinds(stages, n)
+    has_design = design_mach is not None
+    if has_design:
+        call.take("design_mach", design_mach)
+    call.take("first_ramp_length", first_ramp_length, "m")
+    call.take("gamma", gamma, keep_scalar=True)
+    for name, size in (("ramp", n), ("shock", n + 1), ("ramp_pair", n - 1)):
+        call.trailing(name, size)
+    iso = np.array([kind == "isentropic" for kind in kinds])
+    values = dict(zip((f.name for f in _CASE_FIELDS), call.evaluate(
+        _CASE_FIELDS, _ramp_intake_core, n=n, has_design=has_design, terminal=terminal,
+        iso=iso)))
+    values["stages"] = np.array(kinds)
+    values["stages"].flags.writeable = False
+    return RampIntake.from_fields([values[f.name] for f in result_fields(RampIntake)])

@@ -22,30 +22,37 @@ layer, skin friction, separation or real-gas effects.
 from __future__ import annotations
 
 import dataclasses
+import math
 from typing import NamedTuple
 
 import numpy as np
 
-from .. import _numerics as nx
-from ..boundary.results import ResultTable, unit_field
+from .. import numerics as nx
+from ..boundary import Call, ResultTable, unit_field
+from ..boundary.checks import format_value
+from ..boundary.results import result_fields
+from ..boundary.types import ArrayInput, FloatArray
 from ..errors import DetachedShockError, InvalidInputError, NoSolutionError
 from ..relations.expansion_fans import fan_pressure_ratio, mach_from_prandtl_meyer_angle, max_prandtl_meyer_angle
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.oblique_shocks import detachment_angles
-from .sections import Section
 from ..relations.simple_waves import turn_state
+from .sections import Section
 
 __all__ = [
     "SectionLoads",
     "shock_expansion_loads",
     "linear_loads",
     "second_order_loads",
+    "loads_function",
+    "THEORIES",
     "surface_pressure_ratios",
     "SurfaceFlow",
 ]
 
 _TE_MAX_ITER = 40
 _TE_TOLERANCE = 1e-15  # [rad], absolute, on the slip direction
+_TE_MATCHED = 1e-10  # |ln p_upper - ln p_lower| below which the two streams are matched
 
 
 # --------------------------------------------------------------------- result type
@@ -100,23 +107,32 @@ class SectionLoads(ResultTable):
         "shock-expansion", "linear" or "second-order".
     """
 
-    M: object = unit_field("")
-    alpha: object = unit_field("rad")
-    cl: object = unit_field("")
-    cd: object = unit_field("")
-    cm_le: object = unit_field("")
-    x_cp: object = unit_field("chord")
-    slip_direction: object = unit_field("rad")
-    wake_pressure_ratio: object = unit_field("")
-    cp_upper: object = unit_field("")
-    cp_lower: object = unit_field("")
-    x_upper: object = unit_field("chord")
-    x_lower: object = unit_field("chord")
-    detached: object = unit_field("")
-    subsonic: object = unit_field("")
-    vacuum: object = unit_field("")
-    wake_unmatched: object = unit_field("")
-    theory: str = unit_field("")
+    M: FloatArray = unit_field("", "free-stream Mach number")
+    alpha: FloatArray = unit_field("rad", "incidence of the chord, > 0 nose up")
+    cl: FloatArray = unit_field("", "lift coefficient")
+    cd: FloatArray = unit_field("", "wave-drag coefficient")
+    cm_le: FloatArray = unit_field("", "pitching-moment coefficient about the leading edge")
+    x_cp: FloatArray = unit_field("chord", "centre of pressure, in chords from the leading edge")
+    slip_direction: FloatArray = unit_field("rad", "wake slip-line direction from the free stream")
+    wake_pressure_ratio: FloatArray = unit_field("", "wake pressure over free-stream pressure")
+    cp_upper: FloatArray = unit_field("", "pressure coefficient per upper panel",
+                                      trailing="panel_upper")
+    cp_lower: FloatArray = unit_field("", "pressure coefficient per lower panel",
+                                      trailing="panel_lower")
+    x_upper: np.ndarray = unit_field("", "mid-chord of each upper panel [chord]",
+                                     trailing="panel_upper")
+    x_lower: np.ndarray = unit_field("", "mid-chord of each lower panel [chord]",
+                                     trailing="panel_lower")
+    detached: FloatArray = unit_field("", "a shock would detach", dtype=bool)
+    subsonic: FloatArray = unit_field("", "subsonic flow behind a shock", dtype=bool)
+    vacuum: FloatArray = unit_field("", "a surface expands beyond vacuum", dtype=bool)
+    wake_unmatched: FloatArray = unit_field("", "no trailing-edge match", dtype=bool)
+    theory: str = unit_field("", "shock-expansion, linear or second-order", dtype=str)
+
+
+#: The fields computed per case (everything but the section's panel positions and the theory).
+_CASE_FIELDS = tuple(f for f in result_fields(SectionLoads)
+                     if f.name not in ("x_upper", "x_lower", "theory"))
 
 
 # --------------------------------------------------------------------- plain core
@@ -183,7 +199,7 @@ def surface_pressure_ratios(M, first_turn, corner_turns, gamma=1.4):
     >>> np.round(flow.p_ratio, 5)
     array([1.70658, 0.55078])
     """
-    M, first_turn, gamma = np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in (M, first_turn, gamma)))
+    M, first_turn, gamma = nx.broadcast_cases(gamma, M, first_turn)
     corner_turns = np.asarray(corner_turns, dtype=float).reshape(-1)
     with np.errstate(invalid="ignore", divide="ignore"):
         first = turn_state(M, first_turn, gamma)
@@ -203,7 +219,7 @@ def surface_pressure_ratios(M, first_turn, corner_turns, gamma=1.4):
                 continue
             nu = prandtl_meyer_angle(M_now, gamma)[..., None] - np.cumsum(corner_turns[i:j])
             vacuum |= np.any(nu > nu_max[..., None], axis=-1)
-            M_run = mach_from_prandtl_meyer_angle(nu, gamma[..., None])
+            M_run = _inverse_prandtl_meyer(nu, gamma)
             p_run = p_now[..., None] * fan_pressure_ratio(M_now[..., None], M_run, gamma[..., None])
             p_panels.extend(np.moveaxis(p_run, -1, 0))
             M_panels.extend(np.moveaxis(M_run, -1, 0))
@@ -212,6 +228,15 @@ def surface_pressure_ratios(M, first_turn, corner_turns, gamma=1.4):
     bad = (detached | subsonic | vacuum)[..., None]
     return SurfaceFlow(np.where(bad, np.nan, p_ratio), np.where(bad, np.nan, M_out),
                        detached, subsonic, vacuum)
+
+
+def _inverse_prandtl_meyer(nu, gamma):
+    """M(ν) of a run of corners, shape (cases, run), in cache-sized blocks
+    (:func:`gasdyn2d.numerics.chunked`): the run multiplies the case count, and whole-array
+    passes of the inverse's Halley steps would stream every temporary through memory."""
+    if gamma.ndim == 0:
+        return nx.chunked(lambda n: mach_from_prandtl_meyer_angle(n, gamma), nu)
+    return nx.chunked(mach_from_prandtl_meyer_angle, nu, np.broadcast_to(gamma[..., None], nu.shape))
 
 
 def _trailing_edge_residual(phi, upper, lower, gamma):
@@ -231,9 +256,11 @@ def _match_trailing_edge(upper, lower, gamma):
     panel of each surface. The upper stream turns by (phi - dir_u) and the
     lower by (dir_l - phi), each through one shock or fan; ln p_u - ln p_l
     increases with phi, so the bracketed Newton iteration of
-    :func:`gasdyn2d._numerics.safeguarded_newton` (slope from
+    :func:`gasdyn2d.numerics.safeguarded_newton` (slope from
     ``turn_state(...).dlnp_dturn``) finds the one root. The bracket keeps
-    both waves attached and short of vacuum. This is the wake slip-line match
+    both waves attached and short of vacuum; without a root in it the iteration
+    ends on a bracket end with a residual far from zero (unmatched). This is the
+    wake slip-line match
     of a two-stream wave pattern; it can be routed through the general
     region graph later without changing its inputs or outputs.
 
@@ -252,89 +279,84 @@ def _match_trailing_edge(upper, lower, gamma):
                         dir_l + (nu_room - prandtl_meyer_angle(M_l, gamma)))
         margin = 1e-9 * (hi - lo)
         lo, hi = lo + margin, hi - margin
-        f_lo = _trailing_edge_residual(lo, upper, lower, gamma)[0]
-        f_hi = _trailing_edge_residual(hi, upper, lower, gamma)[0]
-        matched = (f_lo <= 0.0) & (f_hi >= 0.0)
         s_u = gamma * M_u**2 / np.sqrt(M_u**2 - 1.0)
         s_l = gamma * M_l**2 / np.sqrt(M_l**2 - 1.0)
         phi = (s_u * dir_u + s_l * dir_l - lnp_u + lnp_l) / (s_u + s_l)  # linearised start
         phi = np.where(np.isfinite(phi), np.clip(phi, lo, hi), 0.5 * (lo + hi))
-        phi = nx.safeguarded_newton(  # unmatched cases (NaN start) are not iterated
+        solvable = (lo < hi) & np.isfinite(lnp_u) & np.isfinite(lnp_l)
+        phi = nx.safeguarded_newton(  # cases with no bracket (NaN start) are not iterated
             lambda x: _trailing_edge_residual(x, upper, lower, gamma)[:2],
-            np.where(matched, phi, np.nan), lo, hi, max_iter=_TE_MAX_ITER, atol=_TE_TOLERANCE,
+            np.where(solvable, phi, np.nan), lo, hi, max_iter=_TE_MAX_ITER, atol=_TE_TOLERANCE,
             increasing=True)
-        ln_p = _trailing_edge_residual(phi, upper, lower, gamma)[2]
+        residual, _, ln_p = _trailing_edge_residual(phi, upper, lower, gamma)
+        # without a root in the bracket the iteration ends on a bracket end, short of zero
+        matched = np.abs(residual) <= _TE_MATCHED
     return np.where(matched, phi, np.nan), np.where(matched, ln_p, np.nan), matched
 
 
 # --------------------------------------------------------------- forces on panels
 
 
-def _geometry(section: Section):
+class _PanelGeometry(NamedTuple):
+    """Per-panel weights of the force sums (plain 1-d arrays, chord units)."""
+
+    dx_upper: np.ndarray
+    dy_upper: np.ndarray
+    dx_lower: np.ndarray
+    dy_lower: np.ndarray
+    x_upper: np.ndarray  # panel mid-points
+    x_lower: np.ndarray
+    arm_upper: np.ndarray  # x dx (thin-section moment arm)
+    arm_lower: np.ndarray
+    arm_upper_exact: np.ndarray  # x dx + y dy (exact moment arm)
+    arm_lower_exact: np.ndarray
+
+
+def _panel_geometry(section: Section) -> _PanelGeometry:
     d_up, d_lo = np.diff(section.upper, axis=0), np.diff(section.lower, axis=0)
     mid_up = 0.5 * (section.upper[1:] + section.upper[:-1])
     mid_lo = 0.5 * (section.lower[1:] + section.lower[:-1])
-    return d_up, d_lo, mid_up, mid_lo
+    arm_up, arm_lo = mid_up[:, 0] * d_up[:, 0], mid_lo[:, 0] * d_lo[:, 0]
+    return _PanelGeometry(d_up[:, 0], d_up[:, 1], d_lo[:, 0], d_lo[:, 1], mid_up[:, 0],
+                          mid_lo[:, 0], arm_up, arm_lo, arm_up + mid_up[:, 1] * d_up[:, 1],
+                          arm_lo + mid_lo[:, 1] * d_lo[:, 1])
 
 
-def _coefficients(section, cp_upper, cp_lower, alpha, exact):
+def _panel_sum(cp, weights):
+    """Σ cp·w over the panels (last axis), without BLAS.
+
+    A matrix-vector product would go to the BLAS library, whose threads made these sums
+    20 times slower on a busy two-core machine (benchmarks/bench_section_loads.py
+    measures it); einsum's own loop is single-threaded and as fast on one core.
+    """
+    return np.einsum("...i,i->...", cp, weights)
+
+
+def _coefficients(geometry, cp_upper, cp_lower, alpha, exact):
     """cl, cd, cm_le, x_cp from panel pressure coefficients.
 
     Exact projection for shock-expansion theory; the thin-section
     (small-angle) forms cl = cn, cd = ca + α·cn, cm_le = -Σ Δcp x dx for the
     linear and second-order theories.
     """
-    d_up, d_lo, mid_up, mid_lo = _geometry(section)
-    cn = cp_lower @ d_lo[:, 0] - cp_upper @ d_up[:, 0]
-    ca = cp_upper @ d_up[:, 1] - cp_lower @ d_lo[:, 1]
-    arm_up, arm_lo = mid_up[:, 0] * d_up[:, 0], mid_lo[:, 0] * d_lo[:, 0]
+    g = geometry
+    cn = _panel_sum(cp_lower, g.dx_lower) - _panel_sum(cp_upper, g.dx_upper)
+    ca = _panel_sum(cp_upper, g.dy_upper) - _panel_sum(cp_lower, g.dy_lower)
     if exact:
-        arm_up = arm_up + mid_up[:, 1] * d_up[:, 1]
-        arm_lo = arm_lo + mid_lo[:, 1] * d_lo[:, 1]
-        cl = cn * np.cos(alpha) - ca * np.sin(alpha)
-        cd = ca * np.cos(alpha) + cn * np.sin(alpha)
+        cm_le = _panel_sum(cp_upper, g.arm_upper_exact) - _panel_sum(cp_lower, g.arm_lower_exact)
+        cos_a, sin_a = np.cos(alpha), np.sin(alpha)
+        cl = cn * cos_a - ca * sin_a
+        cd = ca * cos_a + cn * sin_a
     else:
+        cm_le = _panel_sum(cp_upper, g.arm_upper) - _panel_sum(cp_lower, g.arm_lower)
         cl, cd = cn, ca + alpha * cn
-    cm_le = cp_upper @ arm_up - cp_lower @ arm_lo
     with np.errstate(invalid="ignore", divide="ignore"):
-        x_cp = np.where(cn != 0.0, -cm_le / cn, np.nan)
+        x_cp = -cm_le / cn
+    x_cp[cn == 0.0] = np.nan
     return cl, cd, cm_le, x_cp
 
 
-# ------------------------------------------------------------------ unit boundary
-
-
-def _inputs(section, M, alpha, gamma, errors, mach_strict):
-    if not isinstance(section, Section):
-        raise InvalidInputError(
-            f"section must be a gasdyn2d Section (see Section.from_points); got {type(section).__name__}."
-        )
-    nx.check_errors_mode(errors)
-    M, unit_m = nx.to_si(M, "M", "dimensionless")
-    alpha, unit_a = nx.to_si(alpha, "alpha", "angle")
-    gamma, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    M, alpha, gamma = nx.broadcast(M=M, alpha=alpha, gamma=gamma)
-    gamma = nx.check_gamma(gamma, errors)
-    if mach_strict:
-        M = nx.check_finite_at_least(M, "M", 1.0, errors, what="supersonic flow", inclusive=False)
-    else:
-        M = nx.check_mach_supersonic(M, "M", errors)
-    alpha = nx.reject(np.isinf(alpha), alpha, "alpha", "finite", errors)
-    return M, alpha, gamma, nx.output_angle_unit(unit_a, unit_m)
-
-
-def _result(theory, section, M, alpha, gamma, cp_upper, cp_lower, slip, p_wake, flags, angle_unit):
-    cl, cd, cm_le, x_cp = _coefficients(section, cp_upper, cp_lower, alpha, theory == "shock-expansion")
-    _, _, mid_up, mid_lo = _geometry(section)
-    s = nx.scalar_or_array
-    flag = lambda a: bool(a) if np.ndim(a) == 0 else np.asarray(a, dtype=bool)  # noqa: E731
-    return SectionLoads(
-        M=s(M), alpha=nx.angle_out(s(alpha), angle_unit), cl=s(cl), cd=s(cd), cm_le=s(cm_le),
-        x_cp=s(x_cp), slip_direction=nx.angle_out(s(slip), angle_unit),
-        wake_pressure_ratio=s(p_wake), cp_upper=cp_upper, cp_lower=cp_lower,
-        x_upper=mid_up[:, 0].copy(), x_lower=mid_lo[:, 0].copy(),
-        **{name: flag(value) for name, value in flags.items()}, theory=theory,
-    )
+# ------------------------------------------------------------------ checked cores
 
 
 def _surface_turns(section, alpha):
@@ -343,16 +365,285 @@ def _surface_turns(section, alpha):
     return (up[0] - alpha, np.diff(up)), (alpha - lo[0], -np.diff(lo))
 
 
-def shock_expansion_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
+def _shock_expansion_block(M, alpha, gamma, section, geometry, check):
+    """Plain shock-expansion loads of one block of cases (ndarrays of one shape; γ a 0-d
+    array or of the same shape): the per-case fields after M and α, in order."""
+    (le_u, corners_u), (le_l, corners_l) = _surface_turns(section, alpha)
+    upper = surface_pressure_ratios(M, le_u, corners_u, gamma)
+    lower = surface_pressure_ratios(M, le_l, corners_l, gamma)
+    detached = upper.detached | lower.detached
+    subsonic = upper.subsonic | lower.subsonic
+    vacuum = upper.vacuum | lower.vacuum
+    if not check.nan and (detached.any() or subsonic.any() or vacuum.any()):
+        _raise_for_case(section, M, alpha, gamma, detached | subsonic | vacuum, check)
+    dir_u = section.upper_angles[-1] + 0.0 * alpha
+    dir_l = section.lower_angles[-1] + 0.0 * alpha
+    phi, ln_p, matched = _match_trailing_edge(
+        (upper.M[..., -1], np.log(upper.p_ratio[..., -1]), dir_u),
+        (lower.M[..., -1], np.log(lower.p_ratio[..., -1]), dir_l), gamma)
+    unmatched = np.isfinite(upper.M[..., -1]) & np.isfinite(lower.M[..., -1]) & ~matched
+    q = (0.5 * gamma * M * M)[..., None]
+    cp_u = (upper.p_ratio - 1.0) / q
+    cp_l = (lower.p_ratio - 1.0) / q
+    cl, cd, cm_le, x_cp = _coefficients(geometry, cp_u, cp_l, alpha, True)
+    return (cl, cd, cm_le, x_cp, phi - alpha, np.exp(ln_p), cp_u, cp_l, detached, subsonic,
+            vacuum, unmatched)
+
+
+def _small_disturbance_block(M, alpha, gamma, section, geometry, second_order):
+    """Plain linear (Ackeret) or second-order (Busemann) loads of one block of cases."""
+    nan_case = np.isnan(M) | np.isnan(alpha) | np.isnan(gamma)  # γ too: NaN in, NaN out
+    root = np.sqrt((M - 1.0) * (M + 1.0))
+    c1 = np.where(nan_case, np.nan, 2.0 / root)[..., None]
+    a = alpha[..., None]
+    if second_order:  # deflection angles; Busemann (1935)
+        c2 = (((gamma + 1.0) * M**4 - 4.0 * (M * M - 1.0)) / (2.0 * root**4))[..., None]
+        theta_u, theta_l = section.upper_angles - a, a - section.lower_angles
+        cp_u = c1 * theta_u + c2 * theta_u**2
+        cp_l = c1 * theta_l + c2 * theta_l**2
+    else:  # surface slopes; Ackeret (1925)
+        theta_u = geometry.dy_upper / geometry.dx_upper - a
+        theta_l = a - geometry.dy_lower / geometry.dx_lower
+        cp_u, cp_l = c1 * theta_u, c1 * theta_l
+    cl, cd, cm_le, x_cp = _coefficients(geometry, cp_u, cp_l, alpha, False)
+    slip = np.where(nan_case, np.nan, 0.0)
+    p_wake = np.where(nan_case, np.nan, 1.0)
+    no = np.zeros(M.shape, dtype=bool)
+    return (cl, cd, cm_le, x_cp, slip, p_wake, cp_u, cp_l, no, no.copy(), no.copy(), no.copy())
+
+
+def _loads_core(M, alpha, gamma, check, *, theory, section, geometry):
+    """Checked core of the three theories (floats or arrays): the per-case fields in order.
+
+    Floats (a single case) are run as one-element arrays; arrays are evaluated in
+    cache-sized blocks of cases (:func:`gasdyn2d.numerics.chunked`), so the temporaries of
+    the march never exceed a block whatever the number of cases.
+    """
+    gamma = check.gamma(gamma)
+    if theory == "shock-expansion":
+        M = check.supersonic_mach(M, "M")
+    else:
+        M = check.at_least(M, "M", 1.0, inclusive=False, what="supersonic flow")
+    alpha = check.finite(alpha, "alpha", "rad")
+    scalar = type(M) is float and type(alpha) is float
+    if (scalar and type(gamma) is float and theory == "shock-expansion"
+            and sum(section.n_panels) <= _SCALAR_PANELS):
+        return (M, alpha, *_shock_expansion_scalar(M, alpha, gamma, section, geometry, check))
+    if scalar:
+        M_a, alpha_a = np.array([M]), np.array([alpha])
+    else:
+        M_a, alpha_a = np.broadcast_arrays(M, alpha)
+    gamma_a = np.asarray(gamma, dtype=float)
+    if gamma_a.ndim:
+        gamma_a = np.broadcast_to(gamma_a, M_a.shape)
+
+    def block(m, a, g):
+        with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+            if theory == "shock-expansion":
+                return _shock_expansion_block(m, a, g, section, geometry, check)
+            return _small_disturbance_block(m, a, g, section, geometry,
+                                            theory == "second-order")
+
+    fields = nx.chunked(block, M_a, alpha_a, gamma_a)
+    if scalar:
+        return (M, alpha, *(f[0] for f in fields))
+    return (M, alpha, *fields)
+
+
+#: Panels (both surfaces) up to which a single case is marched on floats, one wave per
+#: corner; longer surfaces go through the array march, which takes a run of fans at once.
+_SCALAR_PANELS = 8
+
+
+def _march_scalar(M, turns, gamma):
+    """One surface of one case on floats: (p/p∞ per panel, M at the end, flags)."""
+    p, m, pressures = 1.0, M, []
+    detached = subsonic = vacuum = False
+    for turn in turns:
+        wave = turn_state(m, float(turn), gamma)
+        detached, vacuum = bool(wave.detached), bool(wave.vacuum)
+        m = float(wave.M2)
+        subsonic = bool(wave.is_shock) and m < 1.0
+        p *= float(wave.p2_p1)
+        pressures.append(p)
+        if detached or vacuum or subsonic:  # the surface fails here: the first reason only
+            pressures += [math.nan] * (len(turns) - len(pressures))
+            break
+    return np.array(pressures), m, detached, subsonic, vacuum
+
+
+def _match_trailing_edge_scalar(upper, lower, gamma):
+    """:func:`_match_trailing_edge` for one case, on floats (the same bracket, start,
+    Newton step with bisection fallback, tolerances and matched test)."""
+    (M_u, lnp_u, dir_u), (M_l, lnp_l, dir_l) = upper, lower
+
+    def residual(phi):
+        wave_u = turn_state(M_u, phi - dir_u, gamma)
+        wave_l = turn_state(M_l, dir_l - phi, gamma)
+        ln_p = lnp_u + math.log(float(wave_u.p2_p1))
+        return (ln_p - lnp_l - math.log(float(wave_l.p2_p1)),
+                float(wave_u.dlnp_dturn) + float(wave_l.dlnp_dturn), ln_p)
+
+    nu_room = float(max_prandtl_meyer_angle(gamma))
+    lo = max(dir_u - (nu_room - float(prandtl_meyer_angle(M_u, gamma))),
+             dir_l - float(detachment_angles(M_l, gamma)[0]))
+    hi = min(dir_u + float(detachment_angles(M_u, gamma)[0]),
+             dir_l + (nu_room - float(prandtl_meyer_angle(M_l, gamma))))
+    margin = 1e-9 * (hi - lo)
+    lo, hi = lo + margin, hi - margin
+    if not (lo < hi and math.isfinite(lnp_u) and math.isfinite(lnp_l)):
+        return math.nan, math.nan, False
+    s_u = gamma * M_u * M_u / math.sqrt(M_u * M_u - 1.0) if M_u > 1.0 else math.inf
+    s_l = gamma * M_l * M_l / math.sqrt(M_l * M_l - 1.0) if M_l > 1.0 else math.inf
+    phi = (s_u * dir_u + s_l * dir_l - lnp_u + lnp_l) / (s_u + s_l)
+    phi = min(max(phi, lo), hi) if math.isfinite(phi) else 0.5 * (lo + hi)
+    best = (math.inf, phi)
+    for _ in range(_TE_MAX_ITER):
+        f, df, _ = residual(phi)
+        if abs(f) < best[0]:
+            best = (abs(f), phi)
+        if f == 0.0 or f != f:
+            break
+        if f < 0.0:
+            lo = phi
+        else:
+            hi = phi
+        step = f / df
+        new = phi - step
+        if abs(step) <= max(4.0 * 2.2e-16 * abs(phi), _TE_TOLERANCE):
+            phi = new if lo <= new <= hi else phi
+            break
+        if not lo < new < hi:
+            new = 0.5 * (lo + hi)
+        if hi - lo <= 4.0 * 2.2e-16 * max(abs(lo), abs(hi)):
+            break
+        phi = new
+    f, _, ln_p = residual(phi)
+    if not abs(f) <= abs(best[0]):
+        phi = best[1]
+        f, _, ln_p = residual(phi)
+    if abs(f) <= _TE_MATCHED:
+        return phi, ln_p, True
+    return math.nan, math.nan, False
+
+
+def _shock_expansion_scalar(M, alpha, gamma, section, geometry, check):
+    """Shock-expansion loads of one case on floats (the fast path of a single call on a
+    few-panel section): the per-case fields after M and α, panel fields as arrays."""
+    (le_u, corners_u), (le_l, corners_l) = _surface_turns(section, alpha)
+    p_u, M_u, *flags_u = _march_scalar(M, [le_u, *corners_u], gamma)
+    p_l, M_l, *flags_l = _march_scalar(M, [le_l, *corners_l], gamma)
+    detached, subsonic, vacuum = (a or b for a, b in zip(flags_u, flags_l))
+    bad = detached or subsonic or vacuum
+    if bad and not check.nan:
+        _raise_for_case(section, np.array([M]), np.array([alpha]), gamma, np.array([True]),
+                        check)
+    nan = math.nan
+    q = 0.5 * gamma * M * M
+    if bad or M != M or alpha != alpha or gamma != gamma:  # a failed surface is NaN, as in
+        cp_u = np.full(len(p_u), nan) if any(flags_u) else (p_u - 1.0) / q  # the array march
+        cp_l = np.full(len(p_l), nan) if any(flags_l) else (p_l - 1.0) / q
+        return (nan, nan, nan, nan, nan, nan, cp_u, cp_l, detached, subsonic, vacuum, False)
+    phi, ln_p, matched = _match_trailing_edge_scalar(
+        (M_u, math.log(p_u[-1]), float(section.upper_angles[-1])),
+        (M_l, math.log(p_l[-1]), float(section.lower_angles[-1])), gamma)
+    cp_u, cp_l = (p_u - 1.0) / q, (p_l - 1.0) / q
+    cl, cd, cm_le, x_cp = (float(v[0]) for v in _coefficients(
+        geometry, cp_u[None], cp_l[None], np.array([alpha]), True))
+    return (cl, cd, cm_le, x_cp, phi - alpha, math.exp(ln_p), cp_u, cp_l, detached, subsonic,
+            vacuum, not matched)
+
+
+def _raise_for_case(section, M, alpha, gamma, bad, check):
+    """Raise for the first failing case, re-marching it alone to say where and why."""
+    n_bad = int(np.count_nonzero(bad))
+    index = tuple(int(i) for i in np.argwhere(bad)[0]) if bad.ndim else ()
+    m, a = float(M[index]), float(alpha[index])
+    g = float(gamma) if np.ndim(gamma) == 0 else float(gamma[index])
+    where_case = ""
+    if bad.size > 1:
+        where_case = f" at index {index}" + (" of a dask block" if check.in_block else "")
+    case = (f"case{where_case} (M = {m:.10g}, alpha = {format_value(a, 'rad')}, "
+            f"gamma = {g:g})")
+    count = f" ({n_bad} of {bad.size} cases fail)" if bad.size > 1 else ""
+    for surface, points, sign in (("upper", section.upper, 1.0), ("lower", section.lower, -1.0)):
+        angles = np.arctan2(np.diff(points[:, 1]), np.diff(points[:, 0]))
+        turns = sign * np.concatenate([[angles[0] - a], np.diff(angles)])
+        where = ["the leading edge"] + [f"the corner at x = {x:.6g}" for x in points[1:-1, 0]]
+        m_local = m
+        for turn, place in zip(turns, where):
+            wave = turn_state(m_local, float(turn), g)
+            if wave.detached:
+                theta_max = float(detachment_angles(m_local, g)[0])
+                raise DetachedShockError(
+                    f"shock-expansion theory fails for the {case}{count}: the shock at {place} of the "
+                    f"{surface} surface needs a deflection of {format_value(turn, 'rad')}, beyond "
+                    f"the maximum θmax = {format_value(theta_max, 'rad')} at local Mach "
+                    f"{m_local:.6g}, so it detaches. Reduce the incidence or the surface angle, or "
+                    "pass errors='nan' to get NaN for such cases."
+                )
+            if wave.is_shock and wave.M2 < 1.0:
+                raise DetachedShockError(
+                    f"shock-expansion theory fails for the {case}{count}: the shock at {place} of the "
+                    f"{surface} surface (deflection {format_value(turn, 'rad')}, local Mach "
+                    f"{m_local:.6g}) leaves subsonic flow behind it (M2 = {float(wave.M2):.6g}), "
+                    "where the theory does not apply. Pass errors='nan' to get NaN for such cases."
+                )
+            if wave.vacuum:
+                room = float(max_prandtl_meyer_angle(g) - prandtl_meyer_angle(m_local, g))
+                raise NoSolutionError(
+                    f"shock-expansion theory fails for the {case}{count}: at {place} the {surface} "
+                    f"surface turns the flow away by {format_value(-turn, 'rad')}, more than the "
+                    f"{format_value(room, 'rad')} that expands local Mach {m_local:.6g} to vacuum. "
+                    "Pass errors='nan' to get NaN for such cases."
+                )
+            m_local = float(wave.M2)
+    raise NoSolutionError(f"shock-expansion theory fails for the {case}{count}.")  # pragma: no cover
+
+
+# ------------------------------------------------------------------ unit boundary
+
+
+def _loads(theory, section, M, alpha, gamma, errors):
+    """Cross the boundary once: take (M, α, γ), run the checked core, package SectionLoads."""
+    if not isinstance(section, Section):
+        raise InvalidInputError(
+            f"section must be a gasdyn2d Section (see Section.from_points); got "
+            f"{type(section).__name__}.")
+    call = Call(errors)
+    call.take("M", M)
+    call.take("alpha", alpha, "rad")
+    call.take("gamma", gamma, keep_scalar=True)
+    n_upper, n_lower = section.n_panels
+    call.trailing("panel_upper", n_upper)
+    call.trailing("panel_lower", n_lower)
+    geometry = _panel_geometry(section)
+    values = dict(zip((f.name for f in _CASE_FIELDS),
+                      call.evaluate(_CASE_FIELDS, _loads_core, theory=theory, section=section,
+                                    geometry=geometry)))
+    values["x_upper"] = _read_only(geometry.x_upper)
+    values["x_lower"] = _read_only(geometry.x_lower)
+    values["theory"] = theory
+    return SectionLoads.from_fields([values[f.name] for f in result_fields(SectionLoads)])
+
+
+def _read_only(array):
+    array = np.array(array, dtype=float)
+    array.flags.writeable = False
+    return array
+
+
+def shock_expansion_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
+                          gamma: ArrayInput = 1.4, errors: str = "raise") -> SectionLoads:
     """Loads on a section by exact shock-expansion theory, for many (M, α) cases at once.
 
     Parameters
     ----------
     section : Section
         The section, in chord units.
-    M : float or array_like
+    M : float, array_like, DataArray, Series or dask array
         Free-stream Mach number [-], >= 1.
-    alpha : float, array_like or Quantity
+    alpha : float, array_like or Quantity (or a labelled or lazy array of them)
         Incidence [rad], > 0 nose up (the free stream meets the lower surface).
     gamma : float or array_like, optional
         Ratio of specific heats [-], > 1.
@@ -364,6 +655,12 @@ def shock_expansion_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
     Returns
     -------
     SectionLoads
+        Immutable: read-only arrays, no two fields sharing memory. The case fields
+        follow the inputs' container (floats for floats; DataArrays broadcast by
+        dimension name with the coordinates kept; Series on the input's index; lazy
+        dask arrays, computed block by block over the cases); the per-panel fields
+        add a last axis ``panel_upper`` / ``panel_lower`` (a DataFrame for Series
+        inputs). NaN in any input gives NaN out for that case.
 
     Raises
     ------
@@ -374,7 +671,8 @@ def shock_expansion_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
     NoSolutionError
         A surface expands beyond vacuum; the message names the case and the limit.
     InvalidInputError
-        M < 1, non-finite incidence, gamma <= 1, or a bad ``section``.
+        M < 1, non-finite incidence, gamma <= 1, a bad ``section``, or an input
+        of the wrong type (strings, bools, complex numbers).
 
     Notes
     -----
@@ -411,98 +709,16 @@ def shock_expansion_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
     >>> np.round(loads.cl, 5), np.round(loads.cd, 5)
     (array([0.     , 0.12291]), array([0.00437, 0.01304]))
     """
-    M, alpha, gamma, angle_unit = _inputs(section, M, alpha, gamma, errors, mach_strict=False)
-    (le_u, corners_u), (le_l, corners_l) = _surface_turns(section, alpha)
-    upper = surface_pressure_ratios(M, le_u, corners_u, gamma)
-    lower = surface_pressure_ratios(M, le_l, corners_l, gamma)
-    flags = {name: getattr(upper, name) | getattr(lower, name) for name in ("detached", "subsonic", "vacuum")}
-    if errors == "raise" and any(np.any(v) for v in flags.values()):
-        _raise_for_case(section, M, alpha, gamma, flags)
-    dir_u = section.upper_angles[-1] + 0.0 * alpha
-    dir_l = section.lower_angles[-1] + 0.0 * alpha
-    phi, ln_p, matched = _match_trailing_edge(
-        (upper.M[..., -1], np.log(upper.p_ratio[..., -1]), dir_u),
-        (lower.M[..., -1], np.log(lower.p_ratio[..., -1]), dir_l), gamma)
-    finite = np.isfinite(upper.M[..., -1]) & np.isfinite(lower.M[..., -1])
-    flags["wake_unmatched"] = finite & ~matched
-    q = 0.5 * gamma * M * M
-    cp_u = (upper.p_ratio - 1.0) / q[..., None]
-    cp_l = (lower.p_ratio - 1.0) / q[..., None]
-    return _result("shock-expansion", section, M, alpha, gamma, cp_u, cp_l, phi - alpha,
-                   np.exp(ln_p), flags, angle_unit)
+    return _loads("shock-expansion", section, M, alpha, gamma, errors)
 
 
-def _raise_for_case(section, M, alpha, gamma, flags):
-    """Raise for the first failing case, re-marching it alone to say where and why."""
-    bad = flags["detached"] | flags["subsonic"] | flags["vacuum"]
-    n_bad = int(np.count_nonzero(bad))
-    index = tuple(int(i) for i in np.argwhere(bad)[0]) if bad.ndim else ()
-    m, a, g = (float(v[index]) for v in (M, alpha, gamma))
-    case = (f"case{f' at index {index}' if index else ''} (M = {m:.10g}, alpha = "
-            f"{nx.format_value(a, 'rad')}, gamma = {g:g})")
-    count = f" ({n_bad} of {bad.size} cases fail)" if bad.size > 1 else ""
-    for surface, points, sign in (("upper", section.upper, 1.0), ("lower", section.lower, -1.0)):
-        angles = np.arctan2(np.diff(points[:, 1]), np.diff(points[:, 0]))
-        turns = sign * np.concatenate([[angles[0] - a], np.diff(angles)])
-        where = ["the leading edge"] + [f"the corner at x = {x:.6g}" for x in points[1:-1, 0]]
-        m_local = m
-        for turn, place in zip(turns, where):
-            wave = turn_state(m_local, turn, g)
-            if wave.detached:
-                theta_max = float(detachment_angles(m_local, g)[0])
-                raise DetachedShockError(
-                    f"shock-expansion theory fails for the {case}{count}: the shock at {place} of the "
-                    f"{surface} surface needs a deflection of {nx.format_value(turn, 'rad')}, beyond "
-                    f"the maximum θmax = {nx.format_value(theta_max, 'rad')} at local Mach "
-                    f"{m_local:.6g}, so it detaches. Reduce the incidence or the surface angle, or "
-                    "pass errors='nan' to get NaN for such cases."
-                )
-            if wave.is_shock and wave.M2 < 1.0:
-                raise DetachedShockError(
-                    f"shock-expansion theory fails for the {case}{count}: the shock at {place} of the "
-                    f"{surface} surface (deflection {nx.format_value(turn, 'rad')}, local Mach "
-                    f"{m_local:.6g}) leaves subsonic flow behind it (M2 = {float(wave.M2):.6g}), "
-                    "where the theory does not apply. Pass errors='nan' to get NaN for such cases."
-                )
-            if wave.vacuum:
-                room = float(max_prandtl_meyer_angle(g) - prandtl_meyer_angle(m_local, g))
-                raise NoSolutionError(
-                    f"shock-expansion theory fails for the {case}{count}: at {place} the {surface} "
-                    f"surface turns the flow away by {nx.format_value(-turn, 'rad')}, more than the "
-                    f"{nx.format_value(room, 'rad')} that expands local Mach {m_local:.6g} to vacuum. "
-                    "Pass errors='nan' to get NaN for such cases."
-                )
-            m_local = float(wave.M2)
-    raise NoSolutionError(f"shock-expansion theory fails for the {case}{count}.")  # pragma: no cover
-
-
-def _small_disturbance_loads(theory, section, M, alpha, gamma, errors, second_order):
-    M, alpha, gamma, angle_unit = _inputs(section, M, alpha, gamma, errors, mach_strict=True)
-    root = np.sqrt((M - 1.0) * (M + 1.0))
-    c1 = (2.0 / root)[..., None]
-    c2 = (((gamma + 1.0) * M**4 - 4.0 * (M * M - 1.0)) / (2.0 * root**4))[..., None]
-    a = alpha[..., None]
-    if second_order:  # deflection angles; Busemann (1935)
-        theta_u, theta_l = section.upper_angles - a, a - section.lower_angles
-    else:  # surface slopes; Ackeret (1925)
-        slope_u = np.diff(section.upper[:, 1]) / np.diff(section.upper[:, 0])
-        slope_l = np.diff(section.lower[:, 1]) / np.diff(section.lower[:, 0])
-        theta_u, theta_l = slope_u - a, a - slope_l
-    cp_u = c1 * theta_u + (c2 * theta_u**2 if second_order else 0.0)
-    cp_l = c1 * theta_l + (c2 * theta_l**2 if second_order else 0.0)
-    no = np.zeros(M.shape, dtype=bool)
-    flags = {"detached": no, "subsonic": no, "vacuum": no, "wake_unmatched": no}
-    nan_case = np.isnan(M) | np.isnan(alpha)
-    return _result(theory, section, M, alpha, gamma, cp_u, cp_l, np.where(nan_case, np.nan, 0.0),
-                   np.where(nan_case, np.nan, 1.0), flags, angle_unit)
-
-
-def linear_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
+def linear_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
+                 gamma: ArrayInput = 1.4, errors: str = "raise") -> SectionLoads:
     """Loads on a section by linearised supersonic theory (Ackeret).
 
     Same parameters and result as :func:`shock_expansion_loads`, but M > 1
-    strictly. ``gamma`` does not enter the linear pressure; it is accepted for
-    a uniform call.
+    strictly. ``gamma`` does not enter the linear pressure; it is accepted (and
+    checked) for a uniform call.
 
     Notes
     -----
@@ -526,10 +742,11 @@ def linear_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
     >>> round(loads.cl, 6), round(float(4 * np.radians(3.0) / np.sqrt(3.0)), 6)
     (0.12092, 0.12092)
     """
-    return _small_disturbance_loads("linear", section, M, alpha, gamma, errors, second_order=False)
+    return _loads("linear", section, M, alpha, gamma, errors)
 
 
-def second_order_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
+def second_order_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
+                       gamma: ArrayInput = 1.4, errors: str = "raise") -> SectionLoads:
     """Loads on a section by second-order (Busemann) theory.
 
     Same parameters and result as :func:`linear_loads`.
@@ -561,5 +778,27 @@ def second_order_loads(section, M, alpha, *, gamma=1.4, errors="raise"):
     >>> round(float((loads.cp_lower[0] - c1 * 0.05) / 0.05**2), 5)
     1.26875
     """
-    return _small_disturbance_loads("second-order", section, M, alpha, gamma, errors, second_order=True)
+    return _loads("second-order", section, M, alpha, gamma, errors)
 
+
+#: The section-load theories by name.
+THEORIES = {"shock-expansion": shock_expansion_loads, "linear": linear_loads,
+            "second-order": second_order_loads}
+
+
+def loads_function(theory: str, name: str = "theory"):
+    """The loads function of a theory named ``theory`` ("shock-expansion", "linear" or
+    "second-order"); any other value is an :class:`~gasdyn2d.errors.InvalidInputError`
+    naming the argument ``name`` (as the caller calls it) and the choices.
+
+    Examples
+    --------
+    >>> from gasdyn2d.design.section_loads import loads_function
+    >>> loads_function("linear").__name__
+    'linear_loads'
+    """
+    if isinstance(theory, str) and theory in THEORIES:
+        return THEORIES[theory]
+    choices = ", ".join(repr(key) for key in THEORIES)
+    raise InvalidInputError(f"{name} must name a section-load theory ({choices}); got "
+                            f"{theory!r}.")

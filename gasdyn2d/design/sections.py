@@ -10,23 +10,47 @@ from __future__ import annotations
 
 import dataclasses
 
+import numbers
+
 import numpy as np
 
+from ..boundary import as_si_scalar, is_quantity, refuse_type
 from ..errors import InvalidInputError
 
 __all__ = ["Section"]
 
 _END_TOLERANCE = 1e-9  # chord units: how far an end point may sit from (0, 0) or (1, 0)
 _CROSSING_TOLERANCE = 1e-12  # chord units: how far upper may dip below lower
+#: Fewest panels a surface of a biconvex section may have: with one panel the two arcs
+#: collapse onto the chord (a flat plate of zero thickness and zero wave drag).
+BICONVEX_MIN_PANELS = 2
 
 
 def _as_points(points, surface: str) -> np.ndarray:
+    if is_quantity(points):  # chord units: a dimensionless Quantity is accepted as such
+        if not points.dimensionless:
+            raise InvalidInputError(
+                f"{surface} must be (x, y) points in chord units (dimensionless); got a "
+                f"Quantity in {points.units:~}. Divide the coordinates by the chord.")
+        points = points.m_as("dimensionless")
+    if isinstance(points, (str, bytes)):
+        raise InvalidInputError(
+            f"{surface} must be a sequence of (x, y) points; got {points!r}.")
     try:
-        array = np.array(points, dtype=float)
+        raw = np.asarray(points)
     except (TypeError, ValueError):
         raise InvalidInputError(
-            f"{surface} must be a sequence of (x, y) points; got {points!r}."
-        ) from None
+            f"{surface} must be a sequence of (x, y) points; got {points!r}.") from None
+    kind = raw.dtype.kind
+    if kind == "O" and all(isinstance(v, numbers.Real) and not isinstance(v, (bool, np.bool_))
+                           for v in raw.reshape(-1)):
+        kind = "f"
+    if kind not in "fiu":
+        if kind in "US":
+            raise InvalidInputError(
+                f"{surface} must be a sequence of (x, y) points; got {points!r}.")
+        raise refuse_type(surface, raw, "a sequence of (x, y) points of real numbers")
+    array = np.array(raw, dtype=float)
     if array.ndim != 2 or array.shape[1] != 2 or array.shape[0] < 2:
         hint = " (transpose it: the array has shape (2, n))" if array.ndim == 2 and array.shape[0] == 2 else ""
         raise InvalidInputError(
@@ -93,7 +117,7 @@ def _readonly(array: np.ndarray) -> np.ndarray:
 
 
 def _positive_below(value, name: str, upper: float) -> float:
-    number = float(value)
+    number = as_si_scalar(name, value)
     if not (0.0 < number < upper):
         raise InvalidInputError(
             f"{name} must be > 0 and < {upper:g}; got {number!r}."
@@ -187,7 +211,8 @@ class Section:
         thickness_ratio : float
             Maximum thickness over chord [-], 0 < t/c < 1 (1 is a full circle).
         n : int, optional
-            Panels per surface, >= 1.
+            Panels per surface, >= 2 (one panel would be the chord itself: a flat
+            plate of zero thickness).
 
         Notes
         -----
@@ -196,8 +221,7 @@ class Section:
         the leading edge is tan φ0 with φ0 = 2·atan(2h).
         """
         t = _positive_below(thickness_ratio, "thickness_ratio", 1.0)
-        if int(n) != n or n < 1:
-            raise InvalidInputError(f"n must be a whole number of panels >= 1; got {n!r}.")
+        n = _panel_count(n)
         h = 0.5 * t
         radius = (0.25 + h * h) / (2.0 * h)
         phi0 = 2.0 * np.arctan(2.0 * h)
@@ -248,6 +272,17 @@ class Section:
         n_upper, n_lower = self.n_panels
         return (f"Section({n_upper} upper and {n_lower} lower panels, "
                 f"thickness ratio {self.thickness_ratio:.6g})")
+
+
+def _panel_count(n) -> int:
+    """The biconvex panel count as an int; bools, text, fractions and too few refused."""
+    if isinstance(n, (bool, np.bool_)) or not isinstance(n, numbers.Real):
+        raise refuse_type("n", n, f"a whole number of panels >= {BICONVEX_MIN_PANELS}")
+    if not (np.isfinite(n) and int(n) == n and n >= BICONVEX_MIN_PANELS):
+        raise InvalidInputError(
+            f"n must be a whole number of panels >= {BICONVEX_MIN_PANELS} (one panel is the "
+            f"chord itself: a flat plate of zero thickness); got {n!r}.")
+    return int(n)
 
 
 def _panel_angles(points: np.ndarray) -> np.ndarray:

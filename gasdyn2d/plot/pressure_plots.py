@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..design.section_loads import linear_loads, second_order_loads, shock_expansion_loads
+from ..design.section_loads import linear_loads, loads_function, second_order_loads, shock_expansion_loads
 from ._style import CYCLE, angle_unit_factor, plain, tidy
 
 __all__ = ["draw_surface_pressures"]
@@ -70,9 +70,8 @@ def draw_surface_pressures(section, M, alpha, *, theories=("shock-expansion", "l
     """
     if ax is None:
         ax, section_ax = _pressure_and_outline_axes()
-    unknown = [t for t in theories if t not in _THEORIES]
-    if unknown:
-        raise ValueError(f"theories must be among {sorted(_THEORIES)}; got {unknown!r}.")
+    for theory in theories:
+        loads_function(theory, name="theories")  # InvalidInputError naming the argument
     drawn = {"ax": ax, "upper": {}, "lower": {}, "loads": {}, "outline": None}
     edges = {"upper": section.upper[:, 0], "lower": section.lower[:, 0]}
     for i, theory in enumerate(theories):
