@@ -42,6 +42,7 @@ __all__ = [
     "Gas",
     "AIR",
     "AIR_THERMALLY_PERFECT",
+    "oscillator_terms",
     "vibrational_energy",
     "vibrational_heat_capacity",
     "vibrational_entropy",
@@ -51,8 +52,20 @@ __all__ = [
 # ------------------------------------------------------------------ the oscillator (plain core)
 
 
-def _oscillator(T, theta):
-    """x = θ/T, E = e^(-x) and 1 - E (the last without cancellation at high T)."""
+def oscillator_terms(T, theta):
+    """Plain core: x = θ/T, E = e^(-x) and 1 - E [-] at temperature T [K].
+
+    The three numbers every closed form of the harmonic oscillator is written in;
+    E is formed as e^(-x), so nothing overflows at low temperature (E underflows to 0,
+    which is the exact limit), and 1 - E as -expm1(-x), without cancellation at high
+    temperature.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import oscillator_terms
+    >>> [round(float(v), 6) for v in oscillator_terms(1000.0, 2000.0)]
+    [2.0, 0.135335, 0.864665]
+    """
     T = np.asarray(T, dtype=float)
     with np.errstate(divide="ignore", over="ignore"):
         x = theta / T
@@ -86,7 +99,7 @@ def vibrational_energy(T, theta):
     >>> round(float(vibrational_energy(3000.0, 3000.0)), 4)  # θ/(e - 1)
     1745.9301
     """
-    x, E, one_minus_E = _oscillator(T, theta)
+    x, E, one_minus_E = oscillator_terms(T, theta)
     return theta * E / one_minus_E
 
 
@@ -101,7 +114,7 @@ def vibrational_heat_capacity(T, theta):
     >>> round(float(vibrational_heat_capacity(3000.0, 3000.0)), 6)  # e/(e - 1)²
     0.920674
     """
-    x, E, one_minus_E = _oscillator(T, theta)
+    x, E, one_minus_E = oscillator_terms(T, theta)
     with np.errstate(invalid="ignore"):
         value = x * x * E / (one_minus_E * one_minus_E)
     return np.where(x == np.inf, 0.0, value) if np.any(x == np.inf) else value
@@ -119,7 +132,7 @@ def vibrational_entropy(T, theta):
     >>> round(float(vibrational_entropy(3000.0, 3000.0)), 6)  # 1/(e - 1) - ln(1 - 1/e)
     1.040652
     """
-    x, E, one_minus_E = _oscillator(T, theta)
+    x, E, one_minus_E = oscillator_terms(T, theta)
     with np.errstate(invalid="ignore"):
         value = x * E / one_minus_E - np.log(one_minus_E)
     return np.where(x == np.inf, 0.0, value) if np.any(x == np.inf) else value
