@@ -230,7 +230,17 @@ def oblique_from_wave_angle(g, M1, T1, beta):
     return _oblique(g, M1, T1, beta)
 
 
+_DETACHMENT_CACHE = {}
+
+
 def _detachment(g, M1, T1):
+    key = (g.theta, g.cpf, g.R, M1, T1, mp.mp.dps)
+    if key not in _DETACHMENT_CACHE:
+        _DETACHMENT_CACHE[key] = _detachment_uncached(g, M1, T1)
+    return _DETACHMENT_CACHE[key]
+
+
+def _detachment_uncached(g, M1, T1):
     theta = lambda b: _oblique(g, M1, T1, b)["deflection"]  # noqa: E731
     mu = mp.asin(1 / M1)
     # bracket the maximum on a coarse grid, then solve dθ/dβ = 0

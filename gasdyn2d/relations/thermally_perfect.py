@@ -82,6 +82,8 @@ from .isentropic import mach_from_area_ratio as _perfect_gas_area_inverse
 from .gas import oscillator_terms
 
 __all__ = [
+    "gas_constants",
+    "kelvin",
     "IsentropicRatios",
     "isentropic_ratios",
     "static_temperature",
@@ -223,6 +225,14 @@ def _prepare(*arrays):
     return np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in arrays))
 
 
+def kelvin(T):
+    """Plain core: the temperature array with NaN where it is not finite and positive."""
+    T = np.asarray(T, dtype=float)
+    with np.errstate(invalid="ignore"):
+        good = (T > 0.0) & (T < np.inf)
+    return T if good.all() else np.where(good, T, np.nan)
+
+
 def static_temperature(M, T0, gas):
     """Plain core: static temperature T [K] at Mach M for stagnation temperature T0 [K].
 
@@ -236,7 +246,7 @@ def static_temperature(M, T0, gas):
     480.2932
     """
     cf, theta = gas_constants(gas)
-    M, T0 = _prepare(M, T0)
+    M, T0 = _prepare(M, kelvin(T0))
     return T0 / (1.0 + _excess_from_mach(M, T0, cf, theta))
 
 
@@ -291,7 +301,10 @@ def temperature_from_enthalpy(h, gas):
     2000.0
     """
     cf, theta = gas_constants(gas)
-    return _temperature_from_enthalpy_per_R(np.asarray(h, dtype=float) / gas.R, cf, theta)
+    h = np.asarray(h, dtype=float)
+    with np.errstate(invalid="ignore"):
+        h = np.where((h >= 0.0) & (h < np.inf), h, np.nan)
+    return _temperature_from_enthalpy_per_R(h / gas.R, cf, theta)
 
 
 def _stagnation_per_R(M, T, cf, theta):
@@ -315,7 +328,7 @@ def stagnation_temperature(M, T, gas):
     2500.0
     """
     cf, theta = gas_constants(gas)
-    M, T = _prepare(M, T)
+    M, T = _prepare(M, kelvin(T))
     return _stagnation_per_R(M, T, cf, theta)[1]
 
 
@@ -393,7 +406,7 @@ def isentropic_ratios(M, T0, gas):
     (0.192117, 0.00133294)
     """
     cf, theta = gas_constants(gas)
-    M, T0 = _prepare(M, T0)
+    M, T0 = _prepare(M, kelvin(T0))
     ratios = _ratios_from_excess(_excess_from_mach(M, T0, cf, theta), T0, cf, theta)
     return ratios._replace(M=M.copy(), A_Astar=np.where(M == 0.0, np.inf, ratios.A_Astar))
 
@@ -418,7 +431,7 @@ def mach_from_temperature_ratio(T_T0, T0, gas):
     5.0
     """
     cf, theta = gas_constants(gas)
-    r, T0 = _prepare(T_T0, T0)
+    r, T0 = _prepare(T_T0, kelvin(T0))
     with np.errstate(divide="ignore", invalid="ignore"):
         M = _mach_from_excess((1.0 - r) / r, T0, cf, theta)
     return np.where((r > 0.0) & (r <= 1.0), M, np.nan)
@@ -448,7 +461,7 @@ def _isentropic_log_ratio_excess(log_ratio, T0, cf, theta, density):
 
 def _inverse_from_log_ratio(ratio, T0, gas, density):
     cf, theta = gas_constants(gas)
-    r, T0 = _prepare(ratio, T0)
+    r, T0 = _prepare(ratio, kelvin(T0))
     with np.errstate(divide="ignore", invalid="ignore"):
         d = _isentropic_log_ratio_excess(np.log(r), T0, cf, theta, density)
         M = _mach_from_excess(d, T0, cf, theta)
@@ -503,7 +516,7 @@ def mach_from_area_ratio(A_Astar, T0, gas, supersonic=True):
     5.0
     """
     cf, theta = gas_constants(gas)
-    A, T0 = _prepare(A_Astar, T0)
+    A, T0 = _prepare(A_Astar, kelvin(T0))
     sign = 1.0 if supersonic else -1.0
     with np.errstate(all="ignore"):
         x0, E0, om0 = oscillator_terms(T0, theta)
@@ -603,7 +616,7 @@ def prandtl_meyer_angle(M, T0, gas):
     26.3813
     """
     cf, theta = gas_constants(gas)
-    M, T0 = _prepare(M, T0)
+    M, T0 = _prepare(M, kelvin(T0))
 
     def block(m, t0):
         return _nu_of_excess(_excess_from_mach(m, t0, cf, theta), t0,
@@ -628,7 +641,7 @@ def max_prandtl_meyer_angle(T0, gas):
     [130.4556, 141.5987]
     """
     cf, theta = gas_constants(gas)
-    T0 = np.asarray(T0, dtype=float)
+    T0 = kelvin(T0)
     return _nu_of_excess(np.full_like(T0, np.inf), T0, _sonic_excess(T0, cf, theta), cf, theta)
 
 
@@ -678,7 +691,7 @@ def mach_from_prandtl_meyer_angle(nu, T0, gas):
     2.0
     """
     cf, theta = gas_constants(gas)
-    nu, T0 = _prepare(nu, T0)
+    nu, T0 = _prepare(nu, kelvin(T0))
     d = _excess_from_nu(nu, T0, cf, theta)
     M = _mach_from_excess(d, T0, cf, theta)
     return np.where(d == np.inf, np.inf, M)
@@ -736,7 +749,7 @@ def fan_from_turn(M1, T1, turn, gas):
     (2.33679, 0.57103)
     """
     cf, theta = gas_constants(gas)
-    M1, T1, turn = _prepare(M1, T1, turn)
+    M1, T1, turn = _prepare(M1, kelvin(T1), turn)
     T0, d1, ds, nu1, terms1 = _upstream(M1, T1, cf, theta)
     with np.errstate(invalid="ignore"):
         d2 = _excess_from_nu(np.where(turn >= 0.0, nu1 + turn, np.nan), T0, cf, theta)
@@ -758,7 +771,7 @@ def fan_from_pressure_ratio(M1, T1, p2_p1, gas):
     2.33679
     """
     cf, theta = gas_constants(gas)
-    M1, T1, p = _prepare(M1, T1, p2_p1)
+    M1, T1, p = _prepare(M1, kelvin(T1), p2_p1)
     T0, d1, ds, nu1, terms1 = _upstream(M1, T1, cf, theta)
     with np.errstate(all="ignore"):
         # T1/T2 = 1 + d' with d' from the pressure ratio relative to T1 (as p/p0 to T0)
@@ -782,7 +795,7 @@ def fan_from_downstream_mach(M1, T1, M2, gas):
     10.0
     """
     cf, theta = gas_constants(gas)
-    M1, T1, M2 = _prepare(M1, T1, M2)
+    M1, T1, M2 = _prepare(M1, kelvin(T1), M2)
     T0, d1, ds, nu1, terms1 = _upstream(M1, T1, cf, theta)
     with np.errstate(invalid="ignore"):
         d2 = np.where(M2 >= M1, _excess_from_mach(M2, T0, cf, theta), np.nan)
