@@ -412,11 +412,13 @@ def isentropic_ratios(M, T0, gas):
 
 
 def _mach_from_excess(d, T0, cf, theta):
-    x0, E0, om0 = oscillator_terms(T0, theta)
-    cbar, x, E, om = _mean_heat_capacity_below(x0, E0, om0, d, cf)
-    c = _heat_capacity(x, E, om, cf)
-    with np.errstate(invalid="ignore"):
-        return np.sqrt(2.0 * cbar * d * (c - 1.0) / c)
+    """M = √(2 c̄ d (c - 1)/c) at d = T0/T - 1 (inf at d = inf)."""
+    with np.errstate(invalid="ignore", over="ignore"):
+        x0, E0, om0 = oscillator_terms(T0, theta)
+        cbar, x, E, om = _mean_heat_capacity_below(x0, E0, om0, d, cf)
+        c = _heat_capacity(x, E, om, cf)
+        M = np.sqrt(2.0 * cbar * d * (c - 1.0) / c)
+    return np.where(d == np.inf, np.inf, M)
 
 
 def mach_from_temperature_ratio(T_T0, T0, gas):

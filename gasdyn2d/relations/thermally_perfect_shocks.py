@@ -124,14 +124,15 @@ def _upstream(T1, gas):
 def _mean_heat_capacity(tau, up):
     """(c̄, x2, E2, 1 - E2) for T2 = T1 (1 + τ): c̄ = c_f + x1 x2 (E2 - E1)/(Δx (1-E1)(1-E2)).
 
-    E2 - E1 = E1 expm1(Δx) with Δx = x1 - x2 > 0, so nothing cancels as τ → 0.
+    E2 - E1 = E2 (1 - e^(-Δx)) with Δx = x1 - x2 > 0, so nothing cancels as τ → 0 and
+    nothing overflows at low temperature (where E1, E2 underflow to their limit 0).
     """
     x2 = up.x1 / (1.0 + tau)
     dx = np.maximum(up.x1 - x2, 1e-300)
-    E1ex = up.E1 * np.expm1(dx)
+    E2 = np.exp(-x2)
     om2 = -np.expm1(-x2)
-    cbar = up.cf + up.x1 * x2 * (E1ex / dx) / (up.om1 * om2)
-    return cbar, x2, up.E1 + E1ex, om2
+    cbar = up.cf + up.x1 * x2 * (E2 * (-np.expm1(-dx)) / dx) / (up.om1 * om2)
+    return cbar, x2, E2, om2
 
 
 class _Jump(NamedTuple):
