@@ -107,6 +107,7 @@ class _Upstream(NamedTuple):
     om1: np.ndarray
     c1: np.ndarray
     sv1: np.ndarray
+    x1_om1: np.ndarray  #: x1/(1 - E1)
     cf: float
     theta: float
     gas: object
@@ -118,7 +119,8 @@ def _upstream(T1, gas):
     with np.errstate(all="ignore"):
         c1 = cf + x1 * x1 * E1 / (om1 * om1)
         sv1 = x1 * E1 / om1 - np.log(om1)
-    return _Upstream(x1, E1, om1, c1, sv1, cf, theta, gas)
+        x1_om1 = x1 / om1
+    return _Upstream(x1, E1, om1, c1, sv1, x1_om1, cf, theta, gas)
 
 
 def _mean_heat_capacity(tau, up):
@@ -129,9 +131,10 @@ def _mean_heat_capacity(tau, up):
     """
     x2 = up.x1 / (1.0 + tau)
     dx = np.maximum(up.x1 - x2, 1e-300)
-    E2 = np.exp(-x2)
-    om2 = -np.expm1(-x2)
-    cbar = up.cf + up.x1 * x2 * (E2 * (-np.expm1(-dx)) / dx) / (up.om1 * om2)
+    minus_x2 = -x2
+    E2 = np.exp(minus_x2)
+    om2 = -np.expm1(minus_x2)
+    cbar = up.cf + up.x1_om1 * x2 * E2 * np.expm1(-dx) / (-dx * om2)
     return cbar, x2, E2, om2
 
 
@@ -204,19 +207,31 @@ def _start_tau(w, up, mu, steps=_FIXED_STEPS):
 def _solve_normal(w, up):
     """τ of the normal shock with upstream normal Mach number √(1 + w), w >= 0.
 
-    Newton on G(τ) = P(c̄(τ)) - 1 - τ, G' = P (d ln P/dc̄)(dc̄/dτ) - 1 < -1 (never zero).
+    With μ = u1²/(R T1) = γ1(1 + w), :func:`_tau_of_mean` reads τ = k N/(2c̄ - 1)²,
+    N = (a + 1) c̄ - (a + c1), a = c1 w, k = 2(μ + 1)/((c1 - 1) μ). Fixed-point steps, then
+    Newton on G(τ) = τ(c̄(τ)) - τ with G' = (dτ/dc̄)(dc̄/dτ) - 1 < -1 (never zero) and
+    dτ/dc̄ = k (a + 1)/(2c̄ - 1)² - 4τ/(2c̄ - 1).
     """
     c1 = up.c1
-    mu = c1 / (c1 - 1.0) * (1.0 + w)  # u1²/(R T1) = γ1 M1²
+    mu = c1 / (c1 - 1.0) * (1.0 + w)  # γ1 M1²
+    k = 2.0 * (mu + 1.0) / ((c1 - 1.0) * mu)
+    a = c1 * w
+    a1, a0 = a + 1.0, a + c1
+    ka1 = k * a1
     with np.errstate(all="ignore"):
-        tau = _start_tau(w, up, mu)
+        tc = 2.0 * c1 - 1.0
+        tau = k * a * (c1 - 1.0) / (tc * tc)  # the perfect gas at γ(T1)
+        for _ in range(_FIXED_STEPS):
+            cbar = _mean_heat_capacity(tau, up)[0]
+            tc = 2.0 * cbar - 1.0
+            tau = k * (a1 * cbar - a0) / (tc * tc)
         for _ in range(_NEWTON_STEPS):
             cbar, x2, E2, om2 = _mean_heat_capacity(tau, up)
             c2 = up.cf + x2 * x2 * E2 / (om2 * om2)
-            tc = 2.0 * cbar - 1.0
-            target = _tau_of_mean(cbar, c1, w, mu)
-            dlnP = 2.0 * mu / (2.0 * mu * (cbar - 1.0) - 1.0) + 2.0 / (mu + 2.0 * cbar) - 4.0 / tc
-            slope = (1.0 + target) * dlnP * (c2 - cbar) / np.maximum(tau, _TINY_TAU) - 1.0
+            inv_tc = 1.0 / (2.0 * cbar - 1.0)
+            target = k * (a1 * cbar - a0) * inv_tc * inv_tc
+            dtau_dc = (ka1 * inv_tc - 4.0 * target) * inv_tc
+            slope = dtau_dc * (c2 - cbar) / np.maximum(tau, _TINY_TAU) - 1.0
             tau = tau - (target - tau) / slope
     return np.maximum(tau, 0.0)
 
