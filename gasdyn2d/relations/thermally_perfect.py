@@ -366,12 +366,17 @@ def _sonic_log_flux(T0, x0, E0, om0, cf, theta):
 
 def _ratios_from_excess(d, T0, cf, theta):
     x0, E0, om0 = oscillator_terms(T0, theta)
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         log_p, log_flux, m2, c = _log_flux_terms(d, x0, E0, om0, cf)
         log_flux_star, _ = _sonic_log_flux(T0, x0, E0, om0, cf, theta)
-        return IsentropicRatios(np.sqrt(m2), 1.0 / (1.0 + d), np.exp(log_p),
-                                np.exp(log_p) * (1.0 + d), np.exp(log_flux_star - log_flux),
-                                c / (c - 1.0))
+        out = IsentropicRatios(np.sqrt(m2), 1.0 / (1.0 + d), np.exp(log_p),
+                               np.exp(log_p) * (1.0 + d), np.exp(log_flux_star - log_flux),
+                               c / (c - 1.0))
+    vacuum = (d == np.inf) & ~np.isnan(T0)  # M = inf: expanded to T = 0, frozen vibration
+    if nx.any_true(vacuum):
+        limits = (np.inf, 0.0, 0.0, 0.0, np.inf, cf / (cf - 1.0))
+        out = IsentropicRatios(*(np.where(vacuum, v, f) for v, f in zip(limits, out)))
+    return out
 
 
 def isentropic_ratios(M, T0, gas):
