@@ -341,7 +341,7 @@ def test_frozen_vibration_gives_the_perfect_gas():
 @pytest.mark.parametrize("T1", [300.0, 1000.0, 3000.0])
 def test_weak_shock_follows_the_fundamental_derivative(T1):
     # facts of the trade: a weak shock's jump is Δp/(ρ1 a1²) = (M1² - 1)/Γ to first order,
-    # Γ = 1 + (ρ/a)(∂a/∂ρ)_s the fundamental derivative (Thompson, Phys. Fluids 14, 1971,
+    # Γ = 1 + (ρ/a)(∂a/∂ρ)_s the fundamental derivative (P. A. Thompson, Phys. Fluids 14, 1971,
     # from memory); for this gas Γ = (γ + 1)/2 + (T dγ/dT)(γ - 1)/(2γ), which differs
     # from the perfect gas's (γ + 1)/2 by up to 0.8 % (T dγ/dT by a central difference)
     g = float(AIR_TP.gamma_at(T1))

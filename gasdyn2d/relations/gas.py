@@ -255,7 +255,7 @@ class Gas(ResultTable):
         return self.cv + self.R * self._vibrational(vibrational_heat_capacity, T)
 
     def gamma_at(self, T):
-        """Ratio of specific heats γ(T) = cp(T)/(cp(T) - R) at ``T`` [K] [-]."""
+        """Ratio of specific heats γ(T) = cp(T)/(cp(T) - R) [-] at temperature ``T`` [K]."""
         c = self.cp_at(T) / self.R
         return c / (c - 1.0)
 
