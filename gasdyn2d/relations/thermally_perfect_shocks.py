@@ -39,12 +39,15 @@ are found by bracketed Newton iterations in τ on closed-form residuals.
 
 The oblique shock's deflection is a closed form of τ too (the normal component at
 the same T1, the tangential velocity conserved): tan θ = (1 - ε) √(m(μ1 - m))/(μ1 -
-(1 - ε) m) with m = u_n1²/(R T1) and μ1 = u1²/(R T1). From a deflection, τ is solved
-from the perfect-gas solution at γ(T1) by three Newton steps (in √(τ_normal - τ) on
-the strong branch, where tan θ has a square-root end at the normal shock); cases
-that do not converge to the right branch (close to detachment, or detached) are
-re-solved by a bracketed iteration on √(tan θmax - tan θ(τ)), which is nearly linear
-through the detachment point. Detachment (d tan θ/dτ = 0) and the sonic point
+(1 - ε) m) with m = u_n1²/(R T1) and μ1 = u1²/(R T1). From a deflection, τ starts
+from the closed-form perfect-gas solution, taken twice: at γ(T1), then at the
+effective γ of that jump's mean heat capacity (:func:`_start_from_perfect_gas`), and
+is finished by three Newton steps (in √(τ_normal - τ) on the strong branch, where
+tan θ has a square-root end at the normal shock). Newton's own error estimate
+(:func:`_converged`) accepts an element; the few that are not accepted (about 1 %
+of random cases: near detachment, beyond the perfect gas's detachment, or detached)
+are re-solved by a bracketed iteration on √(tan θmax - tan θ(τ)), which is nearly
+linear through the detachment point. Detachment (d tan θ/dτ = 0) and the sonic point
 (M2 = 1) are bracketed Newton solves in τ.
 
 Model limits: see :mod:`gasdyn2d.relations.gas` (no dissociation, vibrational
@@ -93,7 +96,6 @@ __all__ = [
 _FIXED_STEPS = 2  # fixed-point steps τ ← P(c̄(τ)) - 1 before Newton (contraction <= 0.06)
 _NEWTON_STEPS = 2  # then Newton: <= 2e-15 in T2/T1 (measured, module docs)
 _OBLIQUE_STEPS = 3  # Newton steps on tan θ(τ) from the perfect gas at γ(T1)
-_OBLIQUE_ACCEPT = 1e-9  # a larger last step (relative) sends the element to the bracketed path
 _TINY_TAU = 1e-6  # below this τ, d c̄/dτ (a cancelling divided difference) is left out
 _TAU_MAX = 1e9  # upper bracket of τ where no closer bound exists (T2 up to 10^9 T1)
 
