@@ -32,6 +32,7 @@ import gasdyn2d
 from gasdyn2d import normal_shock, oblique_shock
 from gasdyn2d.relations import normal_shocks, oblique_shocks
 from gasdyn2d.relations import thermally_perfect as tp
+from gasdyn2d.relations import thermally_perfect_oblique as tpo
 from gasdyn2d.relations import thermally_perfect_shocks as tps
 from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
 from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
@@ -57,10 +58,10 @@ def make_cases(n, seed=20261215):
     M = rng.uniform(1.05, 10.0, n)
     T1 = rng.uniform(200.0, 3000.0, n)
     fraction = rng.uniform(0.01, 0.99, n)
-    theta = fraction * tps.detachment_angles(M, T1, GAS)[0]
+    theta = fraction * tpo.detachment_angles(M, T1, GAS)[0]
     theta_max_perfect = oblique_shocks.detachment_angles(M)[0]
     theta_perfect = np.where(theta < theta_max_perfect, theta, fraction * theta_max_perfect)
-    beta = tps.oblique_shock_from_deflection(M, T1, theta, GAS).wave_angle
+    beta = tpo.oblique_shock_from_deflection(M, T1, theta, GAS).wave_angle
     return dict(M=M, T1=T1, theta=theta, theta_perfect=theta_perfect, beta=beta,
                 w=(M - 1.0) * (M + 1.0), T0=rng.uniform(200.0, 3000.0, n))
 
@@ -79,24 +80,24 @@ def rows(c):
          [("plain core normal_shock_ratios(w)", lambda: normal_shocks.normal_shock_ratios(w)),
           ("public normal_shock(M1)", lambda: normal_shock(M))], True),
         ("oblique shock from deflection, weak",
-         lambda: tps.oblique_shock_from_deflection(M, T1, th, GAS),
+         lambda: tpo.oblique_shock_from_deflection(M, T1, th, GAS),
          [("plain core wave_angle_from_deflection + oblique_shock_ratios",
            perfect_oblique_core),
           ("public oblique_shock(M1, deflection=...)",
            lambda: oblique_shock(M, deflection=thp))], True),
         ("oblique shock from deflection, strong",
-         lambda: tps.oblique_shock_from_deflection(M, T1, th, GAS, strong=True),
+         lambda: tpo.oblique_shock_from_deflection(M, T1, th, GAS, strong=True),
          [("plain core, strong branch", lambda: perfect_oblique_core(True)),
           ("public oblique_shock(..., branch='strong')",
            lambda: oblique_shock(M, deflection=thp, branch="strong"))], False),
         ("oblique shock from wave angle",
-         lambda: tps.oblique_shock_from_wave_angle(M, T1, be, GAS),
+         lambda: tpo.oblique_shock_from_wave_angle(M, T1, be, GAS),
          [("plain core oblique_shock_ratios(M1, β)",
            lambda: oblique_shocks.oblique_shock_ratios(M, be)),
           ("public oblique_shock(M1, wave_angle=...)",
            lambda: oblique_shock(M, wave_angle=be))], True),
         ("detachment angles",
-         lambda: tps.detachment_angles(M, T1, GAS),
+         lambda: tpo.detachment_angles(M, T1, GAS),
          [("plain core detachment_angles(M1)", lambda: oblique_shocks.detachment_angles(M))],
          False),
         ("isentropic ratios from M",

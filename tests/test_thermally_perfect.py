@@ -1,6 +1,7 @@
 """Tests of the thermally perfect gas: gasdyn2d.relations.gas (the model),
-gasdyn2d.relations.thermally_perfect (isentropic flow, ν, fans) and
-gasdyn2d.relations.thermally_perfect_shocks (normal and oblique shocks, turn_state).
+gasdyn2d.relations.thermally_perfect (isentropic flow, ν, fans),
+gasdyn2d.relations.thermally_perfect_shocks (the jump in τ, normal shocks) and
+gasdyn2d.relations.thermally_perfect_oblique (oblique shocks, turn_state).
 
 Three kinds of check, as elsewhere in the suite:
 
@@ -31,6 +32,7 @@ import reference as ref
 import thermal_reference as tref
 from gasdyn2d import Gas, InvalidInputError, ureg
 from gasdyn2d.relations import thermally_perfect as tp
+from gasdyn2d.relations import thermally_perfect_oblique as tpo
 from gasdyn2d.relations import thermally_perfect_shocks as tps
 from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle as perfect_nu
 from gasdyn2d.relations.gas import AIR, AIR_THERMALLY_PERFECT
@@ -269,10 +271,10 @@ STREAMS = [(1.5, 300.0), (3.0, 1000.0), (10.0, 250.0), (20.0, 3000.0)]
 
 @pytest.mark.parametrize("M1, T1", STREAMS)
 def test_detachment_and_sonic_points_match_mpmath(M1, T1):
-    theta_max, beta_max = tps.detachment_angles(M1, T1, AIR_TP)
+    theta_max, beta_max = tpo.detachment_angles(M1, T1, AIR_TP)
     want = tref.detachment(M1, T1)
     assert rel(theta_max, want[0]) < RTOL and rel(beta_max, want[1]) < 1e-10
-    theta_s, beta_s = tps.sonic_angles(M1, T1, AIR_TP)
+    theta_s, beta_s = tpo.sonic_angles(M1, T1, AIR_TP)
     want = tref.sonic_point(M1, T1)
     assert rel(theta_s, want[0]) < RTOL and rel(beta_s, want[1]) < RTOL
     assert theta_s < theta_max and beta_s < beta_max  # as for a perfect gas
@@ -287,7 +289,7 @@ OBLIQUE_FIELDS = ("wave_angle", "M2", "Mn2", "p2_p1", "rho2_rho1", "T2_T1", "p02
 def test_oblique_shock_from_deflection_matches_mpmath(M1, T1, fraction, strong):
     theta = fraction * tref.detachment(M1, T1)[0]
     want = tref.oblique_from_deflection(M1, T1, theta, strong=strong)
-    got = tps.oblique_shock_from_deflection(M1, T1, theta, AIR_TP, strong=strong)
+    got = tpo.oblique_shock_from_deflection(M1, T1, theta, AIR_TP, strong=strong)
     for name in OBLIQUE_FIELDS:
         assert rel(getattr(got, name), want[name]) < RTOL, name
     assert got.deflection == theta
@@ -301,7 +303,7 @@ def test_oblique_shock_from_wave_angle_matches_mpmath(M1, T1, where):
     mu = math.asin(1.0 / M1)
     beta = mu + where * (0.5 * math.pi - mu)
     want = tref.oblique_from_wave_angle(M1, T1, beta)
-    got = tps.oblique_shock_from_wave_angle(M1, T1, beta, AIR_TP)
+    got = tpo.oblique_shock_from_wave_angle(M1, T1, beta, AIR_TP)
     for name in ("deflection",) + OBLIQUE_FIELDS[1:]:
         assert rel(getattr(got, name), want[name]) < RTOL, name
     normal = tps.normal_shock_ratios(M1 * math.sin(beta), T1, AIR_TP)
@@ -331,10 +333,10 @@ def test_frozen_vibration_gives_the_perfect_gas():
         assert np.allclose(shock.gamma2, 1.4, rtol=1e-15)
         theta = 0.5 * perfect_detachment(M)[0]
         beta = wave_angle_from_deflection(M, theta)
-        oblique = tps.oblique_shock_from_deflection(M, T, theta, gas)
+        oblique = tpo.oblique_shock_from_deflection(M, T, theta, gas)
         assert np.allclose(oblique.wave_angle, beta, rtol=1e-13, atol=0)
         assert np.allclose(oblique.p2_p1, perfect_oblique(M, beta).p2_p1, rtol=1e-13, atol=0)
-        assert np.allclose(tps.detachment_angles(M, T, gas)[0], perfect_detachment(M)[0],
+        assert np.allclose(tpo.detachment_angles(M, T, gas)[0], perfect_detachment(M)[0],
                            rtol=1e-12, atol=0)
 
 
@@ -372,8 +374,8 @@ def test_shock_temperature_below_the_perfect_gas_at_high_mach(M1, T1):
        strong=st.booleans())
 @settings(max_examples=40, deadline=None)
 def test_entropy_rises_across_every_shock(M1, T1, f, strong):
-    theta = f * float(tps.detachment_angles(M1, T1, AIR_TP)[0])
-    shock = tps.oblique_shock_from_deflection(M1, T1, theta, AIR_TP, strong=strong)
+    theta = f * float(tpo.detachment_angles(M1, T1, AIR_TP)[0])
+    shock = tpo.oblique_shock_from_deflection(M1, T1, theta, AIR_TP, strong=strong)
     assert 0.0 < shock.p02_p01 < 1.0
     assert shock.p2_p1 > 1.0 and shock.T2_T1 > 1.0 and shock.rho2_rho1 > 1.0
     assert (shock.M2 < 1.0) if strong else True
@@ -415,13 +417,13 @@ def test_broadcasting_and_large_arrays_match_scalar_calls():
     shock = tps.normal_shock_ratios(M, T, AIR_TP)
     assert shock.T2_T1.shape == (3, 3)
     theta = np.radians(3.0)  # attached at M1 = 1.2 too
-    oblique = tps.oblique_shock_from_deflection(M, T, theta, AIR_TP)
+    oblique = tpo.oblique_shock_from_deflection(M, T, theta, AIR_TP)
     assert np.isfinite(oblique.wave_angle).all()
     for i in range(3):
         for j in range(3):
             one = tps.normal_shock_ratios(M[i, 0], T[j], AIR_TP)
             assert shock.p2_p1[i, j] == one.p2_p1
-            assert oblique.wave_angle[i, j] == tps.oblique_shock_from_deflection(
+            assert oblique.wave_angle[i, j] == tpo.oblique_shock_from_deflection(
                 M[i, 0], T[j], theta, AIR_TP).wave_angle
     # more cases than one block of the chunked loop: the same numbers
     rng = np.random.default_rng(7)
@@ -435,12 +437,12 @@ def test_invalid_and_nan_elements_give_nan():
     shock = tps.normal_shock_ratios([2.0, 0.8, nan, 2.0, 2.0, 2.0], [300.0, 300.0, 300.0, 0.0,
                                                                       -5.0, nan], AIR_TP)
     assert np.isfinite(shock.p2_p1[0]) and np.isnan(shock.p2_p1[1:]).all()
-    theta_max = float(tps.detachment_angles(3.0, 300.0, AIR_TP)[0])
-    oblique = tps.oblique_shock_from_deflection(3.0, 300.0, [0.2, theta_max * 1.001, -0.1,
+    theta_max = float(tpo.detachment_angles(3.0, 300.0, AIR_TP)[0])
+    oblique = tpo.oblique_shock_from_deflection(3.0, 300.0, [0.2, theta_max * 1.001, -0.1,
                                                              nan], AIR_TP)
     assert np.isfinite(oblique.wave_angle[0]) and np.isnan(oblique.wave_angle[1:]).all()
-    at_max = tps.oblique_shock_from_deflection(3.0, 300.0, theta_max, AIR_TP)
-    assert rel(at_max.wave_angle, tps.detachment_angles(3.0, 300.0, AIR_TP)[1]) < 1e-7
+    at_max = tpo.oblique_shock_from_deflection(3.0, 300.0, theta_max, AIR_TP)
+    assert rel(at_max.wave_angle, tpo.detachment_angles(3.0, 300.0, AIR_TP)[1]) < 1e-7
     assert np.isnan(tp.isentropic_ratios(2.0, [0.0, -1.0, np.inf], AIR_TP).p_p0).all()
     vacuum = tp.isentropic_ratios([np.inf, 0.0], 300.0, AIR_TP)
     assert vacuum.p_p0.tolist() == [0.0, 1.0] and vacuum.A_Astar.tolist() == [np.inf, np.inf]
@@ -462,8 +464,8 @@ def test_invalid_and_nan_elements_give_nan():
 def test_turn_state_combines_shock_and_fan():
     M1, T1 = 2.5, 1200.0
     turns = np.radians([12.0, 0.0, -12.0])
-    state = tps.turn_state(M1, T1, turns, AIR_TP)
-    shock = tps.oblique_shock_from_deflection(M1, T1, turns[0], AIR_TP)
+    state = tpo.turn_state(M1, T1, turns, AIR_TP)
+    shock = tpo.oblique_shock_from_deflection(M1, T1, turns[0], AIR_TP)
     fan = tp.fan_from_turn(M1, T1, -turns[2], AIR_TP)
     assert state.is_shock.tolist() == [True, False, False]
     assert state.p2_p1[0] == shock.p2_p1 and state.wave_angle[0] == shock.wave_angle
@@ -472,24 +474,24 @@ def test_turn_state_combines_shock_and_fan():
     # d ln p/d turn: a central difference of ln p2/p1 on each side
     h = 1e-6
     for turn in (turns[0], turns[2]):
-        up, down = tps.turn_state(M1, T1, [turn + h, turn - h], AIR_TP).p2_p1
-        slope = float(tps.turn_state(M1, T1, turn, AIR_TP).dlnp_dturn)
+        up, down = tpo.turn_state(M1, T1, [turn + h, turn - h], AIR_TP).p2_p1
+        slope = float(tpo.turn_state(M1, T1, turn, AIR_TP).dlnp_dturn)
         assert rel(slope, (math.log(up) - math.log(down)) / (2 * h)) < 1e-7
     # continuous through turn = 0, where both sides equal γ1 M1²/√(M1² - 1)
     g1 = float(AIR_TP.gamma_at(T1))
     mach_wave = g1 * M1 * M1 / math.sqrt(M1 * M1 - 1.0)
     assert rel(state.dlnp_dturn[1], mach_wave) < 1e-12
-    assert rel(tps.turn_state(M1, T1, 1e-9, AIR_TP).dlnp_dturn, mach_wave) < 1e-6
+    assert rel(tpo.turn_state(M1, T1, 1e-9, AIR_TP).dlnp_dturn, mach_wave) < 1e-6
 
 
 def test_turn_state_flags_detachment_and_vacuum():
     M1, T1 = 2.0, 300.0
-    theta_max = float(tps.detachment_angles(M1, T1, AIR_TP)[0])
+    theta_max = float(tpo.detachment_angles(M1, T1, AIR_TP)[0])
     T0 = float(tp.stagnation_temperature(M1, T1, AIR_TP))
     room = float(tp.max_prandtl_meyer_angle(T0, AIR_TP) - tp.prandtl_meyer_angle(M1, T0, AIR_TP))
-    state = tps.turn_state(M1, T1, [theta_max * 1.01, -room * 1.01, 0.1], AIR_TP)
+    state = tpo.turn_state(M1, T1, [theta_max * 1.01, -room * 1.01, 0.1], AIR_TP)
     assert state.detached.tolist() == [True, False, False]
     assert state.vacuum.tolist() == [False, True, False]
     assert np.isnan(state.p2_p1[:2]).all() and np.isfinite(state.p2_p1[2])
-    strong = tps.turn_state(M1, T1, 0.1, AIR_TP, strong=True)
+    strong = tpo.turn_state(M1, T1, 0.1, AIR_TP, strong=True)
     assert strong.M2 < 1.0 and strong.dlnp_dturn < 0.0

@@ -1,19 +1,20 @@
-"""Thermally perfect gas (vibrational excitation): normal and oblique shocks (plain core).
+"""Thermally perfect gas (vibrational excitation): the shock jump and normal shocks.
 
 Plain core only (floats and ndarrays, SI units, radians, no pint); invalid elements
 come out as NaN. The gas is a :class:`~gasdyn2d.relations.gas.Gas` with a
 ``vibrational_temperature``; the upstream static temperature T1 [K] fixes the state.
-Isentropic flow and fans are in :mod:`gasdyn2d.relations.thermally_perfect`.
+Isentropic flow and fans are in :mod:`gasdyn2d.relations.thermally_perfect`, oblique
+shocks and the simple-wave primitive in :mod:`gasdyn2d.relations.thermally_perfect_oblique`.
 
 - :func:`normal_shock_ratios` (M1, T1) → M2, p2/p1, ρ2/ρ1, T2/T1, p02/p01, γ2;
   :func:`pitot_ratio`; the inverses :func:`mach_from_temperature_jump` (closed form),
   :func:`mach_from_pressure_jump`, :func:`mach_from_density_jump`,
   :func:`mach_from_downstream_mach`, :func:`mach_from_stagnation_pressure_ratio`,
   :func:`mach_from_pitot_ratio`;
-- :func:`oblique_shock_from_wave_angle`, :func:`oblique_shock_from_deflection` (weak
-  and strong branches), :func:`detachment_angles`, :func:`sonic_angles`;
-- :func:`turn_state`: the simple-wave primitive (shock for a positive turn, centred
-  fan for a negative one) of :mod:`gasdyn2d.relations.simple_waves` for this gas.
+- the jump in its state variable τ, the building blocks of both shock modules:
+  :func:`upstream_state`, :func:`mean_heat_capacity`, :func:`shock_jump`,
+  :func:`perfect_gas_jump`, :func:`normal_jump`, :func:`entropy_rise`,
+  :func:`upstream_mach`.
 
 State variable: τ = T2/T1 - 1
 -----------------------------
@@ -37,19 +38,6 @@ or better) and two Newton steps on τ - P(c̄(τ)) + 1 reach rounding (measured:
 <= 2e-15 in T2/T1 for 1.01 <= M1 <= 20, 200 <= T1 <= 3000 K). The other inputs
 are found by bracketed Newton iterations in τ on closed-form residuals.
 
-The oblique shock's deflection is a closed form of τ too (the normal component at
-the same T1, the tangential velocity conserved): tan θ = (1 - ε) √(m(μ1 - m))/(μ1 -
-(1 - ε) m) with m = u_n1²/(R T1) and μ1 = u1²/(R T1). From a deflection, τ starts
-from the closed-form perfect-gas solution, taken twice: at γ(T1), then at the
-effective γ of that jump's mean heat capacity (:func:`_start_from_perfect_gas`), and
-is finished by three Newton steps (in √(τ_normal - τ) on the strong branch, where
-tan θ has a square-root end at the normal shock). Newton's own error estimate
-(:func:`_converged`) accepts an element; the few that are not accepted (about 1 %
-of random cases: near detachment, beyond the perfect gas's detachment, or detached)
-are re-solved by a bracketed iteration on √(tan θmax - tan θ(τ)), which is nearly
-linear through the detachment point. Detachment (d tan θ/dτ = 0) and the sonic point
-(M2 = 1) are bracketed Newton solves in τ.
-
 Model limits: see :mod:`gasdyn2d.relations.gas` (no dissociation, vibrational
 equilibrium behind the shock assumed; a real shock relaxes to this state over a
 distance). Results are for preliminary design.
@@ -69,11 +57,10 @@ import numpy as np
 
 from .. import _numerics as nx
 from .gas import oscillator_terms
-from .oblique_shocks import detachment_angles as _perfect_gas_detachment
-from .oblique_shocks import sonic_angles as _perfect_gas_sonic
-from .oblique_shocks import wv_from_deflection as _perfect_gas_wv
-from .simple_waves import WaveState
-from .thermally_perfect import fan_from_turn, gas_constants, kelvin, stagnation_temperature
+from .normal_shocks import mach_from_downstream_mach as _perfect_gas_from_downstream_mach
+from .normal_shocks import mach_from_pitot_ratio as _perfect_gas_from_pitot_ratio
+from .normal_shocks import mach_from_stagnation_pressure_ratio as _perfect_gas_from_recovery
+from .thermally_perfect import gas_constants, kelvin, stagnation_temperature
 
 __all__ = [
     "NormalShockRatios",
@@ -85,17 +72,19 @@ __all__ = [
     "mach_from_downstream_mach",
     "mach_from_stagnation_pressure_ratio",
     "mach_from_pitot_ratio",
-    "ObliqueShockRatios",
-    "oblique_shock_from_wave_angle",
-    "oblique_shock_from_deflection",
-    "detachment_angles",
-    "sonic_angles",
-    "turn_state",
+    "UpstreamState",
+    "upstream_state",
+    "mean_heat_capacity",
+    "ShockJump",
+    "shock_jump",
+    "perfect_gas_jump",
+    "normal_jump",
+    "entropy_rise",
+    "upstream_mach",
 ]
 
 _FIXED_STEPS = 2  # fixed-point steps τ ← P(c̄(τ)) - 1 before Newton (contraction <= 0.06)
 _NEWTON_STEPS = 2  # then Newton: <= 2e-15 in T2/T1 (measured, module docs)
-_OBLIQUE_STEPS = 3  # Newton steps on tan θ(τ) from the perfect gas at γ(T1)
 _TINY_TAU = 1e-6  # below this τ, d c̄/dτ (a cancelling divided difference) is left out
 _TAU_MAX = 1e9  # upper bracket of τ where no closer bound exists (T2 up to 10^9 T1)
 
@@ -103,34 +92,57 @@ _TAU_MAX = 1e9  # upper bracket of τ where no closer bound exists (T2 up to 10^
 # ------------------------------------------------------------------ the jump in τ
 
 
-class _Upstream(NamedTuple):
-    x1: np.ndarray
-    E1: np.ndarray
-    om1: np.ndarray
-    c1: np.ndarray
-    sv1: np.ndarray
+class UpstreamState(NamedTuple):
+    """Plain-core result of :func:`upstream_state`: the gas terms at T1, computed once."""
+
+    x1: np.ndarray  #: θv/T1
+    E1: np.ndarray  #: e^(-x1)
+    om1: np.ndarray  #: 1 - E1
+    c1: np.ndarray  #: cp(T1)/R
+    sv1: np.ndarray  #: vibrational entropy at T1, per R
     x1_om1: np.ndarray  #: x1/(1 - E1)
-    cf: float
-    theta: float
-    gas: object
+    cf: float  #: frozen cp/R
+    theta: float  #: θv [K]
+    gas: object  #: the Gas
 
 
-def _upstream(T1, gas):
+def upstream_state(T1, gas):
+    """Plain core: the oscillator terms at the upstream temperature T1 [K] (NaN where
+    T1 is not positive and finite), shared by every evaluation of the jump.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
+    >>> from gasdyn2d.relations.thermally_perfect_shocks import upstream_state
+    >>> round(float(upstream_state(300.0, AIR_THERMALLY_PERFECT).c1), 6)  # cp/R at 300 K
+    3.503913
+    """
     cf, theta = gas_constants(gas)
     x1, E1, om1 = oscillator_terms(kelvin(T1), theta)
     with np.errstate(all="ignore"):
         c1 = cf + x1 * x1 * E1 / (om1 * om1)
         sv1 = x1 * E1 / om1 - np.log(om1)
         x1_om1 = x1 / om1
-    return _Upstream(x1, E1, om1, c1, sv1, x1_om1, cf, theta, gas)
+    return UpstreamState(x1, E1, om1, c1, sv1, x1_om1, cf, theta, gas)
 
 
-def _mean_heat_capacity(tau, up):
-    """(c̄, x2, E2, 1 - E2) for T2 = T1 (1 + τ): c̄ = c_f + x1 x2 (E2 - E1)/(Δx (1-E1)(1-E2)).
+def mean_heat_capacity(tau, upstream):
+    """Plain core: (c̄, x2, E2, 1 - E2) for T2 = T1 (1 + τ), c̄ the mean of cp/R over [T1, T2].
 
-    E2 - E1 = E2 (1 - e^(-Δx)) with Δx = x1 - x2 > 0, so nothing cancels as τ → 0 and
-    nothing overflows at low temperature (where E1, E2 underflow to their limit 0).
+    c̄ = c_f + x1 x2 (E2 - E1)/(Δx (1 - E1)(1 - E2)) with E2 - E1 = E2 (1 - e^(-Δx)),
+    Δx = x1 - x2 > 0: nothing cancels as τ → 0 (c̄ → cp(T1)/R) and nothing overflows at
+    low temperature (where E1, E2 underflow to their limit 0).
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
+    >>> from gasdyn2d.relations.thermally_perfect_shocks import (mean_heat_capacity,
+    ...                                                          upstream_state)
+    >>> up = upstream_state(300.0, AIR_THERMALLY_PERFECT)
+    >>> round(float(mean_heat_capacity(0.0, up)[0]), 6), round(float(mean_heat_capacity(4.0, up)[0]), 6)
+    (3.503913, 3.881773)
     """
+    up = upstream
     x2 = up.x1 / (1.0 + tau)
     dx = np.maximum(up.x1 - x2, 1e-300)
     minus_x2 = -x2
@@ -140,29 +152,58 @@ def _mean_heat_capacity(tau, up):
     return cbar, x2, E2, om2
 
 
-class _Jump(NamedTuple):
-    """Everything across the shock at τ; the ``d*`` fields are τ-derivatives (NaN-free
-    only when :func:`_jump` was asked for them)."""
+class ShockJump(NamedTuple):
+    """Plain-core result of :func:`shock_jump` (ndarrays); the ``d*`` fields are
+    τ-derivatives (None unless asked for)."""
 
-    t: np.ndarray
-    cbar: np.ndarray
-    c2: np.ndarray
-    eps: np.ndarray  #: ρ1/ρ2
+    t: np.ndarray  #: T2/T1
+    cbar: np.ndarray  #: mean cp/R over [T1, T2]
+    c2: np.ndarray  #: cp(T2)/R
+    eps: np.ndarray  #: ε = ρ1/ρ2
     delta: np.ndarray  #: 1 - ε
-    m: np.ndarray  #: u_n1²/(R T1)
-    x2: np.ndarray
-    E2: np.ndarray
-    om2: np.ndarray
-    BS: np.ndarray  #: B + S
-    deps: object = None
-    dm: object = None
-    dc2: object = None
+    m: np.ndarray  #: u_n1²/(R T1), the upstream normal velocity
+    x2: np.ndarray  #: θv/T2
+    E2: np.ndarray  #: e^(-x2)
+    om2: np.ndarray  #: 1 - E2
+    BS: np.ndarray  #: B + S (module docs)
+    deps: object = None  #: dε/dτ
+    dm: object = None  #: dm/dτ
+    dc2: object = None  #: dc2/dτ
 
 
-def _jump(tau, up, derivatives=True):
-    """The jump at τ (module docs), with dε/dτ, dm/dτ and dc2/dτ if ``derivatives``."""
-    cbar, x2, E2, om2 = _mean_heat_capacity(tau, up)
-    cf = up.cf
+def shock_jump(tau, upstream, derivatives=True):
+    """Plain core: everything across a shock of temperature ratio T2/T1 = 1 + τ, in closed form.
+
+    Parameters
+    ----------
+    tau : float or ndarray
+        T2/T1 - 1 [-], >= 0.
+    upstream : UpstreamState
+        From :func:`upstream_state`.
+    derivatives : bool, optional
+        Also dε/dτ, dm/dτ and dc2/dτ (for Newton iterations).
+
+    Returns
+    -------
+    ShockJump
+
+    Notes
+    -----
+    ε and 1 - ε from the quadratic ε² + Bε - t = 0 of mass, momentum and energy at the
+    mean heat capacity c̄ (module docs); m = c̄(2 + B + S)/(2(c̄ - 1)(1 + ε)).
+    dc̄/dτ = (c2 - c̄)/τ (the derivative of a mean over [T1, T2]) is left out below
+    τ = 1e-6, where it cancels; it only slows Newton there, never moves the root.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
+    >>> from gasdyn2d.relations.thermally_perfect_shocks import shock_jump, upstream_state
+    >>> jump = shock_jump(16.216280783120464, upstream_state(250.0, AIR_THERMALLY_PERFECT))
+    >>> round(float(1.0 / jump.eps), 5)  # ρ2/ρ1 of the M1 = 10 shock (SOURCES.md: 7.03312)
+    7.03312
+    """
+    cbar, x2, E2, om2 = mean_heat_capacity(tau, upstream)
+    cf = upstream.cf
     t = 1.0 + tau
     cm = cbar - 1.0
     tc = cbar + cm
@@ -174,10 +215,10 @@ def _jump(tau, up, derivatives=True):
     one_eps = 1.0 + eps
     m = cbar * q / (2.0 * cm * one_eps)
     c2 = cf + x2 * x2 * E2 / (om2 * om2)
-    jump = _Jump(t, cbar, c2, eps, 4.0 * cm * tau / q, m, x2, E2, om2, BS)
+    jump = ShockJump(t, cbar, c2, eps, 4.0 * cm * tau / q, m, x2, E2, om2, BS)
     if not derivatives:
         return jump
-    # d c̄/dτ = (c2 - c̄)/τ (the derivative of a mean over [T1, T2]); B' = 2(c2 - c̄) + 2c̄ - 1
+    # B' = 2(c2 - c̄) + 2c̄ - 1, since τ dc̄/dτ = c2 - c̄
     diff = c2 - cbar
     dcbar = diff / np.maximum(tau, _TINY_TAU)
     dB = 2.0 * diff + tc
@@ -188,33 +229,45 @@ def _jump(tau, up, derivatives=True):
     return jump._replace(deps=deps, dm=dm, dc2=dc2)
 
 
-def _tau_of_mean(cbar, c1, w, mu):
-    """τ = P(c̄) - 1: the perfect-gas T2/T1 - 1 at cp = c̄R for μ = u1²/(RT1) = c1(1+w)/(c1-1).
+def perfect_gas_jump(cbar, w, upstream):
+    """Plain core: τ = T2/T1 - 1 of the perfect gas with cp = c̄R and the same u1²/(R T1).
 
-    P - 1 = 2(μ + 1)[c1 w (c̄ - 1) + c̄ - c1]/((c1 - 1)(2c̄ - 1)² μ), which keeps its
-    digits as w → 0 (c̄ - c1 = O(τ)).
+    With μ = u1²/(R T1) = γ1(1 + w), w = Mn1² - 1:
+    τ = 2(μ + 1)[c1 w (c̄ - 1) + c̄ - c1]/((c1 - 1)(2c̄ - 1)² μ), which keeps its digits
+    as w → 0 (c̄ - c1 = O(τ)). At c̄ = c̄(τ) itself this is the thermally perfect shock.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
+    >>> from gasdyn2d.relations.thermally_perfect_shocks import perfect_gas_jump, upstream_state
+    >>> up = upstream_state(250.0, AIR_THERMALLY_PERFECT)
+    >>> round(float(perfect_gas_jump(up.c1, 99.0, up)) + 1.0, 3)  # T2/T1 at M1 = 10, γ(T1)
+    20.382
     """
+    c1 = upstream.c1
+    mu = c1 / (c1 - 1.0) * (1.0 + w)
     tc = 2.0 * cbar - 1.0
     return 2.0 * (mu + 1.0) * (c1 * w * (cbar - 1.0) + cbar - c1) / ((c1 - 1.0) * tc * tc * mu)
 
 
-def _start_tau(w, up, mu, steps=_FIXED_STEPS):
-    """The perfect gas at γ(T1), then the fixed-point steps τ ← P(c̄(τ)) - 1."""
-    tau = _tau_of_mean(up.c1, up.c1, w, mu)
-    for _ in range(steps):
-        tau = _tau_of_mean(_mean_heat_capacity(tau, up)[0], up.c1, w, mu)
-    return tau
+def normal_jump(w, upstream, fixed_steps=_FIXED_STEPS, newton_steps=_NEWTON_STEPS):
+    """Plain core: τ = T2/T1 - 1 of the normal shock with upstream Mach number √(1 + w), w >= 0.
 
+    From the perfect gas at γ(T1), ``fixed_steps`` steps τ ← :func:`perfect_gas_jump`(c̄(τ))
+    and ``newton_steps`` Newton steps on G(τ) = perfect_gas_jump(c̄(τ)) - τ, whose slope
+    G' = (dτ/dc̄)(dc̄/dτ) - 1 < -1 never vanishes. In the form used, τ = k N/(2c̄ - 1)²,
+    N = (a + 1)c̄ - (a + c1), a = c1 w, k = 2(μ + 1)/((c1 - 1)μ), and
+    dτ/dc̄ = k(a + 1)/(2c̄ - 1)² - 4τ/(2c̄ - 1). The defaults reach rounding (module docs);
+    fewer steps give a start for other solvers.
 
-def _solve_normal(w, up):
-    """τ of the normal shock with upstream normal Mach number √(1 + w), w >= 0.
-
-    With μ = u1²/(R T1) = γ1(1 + w), :func:`_tau_of_mean` reads τ = k N/(2c̄ - 1)²,
-    N = (a + 1) c̄ - (a + c1), a = c1 w, k = 2(μ + 1)/((c1 - 1) μ). Fixed-point steps, then
-    Newton on G(τ) = τ(c̄(τ)) - τ with G' = (dτ/dc̄)(dc̄/dτ) - 1 < -1 (never zero) and
-    dτ/dc̄ = k (a + 1)/(2c̄ - 1)² - 4τ/(2c̄ - 1).
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
+    >>> from gasdyn2d.relations.thermally_perfect_shocks import normal_jump, upstream_state
+    >>> round(float(normal_jump(99.0, upstream_state(250.0, AIR_THERMALLY_PERFECT))) + 1.0, 4)
+    17.2163
     """
-    c1 = up.c1
+    c1 = upstream.c1
     mu = c1 / (c1 - 1.0) * (1.0 + w)  # γ1 M1²
     k = 2.0 * (mu + 1.0) / ((c1 - 1.0) * mu)
     a = c1 * w
@@ -223,13 +276,13 @@ def _solve_normal(w, up):
     with np.errstate(all="ignore"):
         tc = 2.0 * c1 - 1.0
         tau = k * a * (c1 - 1.0) / (tc * tc)  # the perfect gas at γ(T1)
-        for _ in range(_FIXED_STEPS):
-            cbar = _mean_heat_capacity(tau, up)[0]
+        for _ in range(fixed_steps):
+            cbar = mean_heat_capacity(tau, upstream)[0]
             tc = 2.0 * cbar - 1.0
             tau = k * (a1 * cbar - a0) / (tc * tc)
-        for _ in range(_NEWTON_STEPS):
-            cbar, x2, E2, om2 = _mean_heat_capacity(tau, up)
-            c2 = up.cf + x2 * x2 * E2 / (om2 * om2)
+        for _ in range(newton_steps):
+            cbar, x2, E2, om2 = mean_heat_capacity(tau, upstream)
+            c2 = upstream.cf + x2 * x2 * E2 / (om2 * om2)
             inv_tc = 1.0 / (2.0 * cbar - 1.0)
             target = k * (a1 * cbar - a0) * inv_tc * inv_tc
             dtau_dc = (ka1 * inv_tc - 4.0 * target) * inv_tc
@@ -238,14 +291,20 @@ def _solve_normal(w, up):
     return np.maximum(tau, 0.0)
 
 
-def _entropy_rise(j, tau, up):
-    """(s2 - s1)/R = (c_f - 1) ln t + ln ε + s_v(T2) - s_v(T1) (φ difference less ln p2/p1)."""
-    sv2 = j.x2 * j.E2 / j.om2 - np.log(j.om2)
-    return (up.cf - 1.0) * np.log1p(tau) + np.log(j.eps) + sv2 - up.sv1
+def entropy_rise(jump, tau, upstream):
+    """Plain core: (s2 - s1)/R [-] across the jump: (φ(T2) - φ(T1))/R - ln(p2/p1)
+    = (c_f - 1) ln(1 + τ) + ln ε + s_v(T2) - s_v(T1).
+
+    For weak shocks it is O(τ³) and a difference of O(τ) terms: its absolute error is a
+    few ulp, so p02/p01 = exp(-rise) is exact to rounding but 1 - p02/p01 is not.
+    """
+    sv2 = jump.x2 * jump.E2 / jump.om2 - np.log(jump.om2)
+    return (upstream.cf - 1.0) * np.log1p(tau) + np.log(jump.eps) + sv2 - upstream.sv1
 
 
-def _mach_from_tau(j, up):
-    return np.sqrt(j.m * (up.c1 - 1.0) / up.c1)  # M1² = m/γ1
+def upstream_mach(jump, upstream):
+    """Plain core: the upstream (normal) Mach number of a jump, √(m/γ1)."""
+    return np.sqrt(jump.m * (upstream.c1 - 1.0) / upstream.c1)
 
 
 # ------------------------------------------------------------------ normal shock
@@ -263,17 +322,17 @@ class NormalShockRatios(NamedTuple):
 
 
 def _normal_block(M1, T1, gas):
-    up = _upstream(T1, gas)
+    up = upstream_state(T1, gas)
     with np.errstate(all="ignore"):
         w = np.maximum((M1 - 1.0) * (M1 + 1.0), 0.0)
-        tau = _solve_normal(w, up)
-        j = _jump(tau, up, derivatives=False)
+        tau = normal_jump(w, up)
+        j = shock_jump(tau, up, derivatives=False)
         gamma2 = j.c2 / (j.c2 - 1.0)
         mu = up.c1 / (up.c1 - 1.0) * (1.0 + w)
         M2 = j.eps * np.sqrt(mu / (gamma2 * j.t))
         invalid = ~(M1 >= 1.0)
         out = NormalShockRatios(M2, j.t / j.eps, j.BS / (2.0 * j.t), j.t,
-                                np.exp(-_entropy_rise(j, tau, up)), gamma2)
+                                np.exp(-entropy_rise(j, tau, up)), gamma2)
     if nx.any_true(invalid):
         out = NormalShockRatios(*(np.where(invalid, np.nan, v) for v in out))
     return out
@@ -335,7 +394,7 @@ def pitot_ratio(M1, T1, gas):
     12.10044
     """
     M1, T1 = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(T1, dtype=float))
-    up = _upstream(T1, gas)
+    up = upstream_state(T1, gas)
     shock = normal_shock_ratios(M1, T1, gas)
     with np.errstate(all="ignore"):
         return shock.p02_p01 * np.exp(_log_stagnation_over_static(M1, T1, up))
@@ -354,13 +413,13 @@ def _bracketed_tau(residual, start, lo, hi, increasing):
 def _inverse(value, T1, gas, residual_of, start_of, bounds_of, increasing, valid_of):
     """M1 from one downstream quantity: τ by a bracketed Newton iteration, then M1(τ)."""
     value, T1 = np.broadcast_arrays(np.asarray(value, dtype=float), np.asarray(T1, dtype=float))
-    up = _upstream(T1, gas)
+    up = upstream_state(T1, gas)
     with np.errstate(all="ignore"):
         valid = valid_of(value, up)
         lo, hi = bounds_of(value, up)
         tau = _bracketed_tau(lambda x: residual_of(x, value, up), start_of(value, up), lo, hi,
                              increasing)
-        M1 = _mach_from_tau(_jump(tau, up, derivatives=False), up)
+        M1 = upstream_mach(shock_jump(tau, up, derivatives=False), up)
     return np.where(valid, M1, np.nan)
 
 
@@ -376,9 +435,9 @@ def mach_from_temperature_jump(T2_T1, T1, gas):
     10.0
     """
     r, T1 = np.broadcast_arrays(np.asarray(T2_T1, dtype=float), np.asarray(T1, dtype=float))
-    up = _upstream(T1, gas)
+    up = upstream_state(T1, gas)
     with np.errstate(all="ignore"):
-        M1 = _mach_from_tau(_jump(r - 1.0, up, derivatives=False), up)
+        M1 = upstream_mach(shock_jump(r - 1.0, up, derivatives=False), up)
     return np.where((r >= 1.0) & (r < np.inf), M1, np.nan)
 
 
@@ -399,7 +458,7 @@ def mach_from_pressure_jump(p2_p1, T1, gas):
         return (P - 1.0) * (P + 1.0) / ((2.0 * cbar - 1.0) * P + 1.0)
 
     def residual(tau, P, up):
-        j = _jump(tau, up)
+        j = shock_jump(tau, up)
         dcbar = (j.c2 - j.cbar) / np.maximum(tau, _TINY_TAU)
         den = (2.0 * j.cbar - 1.0) * P + 1.0
         return tau_at(j.cbar, P) - tau, -tau_at(j.cbar, P) * 2.0 * P * dcbar / den - 1.0
@@ -427,7 +486,7 @@ def mach_from_density_jump(rho2_rho1, T1, gas):
         return (r - 1.0) * (r + 1.0) / (r * (2.0 * cbar - 1.0 - r))
 
     def residual(tau, r, up):
-        j = _jump(tau, up)
+        j = shock_jump(tau, up)
         dcbar = (j.c2 - j.cbar) / np.maximum(tau, _TINY_TAU)
         gap = 2.0 * j.cbar - 1.0 - r
         return (r - 1.0) * (r + 1.0) - tau * r * gap, -r * gap - 2.0 * tau * r * dcbar
@@ -462,17 +521,17 @@ def mach_from_downstream_mach(M2, T1, gas):
     ...                                       AIR_THERMALLY_PERFECT)), 9)
     10.0
     """
-    from .normal_shocks import mach_from_downstream_mach as perfect_gas_inverse
 
     def residual(tau, target, up):
-        value, slope = _downstream_mach_squared(_jump(tau, up), up)
+        value, slope = _downstream_mach_squared(shock_jump(tau, up), up)
         return value - target * target, slope
 
     def start(target, up):
         g1 = up.c1 / (up.c1 - 1.0)
-        M1 = perfect_gas_inverse(np.maximum(target, np.sqrt((g1 - 1.0) / (2.0 * g1)) * 1.001), g1)
+        low = np.sqrt((g1 - 1.0) / (2.0 * g1)) * 1.001
+        M1 = _perfect_gas_from_downstream_mach(np.maximum(target, low), g1)
         w = (M1 - 1.0) * (M1 + 1.0)
-        return _start_tau(w, up, g1 * M1 * M1)
+        return normal_jump(w, up, newton_steps=0)
 
     def valid(target, up):
         g_inf = (up.cf + 1.0) / up.cf
@@ -498,29 +557,28 @@ def mach_from_stagnation_pressure_ratio(p02_p01, T1, gas):
     ...                                                 AIR_THERMALLY_PERFECT)), 10)
     10.0
     """
-    from .normal_shocks import mach_from_stagnation_pressure_ratio as perfect_gas_inverse
 
     def residual(log_tau, target, up):
         tau = np.exp(log_tau)
-        j = _jump(tau, up)
-        rise = _entropy_rise(j, tau, up)
+        j = shock_jump(tau, up)
+        rise = entropy_rise(j, tau, up)
         slope = tau * ((j.c2 - 1.0) / j.t + j.deps / j.eps) / rise
         return np.log(rise) - np.log(target), slope
 
     def start(target, up):
         g1 = up.c1 / (up.c1 - 1.0)
-        M1 = perfect_gas_inverse(np.exp(-target), g1)
+        M1 = _perfect_gas_from_recovery(np.exp(-target), g1)
         w = (M1 - 1.0) * (M1 + 1.0)
-        return np.log(_start_tau(w, up, g1 * M1 * M1))
+        return np.log(normal_jump(w, up, newton_steps=0))
 
     value, T1 = np.broadcast_arrays(np.asarray(p02_p01, dtype=float), np.asarray(T1, dtype=float))
     with np.errstate(divide="ignore", invalid="ignore"):
         rise = -np.log(value)
-    up = _upstream(T1, gas)
+    up = upstream_state(T1, gas)
     with np.errstate(all="ignore"):
         log_tau = _bracketed_tau(lambda x: residual(x, rise, up), start(rise, up),
                                  np.full(rise.shape, -40.0), np.full(rise.shape, 20.0), True)
-        M1 = _mach_from_tau(_jump(np.exp(log_tau), up, derivatives=False), up)
+        M1 = upstream_mach(shock_jump(np.exp(log_tau), up, derivatives=False), up)
     M1 = np.where(value == 1.0, 1.0, M1)
     return np.where((value > 0.0) & (value <= 1.0), M1, np.nan)
 
@@ -538,391 +596,28 @@ def mach_from_pitot_ratio(p02_p1, T1, gas):
     >>> round(float(mach_from_pitot_ratio(12.100442600413047, 300.0, AIR_THERMALLY_PERFECT)), 10)
     3.0
     """
-    from .normal_shocks import mach_from_pitot_ratio as perfect_gas_inverse
 
     def residual(tau, target, up):
-        j = _jump(tau, up)
-        M1 = _mach_from_tau(j, up)
+        j = shock_jump(tau, up)
+        M1 = upstream_mach(j, up)
         T0 = stagnation_temperature(M1, T1, up.gas)
-        value = _log_stagnation_over_static(M1, T1, up) - _entropy_rise(j, tau, up)
+        value = _log_stagnation_over_static(M1, T1, up) - entropy_rise(j, tau, up)
         slope = -((j.c2 - 1.0) / j.t + j.deps / j.eps) + T1 * j.dm / (2.0 * T0)
         return value - target, slope
 
     def start(target, up):
         g1 = up.c1 / (up.c1 - 1.0)
-        M1 = perfect_gas_inverse(np.exp(target), g1)
+        M1 = _perfect_gas_from_pitot_ratio(np.exp(target), g1)
         w = (M1 - 1.0) * (M1 + 1.0)
-        return _start_tau(w, up, g1 * M1 * M1)
+        return normal_jump(w, up, newton_steps=0)
 
     value, T1 = np.broadcast_arrays(np.asarray(p02_p1, dtype=float), np.asarray(T1, dtype=float))
-    up = _upstream(T1, gas)
+    up = upstream_state(T1, gas)
     with np.errstate(all="ignore"):
         target = np.log(value)
         low = _log_stagnation_over_static(np.ones_like(T1), T1, up)  # M1 = 1: p0/p
         tau = _bracketed_tau(lambda x: residual(x, target, up), start(target, up),
                              np.zeros_like(target), np.full(target.shape, _TAU_MAX), True)
-        M1 = _mach_from_tau(_jump(tau, up, derivatives=False), up)
+        M1 = upstream_mach(shock_jump(tau, up, derivatives=False), up)
     M1 = np.where(target == low, 1.0, M1)
     return np.where((target >= low) & (value < np.inf), M1, np.nan)
-
-
-# ------------------------------------------------------------------ oblique shocks
-
-
-class ObliqueShockRatios(NamedTuple):
-    """Plain-core result of the oblique-shock functions (ndarrays; angles in radians)."""
-
-    wave_angle: np.ndarray  #: β from the upstream flow [rad]
-    deflection: np.ndarray  #: flow turn θ [rad]
-    Mn1: np.ndarray  #: upstream normal Mach number M1 sin β
-    Mn2: np.ndarray  #: downstream normal Mach number
-    M2: np.ndarray  #: downstream Mach number
-    p2_p1: np.ndarray  #: static pressure ratio
-    rho2_rho1: np.ndarray  #: density ratio
-    T2_T1: np.ndarray  #: static temperature ratio
-    p02_p01: np.ndarray  #: stagnation pressure ratio
-    gamma2: np.ndarray  #: ratio of specific heats behind the shock
-
-
-def _oblique_ratios(tau, j, up, mu1, vm=None):
-    """Every field at τ for a stream of u1²/(R T1) = μ1 (the normal component has m = j.m).
-
-    tan θ = (1 - ε) √(m(μ1 - m))/(μ1 - (1 - ε) m): the tangential velocity is conserved and
-    the normal one falls by ε; M2² = (ε² m + μ1 - m)/(γ2 t) in units of a2. ``vm`` =
-    u_t²/(R T1) = μ1 - m may be given when the caller has it without cancellation.
-    """
-    g1 = up.c1 / (up.c1 - 1.0)
-    g2 = j.c2 / (j.c2 - 1.0)
-    vm = np.maximum(mu1 - j.m, 0.0) if vm is None else vm  # u_t²/(R T1)
-    theta = np.arctan(j.delta * np.sqrt(j.m * vm) / (mu1 - j.delta * j.m))
-    return ObliqueShockRatios(
-        np.arctan2(np.sqrt(j.m), np.sqrt(vm)), theta, np.sqrt(j.m / g1),
-        j.eps * np.sqrt(j.m / (g2 * j.t)), np.sqrt((j.eps * j.eps * j.m + vm) / (g2 * j.t)),
-        j.t / j.eps, j.BS / (2.0 * j.t), j.t, np.exp(-_entropy_rise(j, tau, up)), g2)
-
-
-def _stream(M1, T1, gas):
-    M1, T1 = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(T1, dtype=float))
-    up = _upstream(T1, gas)
-    return M1, T1, up, up.c1 / (up.c1 - 1.0) * M1 * M1  # μ1 = γ1 M1²
-
-
-def oblique_shock_from_wave_angle(M1, T1, beta, gas):
-    """Plain core: every quantity behind an oblique shock of wave angle β [rad].
-
-    The normal component M1 sin β obeys :func:`normal_shock_ratios` at the same T1;
-    NaN for β outside [μ, π/2] or M1 < 1.
-
-    Examples
-    --------
-    >>> import numpy as np
-    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
-    >>> from gasdyn2d.relations.thermally_perfect_shocks import oblique_shock_from_wave_angle
-    >>> shock = oblique_shock_from_wave_angle(3.0, 300.0, 0.7, AIR_THERMALLY_PERFECT)
-    >>> round(float(np.degrees(shock.deflection)), 4), round(float(shock.p2_p1), 5)
-    (22.0151, 4.19955)
-    """
-    M1, beta = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(beta, dtype=float))
-    M1, T1, up, mu1 = _stream(M1, T1, gas)
-    with np.errstate(all="ignore"):
-        ms = M1 * np.sin(beta)
-        w = (ms - 1.0) * (ms + 1.0)
-        invalid = (w < -1e-15 * M1 * M1) | (beta > 0.5 * np.pi) | ~(M1 >= 1.0)
-        w = np.maximum(w, 0.0)
-        tau = _solve_normal(w, up)
-        j = _jump(tau, up, derivatives=False)
-        # the normal component's m is γ1(1 + w) exactly: keep it (no round trip through τ)
-        j = j._replace(m=up.c1 / (up.c1 - 1.0) * (1.0 + w))
-        mc = M1 * np.cos(beta)
-        vm = up.c1 / (up.c1 - 1.0) * mc * mc  # the tangential part, exact near β = 90°
-        out = _oblique_ratios(tau, j, up, j.m + vm, vm)
-    out = out._replace(wave_angle=beta.copy())
-    return ObliqueShockRatios(*(np.where(invalid, np.nan, v) for v in out))
-
-
-def _polar(tau, up, mu1):
-    """(tan θ, d tan θ/dτ, jump) along the shock polar of a stream μ1 = u1²/(R T1)."""
-    j = _jump(tau, up)
-    vm = mu1 - j.m
-    r = np.sqrt(j.m * vm)
-    D = mu1 - j.delta * j.m
-    f = j.delta * r / D
-    ddelta = -j.deps
-    df = (ddelta * r / D + j.delta * j.dm * (mu1 - 2.0 * j.m) / (2.0 * D * r)
-          + f * (ddelta * j.m + j.delta * j.dm) / D)
-    return f, df, j
-
-
-def _start_from_perfect_gas(M1, theta, up, strong):
-    """Start for τ from the perfect-gas θ-β-M solution, in two passes.
-
-    First at γ(T1), with one fixed-point step of the normal shock at its normal Mach
-    number; then again at the effective γe = c̄/(c̄ - 1) of that τ and the Mach number
-    M1 √(γ1/γe) (same u1²/(R T1)): for a given wave angle the thermally perfect shock is
-    exactly that perfect-gas shock when c̄ is the mean heat capacity of its own jump, so
-    the second pass is good to the change of c̄ between the two (measured: median 7e-5,
-    worst 1.4e-2 in τ over M1 1.05-10, T1 200-3000 K). NaN where the perfect gas detaches.
-    Returns τ and u_t²/(R T1) of that start.
-    """
-    g1 = up.c1 / (up.c1 - 1.0)
-    w, _, invalid = _perfect_gas_wv(M1, theta, g1, strong)
-    w = np.where(invalid, np.nan, w)
-    cbar = _mean_heat_capacity(_start_tau(w, up, g1 * (1.0 + w), steps=1), up)[0]
-    g_e = cbar / (cbar - 1.0)
-    w, v, invalid = _perfect_gas_wv(M1 * np.sqrt(g1 / g_e), theta, g_e, strong)
-    mu = np.where(invalid, np.nan, g_e * (1.0 + w))  # u_n1²/(R T1)
-    return _tau_of_mean(cbar, up.c1, mu / g1 - 1.0, mu), g_e * v  # and u_t²/(R T1)
-
-
-def _converged(step, previous, x):
-    """Newton's own error estimate: after steps s_(k-1), s_k the error is about
-    s_k³/s_(k-1)² (quadratic convergence); accept below 1e-14 relative. Near detachment
-    (a double root) Newton converges only linearly, s_k ≈ s_(k-1)/2, and is refused,
-    unless the step itself is at rounding level (below 1e-13 relative)."""
-    size = np.abs(step)
-    return (size <= 1e-13 * np.abs(x)) | (size ** 3 <= 1e-14 * np.abs(x) * previous * previous)
-
-
-def _detachment_tau(up, mu1, tau_n, start):
-    """τ* where d tan θ/dτ = 0: bracketed Newton in [0, τ_normal], the second derivative
-    by a central difference of the (closed-form) first (relative step 1e-6)."""
-    def residual(tau):
-        h = 1e-6 * np.maximum(tau, 1e-3)
-        df = _polar(tau, up, mu1)[1]
-        curvature = (_polar(tau + h, up, mu1)[1] - _polar(tau - h, up, mu1)[1]) / (2.0 * h)
-        return df, curvature
-
-    return _bracketed_tau(residual, start, np.zeros_like(tau_n), tau_n, False)
-
-
-def _detachment_start(M1, up):
-    g1 = up.c1 / (up.c1 - 1.0)
-    _, beta = _perfect_gas_detachment(M1, g1)
-    ms = M1 * np.sin(beta)
-    w = (ms - 1.0) * (ms + 1.0)
-    return _start_tau(w, up, g1 * (1.0 + w))
-
-
-def _normal_tau(M1, up):
-    return _solve_normal(np.maximum((M1 - 1.0) * (M1 + 1.0), 0.0), up)
-
-
-def _bracketed_deflection(M1, target, up, mu1, strong):
-    """τ for tan θ = ``target`` on one branch, robust up to detachment (the subset path).
-
-    Returns τ and a detached flag. On √(f* - f(τ)), f = tan θ, the double root at the
-    detachment point τ* becomes a simple one; the weak branch is solved in τ ∈ [0, τ*],
-    the strong one in y = √(τ_normal - τ) ∈ [0, √(τ_normal - τ*)], where the normal-shock
-    end (f ∝ y) is regular.
-    """
-    tau_n = _normal_tau(M1, up)
-    tau_star = _detachment_tau(up, mu1, tau_n, np.minimum(_detachment_start(M1, up), tau_n))
-    f_star = _polar(tau_star, up, mu1)[0]
-    slack = 4.0 * np.finfo(float).eps * (1.0 + f_star * f_star)
-    detached = target > f_star + slack
-    goal = np.sqrt(np.maximum(f_star - target, 0.0))
-
-    if not strong:
-        def residual(tau):
-            f, df, _ = _polar(tau, up, mu1)
-            root = np.sqrt(np.maximum(f_star - f, 0.0))
-            return goal - root, df / (2.0 * root)  # increasing in τ
-
-        tau = _bracketed_tau(residual, 0.5 * tau_star, np.zeros_like(tau_star), tau_star, True)
-    else:
-        y_star = np.sqrt(np.maximum(tau_n - tau_star, 0.0))
-
-        def residual(y):
-            f, df, _ = _polar(tau_n - y * y, up, mu1)
-            root = np.sqrt(np.maximum(f_star - f, 0.0))
-            return goal - root, -2.0 * y * df / (2.0 * root)  # increasing in y
-
-        y = _bracketed_tau(residual, 0.5 * y_star, np.zeros_like(y_star), y_star, True)
-        tau = tau_n - y * y
-    at_max = target >= f_star
-    tau = np.where(at_max, tau_star, tau)
-    return np.where(detached, np.nan, tau), detached
-
-
-def _deflection_block(M1, T1, theta, gas, strong):
-    M1, T1, up, mu1 = _stream(M1, T1, gas)
-    with np.errstate(all="ignore"):
-        target = np.tan(theta)
-        invalid = ~(theta >= 0.0) | ~(theta < 0.5 * np.pi) | ~(M1 >= 1.0)
-        start, vm = _start_from_perfect_gas(M1, theta, up, strong)
-        step = np.full_like(target, np.inf)
-        if strong:
-            tau_n = _normal_tau(M1, up)
-            # near the normal shock τ_n - τ ≈ τ_n u_t²/u1² is the better start for y²
-            y = np.sqrt(np.where(tau_n - start > 0.1 * tau_n * vm / mu1, tau_n - start,
-                                 tau_n * vm / mu1))
-            for _ in range(_OBLIQUE_STEPS):
-                f, df, _ = _polar(tau_n - y * y, up, mu1)
-                # the step in y, written as the step in τ (2y dy) for the convergence test
-                previous, step = step, (f - target) / df
-                y = np.maximum(y + 0.5 * step / y, 0.5 * y)  # never past the normal shock
-            tau = np.where(theta == 0.0, tau_n, tau_n - y * y)
-            good = (_converged(step, previous, tau) & (df < 0.0)) | (theta == 0.0)
-        else:
-            tau = start
-            for _ in range(_OBLIQUE_STEPS):
-                f, df, _ = _polar(tau, up, mu1)
-                previous, step = step, (f - target) / df
-                tau = np.maximum(tau - step, 0.5 * tau)  # never past the Mach wave
-            good = (_converged(step, previous, tau) & (df > 0.0)) | (theta == 0.0)
-            tau = np.where(theta == 0.0, 0.0, tau)
-        retry = ~good & ~invalid & ~np.isnan(target + M1 + T1)
-        if nx.any_true(retry):
-            sub = _Upstream(*(np.broadcast_to(a, M1.shape)[retry] if isinstance(a, np.ndarray)
-                              else a for a in up))
-            tau = np.array(tau, copy=True)
-            tau[retry], _ = _bracketed_deflection(M1[retry], target[retry], sub, mu1[retry],
-                                                  strong)
-        tau = np.where(invalid, np.nan, tau)
-        j = _jump(tau, up, derivatives=False)
-        out = _oblique_ratios(tau, j, up, mu1)
-    return out._replace(deflection=np.where(np.isnan(tau), np.nan, theta))
-
-
-def oblique_shock_from_deflection(M1, T1, theta, gas, strong=False):
-    """Plain core: the weak (or strong) oblique shock that turns a stream (M1, T1) by θ [rad].
-
-    Three Newton steps on tan θ(τ) from the perfect-gas solution at γ(T1); elements that
-    do not converge onto the branch asked for (near detachment, or detached) are
-    re-solved by the bracketed iteration of the module docs. NaN for θ < 0, θ beyond
-    detachment or M1 < 1.
-
-    Examples
-    --------
-    >>> import numpy as np
-    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
-    >>> from gasdyn2d.relations.thermally_perfect_shocks import oblique_shock_from_deflection
-    >>> shock = oblique_shock_from_deflection(5.0, 300.0, 0.5, AIR_THERMALLY_PERFECT)
-    >>> round(float(np.degrees(shock.wave_angle)), 4), round(float(shock.p2_p1), 4)
-    (39.9462, 11.9818)
-    """
-    M1, T1, theta = np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in (M1, T1, theta)))
-    return nx.chunked(lambda m, t, th: _deflection_block(m, t, th, gas, strong), M1, T1, theta)
-
-
-def _angles(M1, tau, up, mu1):
-    j = _jump(tau, up, derivatives=False)
-    out = _oblique_ratios(tau, j, up, mu1)
-    return out.deflection, out.wave_angle
-
-
-def detachment_angles(M1, T1, gas):
-    """Plain core: (θmax, β at θmax) [rad] for a stream (M1 >= 1, T1 [K]).
-
-    Examples
-    --------
-    >>> import numpy as np
-    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
-    >>> from gasdyn2d.relations.thermally_perfect_shocks import detachment_angles
-    >>> theta, beta = detachment_angles(5.0, 300.0, AIR_THERMALLY_PERFECT)
-    >>> round(float(np.degrees(theta)), 4), round(float(np.degrees(beta)), 4)  # 41.1177 if perfect
-    (43.169, 67.8524)
-    """
-    M1, T1, up, mu1 = _stream(M1, T1, gas)
-    with np.errstate(all="ignore"):
-        tau_n = _normal_tau(M1, up)
-        tau = _detachment_tau(up, mu1, tau_n, np.minimum(_detachment_start(M1, up), tau_n))
-        return _angles(M1, np.where(M1 >= 1.0, tau, np.nan), up, mu1)
-
-
-def sonic_angles(M1, T1, gas):
-    """Plain core: (θ, β) [rad] where the flow behind the shock is exactly sonic.
-
-    M2² = (ε² m + μ1 - m)/(γ2 t) = 1, by a bracketed Newton iteration in τ.
-
-    Examples
-    --------
-    >>> import numpy as np
-    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
-    >>> from gasdyn2d.relations.thermally_perfect_shocks import sonic_angles
-    >>> theta, beta = sonic_angles(5.0, 300.0, AIR_THERMALLY_PERFECT)
-    >>> round(float(np.degrees(theta)), 4), round(float(np.degrees(beta)), 4)
-    (43.1617, 67.4057)
-    """
-    M1, T1, up, mu1 = _stream(M1, T1, gas)
-
-    def residual(tau):
-        j = _jump(tau, up)
-        g2 = j.c2 / (j.c2 - 1.0)
-        N = j.eps * j.eps * j.m + mu1 - j.m
-        dN = 2.0 * j.eps * j.deps * j.m + (j.eps * j.eps - 1.0) * j.dm
-        gt = g2 * j.t
-        dgt = -j.dc2 / ((j.c2 - 1.0) ** 2) * j.t + g2
-        return N / gt - 1.0, dN / gt - N * dgt / (gt * gt)
-
-    with np.errstate(all="ignore"):
-        g1 = up.c1 / (up.c1 - 1.0)
-        _, beta = _perfect_gas_sonic(M1, g1)
-        ms = M1 * np.sin(beta)
-        w = (ms - 1.0) * (ms + 1.0)
-        tau_n = _normal_tau(M1, up)
-        start = np.minimum(_start_tau(w, up, g1 * (1.0 + w)), tau_n)
-        tau = _bracketed_tau(residual, start, np.zeros_like(tau_n), tau_n, False)
-        return _angles(M1, np.where(M1 > 1.0, tau, np.nan), up, mu1)
-
-
-# ------------------------------------------------------------------ one simple wave
-
-
-def turn_state(M1, T1, turn, gas, strong=False):
-    """Plain core: state behind the wave that turns a stream (M1, T1 [K]) by ``turn`` [rad].
-
-    The thermally perfect counterpart of :func:`gasdyn2d.relations.simple_waves.turn_state`:
-    an oblique shock for turn > 0 (``strong`` picks the branch), a centred fan of
-    deflection -turn for turn <= 0. ``dlnp_dturn`` is d ln(p2/p1)/d(turn):
-    (d ln p/dτ)/(dθ/dτ) along the shock polar, γ2 M2²/√(M2² - 1) through the fan
-    (d ln p = -γM²/√(M² - 1) dν holds for any gas, with the local γ). Each branch is
-    computed on its own subset of the cases.
-
-    Returns
-    -------
-    WaveState
-        M2, p2/p1, T2/T1, p02/p01, wave angle (NaN for a fan), is_shock, d ln p/d turn,
-        and the ``detached``/``vacuum`` flags; NaN fields where the wave does not exist.
-
-    Examples
-    --------
-    >>> import numpy as np
-    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
-    >>> from gasdyn2d.relations.thermally_perfect_shocks import turn_state
-    >>> state = turn_state(2.0, 1500.0, np.radians([10.0, -10.0]), AIR_THERMALLY_PERFECT)
-    >>> np.round(state.p2_p1, 5)  # [1.70658, 0.54797] for the perfect gas
-    array([1.65141, 0.57103])
-    """
-    M1, T1, turn = np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in (M1, T1, turn)))
-    shape = M1.shape
-    nan = np.full(shape, np.nan)
-    M2, p, T, p0, beta, slope = (nan.copy() for _ in range(6))
-    with np.errstate(all="ignore"):
-        is_shock = turn > 0.0
-        detached = np.zeros(shape, dtype=bool)
-        if nx.any_true(is_shock):
-            m, t, th = M1[is_shock], T1[is_shock], turn[is_shock]
-            shock = oblique_shock_from_deflection(m, t, th, gas, strong)
-            up = _upstream(t, gas)
-            mu1 = up.c1 / (up.c1 - 1.0) * m * m
-            tau = shock.T2_T1 - 1.0
-            f, df, j = _polar(tau, up, mu1)
-            dlnp = 1.0 / j.t - j.deps / j.eps
-            dtheta = np.abs(df) / (1.0 + f * f) * (-1.0 if strong else 1.0)
-            M2[is_shock], p[is_shock], T[is_shock] = shock.M2, shock.p2_p1, shock.T2_T1
-            p0[is_shock], beta[is_shock] = shock.p02_p01, shock.wave_angle
-            slope[is_shock] = dlnp / dtheta
-            detached[is_shock] = np.isnan(shock.wave_angle) & (m >= 1.0) & np.isfinite(t)
-        is_fan = ~is_shock & ~np.isnan(turn)
-        if nx.any_true(is_fan):
-            m, t = M1[is_fan], T1[is_fan]
-            fan = fan_from_turn(m, t, -turn[is_fan], gas)
-            M2[is_fan] = np.where(turn[is_fan] == 0.0, m, np.maximum(fan.M2, m))
-            p[is_fan], T[is_fan] = fan.p2_p1, fan.T2_T1
-            p0[is_fan] = np.where(np.isnan(fan.M2), np.nan, 1.0)
-            mf = M2[is_fan]
-            slope[is_fan] = np.where(mf == 1.0, np.inf,
-                                     fan.gamma2 * mf * mf / np.sqrt((mf - 1.0) * (mf + 1.0)))
-        vacuum = is_fan & np.isnan(M2) & np.isfinite(M1) & np.isfinite(T1) & (M1 >= 1.0)
-    return WaveState(M2, p, T, p0, beta, is_shock, slope, detached, vacuum)
