@@ -104,7 +104,7 @@ __all__ = [
 ]
 
 _MACH_STEPS = 4  # Newton steps for d(M): from γ(T0)'s value, 3 reach rounding (measured)
-_ENTHALPY_STEPS = 5  # Newton steps for T(h) from an upper bound (monotone, measured: 4)
+_ENTHALPY_STEPS = 5  # Newton steps for T(h) from an upper bound (monotone; 3 reach rounding)
 _ACCEPT_STEP = 1e-10  # a larger last fixed step (relative) sends the element to the fallback
 _PANEL_NODES = 24  # Gauss–Legendre points per panel of the ν quadrature (see module docs)
 _FROZEN_X = 40.0  # θv/T beyond which the vibrational terms (< x² e^-x ≈ 7e-15) are dropped
