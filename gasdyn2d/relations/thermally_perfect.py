@@ -412,8 +412,12 @@ def isentropic_ratios(M, T0, gas):
     """
     cf, theta = gas_constants(gas)
     M, T0 = _prepare(M, kelvin(T0))
-    ratios = _ratios_from_excess(_excess_from_mach(M, T0, cf, theta), T0, cf, theta)
-    return ratios._replace(M=M.copy(), A_Astar=np.where(M == 0.0, np.inf, ratios.A_Astar))
+
+    def block(m, t0):
+        ratios = _ratios_from_excess(_excess_from_mach(m, t0, cf, theta), t0, cf, theta)
+        return ratios._replace(M=m.copy(), A_Astar=np.where(m == 0.0, np.inf, ratios.A_Astar))
+
+    return nx.chunked(block, M, T0)
 
 
 def _mach_from_excess(d, T0, cf, theta):

@@ -130,7 +130,11 @@ def oblique_shock_from_wave_angle(M1, T1, beta, gas):
     >>> round(float(np.degrees(shock.deflection)), 4), round(float(shock.p2_p1), 5)
     (22.0151, 4.19955)
     """
-    M1, beta = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(beta, dtype=float))
+    M1, T1, beta = np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in (M1, T1, beta)))
+    return nx.chunked(lambda m, t, b: _wave_angle_block(m, t, b, gas), M1, T1, beta)
+
+
+def _wave_angle_block(M1, T1, beta, gas):
     M1, T1, up, mu1 = _stream(M1, T1, gas)
     with np.errstate(all="ignore"):
         ms = M1 * np.sin(beta)
@@ -331,6 +335,11 @@ def detachment_angles(M1, T1, gas):
     >>> round(float(np.degrees(theta)), 4), round(float(np.degrees(beta)), 4)  # 41.1177 if perfect
     (43.169, 67.8524)
     """
+    M1, T1 = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(T1, dtype=float))
+    return nx.chunked(lambda m, t: _detachment_block(m, t, gas), M1, T1)
+
+
+def _detachment_block(M1, T1, gas):
     M1, T1, up, mu1 = _stream(M1, T1, gas)
     with np.errstate(all="ignore"):
         tau_n = _normal_tau(M1, up)
