@@ -262,7 +262,7 @@ def _deflection_block(M1, T1, theta, gas, strong):
         target = np.tan(theta)
         invalid = ~(theta >= 0.0) | ~(theta < 0.5 * np.pi) | ~(M1 >= 1.0)
         start, vm = _start_from_perfect_gas(M1, theta, up, strong)
-        step = np.full_like(target, np.inf)
+        step = np.full_like(target, np.nan)  # no previous step: no error estimate yet
         if strong:
             tau_n = _normal_tau(M1, up)
             # near the normal shock τ_n - τ ≈ τ_n u_t²/u1² is the better start for y²
