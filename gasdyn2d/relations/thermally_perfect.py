@@ -6,7 +6,9 @@ with a ``vibrational_temperature`` (the harmonic-oscillator model of
 :mod:`gasdyn2d.relations.gas`) and the temperature that fixes the state: the
 stagnation temperature T0 for isentropic flow and ν, the static temperature T1
 ahead of a fan. The shocks are in
-:mod:`gasdyn2d.relations.thermally_perfect_shocks`.
+:mod:`gasdyn2d.relations.thermally_perfect_shocks` (normal) and
+:mod:`gasdyn2d.relations.thermally_perfect_oblique` (oblique, and the simple-wave
+primitive).
 
 - :func:`isentropic_ratios` (M, T0) → T/T0, p/p0, ρ/ρ0, A/A*, γ; its inverses
   :func:`mach_from_temperature_ratio`, :func:`mach_from_pressure_ratio`,
@@ -19,14 +21,14 @@ ahead of a fan. The shocks are in
   :func:`fan_from_turn`, :func:`fan_from_pressure_ratio`, :func:`fan_from_downstream_mach`.
 
 State variable: d = T0/T - 1
--------------------------------
+----------------------------
 Along an isentrope at fixed T0 every quantity is a closed form of the static
 temperature, and the variable that keeps them exact at both ends is
-d = T0/T - 1 (for a perfect gas d = (γ-1)M²/2). The energy equation
-h(T0) - h(T) = V²/2 reads, with the mean heat capacity c̄ between T and T0
-(a divided difference of the closed-form enthalpy, free of cancellation),
+d = T0/T - 1 (for a perfect gas d = (γ-1)M²/2). With c̄ the mean of cp/R between
+T and T0 (a divided difference of the closed-form enthalpy, free of cancellation),
+the energy equation h(T0) - h(T) = V²/2 = M² γ(T) R T/2 reads
 
-    M² = 2 c̄(T, T0) d / (γ(T) R)·R = 2 (c̄/R) d (c(T) - 1)/c(T),   c = cp/R,
+    M² = 2 c̄ d/γ(T) = 2 c̄ d (c - 1)/c,   c = cp(T)/R,
 
 so M → 0 keeps its digits (T0 - T = T d is never formed by subtraction), and
 p/p0 = exp((φ(T) - φ(T0))/R) is -c_f ln(1 + d) plus a difference of vibrational
@@ -226,7 +228,14 @@ def _prepare(*arrays):
 
 
 def kelvin(T):
-    """Plain core: the temperature array with NaN where it is not finite and positive."""
+    """Plain core: the temperature array with NaN where it is not finite and positive.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.thermally_perfect import kelvin
+    >>> kelvin([300.0, 0.0, -5.0, float("inf")])
+    array([300.,  nan,  nan,  nan])
+    """
     T = np.asarray(T, dtype=float)
     with np.errstate(invalid="ignore"):
         good = (T > 0.0) & (T < np.inf)
