@@ -39,6 +39,7 @@ class NormalShockRatios(NamedTuple):
     rho2_rho1: np.ndarray
     T2_T1: np.ndarray
     p02_p01: np.ndarray
+    strength: np.ndarray  #: (p2 - p1)/p1 = 2γw/(γ+1), without the cancellation of p2/p1 - 1
 
 
 def normal_shock_ratios(w, gamma=1.4):
@@ -59,7 +60,7 @@ def normal_shock_ratios(w, gamma=1.4):
     # eq. 99: p02/p01 = (ρ2/ρ1)^(γ/(γ-1)) (p2/p1)^(-1/(γ-1)), in logs to keep 1 - O(w³)
     log_p0 = (gamma * np.log1p(rho_jump) - np.log1p(p_jump)) / gm
     p02_p01 = np.exp(log_p0)
-    return NormalShockRatios(M2, p2_p1, rho2_rho1, T2_T1, p02_p01)
+    return NormalShockRatios(M2, p2_p1, rho2_rho1, T2_T1, p02_p01, p_jump)
 
 
 def pitot_ratio(M1, gamma=1.4):
@@ -284,6 +285,8 @@ class NormalShock(ResultTable):
     T2_T1: object = unit_field("")  #: static temperature ratio
     p02_p01: object = unit_field("")  #: stagnation pressure ratio (recovery), <= 1
     p02_p1: object = unit_field("")  #: pitot ratio: stagnation pressure behind over static ahead
+    #: (p2 - p1)/p1, the shock strength, computed without cancellation
+    strength: object = unit_field("")
 
 
 def _upstream_mach(name, value, gamma, errors):
@@ -399,4 +402,5 @@ def normal_shock(M1=None, *, M2=None, p2_p1=None, rho2_rho1=None, T2_T1=None, p0
         rho2_rho1=s(fields["rho2_rho1"]), T2_T1=s(fields["T2_T1"]),
         p02_p01=s(fields["p02_p01"]),
         p02_p1=s(value if name == "p02_p1" else pitot_ratio(mach, gamma)),
+        strength=s(value - 1.0 if name == "p2_p1" else ratios.strength),
     )

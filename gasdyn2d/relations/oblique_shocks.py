@@ -28,7 +28,7 @@ import numpy as np
 
 from .. import _numerics as nx
 from .._display import ResultTable, unit_field
-from ..errors import DetachedShockError
+from ..errors import DetachedShockError, NoSolutionError
 from .normal_shocks import normal_shock_ratios
 
 __all__ = [
@@ -50,6 +50,7 @@ __all__ = [
 _DETACHMENT_SLACK = 4e-16  # tan θ this close above tan θmax is θmax itself (rounding of atan/tan)
 _NEAR_DETACHMENT = 1e-3  # within this fraction of tan θmax, polish in the square-root variable
 _NEWTON_STEPS = 1  # from the starts below one step reaches rounding (measured vs mpmath)
+_SMALL_WEAK_ROOT = 1e-3  # weak z = w/(M1²-1) below which it comes from deflation
 _SERIES_START = 1e-3  # |c w| below which the weak root starts from the small-deflection series
 _MACH_WAVE_SLACK = 4e-15  # |M1² sin²β - 1| that rounding of sin β alone can produce at β = μ
 
@@ -107,27 +108,45 @@ def deflection_from_wave_angle(M1, beta, gamma=1.4):
         return np.where(below_mach_wave | (mc < 0), np.nan, theta)
 
 
-def _cubic_root(M1, tan_theta, gamma, strong, m2=None):
-    """Middle (weak) or largest (strong) real root u = M1² sin²β of the θ-β-M cubic.
+def _cubic_root(tan_theta, gamma, strong, a, inv_a):
+    """Middle (weak) or largest (strong) real root z = w/(M1² - 1) of the θ-β-M cubic.
 
     In x = sin²β the cubic is x³ + b x² + c x + d = 0 with
     b = -(M²+2)/M² - γ sin²θ, c = (2M²+1)/M⁴ + [(γ+1)²/4 + (γ-1)/M²] sin²θ,
-    d = -cos²θ/M⁴ (NACA Report 1135, eq. 150). Scaled to u = M² x it reads
-    u³ + B u² + C u + D = 0 with B = -(M²+2) - γM² sin²θ,
-    C = 2M²+1 + [(γ+1)²M⁴/4 + (γ-1)M²] sin²θ, D = -M² cos²θ, which gives
-    w = u - 1 directly. Solved by the trigonometric method for three real
-    roots (Wolf 1993 gives the equivalent form in tan β); sin²θ and cos²θ come
-    from tan θ, which the polishing step needs anyway.
+    d = -cos²θ/M⁴ (NACA Report 1135, eq. 150). With x = (1 + w)/M² and
+    a = M² - 1 it becomes, in w = M² sin²β - 1,
+    w³ - (a + γM²s²) w² + (γ+1)M²((γ+1)M²/4 - 1)s² w + (γ+1)²M⁴s²/4 = 0
+    (s² = sin²θ; derived here, checked against eq. 150 in the tests), and with
+    w = a z, dividing by a³ and writing ρ = M²/a = 1 + 1/a,
+    z³ - (1 + γρs²) z² + (γ+1)ρ((γ+1)ρ/4 - 1/a)s² z + (γ+1)²ρ²s²/(4a) = 0.
+    Its roots lie in [0, 1] (weak, strong) and below 0 (spurious), O(1) apart
+    for every M1 > 1: as M1 → 1 the roots in sin²β (or in u = M² sin²β) crowd
+    within O(M1 - 1) of 1 and the trigonometric root loses ~log10(1/(M1-1)³)
+    digits, while in z it keeps them. Solved by the trigonometric method for
+    three real roots (Wolf 1993 gives the equivalent form in tan β); sin²θ comes
+    from tan θ, which the polishing step needs anyway. ``a`` = M1² - 1 and
+    ``inv_a`` = 1/a are passed in (1/a stays finite where M1² would overflow).
     """
-    m2 = M1 * M1 if m2 is None else m2
-    c2 = 1.0 / (1.0 + tan_theta * tan_theta)  # cos²θ
-    s2 = 1.0 - c2
-    b3 = -(m2 + 2.0 + gamma * m2 * s2) / 3.0  # B/3
-    C = 2.0 * m2 + 1.0 + m2 * (0.25 * (gamma + 1.0) ** 2 * m2 + (gamma - 1.0)) * s2
-    D = -m2 * c2
-    r2 = np.maximum(b3 * b3 - C / 3.0, 0.0)  # -p/3 of the depressed cubic
+    b3, Q, R = _cubic_coefficients(tan_theta, gamma, a, inv_a)
+    return _trigonometric_root(b3, Q, R, strong)
+
+
+def _cubic_coefficients(tan_theta, gamma, a, inv_a):
+    """(P/3, Q, R) of the monic cubic in z of :func:`_cubic_root`."""
+    s2 = tan_theta * tan_theta / (1.0 + tan_theta * tan_theta)  # sin²θ
+    rho = 1.0 + inv_a  # M1²/a
+    gp = gamma + 1.0
+    b3 = -(1.0 + gamma * rho * s2) / 3.0
+    Q = gp * rho * (0.25 * gp * rho - inv_a) * s2
+    R = 0.25 * gp * gp * rho * rho * s2 * inv_a
+    return b3, Q, R
+
+
+def _trigonometric_root(b3, Q, R, strong):
+    """Middle or largest root of z³ + 3 b3 z² + Q z + R = 0 (three real roots)."""
+    r2 = np.maximum(b3 * b3 - Q / 3.0, 0.0)  # -p/3 of the depressed cubic, ~1/9 near M1 = 1
     r = np.sqrt(r2)
-    q = 2.0 * b3 * b3 * b3 - b3 * C + D
+    q = 2.0 * b3 * b3 * b3 - b3 * Q + R
     with np.errstate(divide="ignore", invalid="ignore"):
         cos_arg = np.clip(-0.5 * q / (r2 * r), -1.0, 1.0)
     phi = np.arccos(cos_arg) / 3.0
@@ -136,6 +155,33 @@ def _cubic_root(M1, tan_theta, gamma, strong, m2=None):
     t = np.tan(0.5 * phi if strong else 0.5 * phi - np.pi / 3.0)
     t2 = t * t
     return 2.0 * r * (1.0 - t2) / (1.0 + t2) - b3
+
+
+def _small_weak_root(tan_theta, gamma, a, inv_a):
+    """The weak root z of :func:`_cubic_root` where it is small (z < 1e-3).
+
+    A small weak root lies close to the spurious one (they merge at θ = 0 as
+    M1 → ∞), where the trigonometric middle root keeps only ~√ulp of z. The
+    strong root z_S is well separated and accurate, so the other two are the
+    roots of z² + B z + C with B = P + z_S and C = -R/z_S (Vieta); B carries an
+    absolute error of an ulp of P. That start z0 is then finished exactly: the
+    cubic is z²(P + z) + Q z + R = 0, a quadratic in z once P + z0 stands for
+    P + z (a relative change of an ulp), whose positive root is taken in the
+    cancellation-free form (:func:`_positive_quadratic_root`).
+    """
+    b3, Q, R = _cubic_coefficients(tan_theta, gamma, a, inv_a)
+    z_strong = _trigonometric_root(b3, Q, R, True)
+    z0 = _positive_quadratic_root(1.0, 3.0 * b3 + z_strong, -R / z_strong)
+    return _positive_quadratic_root(3.0 * b3 + z0, Q, R)
+
+
+def _positive_quadratic_root(A, B, C):
+    """The larger root of A z² + B z + C = 0 when A C < 0 (roots of opposite signs), as
+    max(-sgn(B) X/(2A), -2C sgn(B)/X), X = √(B² - 4AC) + |B| (no cancellation)."""
+    X = np.sqrt(B * B - 4.0 * A * C) + np.abs(B)
+    sign = np.copysign(1.0, B)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.maximum(-0.5 * sign * X / A, -2.0 * C * sign / X)
 
 
 def detachment_angles(M1, gamma=1.4):
@@ -334,7 +380,9 @@ def _polish_near_detachment(x, near, M1, target, gamma, x_star, tan_max, strong)
 def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     """Plain core: wave angle β [rad] of the shock that turns a stream M1 by θ [rad].
 
-    Closed-form root of the cubic (:func:`_cubic_root`; series starts near the
+    Closed-form root of the cubic in z = (M1² sin²β - 1)/(M1² - 1)
+    (:func:`_cubic_root`, whose roots stay O(1) apart as M1 → 1; a small weak
+    root by deflation, :func:`_small_weak_root`; series starts near the
     Mach wave and the normal shock) followed by one Newton step on tan θ(w)
     (weak branch) or tan θ(M1 cos β) (strong branch),
     clamped to the branch's side of the detachment point. Within 0.1 % of
@@ -343,7 +391,9 @@ def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     Accuracy (tests/test_oblique_shocks.py, vs mpmath): a few ulp away from
     detachment; near it, within 32 ulp × |d ln β/d ln θ|, the conditioning of
     the problem, which grows like (θmax - θ)^(-1/2) (β is good to ~√ulp at
-    θmax itself); θ(β) always reproduces θ to a few ulp. Returns NaN for
+    θmax itself); θ(β) always reproduces θ to a few ulp. Near M1 = 1 the
+    strength 2γw/(γ+1) = p2/p1 - 1 and β keep that accuracy down to
+    M1 - 1 = 1e-12 (tested on both branches, 1.05 <= γ <= 1.67). Returns NaN for
     θ < 0, θ > θmax or M1 < 1.
     """
     M1, theta, gamma = nx.broadcast_cases(gamma, M1, theta)
@@ -402,11 +452,11 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
         slack = (0.5 * np.pi * _DETACHMENT_SLACK) * (1.0 + tan_max * tan_max)
         # tan is periodic: θ beyond π/2 must be rejected before tan θ is compared
         invalid = (theta < 0) | (theta >= 0.5 * np.pi) | (tan_theta > tan_max + slack) | (M1 < 1)
-        x = _cubic_root(M1, tan_theta, gamma, strong, m2)
+        z = _cubic_root(tan_theta, gamma, strong, a, 1.0 / a)
         near = ~at_max & (tan_max - tan_theta <= _NEAR_DETACHMENT * tan_max)
         if strong:
             c_star = np.sqrt(v_star)
-            c_cubic = np.sqrt(np.maximum(M1 * M1 - x, 0.0))
+            c_cubic = np.sqrt(a * np.maximum(1.0 - z, 0.0))
             c0 = np.clip(_strong_start(c_cubic, a, M1, tan_theta, gamma), 0.0, c_star)
             c = _newton_strong(c0, M1, tan_theta, gamma, c_star)
             c = _polish_near_detachment(c, near, M1, tan_theta, gamma, c_star, tan_max, True)
@@ -414,7 +464,12 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
             v = c * c
             return a - v, v, invalid
         else:
-            w0 = np.clip(_weak_start(x - 1.0, a, M1, tan_theta, gamma, m2), 0.0, w_star)
+            small = z < _SMALL_WEAK_ROOT
+            if small.any():
+                z = np.array(z, dtype=float, copy=True)
+                z[small] = _small_weak_root(*(np.broadcast_to(x, z.shape)[small]
+                                              for x in (tan_theta, gamma, a, 1.0 / a)))
+            w0 = np.clip(_weak_start(a * z, a, M1, tan_theta, gamma, m2), 0.0, w_star)
             w = _newton_weak(w0, M1, tan_theta, gamma, w_star, m2, a, cm)
             w = _polish_near_detachment(w, near, M1, tan_theta, gamma, w_star, tan_max, False)
             w = _put(_put(w, at_max, w_star), theta == 0.0, 0.0)
@@ -435,7 +490,7 @@ def _shock_from_deflection(M1, theta, gamma, strong):
         # the tangential velocity is conserved: M2² = Mn2² + M1² cos²β · T1/T2 (no trig)
         M2 = np.sqrt(ratios.M2 * ratios.M2 + v / ratios.T2_T1)
     return (beta, Mn1, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
-            ratios.T2_T1, ratios.p02_p01)
+            ratios.T2_T1, ratios.p02_p01, ratios.strength)
 
 
 class ObliqueShockRatios(NamedTuple):
@@ -449,6 +504,7 @@ class ObliqueShockRatios(NamedTuple):
     rho2_rho1: np.ndarray
     T2_T1: np.ndarray
     p02_p01: np.ndarray
+    strength: np.ndarray  #: (p2 - p1)/p1 = 2γ(Mn1² - 1)/(γ+1), without cancellation
 
 
 def oblique_shock_ratios(M1, beta, gamma=1.4):
@@ -466,7 +522,7 @@ def oblique_shock_ratios(M1, beta, gamma=1.4):
         ratios = normal_shock_ratios(w, gamma)
         M2 = ratios.M2 / np.sin(beta - theta)
     return ObliqueShockRatios(theta, ms, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
-                              ratios.T2_T1, ratios.p02_p01)
+                              ratios.T2_T1, ratios.p02_p01, ratios.strength)
 
 
 # ------------------------------------------------------------------ unit boundary
@@ -491,6 +547,8 @@ class ObliqueShock(ResultTable):
     rho2_rho1: object = unit_field("")  #: density ratio
     T2_T1: object = unit_field("")  #: static temperature ratio
     p02_p01: object = unit_field("")  #: stagnation pressure ratio, <= 1
+    #: (p2 - p1)/p1, the shock strength, computed without cancellation
+    strength: object = unit_field("")
 
 
 def _check_deflection(theta, M1, gamma, errors):
@@ -506,6 +564,20 @@ def _check_deflection(theta, M1, gamma, errors):
             hint="Beyond θmax no attached shock exists: the shock stands off as a curved "
                  "bow wave. Lower the deflection or raise M1.",
         )
+
+
+def _refuse_unexplained_nan(failed, M1, theta, gamma):
+    """A NaN from the solve that no input check explains is a solver bug: raise, never
+    return it silently (the consistency check behind "no silent wrong number")."""
+    with np.errstate(invalid="ignore"):
+        unexplained = failed & ~np.isnan(theta) & ~np.isnan(M1) & ~np.isnan(gamma)
+    if nx.any_true(unexplained):
+        i = tuple(np.argwhere(unexplained)[0]) if unexplained.ndim else ()
+        g = np.broadcast_to(gamma, unexplained.shape)[i]
+        raise NoSolutionError(
+            f"internal error: the oblique-shock solve gave NaN for a valid case (M1 = "
+            f"{M1[i]!r}, deflection = {theta[i]!r} rad, gamma = {g!r}). This is a bug in "
+            "gasdyn2d; please report it with these values.")
 
 
 def _wave_angle_from_input(name, value, M1, gamma, branch, errors):
@@ -618,6 +690,7 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
         failed = np.isnan(beta)
         if np.any(failed) and np.any(failed & ~np.isnan(value) & ~np.isnan(M1) & ~np.isnan(gamma)):
             value = _check_deflection(value, M1, gamma, errors)  # raises, or NaNs the same cases
+            _refuse_unexplained_nan(failed, M1, value, gamma)
     else:
         value, beta = _wave_angle_from_input(name, value, M1, gamma, branch, errors)
         ratios = nx.chunked(oblique_shock_ratios, M1, beta, gamma)
@@ -630,6 +703,7 @@ def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None,
         Mn1=s(value if name == "Mn1" else ratios.Mn1), Mn2=s(ratios.Mn2), M2=s(ratios.M2),
         p2_p1=s(value if name == "p2_p1" else ratios.p2_p1), rho2_rho1=s(ratios.rho2_rho1),
         T2_T1=s(ratios.T2_T1), p02_p01=s(ratios.p02_p01),
+        strength=s(value - 1.0 if name == "p2_p1" else ratios.strength),
     )
 
 
