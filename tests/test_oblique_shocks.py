@@ -512,7 +512,7 @@ def test_scaled_cubic_roots_solve_the_published_cubic():
         a = (M1 - 1.0) * (M1 + 1.0)
         tan_theta = math.tan(fraction * float(detachment_angles(M1, g)[0]))
         for strong in (False, True):
-            z = float(_cubic_root(tan_theta, g, strong, a, 1.0 / a))
+            z = float(_cubic_root(tan_theta, g, strong, 1.0 / a))
             with mp.workdps(40):
                 m2, t2 = mp.mpf(M1) ** 2, mp.mpf(tan_theta) ** 2
                 s2, c2 = t2 / (1 + t2), 1 / (1 + t2)

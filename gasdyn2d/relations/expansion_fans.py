@@ -14,7 +14,7 @@ import numpy as np
 
 from .. import _numerics as nx
 from .._display import ResultTable, unit_field
-from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
+from .isentropic import HUGE_MACH, mach_after_isentropic_pressure_change, mach_angle_of
 
 __all__ = [
     "prandtl_meyer",
@@ -29,6 +29,7 @@ __all__ = [
 
 _SERIES_LIMIT = 0.5  # below this |x|, atan(x) - x comes from its Taylor series
 _SERIES_TERMS = 30  # 0.5**60 < 1e-18: the series is exact to rounding at the limit
+_LARGE_FAN_MACH = 1e8  # above this the fan pressure ratio's logarithms would cancel
 _HALLEY_STEPS = 3  # cubic convergence: start error 0.2 -> 1e-3 -> 1e-9 -> rounding
 
 
@@ -77,7 +78,12 @@ def prandtl_meyer_angle(M, gamma=1.4):
     """
     M = np.asarray(M, dtype=float)
     with np.errstate(invalid="ignore"):
-        z = np.sqrt((M - 1.0) * (M + 1.0))
+        huge = M > HUGE_MACH
+        if nx.any_true(huge):  # √(M² - 1) = M to rounding there (and M² may overflow)
+            safe = np.where(huge, 2.0, M)
+            z = np.where(huge, M, np.sqrt((safe - 1.0) * (safe + 1.0)))
+        else:
+            z = np.sqrt((M - 1.0) * (M + 1.0))
         nu = _nu_of_z(z, gamma)
     # M = inf is the vacuum limit ν_max (0·inf must not turn it into NaN)
     infinite = M == np.inf
@@ -124,9 +130,25 @@ def mach_from_prandtl_meyer_angle(nu, gamma=1.4):
 
 
 def fan_pressure_ratio(M1, M2, gamma=1.4):
-    """Plain core: p2/p1 across an isentropic turn from M1 to M2."""
-    h = 0.5 * (np.asarray(gamma, dtype=float) - 1.0)
-    return np.exp(gamma / (gamma - 1.0) * (np.log1p(h * M1 * M1) - np.log1p(h * M2 * M2)))
+    """Plain core: p2/p1 across an isentropic turn from M1 to M2.
+
+    p2/p1 = [(1 + (γ-1)M1²/2)/(1 + (γ-1)M2²/2)]^(γ/(γ-1)) (NACA Report 1135, eq. 44
+    twice), in logarithms. Where either Mach number exceeds 1e8 the logarithm of the
+    ratio is taken as 2 ln(M1/M2) + ln((h + 1/M1²)/(h + 1/M2²)), h = (γ-1)/2, which
+    neither cancels nor overflows (up to M = inf); M1 = M2 (no turn) gives 1.
+    """
+    M1 = np.asarray(M1, dtype=float)
+    M2 = np.asarray(M2, dtype=float)
+    gamma = np.asarray(gamma, dtype=float)
+    h = 0.5 * (gamma - 1.0)
+    big = (M1 > _LARGE_FAN_MACH) | (M2 > _LARGE_FAN_MACH)
+    if not nx.any_true(big):
+        return np.exp(gamma / (gamma - 1.0) * (np.log1p(h * M1 * M1) - np.log1p(h * M2 * M2)))
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        far = 2.0 * np.log(M1 / M2) + np.log((h + 1.0 / (M1 * M1)) / (h + 1.0 / (M2 * M2)))
+        near = np.log1p(h * M1 * M1) - np.log1p(h * M2 * M2)
+        ratio = np.exp(gamma / (gamma - 1.0) * np.where(big, far, near))
+        return np.where(M1 == M2, 1.0, ratio)
 
 
 # ------------------------------------------------------------------ unit boundary

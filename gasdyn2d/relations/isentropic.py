@@ -29,38 +29,70 @@ __all__ = [
     "mach_from_density_ratio",
     "mach_from_area_ratio",
     "mach_after_isentropic_pressure_change",
+    "log_stagnation_temperature_ratio",
 ]
+
+#: Above this Mach number M² may overflow: the relations switch to logarithmic forms
+#: (1e150² = 1e300 leaves room for the constants multiplying it).
+HUGE_MACH = 1e150
+_HUGE_LOG = 700.0  # exp of more than this overflows (709.78): take the square root first
 
 
 # ------------------------------------------------------------------ plain core
 
 
-def _log_stagnation_temperature_ratio(M, gamma):
-    """ln(T0/T) = ln(1 + (γ-1)M²/2)."""
-    return np.log1p(0.5 * (gamma - 1.0) * M * M)
+def log_stagnation_temperature_ratio(M, gamma=1.4):
+    """Plain core: ln(T0/T) = ln(1 + (γ-1)M²/2) [-], with no overflow for any M.
+
+    Above M = 1e150 (where M² may overflow) it is 2 ln M + ln((γ-1)/2); the
+    dropped term ln(1 + 2/((γ-1)M²)) is below 1e-299. M = inf gives inf.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.isentropic import log_stagnation_temperature_ratio
+    >>> round(float(log_stagnation_temperature_ratio(1e200)), 6)  # 2 ln 1e200 + ln 0.2
+    919.424599
+    """
+    M = np.asarray(M, dtype=float)
+    h = 0.5 * (gamma - 1.0)
+    huge = M > HUGE_MACH
+    if not nx.any_true(huge):
+        return np.log1p(h * M * M)
+    log_huge = 2.0 * np.log(np.where(huge, M, 1.0)) + np.log(h)
+    return np.where(huge, log_huge, log_stagnation_temperature_ratio(np.where(huge, 2.0, M), gamma))
 
 
 def temperature_ratio(M, gamma=1.4):
     """T/T0 = 1/(1 + (γ-1)M²/2)  (NACA Report 1135, eq. 43)."""
     M = np.asarray(M, dtype=float)
+    huge = M > HUGE_MACH
+    if nx.any_true(huge):  # 1/((γ-1)M²/2) without forming M², down to 0 at M = inf
+        return np.where(huge, np.exp(-log_stagnation_temperature_ratio(M, gamma)),
+                        temperature_ratio(np.where(huge, 2.0, M), gamma))
     return 1.0 / (1.0 + 0.5 * (gamma - 1.0) * M * M)
 
 
 def pressure_ratio(M, gamma=1.4):
     """p/p0 = (1 + (γ-1)M²/2)^(-γ/(γ-1))  (NACA Report 1135, eq. 44)."""
     M = np.asarray(M, dtype=float)
-    return np.exp(-gamma / (gamma - 1.0) * _log_stagnation_temperature_ratio(M, gamma))
+    return np.exp(-gamma / (gamma - 1.0) * log_stagnation_temperature_ratio(M, gamma))
 
 
 def density_ratio(M, gamma=1.4):
     """ρ/ρ0 = (1 + (γ-1)M²/2)^(-1/(γ-1))  (NACA Report 1135, eq. 45)."""
     M = np.asarray(M, dtype=float)
-    return np.exp(-1.0 / (gamma - 1.0) * _log_stagnation_temperature_ratio(M, gamma))
+    return np.exp(-1.0 / (gamma - 1.0) * log_stagnation_temperature_ratio(M, gamma))
 
 
 def _log_area_ratio(M, gamma):
-    """ln(A/A*) = -ln M + (γ+1)/(2(γ-1)) ln(1 + (γ-1)(M²-1)/(γ+1))."""
+    """ln(A/A*) = -ln M + (γ+1)/(2(γ-1)) ln(1 + (γ-1)(M²-1)/(γ+1)); above M = 1e150 as
+    (2e - 1) ln M + e ln((γ-1)/(γ+1)), e = (γ+1)/(2(γ-1)) (no M², inf at M = inf)."""
     exponent = 0.5 * (gamma + 1.0) / (gamma - 1.0)
+    huge = np.asarray(M) > HUGE_MACH
+    if nx.any_true(huge):
+        far = ((2.0 * exponent - 1.0) * np.log(np.where(huge, M, 1.0))
+               + exponent * np.log((gamma - 1.0) / (gamma + 1.0)))
+        return np.where(huge, far, _log_area_ratio(np.where(huge, 2.0, M), gamma))
     return -np.log(M) + exponent * np.log1p((gamma - 1.0) * (M - 1.0) * (M + 1.0) / (gamma + 1.0))
 
 
@@ -74,6 +106,9 @@ def area_ratio(M, gamma=1.4):
 def mach_angle_of(M):
     """μ = asin(1/M) [rad] for M >= 1 (NaN below), as atan2(1, √(M²-1)) for accuracy near M = 1."""
     M = np.asarray(M, dtype=float)
+    if nx.any_true(M > HUGE_MACH):  # √(M² - 1) = M to rounding there (and M² may overflow)
+        with np.errstate(invalid="ignore", over="ignore"):
+            return np.arctan2(1.0, np.where(M > HUGE_MACH, M, np.sqrt((M - 1.0) * (M + 1.0))))
     with np.errstate(invalid="ignore"):
         return np.arctan2(1.0, np.sqrt((M - 1.0) * (M + 1.0)))
 
@@ -81,11 +116,23 @@ def mach_angle_of(M):
 def mach_from_temperature_ratio(T_T0, gamma=1.4):
     """M = √(2(1 - T/T0)/((γ-1) T/T0)) for 0 < T/T0 <= 1."""
     T_T0 = np.asarray(T_T0, dtype=float)
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
+        tiny = T_T0 < 1e-300
+        if nx.any_true(tiny):  # √T apart, so that a subnormal T/T0 cannot overflow
+            return np.where(tiny, np.sqrt(2.0 * (1.0 - T_T0) / (gamma - 1.0)) / np.sqrt(T_T0),
+                            np.sqrt(2.0 * (1.0 - T_T0) / ((gamma - 1.0) * T_T0)))
         return np.sqrt(2.0 * (1.0 - T_T0) / ((gamma - 1.0) * T_T0))
 
 
 def _mach_from_log_stagnation_temperature(log_T0_T, gamma):
+    """M = √(2 (T0/T - 1)/(γ-1)) from ln(T0/T); past ln(T0/T) = 700 as
+    √(2/(γ-1)) e^(L/2) √(1 - e^(-L)), which overflows only when M does."""
+    huge = np.asarray(log_T0_T) > _HUGE_LOG
+    if nx.any_true(huge):
+        with np.errstate(over="ignore"):
+            return np.where(huge, np.sqrt(2.0 / (gamma - 1.0) * -np.expm1(-log_T0_T))
+                            * np.exp(0.5 * log_T0_T),
+                            np.sqrt(2.0 / (gamma - 1.0) * np.expm1(log_T0_T)))
     return np.sqrt(2.0 / (gamma - 1.0) * np.expm1(log_T0_T))
 
 
@@ -115,7 +162,7 @@ def mach_after_isentropic_pressure_change(M1, p2_p1, gamma=1.4):
     >>> round(float(mach_after_isentropic_pressure_change(2.0, 0.5)), 5)  # a fan at Mach 2
     2.44359
     """
-    log_T0_T2 = (np.log1p(0.5 * (gamma - 1.0) * np.asarray(M1, dtype=float) ** 2)
+    log_T0_T2 = (log_stagnation_temperature_ratio(M1, gamma)
                  - (gamma - 1.0) / gamma * np.log(p2_p1))
     return _mach_from_log_stagnation_temperature(log_T0_T2, gamma)
 
@@ -182,9 +229,9 @@ def _area_ratio_start(log_A, gamma, supersonic):
         far = np.exp(h * (log_A + e * np.log((gamma + 1.0) / (gamma - 1.0))))
         far = np.maximum(far * np.exp(-e * h * np.log1p(1.0 / (h * far * far))), 1.0)
     else:
-        near = np.clip(1.0 - qs * (1.0 - third_c * qs), 1e-300, 1.0)
+        near = np.clip(1.0 - qs * (1.0 - third_c * qs), 5e-324, 1.0)
         M0 = np.exp(e * np.log(2.0 / (gamma + 1.0)) - log_A)
-        far = np.clip(M0 * np.exp(e * np.log1p(h * M0 * M0)), 1e-300, 1.0)
+        far = np.clip(M0 * np.exp(e * np.log1p(h * M0 * M0)), 5e-324, 1.0)
     miss_near = np.abs(np.sqrt(np.maximum(_log_area_ratio(near, gamma), 0.0)) - s)
     miss_far = np.abs(np.sqrt(np.maximum(_log_area_ratio(far, gamma), 0.0)) - s)
     return np.where(miss_far < miss_near, far, near)

@@ -28,7 +28,27 @@ __all__ = [
     "mach_from_stagnation_pressure_ratio",
     "mach_from_pitot_ratio",
     "pitot_ratio",
+    "mach_squared_minus_one",
 ]
+
+_HUGE_W = 1e300  # above this M1² - 1 the ratios switch to their forms in 1/w (no overflow)
+_HUGE_MACH = 1e150  # above this M² may overflow
+_DENSITY_LIMIT_SLACK = 4.0 * np.finfo(float).eps  # rounding of a strong-shock limit (relative)
+
+
+def mach_squared_minus_one(M):
+    """Plain core: w = M² - 1 = (M - 1)(M + 1) [-], exact near M = 1, inf (no warning)
+    once M² overflows; the argument of :func:`normal_shock_ratios`.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.normal_shocks import mach_squared_minus_one
+    >>> float(mach_squared_minus_one(1e200))
+    inf
+    """
+    M = np.asarray(M, dtype=float)
+    with np.errstate(over="ignore"):
+        return (M - 1.0) * (M + 1.0)
 
 
 class NormalShockRatios(NamedTuple):
@@ -47,8 +67,13 @@ def normal_shock_ratios(w, gamma=1.4):
 
     ``w = M1² - 1 >= 0`` is the natural variable: every jump is proportional to
     it, so weak shocks lose no digits (NACA Report 1135, eqs. 93-100, rewritten).
+    Above w = 1e300 (and at w = inf) ρ2/ρ1 - 1 = 2/((γ-1) + (γ+1)/w) and
+    M2² = ((γ-1) + (γ+1)/w)/(2γ + (γ+1)/w), the limits of a strong shock; the
+    ratios that grow like w overflow to inf only where they exceed the float range.
     """
     w = np.asarray(w, dtype=float)
+    if nx.any_true(w > _HUGE_W):
+        return _normal_shock_ratios_huge(w, gamma)
     gp, gm = gamma + 1.0, gamma - 1.0
     p_jump = 2.0 * gamma / gp * w  # p2/p1 - 1, eq. 93
     p2_p1 = 1.0 + p_jump
@@ -63,9 +88,40 @@ def normal_shock_ratios(w, gamma=1.4):
     return NormalShockRatios(M2, p2_p1, rho2_rho1, T2_T1, p02_p01, p_jump)
 
 
+def _normal_shock_ratios_huge(w, gamma):
+    """:func:`normal_shock_ratios` for arrays with some w > 1e300, in the forms in 1/w."""
+    huge = w > _HUGE_W
+    usual = normal_shock_ratios(np.where(huge, 1.0, w), gamma)
+    gp, gm = gamma + 1.0, gamma - 1.0
+    with np.errstate(over="ignore"):
+        iw = 1.0 / np.where(huge, w, 1.0)
+        p_jump = 2.0 * gamma / gp * w
+        rho2_rho1 = 1.0 + 2.0 / (gm + gp * iw)
+        T2_T1 = (1.0 + p_jump) / rho2_rho1
+        M2 = np.sqrt((gm + gp * iw) / (2.0 * gamma + gp * iw))
+        # eq. 99 in logs: ln(p02/p01) = [γ ln(ρ2/ρ1) - ln(p2/p1)]/(γ-1), p2/p1 = 1 + 2γw/(γ+1)
+        log_p = (np.log(2.0 * gamma / gp) + np.log(np.where(huge, w, 1.0))
+                 + np.log1p(gp / (2.0 * gamma) * iw))
+        p02_p01 = np.exp((gamma * np.log(rho2_rho1) - log_p) / gm)
+    pick = lambda far, near: np.where(huge, far, near)  # noqa: E731
+    return NormalShockRatios(pick(M2, usual.M2), pick(1.0 + p_jump, usual.p2_p1),
+                             pick(rho2_rho1, usual.rho2_rho1), pick(T2_T1, usual.T2_T1),
+                             pick(p02_p01, usual.p02_p01), pick(p_jump, usual.strength))
+
+
 def pitot_ratio(M1, gamma=1.4):
     """Plain core: p02/p1 behind a normal shock (Rayleigh pitot formula, NACA Report 1135, eq. 100)."""
     M1 = np.asarray(M1, dtype=float)
+    if nx.any_true(M1 > _HUGE_MACH):
+        # ln(p02/p1) = 2 ln M1 + [γ ln((γ+1)/2) + ln(γ+1) - ln(2γ - (γ-1)/M1²)]/(γ-1),
+        # the same formula without M1² (which may overflow); inf where p02/p1 does
+        with np.errstate(over="ignore"):
+            im2 = (1.0 / M1) / M1
+            gp, gm = gamma + 1.0, gamma - 1.0
+            far = np.exp(2.0 * np.log(M1) + (gamma * np.log(0.5 * gp) + np.log(gp)
+                                             - np.log(2.0 * gamma - gm * im2)) / gm)
+            return np.where(M1 > _HUGE_MACH, far, pitot_ratio(np.where(M1 > _HUGE_MACH, 2.0, M1),
+                                                              gamma))
     m2 = M1 * M1
     return np.exp(gamma / (gamma - 1.0) * np.log(0.5 * (gamma + 1.0) * m2)
                   + 1.0 / (gamma - 1.0) * np.log((gamma + 1.0) / (2.0 * gamma * m2 - gamma + 1.0)))
@@ -75,19 +131,42 @@ def mach_from_downstream_mach(M2, gamma=1.4):
     """M1 from M2 in (√((γ-1)/(2γ)), 1]: M1² - 1 = (γ+1)(1 - M2²)/(2γM2² - (γ-1)).
 
     Written for M1² - 1 (NACA Report 1135, eq. 96 inverted) so that weak shocks keep
-    their digits.
+    their digits. The lower limit itself (within 4 ulp) is the M1 → ∞ limit: inf.
     """
     M2 = np.asarray(M2, dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
         w = (gamma + 1.0) * (1.0 - M2) * (1.0 + M2) / (2.0 * gamma * M2 * M2 - (gamma - 1.0))
-        return np.sqrt(1.0 + w)
+        M1 = np.sqrt(1.0 + w)
+        # M2 → √((γ-1)/(2γ)) only as M1 → ∞: that value, to rounding, is M1 = inf
+        low = np.sqrt((gamma - 1.0) / (2.0 * gamma))
+        at_limit = M2 <= low * (1.0 + _DENSITY_LIMIT_SLACK)
+        if not nx.any_true(at_limit):
+            return M1
+        return np.where(at_limit, np.where(M2 >= low * (1.0 - _DENSITY_LIMIT_SLACK), np.inf,
+                                           np.nan), M1)
+
+
+
 
 
 def mach_from_density_jump(rho2_rho1, gamma=1.4):
-    """M1 from ρ2/ρ1 in [1, (γ+1)/(γ-1)): M1² - 1 = (γ+1)(r - 1)/((γ+1) - (γ-1)r)."""
+    """M1 from ρ2/ρ1 in [1, (γ+1)/(γ-1)]: M1² - 1 = (γ+1)(r - 1)/((γ+1) - (γ-1)r).
+
+    The density ratio reaches (γ+1)/(γ-1) only as M1 → ∞, so the limit itself gives
+    M1 = inf and anything above it NaN. "The limit" is (γ+1)/(γ-1) to within its
+    rounding, 4 ulp × (γ+1)/(γ-1) relative (γ itself is rounded: at γ = 1.4 the float
+    (γ+1)/(γ-1) is 6.000000000000001, and 6.0 would otherwise give M1 = 1.6e8).
+    """
     r = np.asarray(rho2_rho1, dtype=float)
+    gp, gm = gamma + 1.0, gamma - 1.0
+    limit = gp / gm
+    slack = _DENSITY_LIMIT_SLACK * limit  # × (γ+1)/(γ-1): γ itself is rounded
     with np.errstate(divide="ignore", invalid="ignore"):
-        return np.sqrt(1.0 + (gamma + 1.0) * (r - 1.0) / ((gamma + 1.0) - (gamma - 1.0) * r))
+        M1 = np.sqrt(1.0 + gp * (r - 1.0) / (gp - gm * r))
+        at_limit = r >= limit * (1.0 - slack)
+        if not nx.any_true(at_limit):
+            return M1
+        return np.where(r > limit * (1.0 + slack), np.nan, np.where(at_limit, np.inf, M1))
 
 
 def mach_from_temperature_jump(T2_T1, gamma=1.4):
@@ -103,13 +182,15 @@ def mach_from_temperature_jump(T2_T1, gamma=1.4):
     b = 2.0 * gp * (gamma - 1.0) - gp * gp * t
     c = -gp * gp * t
     with np.errstate(divide="ignore", invalid="ignore"):
-        root = np.sqrt(b * b - 4.0 * a * c)
+        # √(b² - 4ac) as hypot(b, 2(γ+1)√(a t)) (c = -(γ+1)² t): no overflow of b² at huge t
+        root = np.hypot(b, 2.0 * gp * np.sqrt(a * t))
         w = np.where(b > 0.0, -2.0 * c / (b + root), (root - b) / (2.0 * a))
         return np.sqrt(1.0 + w)
 
 
 _SHOCK_HALLEY_STEPS = 4  # p02/p01 (measured: every start converges to rounding within 4 steps)
 _PITOT_HALLEY_STEPS = 3  # p02/p1: its start is closer (measured on 10^5 random cases)
+_HUGE_LOG_W = 200.0  # ln w beyond which w³ may overflow: the recovery's forms in 1/w
 _SHOCK_ACCEPT_STEP = 1e-8  # a larger last step (in ln w or ln M1) may mean the fallback
 
 
@@ -127,6 +208,15 @@ def _log_recovery_and_slopes(log_w, gamma):
     value = (gamma * np.log1p(2.0 * w / b) - np.log1p(2.0 * gamma / gp * w)) / gm
     slope = -2.0 * gamma * w ** 3 / (a * b * c)
     curvature = 3.0 - w / a - gm * w / b - 2.0 * gamma * w / c
+    huge = log_w > _HUGE_LOG_W
+    if nx.any_true(huge):  # the same in 1/w, where w (or w³) would overflow
+        iw = np.exp(-log_w)
+        a, b, c = 1.0 + iw, gm + gp * iw, gp * iw + 2.0 * gamma
+        far = (gamma * np.log1p(2.0 / b) - log_w - np.log(2.0 * gamma / gp)
+               - np.log1p(gp / (2.0 * gamma) * iw)) / gm
+        value = np.where(huge, far, value)
+        slope = np.where(huge, -2.0 * gamma / (a * b * c), slope)
+        curvature = np.where(huge, 3.0 - 1.0 / a - gm / b - 2.0 * gamma / c, curvature)
     return value, slope, curvature
 
 
@@ -206,7 +296,8 @@ def mach_from_stagnation_pressure_ratio(p02_p01, gamma=1.4):
                 np.full_like(lo, 1500.0))
         M1 = np.sqrt(1.0 + np.exp(log_w))
     M1 = np.where(r == 1.0, 1.0, M1)
-    return np.where((r > 1.0) | (r <= 0.0), np.nan, M1)
+    M1 = np.where(r == 0.0, np.inf, M1)  # no recovery at all: the M1 → ∞ limit
+    return np.where((r > 1.0) | (r < 0.0), np.nan, M1)
 
 
 def _log_pitot_and_slopes(log_M, gamma):
@@ -216,11 +307,11 @@ def _log_pitot_and_slopes(log_M, gamma):
     at M1 = 1 to 2 as M1 → ∞; its derivative is 8γm/(2γm - γ + 1)².
     """
     gp, gm = gamma + 1.0, gamma - 1.0
-    m2 = np.exp(2.0 * log_M)
-    d = 2.0 * gamma * m2 - gm
-    value = (gamma * np.log(0.5 * gp * m2) + np.log(gp / d)) / gm
-    slope = 2.0 * gamma / gm - 4.0 * gamma * m2 / (gm * d)
-    return value, slope, 8.0 * gamma * m2 / (d * d) / slope
+    im2 = np.exp(-2.0 * log_M)  # 1/M1², so that no M1² can overflow
+    d = 2.0 * gamma - gm * im2  # (2γM1² - (γ-1))/M1²
+    value = 2.0 * log_M + (gamma * np.log(0.5 * gp) + np.log(gp / d)) / gm
+    slope = 2.0 * gamma / gm - 4.0 * gamma / (gm * d)
+    return value, slope, 8.0 * gamma * im2 / (d * d) / slope
 
 
 def _pitot_start(target, gamma):
@@ -392,7 +483,7 @@ def normal_shock(M1=None, *, M2=None, p2_p1=None, rho2_rho1=None, T2_T1=None, p0
     nan_input = np.isnan(gamma) | np.isnan(value)
     if nx.any_true(nan_input):
         mach = np.where(nan_input, np.nan, mach)
-    ratios = normal_shock_ratios((mach - 1.0) * (mach + 1.0), gamma)
+    ratios = normal_shock_ratios(mach_squared_minus_one(mach), gamma)
     fields = ratios._asdict()
     if name in fields:
         fields[name] = value  # return the caller's exact value, not a round trip

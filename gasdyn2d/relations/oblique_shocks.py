@@ -29,6 +29,7 @@ import numpy as np
 from .. import _numerics as nx
 from .._display import ResultTable, unit_field
 from ..errors import DetachedShockError, NoSolutionError
+from .isentropic import mach_angle_of
 from .normal_shocks import normal_shock_ratios
 
 __all__ = [
@@ -39,7 +40,10 @@ __all__ = [
     "ObliqueShockRatios",
     "wave_angle_from_deflection",
     "wv_from_deflection",
+    "scaled_wv_from_deflection",
+    "wave_angle_from_scaled_wv",
     "wave_angle_from_wv",
+    "wave_angle_from_normal_excess",
     "deflection_slope_wv",
     "deflection_from_wave_angle",
     "detachment_angles",
@@ -63,6 +67,46 @@ def _tan_deflection(w, v, M1, gamma, cm=None):
     ``cm`` = (γ-1)M1² + 2 may be passed in when the caller has it."""
     cm = (gamma - 1.0) * M1 * M1 + 2.0 if cm is None else cm
     return 2.0 * w * np.sqrt(v / (1.0 + w)) / (cm + 2.0 * v)
+
+
+def _scales(M1, gamma):
+    """(a, 1/a, ρ, c) for a = M1² - 1: ρ = M1²/a = 1 + 1/a and c = ((γ-1)M1² + 2)/a =
+    (γ-1)ρ + 2/a, the constants of the θ-β-M relation in z = w/a, y = v/a. Finite
+    for every M1 > 1 (1/a → 0 where M1² overflows; inf at M1 = 1)."""
+    with np.errstate(over="ignore", divide="ignore"):
+        a = (M1 - 1.0) * (M1 + 1.0)
+        inv_a = 1.0 / a
+    rho = 1.0 + inv_a
+    return a, inv_a, rho, (gamma - 1.0) * rho + 2.0 * inv_a
+
+
+def _tan_deflection_zy(z, y, inv_a, c):
+    """tan θ = 2z √(y/(z + 1/a)) / (c + 2y): :func:`_tan_deflection` with w = a z,
+    v = a y divided through by a (no M1², no overflow)."""
+    return 2.0 * z * np.sqrt(y / (z + inv_a)) / (c + 2.0 * y)
+
+
+def wave_angle_from_scaled_wv(z, y, a):
+    """Plain core: β [rad] from z = w/a, y = v/a and a = M1² - 1 (see
+    :func:`scaled_wv_from_deflection`).
+
+    β = atan2(√(1 + a z), √(a y)), the form of :func:`wave_angle_from_wv` (so both
+    give the same float), or atan2(√(z + 1/a), √y) where a z or a y overflows.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.oblique_shocks import wave_angle_from_scaled_wv
+    >>> import numpy as np
+    >>> round(float(np.degrees(wave_angle_from_scaled_wv(0.0, 1.0, 3.0))), 12)  # M1 = 2: μ
+    30.0
+    """
+    with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+        w, v = a * z, a * y
+        beta = np.arctan2(np.sqrt(1.0 + w), np.sqrt(v))
+        huge = np.isinf(w) | np.isinf(v)
+        if not nx.any_true(huge):
+            return beta
+        return np.where(huge, np.arctan2(np.sqrt(z + 1.0 / a), np.sqrt(y)), beta)
 
 
 def wave_angle_from_wv(w, v):
@@ -89,26 +133,56 @@ def wave_angle_from_wv(w, v):
     return np.arctan2(np.sqrt(1.0 + w), np.sqrt(v))
 
 
+def wave_angle_from_normal_excess(M1, w):
+    """Plain core: β [rad] of the shock with Mn1² - 1 = w in a stream M1, for 0 <= w <= M1² - 1.
+
+    :func:`wave_angle_from_wv` with v = M1² - 1 - w; where M1² overflows, β =
+    atan2(r, √((1 - r)(1 + r))) with r = sin β = √(1 + w)/M1.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.oblique_shocks import wave_angle_from_normal_excess
+    >>> float(wave_angle_from_normal_excess(1e200, 8.0))  # Mn1 = 3: sin β = 3e-200
+    3e-200
+    """
+    M1 = np.asarray(M1, dtype=float)
+    w = np.asarray(w, dtype=float)
+    with np.errstate(over="ignore", invalid="ignore"):
+        a = (M1 - 1.0) * (M1 + 1.0)
+        beta = wave_angle_from_wv(w, np.maximum(a - w, 0.0))
+        huge = np.isinf(a) & np.isfinite(M1)
+        if not nx.any_true(huge):
+            return beta
+        r = np.sqrt(1.0 + w) / M1
+        return np.where(huge, np.arctan2(r, np.sqrt((1.0 - r) * (1.0 + r))), beta)
+
+
 def deflection_from_wave_angle(M1, beta, gamma=1.4):
     """Plain core: flow deflection θ [rad] behind a shock of wave angle β [rad].
 
-    tan θ = 2 cot β (M1² sin²β - 1)/(M1²(γ + cos 2β) + 2)  (NACA Report 1135, eq. 138).
-    Valid for μ <= β <= π/2; NaN outside. A wave angle a few ulp below μ
-    (``asin(1/M1)`` rounded down) counts as the Mach wave, θ = 0.
+    tan θ = 2 cot β (M1² sin²β - 1)/(M1²(γ + cos 2β) + 2)  (NACA Report 1135, eq. 138),
+    evaluated as 2 (w/M1²) cos β/√(1/M1² + w/M1²) / ((γ-1) + 2/M1² + 2cos²β) with
+    w/M1² = ((M1 sin β - 1)/M1)((M1 sin β + 1)/M1): no cancellation at the Mach wave
+    and no M1² to overflow. Valid for μ <= β <= π/2; NaN outside. A wave angle a
+    few ulp below μ (``asin(1/M1)`` rounded down) counts as the Mach wave, θ = 0.
     """
     M1 = np.asarray(M1, dtype=float)
     beta = np.asarray(beta, dtype=float)
-    with np.errstate(invalid="ignore"):
+    with np.errstate(invalid="ignore", over="ignore"):
         ms = M1 * np.sin(beta)
-        w = (ms - 1.0) * (ms + 1.0)
-        below_mach_wave = w < -_MACH_WAVE_SLACK
-        w = np.maximum(w, 0.0)
-        mc = M1 * np.cos(beta)
-        theta = np.arctan(_tan_deflection(w, mc * mc, M1, gamma))
-        return np.where(below_mach_wave | (mc < 0), np.nan, theta)
+        below_mach_wave = (ms - 1.0) * (ms + 1.0) < -_MACH_WAVE_SLACK
+        inv_m = 1.0 / M1
+        w_m2 = np.maximum(((ms - 1.0) * inv_m) * ((ms + 1.0) * inv_m), 0.0)  # w/M1²
+        if nx.any_true(M1 == np.inf):  # the limit: w/M1² = sin²β
+            w_m2 = np.where(M1 == np.inf, np.sin(beta) ** 2, w_m2)
+        inv_m2 = inv_m * inv_m
+        cb = np.cos(beta)
+        tan_theta = 2.0 * w_m2 * cb / np.sqrt(inv_m2 + w_m2) / (
+            (gamma - 1.0) + 2.0 * inv_m2 + 2.0 * cb * cb)
+        return np.where(below_mach_wave | (cb < 0), np.nan, np.arctan(tan_theta))
 
 
-def _cubic_root(tan_theta, gamma, strong, a, inv_a):
+def _cubic_root(tan_theta, gamma, strong, inv_a):
     """Middle (weak) or largest (strong) real root z = w/(M1² - 1) of the θ-β-M cubic.
 
     In x = sin²β the cubic is x³ + b x² + c x + d = 0 with
@@ -124,14 +198,14 @@ def _cubic_root(tan_theta, gamma, strong, a, inv_a):
     within O(M1 - 1) of 1 and the trigonometric root loses ~log10(1/(M1-1)³)
     digits, while in z it keeps them. Solved by the trigonometric method for
     three real roots (Wolf 1993 gives the equivalent form in tan β); sin²θ comes
-    from tan θ, which the polishing step needs anyway. ``a`` = M1² - 1 and
-    ``inv_a`` = 1/a are passed in (1/a stays finite where M1² would overflow).
+    from tan θ, which the polishing step needs anyway. ``inv_a`` = 1/a is
+    passed in (it stays finite where M1² would overflow, and is 0 at M1 = inf).
     """
-    b3, Q, R = _cubic_coefficients(tan_theta, gamma, a, inv_a)
+    b3, Q, R = _cubic_coefficients(tan_theta, gamma, inv_a)
     return _trigonometric_root(b3, Q, R, strong)
 
 
-def _cubic_coefficients(tan_theta, gamma, a, inv_a):
+def _cubic_coefficients(tan_theta, gamma, inv_a):
     """(P/3, Q, R) of the monic cubic in z of :func:`_cubic_root`."""
     s2 = tan_theta * tan_theta / (1.0 + tan_theta * tan_theta)  # sin²θ
     rho = 1.0 + inv_a  # M1²/a
@@ -157,7 +231,7 @@ def _trigonometric_root(b3, Q, R, strong):
     return 2.0 * r * (1.0 - t2) / (1.0 + t2) - b3
 
 
-def _small_weak_root(tan_theta, gamma, a, inv_a):
+def _small_weak_root(tan_theta, gamma, inv_a):
     """The weak root z of :func:`_cubic_root` where it is small (z < 1e-3).
 
     A small weak root lies close to the spurious one (they merge at θ = 0 as
@@ -169,70 +243,72 @@ def _small_weak_root(tan_theta, gamma, a, inv_a):
     P + z (a relative change of an ulp), whose positive root is taken in the
     cancellation-free form (:func:`_positive_quadratic_root`).
     """
-    b3, Q, R = _cubic_coefficients(tan_theta, gamma, a, inv_a)
+    b3, Q, R = _cubic_coefficients(tan_theta, gamma, inv_a)
     z_strong = _trigonometric_root(b3, Q, R, True)
     z0 = _positive_quadratic_root(1.0, 3.0 * b3 + z_strong, -R / z_strong)
     return _positive_quadratic_root(3.0 * b3 + z0, Q, R)
 
 
 def _positive_quadratic_root(A, B, C):
-    """The larger root of A z² + B z + C = 0 when A C < 0 (roots of opposite signs), as
-    max(-sgn(B) X/(2A), -2C sgn(B)/X), X = √(B² - 4AC) + |B| (no cancellation)."""
-    X = np.sqrt(B * B - 4.0 * A * C) + np.abs(B)
+    """The larger root of A z² + B z + C = 0 when A C <= 0 (roots of opposite signs), as
+    max(-sgn(B) X/(2A), -2C sgn(B)/X), X = √(B² - 4AC) + |B| (no cancellation; the root
+    as hypot(B, 2√(-AC)), so that B² cannot underflow)."""
+    X = np.hypot(B, 2.0 * np.sqrt(-A * C)) + np.abs(B)
     sign = np.copysign(1.0, B)
     with np.errstate(divide="ignore", invalid="ignore"):
-        return np.maximum(-0.5 * sign * X / A, -2.0 * C * sign / X)
+        return np.fmax(-0.5 * sign * X / A, -2.0 * C * sign / X)  # fmax: 0/0 when C = B = 0
 
 
 def detachment_angles(M1, gamma=1.4):
     """Plain core: (θmax, β at θmax) [rad] for M1 >= 1, in closed form.
 
     sin²β* = [(γ+1)M²/4 - 1 + √((γ+1)((γ+1)M⁴/16 + (γ-1)M²/2 + 1))]/(γM²)
-    (NACA Report 1135, eq. 168), evaluated as v* = M² cos²β* =
-    ((γ-1)M² + 2)(M² - 1)/(2(P + S)) with P = (3γ-1)M²/4 + 1 and S the root,
-    which is free of cancellation as M → 1.
+    (NACA Report 1135, eq. 168), evaluated as y* = M² cos²β*/(M² - 1) =
+    ((γ-1) + 2/M²)/(2(P + S)) with P = (3γ-1)/4 + 1/M² and S the root divided
+    by M², which is free of cancellation as M → 1 and of overflow as M → ∞
+    (θmax → asin(1/γ) there).
     """
     M1 = np.asarray(M1, dtype=float)
-    w, v = _detachment_wv(M1, gamma)
+    a, inv_a, rho, c = _scales(M1, gamma)
+    z, y = _detachment_zy(M1, gamma)
     with np.errstate(invalid="ignore"):
-        return np.arctan(_tan_deflection(w, v, M1, gamma)), wave_angle_from_wv(w, v)
+        return (np.arctan(_tan_deflection_zy(z, y, inv_a, c)), wave_angle_from_scaled_wv(z, y, a))
 
 
 def sonic_angles(M1, gamma=1.4):
     """Plain core: (θ, β) [rad] where the flow behind the shock is exactly sonic.
 
     sin²βs = [(γ+1)M²/4 - (3-γ)/4 + √((γ+1)((9+γ)/16 - (3-γ)M²/8 + (γ+1)M⁴/16))]/(γM²)
-    (NACA Report 1135, eq. 167), in the same cancellation-free form as
-    :func:`detachment_angles` with P = (3γ-1)M²/4 + (3-γ)/4.
+    (NACA Report 1135, eq. 167), in the same cancellation- and overflow-free form as
+    :func:`detachment_angles` with P = (3γ-1)/4 + (3-γ)/(4M²).
     """
     M1 = np.asarray(M1, dtype=float)
-    m2 = M1 * M1
-    big = (gamma + 1.0) * ((9.0 + gamma) / 16.0 - (3.0 - gamma) * m2 / 8.0
-                           + (gamma + 1.0) * m2 * m2 / 16.0)
-    return _angles_from_v(M1, gamma, 0.25 * (3.0 * gamma - 1.0) * m2 + 0.25 * (3.0 - gamma),
-                          np.sqrt(big))
-
-
-def _detachment_wv(M1, gamma, m2=None, a=None):
-    """(w*, v*) at the detachment point, cancellation-free (see :func:`detachment_angles`);
-    ``m2`` = M1² and ``a`` = M1² - 1 may be passed in when the caller has them."""
-    m2 = M1 * M1 if m2 is None else m2
-    big = (gamma + 1.0) * ((gamma + 1.0) / 16.0 * m2 * m2 + 0.5 * (gamma - 1.0) * m2 + 1.0)
-    return _wv_from_roots(M1, gamma, 0.25 * (3.0 * gamma - 1.0) * m2 + 1.0, np.sqrt(big), m2, a)
-
-
-def _wv_from_roots(M1, gamma, P, S, m2=None, a=None):
+    inv_m2 = _inverse_square(M1)
+    big = (gamma + 1.0) * ((9.0 + gamma) / 16.0 * inv_m2 * inv_m2
+                           - (3.0 - gamma) / 8.0 * inv_m2 + (gamma + 1.0) / 16.0)
+    z, y = _zy_from_roots(gamma, inv_m2, 0.25 * (3.0 * gamma - 1.0)
+                          + 0.25 * (3.0 - gamma) * inv_m2, np.sqrt(big))
+    a, inv_a, rho, c = _scales(M1, gamma)
     with np.errstate(invalid="ignore"):
-        a = (M1 - 1.0) * (M1 + 1.0) if a is None else a
-        m2 = M1 * M1 if m2 is None else m2
-        v = ((gamma - 1.0) * m2 + 2.0) * a / (2.0 * (P + S))
-        return a - v, v
+        return (np.arctan(_tan_deflection_zy(z, y, inv_a, c)), wave_angle_from_scaled_wv(z, y, a))
 
 
-def _angles_from_v(M1, gamma, P, S):
-    w, v = _wv_from_roots(M1, gamma, P, S)
-    with np.errstate(invalid="ignore"):
-        return np.arctan(_tan_deflection(w, v, M1, gamma)), wave_angle_from_wv(w, v)
+def _inverse_square(M1):
+    """1/M1², 0 (no overflow warning) where M1² overflows."""
+    with np.errstate(over="ignore"):
+        return 1.0 / (M1 * M1)
+
+
+def _detachment_zy(M1, gamma, inv_m2=None):
+    """(z*, y*) = (w*, v*)/(M1² - 1) at the detachment point (see :func:`detachment_angles`)."""
+    inv_m2 = _inverse_square(M1) if inv_m2 is None else inv_m2
+    big = (gamma + 1.0) * ((gamma + 1.0) / 16.0 + (0.5 * (gamma - 1.0) + inv_m2) * inv_m2)
+    return _zy_from_roots(gamma, inv_m2, 0.25 * (3.0 * gamma - 1.0) + inv_m2, np.sqrt(big))
+
+
+def _zy_from_roots(gamma, inv_m2, P, S):
+    y = ((gamma - 1.0) + 2.0 * inv_m2) / (2.0 * (P + S))
+    return 1.0 - y, y
 
 
 def _put(array, mask, values):
@@ -248,54 +324,53 @@ def _put(array, mask, values):
     return array
 
 
-def _weak_start(w_cubic, a, M1, tan_theta, gamma, m2):
+def _weak_start(z_cubic, inv_a, rho, tan_theta, gamma):
     """Start for the weak root: the cubic's, or near the Mach wave (where the cubic's
-    weak and spurious roots merge and it keeps only ~8 digits of w) the inverted
-    small-deflection series tan θ = k w (1 + c w + ...), k = 2√(M1²-1)/((γ+1)M1²),
-    c = 2/((γ+1)M1²) - M1²/(2(M1²-1)), good to (c w)³ there."""
-    b = (gamma + 1.0) * m2
-    y = tan_theta * b / (2.0 * np.sqrt(a))
-    cy = (2.0 / b - 0.5 * m2 / a) * y
+    weak and spurious roots merge) the inverted small-deflection series
+    tan θ = k w (1 + c w + ...), k = 2√(M1²-1)/((γ+1)M1²), c = 2/((γ+1)M1²) - M1²/(2(M1²-1)),
+    good to (c w)³ there; in z = w/a, z = tan θ (γ+1)ρ √(1/a)/2 to first order."""
+    z_series = 0.5 * tan_theta * (gamma + 1.0) * rho * np.sqrt(inv_a)
+    with np.errstate(over="ignore", invalid="ignore"):
+        # c w = (2/((γ+1)M1²) - M1²/(2a)) a z = (2/((γ+1)ρ) - ρ a/2) z, with a = 1/(1/a)
+        cy = (2.0 / ((gamma + 1.0) * rho) - 0.5 * rho / inv_a) * z_series
     small = np.abs(cy) < _SERIES_START
     if not small.any():
-        return w_cubic
-    return _put(w_cubic, small, y * (1.0 - cy + 2.0 * cy * cy))
+        return z_cubic
+    return _put(z_cubic, small, z_series * (1.0 - cy + 2.0 * cy * cy))
 
 
-def _strong_start(c_cubic, a, M1, tan_theta, gamma):
-    """Start for the strong root in c = M1 cos β: the cubic's, or near the normal shock
-    (where 1 - sin²β cancels) the inverted series tan θ = k c (1 + d c² + ...),
-    k = 2(M1²-1)/(M1((γ-1)M1² + 2)), d = 1/(2M1²) - 1/(M1²-1) - 2/((γ-1)M1² + 2)."""
-    cm = (gamma - 1.0) * M1 * M1 + 2.0
-    y = tan_theta * M1 * cm / (2.0 * a)
-    dy2 = (0.5 / (M1 * M1) - 1.0 / a - 2.0 / cm) * y * y
-    return _put(c_cubic, np.abs(dy2) < _SERIES_START, y * (1.0 - dy2))
+def _strong_start(s_cubic, rho, c, tan_theta):
+    """Start for the strong root in s = √y = M1 cos β/√(M1²-1): the cubic's, or near the
+    normal shock (where 1 - z cancels) the inverted series tan θ = k s (1 + d s² + ...),
+    k = 2/(√ρ c), d = 1/(2ρ) - 1 - 2/c (the series in M1 cos β of earlier versions, scaled)."""
+    s_series = 0.5 * tan_theta * np.sqrt(rho) * c
+    dy2 = (0.5 / rho - 1.0 - 2.0 / c) * s_series * s_series
+    return _put(s_cubic, np.abs(dy2) < _SERIES_START, s_series * (1.0 - dy2))
 
 
-def _newton_weak(w, M1, target, gamma, w_star, m2, a, cm):
-    """Polish the weak root in w, clamped to [0, w*]; ``target`` is tan θ.
+def _newton_weak(z, target, inv_a, rho, c, z_star):
+    """Polish the weak root in z = w/a, clamped to [0, z*]; ``target`` is tan θ.
 
-    With f = tan θ = w q, q = 2√(v/(1+w))/den, den = (γ-1)M² + 2 + 2v, v = M² - 1 - w,
-    the slope in logarithmic form is df/dw = q + f (2/den - M²/(2v(1+w))), finite at w = 0.
+    With f = tan θ = z q, q = 2√(y/(z + 1/a))/D, D = c + 2y, y = 1 - z, the slope in
+    logarithmic form is df/dz = q + f (2/D - ρ/(2y(z + 1/a))), finite at z = 0.
     """
-    half_m2 = 0.5 * m2
     for _ in range(_NEWTON_STEPS):
-        one_w = 1.0 + w
-        v = a - w
-        inv_den = 1.0 / (cm + 2.0 * v)
-        q = 2.0 * np.sqrt(v / one_w) * inv_den
-        f = w * q
-        df = q + f * (2.0 * inv_den - half_m2 / (v * one_w))
-        w = np.clip(w - (f - target) / df, 0.0, w_star)
-    return w
+        zi = z + inv_a
+        y = 1.0 - z
+        inv_den = 1.0 / (c + 2.0 * y)
+        q = 2.0 * np.sqrt(y / zi) * inv_den
+        f = z * q
+        df = q + f * (2.0 * inv_den - 0.5 * rho / (y * zi))
+        z = np.clip(z - (f - target) / df, 0.0, z_star)
+    return z
 
 
-def _newton_strong(c, M1, target, gamma, c_star):
-    """Polish the strong root in c = M1 cos β = √v, clamped to [0, c*]; ``target`` is tan θ."""
+def _newton_strong(s, target, inv_a, c, s_star):
+    """Polish the strong root in s = √y, clamped to [0, s*]; ``target`` is tan θ."""
     for _ in range(_NEWTON_STEPS):
-        f, df = _tan_deflection_and_slope(c, M1, gamma, True)
-        c = np.clip(c - (f - target) / df, 0.0, c_star)
-    return c
+        f, df = _tan_deflection_and_slope(s, inv_a, c, True)
+        s = np.clip(s - (f - target) / df, 0.0, s_star)
+    return s
 
 
 def deflection_slope_wv(w, v, M1, gamma=1.4):
@@ -333,24 +408,30 @@ def deflection_slope_wv(w, v, M1, gamma=1.4):
     return 2.0 * w * r / den, 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
 
 
-def _tan_deflection_and_slope(x, M1, gamma, strong):
-    """tan θ and d tan θ/dx along the polar, x = w (weak branch) or c = M1 cos β (strong)."""
-    a = (M1 - 1.0) * (M1 + 1.0)
+def _tan_deflection_and_slope(x, inv_a, c, strong):
+    """tan θ and d tan θ/dx along the polar, x = z = w/a (weak branch) or s = √(v/a) (strong).
+
+    Weak: f = 2z √(y/(z + 1/a))/D, D = c + 2y, y = 1 - z; df/dz as in :func:`_newton_weak`.
+    Strong: with y = s², z = 1 - s², f = 2zs/(√(z + 1/a) D), D = c + 2s², and
+    d ln f/ds = -2s/z + 1/s + s/(z + 1/a) - 4s/D, so df/ds = f/s + f s (-2/z + 1/(z + 1/a) - 4/D).
+    """
     if not strong:
-        return deflection_slope_wv(x, a - x, M1, gamma)
-    cm = (gamma - 1.0) * M1 * M1 + 2.0
-    v = x * x
-    w = a - v
-    root = np.sqrt(M1 * M1 - v)
-    den = cm + 2.0 * v
-    f = 2.0 * w * x / (root * den)
-    # d/dc of 2 w c / (root den), with dw/dc = -2c, droot/dc = -c/root, dden/dc = 4c
-    df = 2.0 * ((-2.0 * v + w) * root * den - w * x * (-x / root * den + 4.0 * x * root)) / (
-        (root * den) ** 2)
-    return f, df
+        zi = x + inv_a
+        y = 1.0 - x
+        inv_den = 1.0 / (c + 2.0 * y)
+        q = 2.0 * np.sqrt(y / zi) * inv_den
+        f = x * q
+        return f, q + f * (2.0 * inv_den - 0.5 * (1.0 + inv_a) / (y * zi))
+    y = x * x
+    z = 1.0 - y
+    zi = z + inv_a
+    den = c + 2.0 * y
+    g = 2.0 * z / (np.sqrt(zi) * den)  # f/s
+    f = g * x
+    return f, g + f * x * (-2.0 / z + 1.0 / zi - 4.0 / den)
 
 
-def _polish_near_detachment(x, near, M1, target, gamma, x_star, tan_max, strong):
+def _polish_near_detachment(x, near, inv_a, c, target, x_star, tan_max, strong):
     """Re-solve the elements within 0.1 % of detachment in the square-root variable.
 
     There tan θ(x) ≈ tan θmax - k²(x* - x)², so Newton on tan θ itself crawls (zero
@@ -362,12 +443,12 @@ def _polish_near_detachment(x, near, M1, target, gamma, x_star, tan_max, strong)
     """
     if not np.any(near):
         return x
-    M1s, ts, gs, xs_star, tms = (np.broadcast_to(arr, x.shape)[near]
-                                 for arr in (M1, target, gamma, x_star, tan_max))
+    ias, cs, ts, xs_star, tms = (np.broadcast_to(arr, x.shape)[near]
+                                 for arr in (inv_a, c, target, x_star, tan_max))
     goal = np.sqrt(np.maximum(tms - ts, 0.0))
 
     def residual(xx):
-        f, df = _tan_deflection_and_slope(xx, M1s, gs, strong)
+        f, df = _tan_deflection_and_slope(xx, ias, cs, strong)
         root = np.sqrt(np.maximum(tms - f, 0.0))
         return root - goal, -df / (2.0 * root)
 
@@ -383,11 +464,13 @@ def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     Closed-form root of the cubic in z = (M1² sin²β - 1)/(M1² - 1)
     (:func:`_cubic_root`, whose roots stay O(1) apart as M1 → 1; a small weak
     root by deflation, :func:`_small_weak_root`; series starts near the
-    Mach wave and the normal shock) followed by one Newton step on tan θ(w)
-    (weak branch) or tan θ(M1 cos β) (strong branch),
+    Mach wave and the normal shock) followed by one Newton step on tan θ(z)
+    (weak branch) or tan θ(s), s = √(1 - z) (strong branch),
     clamped to the branch's side of the detachment point. Within 0.1 % of
     detachment (in tan θ) the root is re-solved in a square-root variable
     (:func:`_polish_near_detachment`), where Newton on tan θ itself stalls.
+    Every step is written in z and 1/(M1² - 1), so no M1² overflows: M1 up to
+    the float range and M1 = inf (the hypersonic limit) are solved too.
     Accuracy (tests/test_oblique_shocks.py, vs mpmath): a few ulp away from
     detachment; near it, within 32 ulp × |d ln β/d ln θ|, the conditioning of
     the problem, which grows like (θmax - θ)^(-1/2) (β is good to ~√ulp at
@@ -401,8 +484,39 @@ def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
 
 
 def _wave_angle_block(M1, theta, gamma, strong):
-    w, v, invalid = wv_from_deflection(M1, theta, gamma, strong)
-    return _put(wave_angle_from_wv(w, v), invalid, np.nan)
+    z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
+    beta = _put(wave_angle_from_scaled_wv(z, y, a), invalid, np.nan)
+    tiny = _tiny_hypersonic_turn(M1, theta, strong)
+    if tiny is None:
+        return beta
+    return np.where(tiny, _small_disturbance_shock(M1, theta, gamma)[0], beta)
+
+
+_HUGE_MACH = 1e150  # above this M1² may overflow
+_TINY_TURN = 1e-100  # with M1 > 1e150, θ below this is a small disturbance to 1e-200
+
+
+def _tiny_hypersonic_turn(M1, theta, strong):
+    """Mask of weak shocks with M1 > 1e150 and θ < 1e-100 (or None if there are none):
+    there z = w/(M1² - 1) underflows, and :func:`_small_disturbance_shock` is exact."""
+    if strong:
+        return None
+    with np.errstate(invalid="ignore"):
+        tiny = (M1 > _HUGE_MACH) & (theta < _TINY_TURN) & (theta > 0.0)
+    return tiny if tiny.any() else None
+
+
+def _small_disturbance_shock(M1, theta, gamma):
+    """(β, w) of a weak shock with sin β = β, tan θ = θ and 2/M1² negligible (all to
+    < 1e-200 relative when M1 > 1e150, θ < 1e-100): the θ-β-M relation (NACA Report 1135,
+    eq. 138) becomes K = 2(B² - 1)/((γ+1)B) with K = M1 θ and B = M1 β = Mn1, whose
+    positive root is B = [(γ+1)K + √((γ+1)²K² + 16)]/4, and w = B² - 1 = (γ+1)KB/2
+    (the hypersonic similarity law, here exact to rounding)."""
+    with np.errstate(invalid="ignore", over="ignore", divide="ignore"):
+        K = (gamma + 1.0) * M1 * theta  # (γ+1)K
+        B = 0.25 * (K + np.hypot(K, 4.0))
+        # β = B/M1, written so that M1 = inf gives the limit (γ+1)θ/2
+        return 0.25 * (gamma + 1.0) * theta * (1.0 + np.hypot(1.0, 4.0 / K)), 0.5 * K * B
 
 
 def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
@@ -413,7 +527,8 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     w = M1² sin²β - 1 (the normal-shock variable of
     :func:`~gasdyn2d.relations.normal_shocks.normal_shock_ratios`) and v = M1² cos²β;
     ``invalid`` marks θ < 0, θ beyond detachment or M1 < 1. Arrays must
-    already have equal shapes (γ may be a scalar).
+    already have equal shapes (γ may be a scalar). Where M1² overflows, w and v
+    do too (inf): use :func:`scaled_wv_from_deflection` there.
 
     Parameters
     ----------
@@ -439,56 +554,93 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     >>> np.degrees(wave_angle_from_wv(w, v)).round(4), invalid
     (array([39.3139]), array([False]))
     """
-    with np.errstate(invalid="ignore", divide="ignore"):
-        m2 = M1 * M1
-        a = (M1 - 1.0) * (M1 + 1.0)
-        cm = (gamma - 1.0) * m2 + 2.0
-        w_star, v_star = _detachment_wv(M1, gamma, m2, a)
+    z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
+    with np.errstate(over="ignore", invalid="ignore"):
+        return a * z, a * y, invalid
+
+
+def scaled_wv_from_deflection(M1, theta, gamma=1.4, strong=False):
+    """Plain core: (z, y, a, invalid), z = w/a, y = v/a, a = M1² - 1, of the shock that
+    turns M1 by θ [rad]: :func:`wv_from_deflection` in the scaled variables of the solve.
+
+    z = (M1² sin²β - 1)/(M1² - 1) and y = M1² cos²β/(M1² - 1) = 1 - z lie in [0, 1]
+    for every M1 > 1 (on the weak branch z is the accurate one, on the strong branch
+    y), so nothing overflows up to M1 = inf; β follows from
+    :func:`wave_angle_from_scaled_wv`, p2/p1 - 1 = 2γ a z/(γ+1).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.relations.oblique_shocks import (scaled_wv_from_deflection,
+    ...                                                wave_angle_from_scaled_wv)
+    >>> z, y, a, invalid = scaled_wv_from_deflection(np.array([1e200]), np.array([0.3]))
+    >>> np.degrees(wave_angle_from_scaled_wv(z, y, a)).round(4)  # the hypersonic limit
+    array([20.814])
+    """
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        a, inv_a, rho, c = _scales(M1, gamma)
+        z_star, y_star = _detachment_zy(M1, gamma)
         tan_theta = np.tan(theta)
-        tan_max = _tan_deflection(w_star, v_star, M1, gamma, cm)
-        at_max = tan_theta >= tan_max  # the double root: Newton would crawl, take w*, v*
+        tan_max = _tan_deflection_zy(z_star, y_star, inv_a, c)
+        at_max = tan_theta >= tan_max  # the double root: Newton would crawl, take z*, y*
         # a few ulp of θ (< π/2) above θmax is θmax; in tan θ that slack is (1 + tan²θ)
         # times larger, which matters as θmax → 90° (γ → 1 at high M1)
         slack = (0.5 * np.pi * _DETACHMENT_SLACK) * (1.0 + tan_max * tan_max)
         # tan is periodic: θ beyond π/2 must be rejected before tan θ is compared
         invalid = (theta < 0) | (theta >= 0.5 * np.pi) | (tan_theta > tan_max + slack) | (M1 < 1)
-        z = _cubic_root(tan_theta, gamma, strong, a, 1.0 / a)
+        z = _cubic_root(tan_theta, gamma, strong, inv_a)
         near = ~at_max & (tan_max - tan_theta <= _NEAR_DETACHMENT * tan_max)
         if strong:
-            c_star = np.sqrt(v_star)
-            c_cubic = np.sqrt(a * np.maximum(1.0 - z, 0.0))
-            c0 = np.clip(_strong_start(c_cubic, a, M1, tan_theta, gamma), 0.0, c_star)
-            c = _newton_strong(c0, M1, tan_theta, gamma, c_star)
-            c = _polish_near_detachment(c, near, M1, tan_theta, gamma, c_star, tan_max, True)
-            c = _put(_put(c, at_max, c_star), theta == 0.0, 0.0)
-            v = c * c
-            return a - v, v, invalid
-        else:
-            small = z < _SMALL_WEAK_ROOT
-            if small.any():
-                z = np.array(z, dtype=float, copy=True)
-                z[small] = _small_weak_root(*(np.broadcast_to(x, z.shape)[small]
-                                              for x in (tan_theta, gamma, a, 1.0 / a)))
-            w0 = np.clip(_weak_start(a * z, a, M1, tan_theta, gamma, m2), 0.0, w_star)
-            w = _newton_weak(w0, M1, tan_theta, gamma, w_star, m2, a, cm)
-            w = _polish_near_detachment(w, near, M1, tan_theta, gamma, w_star, tan_max, False)
-            w = _put(_put(w, at_max, w_star), theta == 0.0, 0.0)
-            return w, a - w, invalid
+            s_star = np.sqrt(y_star)
+            s_cubic = np.sqrt(np.maximum(1.0 - z, 0.0))
+            s0 = np.clip(_strong_start(s_cubic, rho, c, tan_theta), 0.0, s_star)
+            s = _newton_strong(s0, tan_theta, inv_a, c, s_star)
+            s = _polish_near_detachment(s, near, inv_a, c, tan_theta, s_star, tan_max, True)
+            s = _put(_put(s, at_max, s_star), theta == 0.0, 0.0)
+            y = s * s
+            return 1.0 - y, y, a, invalid
+        small = z < _SMALL_WEAK_ROOT
+        if small.any():
+            z = np.array(z, dtype=float, copy=True)
+            z[small] = _small_weak_root(*(np.broadcast_to(x, z.shape)[small]
+                                          for x in (tan_theta, gamma, inv_a)))
+        z0 = np.clip(_weak_start(z, inv_a, rho, tan_theta, gamma), 0.0, z_star)
+        z = _newton_weak(z0, tan_theta, inv_a, rho, c, z_star)
+        z = _polish_near_detachment(z, near, inv_a, c, tan_theta, z_star, tan_max, False)
+        z = _put(_put(z, at_max, z_star), theta == 0.0, 0.0)
+        return z, 1.0 - z, a, invalid
 
 
 def _shock_from_deflection(M1, theta, gamma, strong):
     """Plain core of ``oblique_shock(M1, deflection=θ)``: β and every ratio in one pass,
-    the ratios taken straight from w = Mn1² - 1 (no sin β round trip). Returns a flat
+    the ratios taken straight from z = w/a (no sin β round trip). Returns a flat
     tuple (β, *ObliqueShockRatios without the deflection) so that
     :func:`_numerics.chunked` can block it."""
-    w, v, invalid = wv_from_deflection(M1, theta, gamma, strong)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        w = _put(w, invalid, np.nan)
+    z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        z = _put(z, invalid, np.nan)
+        w, v = a * z, a * y
         Mn1 = np.sqrt(1.0 + w)
-        beta = np.arctan2(Mn1, np.sqrt(v))  # wave_angle_from_wv, reusing Mn1
+        beta = np.arctan2(Mn1, np.sqrt(v))  # wave_angle_from_scaled_wv, reusing Mn1
+        huge = np.isinf(w) | np.isinf(v)
+        if huge.any():  # M1² overflowed: Mn1 = M1 sin β, sin²β = (z + 1/a)/(1 + 1/a)
+            Mn1 = np.where(huge, M1 * np.sqrt((z + 1.0 / a) / (1.0 + 1.0 / a)), Mn1)
+            w = np.where(huge, (Mn1 - 1.0) * (Mn1 + 1.0), w)  # finite where Mn1² is
+            beta = wave_angle_from_scaled_wv(z, y, a)
+        tiny = _tiny_hypersonic_turn(M1, theta, strong)
+        if tiny is not None:
+            beta_tiny, w_tiny = _small_disturbance_shock(M1, theta, gamma)
+            beta = np.where(tiny, beta_tiny, beta)
+            w = np.where(tiny, w_tiny, w)
+            Mn1 = np.where(tiny, np.sqrt(1.0 + w), Mn1)
+            z = np.where(tiny, 0.0, z)
         ratios = normal_shock_ratios(w, gamma)
-        # the tangential velocity is conserved: M2² = Mn2² + M1² cos²β · T1/T2 (no trig)
-        M2 = np.sqrt(ratios.M2 * ratios.M2 + v / ratios.T2_T1)
+        # the tangential velocity is conserved: M2² = Mn2² + M1² cos²β · T1/T2 (no trig),
+        # with v T1/T2 = y (ρ2/ρ1)/(1/a + 2γz/(γ+1)) (divided through by a: no overflow)
+        M2 = np.sqrt(ratios.M2 * ratios.M2 + y * ratios.rho2_rho1
+                     / (1.0 / a + 2.0 * gamma / (gamma + 1.0) * z))
+        if tiny is not None:  # there M2² = M1² cos²β T1/T2 (1 + O(1/M1²)), cos β = 1
+            M2 = np.where(tiny, M1 / np.sqrt(ratios.T2_T1), M2)
     return (beta, Mn1, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
             ratios.T2_T1, ratios.p02_p01, ratios.strength)
 
@@ -514,7 +666,7 @@ def oblique_shock_ratios(M1, beta, gamma=1.4):
     (NACA Report 1135, eqs. 128-132); M2 = Mn2 / sin(β - θ).
     """
     M1, beta, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, beta, gamma)))
-    with np.errstate(invalid="ignore", divide="ignore"):
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         ms = M1 * np.sin(beta)
         w = np.maximum((ms - 1.0) * (ms + 1.0), 0.0)
         ms = np.where(ms < 1.0, np.sqrt(1.0 + w), ms)  # a Mach wave rounded below Mn1 = 1
@@ -581,8 +733,8 @@ def _refuse_unexplained_nan(failed, M1, theta, gamma):
 
 
 def _wave_angle_from_input(name, value, M1, gamma, branch, errors):
-    mu = np.arctan2(1.0, np.sqrt((M1 - 1.0) * (M1 + 1.0)))
-    with np.errstate(invalid="ignore"):
+    mu = mach_angle_of(M1)
+    with np.errstate(invalid="ignore", over="ignore"):
         if name == "wave_angle":
             value = nx.clamp_to_limit(value, mu, "lower")  # asin(1/M1) may round below μ
             value = nx.reject(value < mu, value, "wave_angle",
@@ -598,14 +750,14 @@ def _wave_angle_from_input(name, value, M1, gamma, branch, errors):
                               "between 1 and M1 (the normal Mach number of a shock)", errors,
                               limit=M1)
             w = (value - 1.0) * (value + 1.0)
-            return value, wave_angle_from_wv(w, np.maximum(a - w, 0.0))
+            return value, wave_angle_from_normal_excess(M1, w)
         p_max = 1.0 + 2.0 * gamma / (gamma + 1.0) * (M1 - 1.0) * (M1 + 1.0)
         value = nx.clamp_to_limit(value, p_max, "upper")
         value = nx.reject((value < 1.0) | (value > p_max), value, "p2_p1",
                           "between 1 and the normal-shock pressure ratio at M1", errors,
                           limit=p_max)
         w = (value - 1.0) * (gamma + 1.0) / (2.0 * gamma)  # Mn1² - 1, from eq. 93
-        return value, wave_angle_from_wv(w, np.maximum(a - w, 0.0))
+        return value, wave_angle_from_normal_excess(M1, w)
 
 
 def oblique_shock(M1, *, deflection=None, wave_angle=None, Mn1=None, p2_p1=None, branch="weak",

@@ -23,8 +23,9 @@ from .isentropic import mach_after_isentropic_pressure_change
 from .oblique_shocks import (
     deflection_from_wave_angle,
     deflection_slope_wv,
+    scaled_wv_from_deflection,
+    wave_angle_from_scaled_wv,
     wave_angle_from_wv,
-    wv_from_deflection,
 )
 
 __all__ = ["WaveState", "turn_state", "turn_for_pressure_ratio"]
@@ -94,14 +95,15 @@ def turn_state(M1, turn, gamma=1.4, strong=False):
 
 def _turn_state_block(M1, turn, gamma, strong):
     """:func:`turn_state` on one block of equal-shape arrays (γ may be a scalar)."""
-    with np.errstate(invalid="ignore", divide="ignore"):
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         is_shock = turn > 0.0
         # the shock, in the cancellation-free variables w = Mn1² - 1 and v = M1² cos²β
         theta = np.where(is_shock, turn, 0.0)
-        w, v, invalid = wv_from_deflection(M1, theta, gamma, strong)
+        z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
         detached = is_shock & invalid & (M1 >= 1.0)
-        w = np.where(invalid, np.nan, w)
-        beta = wave_angle_from_wv(w, v)
+        z = np.where(invalid, np.nan, z)
+        w, v = a * z, a * y
+        beta = wave_angle_from_scaled_wv(z, y, a)
         shock = normal_shock_ratios(w, gamma)
         shock_M2 = shock.M2 / np.sin(beta - theta)
         shock_slope = _shock_log_pressure_slope(M1, w, v, gamma, strong)
