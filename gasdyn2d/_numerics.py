@@ -477,3 +477,74 @@ def chunked(func, *arrays, size=CHUNK_SIZE):
     if not isinstance(result, tuple):
         return outputs[0]
     return type(result)(*outputs) if hasattr(result, "_fields") else tuple(outputs)
+
+
+# ----------------------------------------------------------------- scalar fast forms
+#
+# Each relation's plain core has a scalar form on the math module beside its array
+# form (same algorithm, floats in and out). The array form dispatches to it when every
+# argument is a plain number: a Python float or int, or an np.float64 (a float
+# subclass, taken as the float it is). The helpers below give the math module numpy's
+# answers where it would raise instead: NaN for a domain error, ±inf for a division
+# by zero or an overflow.
+
+_SCALAR_TYPES = frozenset((float, int, np.float64))
+NAN = math.nan
+INF = math.inf
+
+
+def plain_scalars(*args) -> bool:
+    """True when every argument is a plain float, int or np.float64 (not bool, not 0-d)."""
+    for arg in args:
+        if type(arg) not in _SCALAR_TYPES:
+            return False
+    return True
+
+
+def fsqrt(x):
+    """math.sqrt with numpy's NaN below 0."""
+    return math.sqrt(x) if x >= 0.0 else NAN
+
+
+def flog(x):
+    """math.log with numpy's -inf at 0 and NaN below."""
+    if x > 0.0:
+        return math.log(x)
+    return -INF if x == 0.0 else NAN
+
+
+def flog1p(x):
+    """math.log1p with numpy's -inf at -1 and NaN below."""
+    if x > -1.0:
+        return math.log1p(x)
+    return -INF if x == -1.0 else NAN
+
+
+def fexp(x):
+    """math.exp with numpy's inf on overflow."""
+    try:
+        return math.exp(x)
+    except OverflowError:
+        return INF
+
+
+def fexpm1(x):
+    """math.expm1 with numpy's inf on overflow."""
+    try:
+        return math.expm1(x)
+    except OverflowError:
+        return INF
+
+
+def fdiv(a, b):
+    """a / b with numpy's ±inf (or NaN for 0/0 or NaN) at b = 0."""
+    if b != 0.0:
+        return a / b
+    if a != a or a == 0.0:
+        return NAN
+    return math.copysign(INF, a) * math.copysign(1.0, b)
+
+
+def fclip(x, lower, upper):
+    """np.clip for floats (NaN stays NaN)."""
+    return lower if x < lower else (upper if x > upper else x)

@@ -9,6 +9,7 @@ Plain core (floats and ndarrays, radians, no pint): :func:`prandtl_meyer_angle`,
 from __future__ import annotations
 
 import dataclasses
+import math
 
 import numpy as np
 
@@ -42,6 +43,17 @@ def _atan_minus_x_series(x):
     return acc * x2 * x
 
 
+_SERIES_COEFFICIENTS = tuple((-1.0) ** n / (2 * n + 1) for n in range(_SERIES_TERMS, 0, -1))
+
+
+def _atan_minus_x_series_scalar(x):
+    """Scalar form of :func:`_atan_minus_x_series` (the same terms in the same order)."""
+    x2 = x * x
+    acc = 0.0
+    for coefficient in _SERIES_COEFFICIENTS:
+        acc = acc * x2 + coefficient
+    return acc * x2 * x
+
 def _nu_of_z(z, gamma):
     """ν as a function of z = sqrt(M² - 1) (plain core, radians)."""
     z = np.asarray(z, dtype=float)
@@ -60,6 +72,13 @@ def _nu_of_z(z, gamma):
     return nu
 
 
+def _nu_of_z_scalar(z, gamma):
+    """Scalar form of :func:`_nu_of_z`."""
+    sk = math.sqrt((gamma - 1.0) / (gamma + 1.0))
+    if z < _SERIES_LIMIT:
+        return _atan_minus_x_series_scalar(sk * z) / sk - _atan_minus_x_series_scalar(z)
+    return math.atan(sk * z) / sk - math.atan(z)  # NACA 1135, eq. 171
+
 def _dnu_dz(z, gamma):
     z2 = z * z
     return z2 / ((1.0 + z2) * (1.0 + 0.5 * (gamma - 1.0) * (1.0 + z2)))
@@ -67,15 +86,22 @@ def _dnu_dz(z, gamma):
 
 def max_prandtl_meyer_angle(gamma=1.4):
     """ν_max = (π/2)(√((γ+1)/(γ-1)) - 1) [rad], the turn that expands a sonic flow to vacuum."""
+    if nx.plain_scalars(gamma):
+        return _max_prandtl_meyer_angle_scalar(gamma)
     gamma = np.asarray(gamma, dtype=float)
     return 0.5 * np.pi * (np.sqrt((gamma + 1.0) / (gamma - 1.0)) - 1.0)
 
+
+def _max_prandtl_meyer_angle_scalar(gamma):
+    return 0.5 * math.pi * (nx.fsqrt(nx.fdiv(gamma + 1.0, gamma - 1.0)) - 1.0)
 
 def prandtl_meyer_angle(M, gamma=1.4):
     """Plain core: Prandtl–Meyer function ν(M) [rad] for M >= 1 (NaN below 1).
 
     Accurate to a few ulp from M = 1 (series form) to M → ∞ (ν → ν_max).
     """
+    if nx.plain_scalars(M, gamma):
+        return _prandtl_meyer_angle_scalar(M, gamma)
     M = np.asarray(M, dtype=float)
     with np.errstate(invalid="ignore"):
         huge = M > HUGE_MACH
@@ -92,6 +118,13 @@ def prandtl_meyer_angle(M, gamma=1.4):
     return np.where(infinite, max_prandtl_meyer_angle(gamma), nu)
 
 
+def _prandtl_meyer_angle_scalar(M, gamma):
+    """Scalar form of :func:`prandtl_meyer_angle`."""
+    if M == math.inf:
+        return _max_prandtl_meyer_angle_scalar(gamma)
+    z = M if M > HUGE_MACH else nx.fsqrt((M - 1.0) * (M + 1.0))
+    return _nu_of_z_scalar(z, gamma)
+
 def mach_from_prandtl_meyer_angle(nu, gamma=1.4):
     """Plain core: Mach number from ν [rad], 0 <= ν <= ν_max (NaN outside).
 
@@ -104,6 +137,8 @@ def mach_from_prandtl_meyer_angle(nu, gamma=1.4):
     moderate M and grows like M near ν_max (the problem itself amplifies the
     rounding of ν there).
     """
+    if nx.plain_scalars(nu, gamma):
+        return _mach_from_prandtl_meyer_angle_scalar(nu, gamma)
     nu = np.asarray(nu, dtype=float)
     gamma = np.asarray(gamma, dtype=float)
     k = (gamma - 1.0) / (gamma + 1.0)
@@ -129,6 +164,30 @@ def mach_from_prandtl_meyer_angle(nu, gamma=1.4):
     return np.where(bad, np.nan, M)
 
 
+def _mach_from_prandtl_meyer_angle_scalar(nu, gamma):
+    """Scalar form of :func:`mach_from_prandtl_meyer_angle` (the same start and steps)."""
+    k = (gamma - 1.0) / (gamma + 1.0)
+    nu_max = _max_prandtl_meyer_angle_scalar(gamma)
+    if not (0.0 <= nu <= nu_max):
+        return math.nan
+    if nu == 0.0:
+        return 1.0
+    if nu == nu_max:
+        return math.inf
+    z = (3.0 * nu / (1.0 - k)) ** (1.0 / 3.0) + (1.0 / k - 1.0) * (
+        1.0 / (nu_max - nu) - 1.0 / nu_max
+    )
+    log_z = math.log(z)
+    h = 0.5 * (gamma - 1.0)
+    for _ in range(_HALLEY_STEPS):
+        z = nx.fexp(log_z)
+        z2 = z * z
+        slope = z * (z2 / ((1.0 + z2) * (1.0 + h * (1.0 + z2))))  # z dν/dz, _dnu_dz
+        curvature = 3.0 - 2.0 * z2 / (1.0 + z2) - 2.0 * h * z2 / (1.0 + h + h * z2)
+        newton = nx.fdiv(_nu_of_z_scalar(z, gamma) - nu, slope)
+        log_z = log_z - nx.fdiv(newton, 1.0 - 0.5 * newton * curvature)
+    return math.hypot(1.0, nx.fexp(log_z))
+
 def fan_pressure_ratio(M1, M2, gamma=1.4):
     """Plain core: p2/p1 across an isentropic turn from M1 to M2.
 
@@ -137,6 +196,8 @@ def fan_pressure_ratio(M1, M2, gamma=1.4):
     ratio is taken as 2 ln(M1/M2) + ln((h + 1/M1²)/(h + 1/M2²)), h = (γ-1)/2, which
     neither cancels nor overflows (up to M = inf); M1 = M2 (no turn) gives 1.
     """
+    if nx.plain_scalars(M1, M2, gamma):
+        return _fan_pressure_ratio_scalar(M1, M2, gamma)
     M1 = np.asarray(M1, dtype=float)
     M2 = np.asarray(M2, dtype=float)
     gamma = np.asarray(gamma, dtype=float)
@@ -150,6 +211,18 @@ def fan_pressure_ratio(M1, M2, gamma=1.4):
         ratio = np.exp(gamma / (gamma - 1.0) * np.where(big, far, near))
         return np.where(M1 == M2, 1.0, ratio)
 
+
+def _fan_pressure_ratio_scalar(M1, M2, gamma):
+    """Scalar form of :func:`fan_pressure_ratio`."""
+    h = 0.5 * (gamma - 1.0)
+    exponent = nx.fdiv(gamma, gamma - 1.0)
+    if M1 > _LARGE_FAN_MACH or M2 > _LARGE_FAN_MACH:
+        if M1 == M2:
+            return 1.0
+        far = (2.0 * nx.flog(nx.fdiv(M1, M2))
+               + nx.flog(nx.fdiv(h + nx.fdiv(1.0, M1 * M1), h + nx.fdiv(1.0, M2 * M2))))
+        return nx.fexp(exponent * far)
+    return nx.fexp(exponent * (nx.flog1p(h * M1 * M1) - nx.flog1p(h * M2 * M2)))
 
 # ------------------------------------------------------------------ unit boundary
 

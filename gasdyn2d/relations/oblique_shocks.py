@@ -22,6 +22,7 @@ w + v = M1² - 1.
 from __future__ import annotations
 
 import dataclasses
+import math
 from typing import NamedTuple
 
 import numpy as np
@@ -80,11 +81,21 @@ def _scales(M1, gamma):
     return a, inv_a, rho, (gamma - 1.0) * rho + 2.0 * inv_a
 
 
+def _scales_scalar(M1, gamma):
+    """Scalar form of :func:`_scales`."""
+    a = (M1 - 1.0) * (M1 + 1.0)
+    inv_a = nx.fdiv(1.0, a)
+    rho = 1.0 + inv_a
+    return a, inv_a, rho, (gamma - 1.0) * rho + 2.0 * inv_a
+
 def _tan_deflection_zy(z, y, inv_a, c):
     """tan θ = 2z √(y/(z + 1/a)) / (c + 2y): :func:`_tan_deflection` with w = a z,
     v = a y divided through by a (no M1², no overflow)."""
     return 2.0 * z * np.sqrt(y / (z + inv_a)) / (c + 2.0 * y)
 
+
+def _tan_deflection_zy_scalar(z, y, inv_a, c):
+    return 2.0 * z * nx.fsqrt(nx.fdiv(y, z + inv_a)) / (c + 2.0 * y)
 
 def wave_angle_from_scaled_wv(z, y, a):
     """Plain core: β [rad] from z = w/a, y = v/a and a = M1² - 1 (see
@@ -100,6 +111,8 @@ def wave_angle_from_scaled_wv(z, y, a):
     >>> round(float(np.degrees(wave_angle_from_scaled_wv(0.0, 1.0, 3.0))), 12)  # M1 = 2: μ
     30.0
     """
+    if nx.plain_scalars(z, y, a):
+        return _wave_angle_from_scaled_wv_scalar(z, y, a)
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
         w, v = a * z, a * y
         beta = np.arctan2(np.sqrt(1.0 + w), np.sqrt(v))
@@ -108,6 +121,12 @@ def wave_angle_from_scaled_wv(z, y, a):
             return beta
         return np.where(huge, np.arctan2(np.sqrt(z + 1.0 / a), np.sqrt(y)), beta)
 
+
+def _wave_angle_from_scaled_wv_scalar(z, y, a):
+    w, v = a * z, a * y
+    if math.isinf(w) or math.isinf(v):
+        return math.atan2(nx.fsqrt(z + nx.fdiv(1.0, a)), nx.fsqrt(y))
+    return math.atan2(nx.fsqrt(1.0 + w), nx.fsqrt(v))
 
 def wave_angle_from_wv(w, v):
     """Plain core: β = atan2(√(1+w), √v) [rad] from w = M1² sin²β - 1 and v = M1² cos²β,
@@ -130,8 +149,13 @@ def wave_angle_from_wv(w, v):
     >>> round(float(np.degrees(wave_angle_from_wv(0.0, 3.0))), 12)  # M1 = 2 Mach wave: μ = 30°
     30.0
     """
+    if nx.plain_scalars(w, v):
+        return _wave_angle_from_wv_scalar(w, v)
     return np.arctan2(np.sqrt(1.0 + w), np.sqrt(v))
 
+
+def _wave_angle_from_wv_scalar(w, v):
+    return math.atan2(nx.fsqrt(1.0 + w), nx.fsqrt(v))
 
 def wave_angle_from_normal_excess(M1, w):
     """Plain core: β [rad] of the shock with Mn1² - 1 = w in a stream M1, for 0 <= w <= M1² - 1.
@@ -145,6 +169,8 @@ def wave_angle_from_normal_excess(M1, w):
     >>> float(wave_angle_from_normal_excess(1e200, 8.0))  # Mn1 = 3: sin β = 3e-200
     3e-200
     """
+    if nx.plain_scalars(M1, w):
+        return _wave_angle_from_normal_excess_scalar(M1, w)
     M1 = np.asarray(M1, dtype=float)
     w = np.asarray(w, dtype=float)
     with np.errstate(over="ignore", invalid="ignore"):
@@ -157,6 +183,14 @@ def wave_angle_from_normal_excess(M1, w):
         return np.where(huge, np.arctan2(r, np.sqrt((1.0 - r) * (1.0 + r))), beta)
 
 
+def _wave_angle_from_normal_excess_scalar(M1, w):
+    a = (M1 - 1.0) * (M1 + 1.0)
+    if math.isinf(a) and not math.isinf(M1):
+        r = nx.fsqrt(1.0 + w) / M1
+        return math.atan2(r, nx.fsqrt((1.0 - r) * (1.0 + r)))
+    v = a - w
+    return _wave_angle_from_wv_scalar(w, v if v > 0.0 or v != v else 0.0)
+
 def deflection_from_wave_angle(M1, beta, gamma=1.4):
     """Plain core: flow deflection θ [rad] behind a shock of wave angle β [rad].
 
@@ -166,6 +200,8 @@ def deflection_from_wave_angle(M1, beta, gamma=1.4):
     and no M1² to overflow. Valid for μ <= β <= π/2; NaN outside. A wave angle a
     few ulp below μ (``asin(1/M1)`` rounded down) counts as the Mach wave, θ = 0.
     """
+    if nx.plain_scalars(M1, beta, gamma):
+        return _deflection_from_wave_angle_scalar(M1, beta, gamma)
     M1 = np.asarray(M1, dtype=float)
     beta = np.asarray(beta, dtype=float)
     with np.errstate(invalid="ignore", over="ignore"):
@@ -181,6 +217,25 @@ def deflection_from_wave_angle(M1, beta, gamma=1.4):
             (gamma - 1.0) + 2.0 * inv_m2 + 2.0 * cb * cb)
         return np.where(below_mach_wave | (cb < 0), np.nan, np.arctan(tan_theta))
 
+
+def _deflection_from_wave_angle_scalar(M1, beta, gamma):
+    """Scalar form of :func:`deflection_from_wave_angle`."""
+    if not math.isfinite(beta):
+        return math.nan
+    ms = M1 * math.sin(beta)
+    if (ms - 1.0) * (ms + 1.0) < -_MACH_WAVE_SLACK:
+        return math.nan
+    cb = math.cos(beta)
+    if cb < 0:
+        return math.nan
+    inv_m = nx.fdiv(1.0, M1)
+    w_m2 = ((ms - 1.0) * inv_m) * ((ms + 1.0) * inv_m)
+    w_m2 = w_m2 if w_m2 > 0.0 or w_m2 != w_m2 else 0.0
+    if M1 == math.inf:
+        w_m2 = math.sin(beta) ** 2
+    inv_m2 = inv_m * inv_m
+    return math.atan(nx.fdiv(2.0 * w_m2 * cb, nx.fsqrt(inv_m2 + w_m2))
+                     / ((gamma - 1.0) + 2.0 * inv_m2 + 2.0 * cb * cb))
 
 def _cubic_root(tan_theta, gamma, strong, inv_a):
     """Middle (weak) or largest (strong) real root z = w/(M1² - 1) of the θ-β-M cubic.
@@ -259,6 +314,45 @@ def _positive_quadratic_root(A, B, C):
         return np.fmax(-0.5 * sign * X / A, -2.0 * C * sign / X)  # fmax: 0/0 when C = B = 0
 
 
+def _cubic_coefficients_scalar(tan_theta, gamma, inv_a):
+    s2 = tan_theta * tan_theta / (1.0 + tan_theta * tan_theta)
+    rho = 1.0 + inv_a
+    gp = gamma + 1.0
+    return (-(1.0 + gamma * rho * s2) / 3.0, gp * rho * (0.25 * gp * rho - inv_a) * s2,
+            0.25 * gp * gp * rho * rho * s2 * inv_a)
+
+
+def _trigonometric_root_scalar(b3, Q, R, strong):
+    """Scalar form of :func:`_trigonometric_root` (the same half-angle tangent form)."""
+    r2 = max(b3 * b3 - Q / 3.0, 0.0)
+    r = math.sqrt(r2)
+    q = 2.0 * b3 * b3 * b3 - b3 * Q + R
+    cos_arg = nx.fclip(nx.fdiv(-0.5 * q, r2 * r), -1.0, 1.0)
+    phi = math.acos(cos_arg) / 3.0 if cos_arg == cos_arg else math.nan
+    t = math.tan(0.5 * phi if strong else 0.5 * phi - math.pi / 3.0)
+    t2 = t * t
+    return 2.0 * r * (1.0 - t2) / (1.0 + t2) - b3
+
+
+def _positive_quadratic_root_scalar(A, B, C):
+    X = math.hypot(B, 2.0 * nx.fsqrt(-A * C)) + abs(B)
+    sign = math.copysign(1.0, B)
+    first, second = nx.fdiv(-0.5 * sign * X, A), nx.fdiv(-2.0 * C * sign, X)
+    if first != first:
+        return second
+    return first if second != second or first > second else second
+
+
+def _weak_root_scalar(tan_theta, gamma, inv_a):
+    """The weak root z of the cubic (:func:`_cubic_root`, :func:`_small_weak_root`)."""
+    b3, Q, R = _cubic_coefficients_scalar(tan_theta, gamma, inv_a)
+    z = _trigonometric_root_scalar(b3, Q, R, False)
+    if not z < _SMALL_WEAK_ROOT:
+        return z
+    z_strong = _trigonometric_root_scalar(b3, Q, R, True)
+    z0 = _positive_quadratic_root_scalar(1.0, 3.0 * b3 + z_strong, nx.fdiv(-R, z_strong))
+    return _positive_quadratic_root_scalar(3.0 * b3 + z0, Q, R)
+
 def detachment_angles(M1, gamma=1.4):
     """Plain core: (θmax, β at θmax) [rad] for M1 >= 1, in closed form.
 
@@ -268,12 +362,20 @@ def detachment_angles(M1, gamma=1.4):
     by M², which is free of cancellation as M → 1 and of overflow as M → ∞
     (θmax → asin(1/γ) there).
     """
+    if nx.plain_scalars(M1, gamma):
+        return _detachment_angles_scalar(M1, gamma)
     M1 = np.asarray(M1, dtype=float)
     a, inv_a, rho, c = _scales(M1, gamma)
     z, y = _detachment_zy(M1, gamma)
     with np.errstate(invalid="ignore"):
         return (np.arctan(_tan_deflection_zy(z, y, inv_a, c)), wave_angle_from_scaled_wv(z, y, a))
 
+
+def _detachment_angles_scalar(M1, gamma):
+    a, inv_a, rho, c = _scales_scalar(M1, gamma)
+    z, y = _detachment_zy_scalar(M1, gamma)
+    return (math.atan(_tan_deflection_zy_scalar(z, y, inv_a, c)),
+            _wave_angle_from_scaled_wv_scalar(z, y, a))
 
 def sonic_angles(M1, gamma=1.4):
     """Plain core: (θ, β) [rad] where the flow behind the shock is exactly sonic.
@@ -282,6 +384,8 @@ def sonic_angles(M1, gamma=1.4):
     (NACA Report 1135, eq. 167), in the same cancellation- and overflow-free form as
     :func:`detachment_angles` with P = (3γ-1)/4 + (3-γ)/(4M²).
     """
+    if nx.plain_scalars(M1, gamma):
+        return _sonic_angles_scalar(M1, gamma)
     M1 = np.asarray(M1, dtype=float)
     inv_m2 = _inverse_square(M1)
     big = (gamma + 1.0) * ((9.0 + gamma) / 16.0 * inv_m2 * inv_m2
@@ -292,6 +396,16 @@ def sonic_angles(M1, gamma=1.4):
     with np.errstate(invalid="ignore"):
         return (np.arctan(_tan_deflection_zy(z, y, inv_a, c)), wave_angle_from_scaled_wv(z, y, a))
 
+
+def _sonic_angles_scalar(M1, gamma):
+    inv_m2 = nx.fdiv(1.0, M1 * M1)
+    big = (gamma + 1.0) * ((9.0 + gamma) / 16.0 * inv_m2 * inv_m2
+                           - (3.0 - gamma) / 8.0 * inv_m2 + (gamma + 1.0) / 16.0)
+    z, y = _zy_from_roots(gamma, inv_m2, 0.25 * (3.0 * gamma - 1.0)
+                          + 0.25 * (3.0 - gamma) * inv_m2, nx.fsqrt(big))
+    a, inv_a, rho, c = _scales_scalar(M1, gamma)
+    return (math.atan(_tan_deflection_zy_scalar(z, y, inv_a, c)),
+            _wave_angle_from_scaled_wv_scalar(z, y, a))
 
 def _inverse_square(M1):
     """1/M1², 0 (no overflow warning) where M1² overflows."""
@@ -305,6 +419,11 @@ def _detachment_zy(M1, gamma, inv_m2=None):
     big = (gamma + 1.0) * ((gamma + 1.0) / 16.0 + (0.5 * (gamma - 1.0) + inv_m2) * inv_m2)
     return _zy_from_roots(gamma, inv_m2, 0.25 * (3.0 * gamma - 1.0) + inv_m2, np.sqrt(big))
 
+
+def _detachment_zy_scalar(M1, gamma):
+    inv_m2 = nx.fdiv(1.0, M1 * M1)
+    big = (gamma + 1.0) * ((gamma + 1.0) / 16.0 + (0.5 * (gamma - 1.0) + inv_m2) * inv_m2)
+    return _zy_from_roots(gamma, inv_m2, 0.25 * (3.0 * gamma - 1.0) + inv_m2, nx.fsqrt(big))
 
 def _zy_from_roots(gamma, inv_m2, P, S):
     y = ((gamma - 1.0) + 2.0 * inv_m2) / (2.0 * (P + S))
@@ -373,6 +492,30 @@ def _newton_strong(s, target, inv_a, c, s_star):
     return s
 
 
+def _newton_weak_scalar(z, target, inv_a, rho, c, z_star):
+    for _ in range(_NEWTON_STEPS):
+        zi = z + inv_a
+        y = 1.0 - z
+        inv_den = 1.0 / (c + 2.0 * y)
+        q = 2.0 * nx.fsqrt(nx.fdiv(y, zi)) * inv_den
+        f = z * q
+        df = q + f * (2.0 * inv_den - nx.fdiv(0.5 * rho, y * zi))
+        z = nx.fclip(z - nx.fdiv(f - target, df), 0.0, z_star)
+    return z
+
+
+def _newton_strong_scalar(s, target, inv_a, c, s_star):
+    for _ in range(_NEWTON_STEPS):
+        y = s * s
+        z = 1.0 - y
+        zi = z + inv_a
+        den = c + 2.0 * y
+        g = nx.fdiv(2.0 * z, math.sqrt(zi) * den)
+        f = g * s
+        df = g + f * s * (nx.fdiv(-2.0, z) + nx.fdiv(1.0, zi) - 4.0 / den)
+        s = nx.fclip(s - nx.fdiv(f - target, df), 0.0, s_star)
+    return s
+
 def deflection_slope_wv(w, v, M1, gamma=1.4):
     """Plain core: (tan θ, d tan θ/dw) along the shock polar at w = M1² sin²β - 1, v = M1² cos²β.
 
@@ -401,12 +544,22 @@ def deflection_slope_wv(w, v, M1, gamma=1.4):
     >>> float(tan_theta), round(float(slope), 6)  # slope 2√(M1²-1)/((γ+1)M1²)
     (0.0, 0.360844)
     """
+    if nx.plain_scalars(w, v, M1, gamma):
+        return _deflection_slope_wv_scalar(w, v, M1, gamma)
     one_w = 1.0 + w
     r = np.sqrt(v / one_w)
     den = (gamma - 1.0) * M1 * M1 + 2.0 + 2.0 * v
     dr = -(M1 * M1) / (2.0 * r * one_w * one_w)
     return 2.0 * w * r / den, 2.0 * ((r + w * dr) * den + 2.0 * w * r) / (den * den)
 
+
+def _deflection_slope_wv_scalar(w, v, M1, gamma):
+    one_w = 1.0 + w
+    r = nx.fsqrt(nx.fdiv(v, one_w))
+    den = (gamma - 1.0) * M1 * M1 + 2.0 + 2.0 * v
+    dr = nx.fdiv(-(M1 * M1), 2.0 * r * one_w * one_w)
+    return (nx.fdiv(2.0 * w * r, den),
+            nx.fdiv(2.0 * ((r + w * dr) * den + 2.0 * w * r), den * den))
 
 def _tan_deflection_and_slope(x, inv_a, c, strong):
     """tan θ and d tan θ/dx along the polar, x = z = w/a (weak branch) or s = √(v/a) (strong).
@@ -479,9 +632,20 @@ def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     M1 - 1 = 1e-12 (tested on both branches, 1.05 <= γ <= 1.67). Returns NaN for
     θ < 0, θ > θmax or M1 < 1.
     """
+    if nx.plain_scalars(M1, theta, gamma):
+        return _wave_angle_from_deflection_scalar(M1, theta, gamma, strong)
     M1, theta, gamma = nx.broadcast_cases(gamma, M1, theta)
     return nx.chunked(lambda m, t, g: _wave_angle_block(m, t, g, strong), M1, theta, gamma)
 
+
+def _wave_angle_from_deflection_scalar(M1, theta, gamma, strong):
+    """Scalar form of :func:`wave_angle_from_deflection`."""
+    z, y, a, invalid = _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong)
+    if invalid:
+        return math.nan
+    if not strong and M1 > _HUGE_MACH and 0.0 < theta < _TINY_TURN:
+        return _small_disturbance_shock_scalar(M1, theta, gamma)[0]
+    return _wave_angle_from_scaled_wv_scalar(z, y, a)
 
 def _wave_angle_block(M1, theta, gamma, strong):
     z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
@@ -519,6 +683,11 @@ def _small_disturbance_shock(M1, theta, gamma):
         return 0.25 * (gamma + 1.0) * theta * (1.0 + np.hypot(1.0, 4.0 / K)), 0.5 * K * B
 
 
+def _small_disturbance_shock_scalar(M1, theta, gamma):
+    K = (gamma + 1.0) * M1 * theta
+    B = 0.25 * (K + math.hypot(K, 4.0))
+    return 0.25 * (gamma + 1.0) * theta * (1.0 + math.hypot(1.0, nx.fdiv(4.0, K))), 0.5 * K * B
+
 def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     """Plain core: (w, v, invalid) of the shock that turns M1 by θ [rad].
 
@@ -554,10 +723,16 @@ def wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     >>> np.degrees(wave_angle_from_wv(w, v)).round(4), invalid
     (array([39.3139]), array([False]))
     """
+    if nx.plain_scalars(M1, theta, gamma):
+        return _wv_from_deflection_scalar(M1, theta, gamma, strong)
     z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
     with np.errstate(over="ignore", invalid="ignore"):
         return a * z, a * y, invalid
 
+
+def _wv_from_deflection_scalar(M1, theta, gamma, strong):
+    z, y, a, invalid = _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong)
+    return a * z, a * y, invalid
 
 def scaled_wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     """Plain core: (z, y, a, invalid), z = w/a, y = v/a, a = M1² - 1, of the shock that
@@ -577,6 +752,8 @@ def scaled_wv_from_deflection(M1, theta, gamma=1.4, strong=False):
     >>> np.degrees(wave_angle_from_scaled_wv(z, y, a)).round(4)  # the hypersonic limit
     array([20.814])
     """
+    if nx.plain_scalars(M1, theta, gamma):
+        return _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong)
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         a, inv_a, rho, c = _scales(M1, gamma)
         z_star, y_star = _detachment_zy(M1, gamma)
@@ -611,11 +788,60 @@ def scaled_wv_from_deflection(M1, theta, gamma=1.4, strong=False):
         return z, 1.0 - z, a, invalid
 
 
+def _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong):
+    """Scalar form of :func:`scaled_wv_from_deflection`: the same cubic, starts, Newton
+    step and clamps; the (rare) near-detachment polish runs on the array form."""
+    a, inv_a, rho, c = _scales_scalar(M1, gamma)
+    if theta < 0.0 or theta >= 0.5 * math.pi or M1 < 1.0:
+        return math.nan, math.nan, a, True
+    z_star, y_star = _detachment_zy_scalar(M1, gamma)
+    tan_theta = math.tan(theta) if theta == theta else math.nan
+    tan_max = _tan_deflection_zy_scalar(z_star, y_star, inv_a, c)
+    slack = (0.5 * math.pi * _DETACHMENT_SLACK) * (1.0 + tan_max * tan_max)
+    if tan_theta > tan_max + slack:
+        return math.nan, math.nan, a, True
+    if theta == 0.0:
+        return (1.0, 0.0, a, False) if strong else (0.0, 1.0, a, False)
+    at_max = tan_theta >= tan_max
+    near = not at_max and tan_max - tan_theta <= _NEAR_DETACHMENT * tan_max
+    if strong:
+        s_star = nx.fsqrt(y_star)
+        if at_max:
+            s = s_star
+        else:
+            b3, Q, R = _cubic_coefficients_scalar(tan_theta, gamma, inv_a)
+            z = _trigonometric_root_scalar(b3, Q, R, True)
+            s = nx.fsqrt(max(1.0 - z, 0.0) if z == z else z)
+            s_series = 0.5 * tan_theta * math.sqrt(rho) * c  # _strong_start
+            dy2 = (0.5 / rho - 1.0 - nx.fdiv(2.0, c)) * s_series * s_series
+            if abs(dy2) < _SERIES_START:
+                s = s_series * (1.0 - dy2)
+            s = _newton_strong_scalar(nx.fclip(s, 0.0, s_star), tan_theta, inv_a, c, s_star)
+            if near:
+                s = float(_polish_near_detachment(np.array([s]), np.array([True]), inv_a, c,
+                                                  tan_theta, s_star, tan_max, True)[0])
+        y = s * s
+        return 1.0 - y, y, a, False
+    if at_max:
+        return z_star, 1.0 - z_star, a, False
+    z = _weak_root_scalar(tan_theta, gamma, inv_a)
+    z_series = 0.5 * tan_theta * (gamma + 1.0) * rho * math.sqrt(inv_a)  # _weak_start
+    cy = (2.0 / ((gamma + 1.0) * rho) - nx.fdiv(0.5 * rho, inv_a)) * z_series
+    if abs(cy) < _SERIES_START:
+        z = z_series * (1.0 - cy + 2.0 * cy * cy)
+    z = _newton_weak_scalar(nx.fclip(z, 0.0, z_star), tan_theta, inv_a, rho, c, z_star)
+    if near:
+        z = float(_polish_near_detachment(np.array([z]), np.array([True]), inv_a, c, tan_theta,
+                                          z_star, tan_max, False)[0])
+    return z, 1.0 - z, a, False
+
 def _shock_from_deflection(M1, theta, gamma, strong):
     """Plain core of ``oblique_shock(M1, deflection=θ)``: β and every ratio in one pass,
     the ratios taken straight from z = w/a (no sin β round trip). Returns a flat
     tuple (β, *ObliqueShockRatios without the deflection) so that
     :func:`_numerics.chunked` can block it."""
+    if nx.plain_scalars(M1, theta, gamma):
+        return _shock_from_deflection_scalar(M1, theta, gamma, strong)
     z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         z = _put(z, invalid, np.nan)
@@ -645,6 +871,32 @@ def _shock_from_deflection(M1, theta, gamma, strong):
             ratios.T2_T1, ratios.p02_p01, ratios.strength)
 
 
+def _shock_from_deflection_scalar(M1, theta, gamma, strong):
+    """Scalar form of :func:`_shock_from_deflection` (a flat tuple of floats)."""
+    z, y, a, invalid = _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong)
+    if invalid:
+        z = math.nan
+    w, v = a * z, a * y
+    Mn1 = nx.fsqrt(1.0 + w)
+    beta = math.atan2(Mn1, nx.fsqrt(v))
+    if math.isinf(w) or math.isinf(v):
+        inv_a = nx.fdiv(1.0, a)
+        Mn1 = M1 * nx.fsqrt((z + inv_a) / (1.0 + inv_a))
+        w = (Mn1 - 1.0) * (Mn1 + 1.0)
+        beta = _wave_angle_from_scaled_wv_scalar(z, y, a)
+    tiny = not strong and M1 > _HUGE_MACH and 0.0 < theta < _TINY_TURN
+    if tiny:
+        beta, w = _small_disturbance_shock_scalar(M1, theta, gamma)
+        Mn1 = nx.fsqrt(1.0 + w)
+        z = 0.0
+    ratios = normal_shock_ratios(w, gamma)
+    M2 = nx.fsqrt(ratios.M2 * ratios.M2 + nx.fdiv(y * ratios.rho2_rho1, nx.fdiv(1.0, a)
+                                                   + 2.0 * gamma / (gamma + 1.0) * z))
+    if tiny:
+        M2 = M1 / math.sqrt(ratios.T2_T1)
+    return (beta, Mn1, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
+            ratios.T2_T1, ratios.p02_p01, ratios.strength)
+
 class ObliqueShockRatios(NamedTuple):
     """Plain-core result of :func:`oblique_shock_ratios` (ndarrays; angles in radians)."""
 
@@ -665,6 +917,8 @@ def oblique_shock_ratios(M1, beta, gamma=1.4):
     The normal component obeys the normal-shock relations with Mn1 = M1 sin β
     (NACA Report 1135, eqs. 128-132); M2 = Mn2 / sin(β - θ).
     """
+    if nx.plain_scalars(M1, beta, gamma):
+        return _oblique_shock_ratios_scalar(M1, beta, gamma)
     M1, beta, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, beta, gamma)))
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         ms = M1 * np.sin(beta)
@@ -676,6 +930,19 @@ def oblique_shock_ratios(M1, beta, gamma=1.4):
     return ObliqueShockRatios(theta, ms, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
                               ratios.T2_T1, ratios.p02_p01, ratios.strength)
 
+
+def _oblique_shock_ratios_scalar(M1, beta, gamma):
+    """Scalar form of :func:`oblique_shock_ratios` (an ObliqueShockRatios of floats)."""
+    ms = M1 * math.sin(beta) if math.isfinite(beta) else math.nan
+    w = (ms - 1.0) * (ms + 1.0)
+    w = w if w > 0.0 or w != w else 0.0
+    if ms < 1.0:
+        ms = nx.fsqrt(1.0 + w)
+    theta = _deflection_from_wave_angle_scalar(M1, beta, gamma)
+    ratios = normal_shock_ratios(w, gamma)
+    M2 = nx.fdiv(ratios.M2, math.sin(beta - theta)) if theta == theta else math.nan
+    return ObliqueShockRatios(theta, ms, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
+                              ratios.T2_T1, ratios.p02_p01, ratios.strength)
 
 # ------------------------------------------------------------------ unit boundary
 

@@ -12,6 +12,7 @@ Everything here is plain numpy: floats or ndarrays in radians, no pint.
 
 from __future__ import annotations
 
+import math
 from typing import NamedTuple
 
 import numpy as np
@@ -88,6 +89,8 @@ def turn_state(M1, turn, gamma=1.4, strong=False):
     >>> np.round(state.p2_p1, 5)
     array([1.70658, 0.54797])
     """
+    if nx.plain_scalars(M1, turn, gamma):
+        return _turn_state_scalar(M1, turn, gamma, strong)
     M1, turn, gamma = nx.broadcast_cases(gamma, M1, turn)
     return WaveState(*nx.chunked(lambda m, t, g: _turn_state_block(m, t, g, strong),
                                  M1, turn, gamma))
@@ -125,6 +128,53 @@ def _turn_state_block(M1, turn, gamma, strong):
                 pick(shock_slope, fan_slope), detached, vacuum)
 
 
+def _turn_state_scalar(M1, turn, gamma, strong):
+    """Scalar form of :func:`turn_state`: the same steps, for the one wave the sign of the
+    turn picks (a WaveState of floats). A division by zero or a domain error on the math
+    module (numpy would give ±inf or NaN there and carry on) hands the case to the array
+    form, so both forms agree everywhere."""
+    try:
+        if turn > 0.0:
+            return _shock_state_scalar(M1, turn, gamma, strong)
+        return _fan_state_scalar(M1, turn, gamma)
+    except (ZeroDivisionError, ValueError, OverflowError):
+        state = turn_state(np.array([M1], dtype=float), np.array([turn], dtype=float), gamma,
+                           strong)
+        return WaveState(*(field[0].item() for field in state))
+
+
+def _shock_state_scalar(M1, theta, gamma, strong):
+    z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
+    if invalid:
+        z = math.nan
+    w, v = a * z, a * y
+    beta = wave_angle_from_scaled_wv(z, y, a)
+    shock = normal_shock_ratios(w, gamma)
+    f, df = deflection_slope_wv(w, v, M1, gamma)
+    dtheta_dw = abs(df) / (1.0 + f * f) * (-1.0 if strong else 1.0)  # _shock_log_pressure_slope
+    p = 1.0 + 2.0 * gamma / (gamma + 1.0) * w
+    slope = 2.0 * gamma / (gamma + 1.0) / p / dtheta_dw
+    return WaveState(shock.M2 / math.sin(beta - theta), shock.p2_p1, shock.T2_T1,
+                     shock.p02_p01, beta, True, slope, invalid and M1 >= 1.0, False)
+
+
+def _fan_state_scalar(M1, turn, gamma):
+    nu2 = prandtl_meyer_angle(M1, gamma) - turn
+    M_fan = mach_from_prandtl_meyer_angle(nu2, gamma)
+    if turn == 0.0:
+        M_fan = M1
+    elif M_fan == M_fan and M1 == M1:
+        M_fan = max(M_fan, M1)
+    elif M1 != M1:
+        M_fan = math.nan
+    vacuum = M_fan != M_fan and math.isfinite(turn) and math.isfinite(M1)
+    h = 0.5 * (gamma - 1.0)
+    T_fan = (1.0 + h * M1 * M1) / (1.0 + h * M_fan * M_fan)
+    slope = math.inf if M_fan == 1.0 else (
+        gamma * M_fan * M_fan / nx.fsqrt((M_fan - 1.0) * (M_fan + 1.0)))
+    return WaveState(M_fan, fan_pressure_ratio(M1, M_fan, gamma), T_fan, 1.0 + 0.0 * M1,
+                     math.nan, False, slope, False, vacuum)
+
 def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
     """Signed turn [rad] of the single wave that takes a stream M1 to pressure ratio p2/p1.
 
@@ -139,6 +189,8 @@ def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
     >>> np.round(np.degrees(turn_for_pressure_ratio(2.0, [1.70658, 0.54797])), 3)
     array([ 10., -10.])
     """
+    if nx.plain_scalars(M1, p2_p1, gamma):
+        return _turn_for_pressure_ratio_scalar(M1, p2_p1, gamma)
     M1, p, gamma = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (M1, p2_p1, gamma)))
     with np.errstate(invalid="ignore", divide="ignore"):
         # the pressure fixes the normal Mach number, w = Mn1² - 1 (NACA Report 1135, eq. 93)
@@ -150,3 +202,13 @@ def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
         return np.where(p >= 1.0, theta, fan)
 
 
+
+
+
+def _turn_for_pressure_ratio_scalar(M1, p, gamma):
+    w = (p - 1.0) * (gamma + 1.0) / (2.0 * gamma)
+    if p >= 1.0:
+        beta = wave_angle_from_wv(w, (M1 - 1.0) * (M1 + 1.0) - w)
+        return deflection_from_wave_angle(M1, beta, gamma)
+    M2 = mach_after_isentropic_pressure_change(M1, p, gamma)
+    return prandtl_meyer_angle(M1, gamma) - prandtl_meyer_angle(M2, gamma)
