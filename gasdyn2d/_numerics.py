@@ -412,6 +412,52 @@ def safeguarded_newton(func, x0, lower, upper, *, max_iter=60, rtol=None, atol=0
     return x_out.reshape(shape)
 
 
+def _sign(value):
+    """np.sign for a float (NaN stays NaN)."""
+    return NAN if value != value else float((value > 0.0) - (value < 0.0))
+
+
+def safeguarded_newton_scalar(func, x0, lower, upper, *, max_iter=60, rtol=None, atol=0.0,
+                              increasing=None):
+    """Scalar form of :func:`safeguarded_newton` (floats; the same steps and stops)."""
+    rtol = NEWTON_ULPS * _EPS if rtol is None else rtol
+    lo, hi = float(lower), float(upper)
+    if increasing is None:
+        sign_lo = _sign(func(lo)[0])
+    else:
+        sign_lo = -1.0 if increasing else 1.0
+    x = x_out = float(x0)
+    if not math.isfinite(x):
+        return x
+    best_f = INF
+    small_step = False
+    for _ in range(max_iter):
+        f, df = func(x)
+        abs_f = abs(f)
+        stalled = small_step and not abs_f < best_f
+        if abs_f < best_f:
+            x_out, best_f = x, abs_f
+        if _sign(f) == sign_lo:
+            lo = x
+        else:
+            hi = x
+        newton = fdiv(f, df)
+        x_new = x - newton
+        scale = max(abs(x), _TINY)
+        finite_df = math.isfinite(df)
+        tiny_step = abs(newton) <= max(rtol * scale, atol) and finite_df
+        outside = not (lo < x_new < hi) or not math.isfinite(x_new)
+        if outside and not tiny_step:
+            x_new = 0.5 * (lo + hi)
+        small_step = not outside and abs(newton) <= 1e-8 * scale and finite_df
+        collapsed = abs(hi - lo) <= rtol * max(abs(lo), abs(hi))
+        if f != f:
+            return NAN
+        if f == 0 or stalled or collapsed or tiny_step:
+            return x_out
+        x = x_new
+    return x
+
 def _scatter(values, index, template, shape):
     """The full-shape argument for ``func``: ``template`` with ``values`` at ``index``.
 
@@ -491,6 +537,8 @@ def chunked(func, *arrays, size=CHUNK_SIZE):
 _SCALAR_TYPES = frozenset((float, int, np.float64))
 NAN = math.nan
 INF = math.inf
+_EPS = float(np.finfo(float).eps)
+_TINY = float(np.finfo(float).tiny)
 
 
 def plain_scalars(*args) -> bool:

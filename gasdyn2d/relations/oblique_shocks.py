@@ -611,6 +611,36 @@ def _polish_near_detachment(x, near, inv_a, c, target, x_star, tan_max, strong):
     return x
 
 
+def _tan_deflection_and_slope_scalar(x, inv_a, c, strong):
+    """Scalar form of :func:`_tan_deflection_and_slope`."""
+    if not strong:
+        zi = x + inv_a
+        y = 1.0 - x
+        inv_den = 1.0 / (c + 2.0 * y)
+        q = 2.0 * nx.fsqrt(nx.fdiv(y, zi)) * inv_den
+        f = x * q
+        return f, q + f * (2.0 * inv_den - nx.fdiv(0.5 * (1.0 + inv_a), y * zi))
+    y = x * x
+    z = 1.0 - y
+    zi = z + inv_a
+    den = c + 2.0 * y
+    g = nx.fdiv(2.0 * z, nx.fsqrt(zi) * den)
+    f = g * x
+    return f, g + f * x * (nx.fdiv(-2.0, z) + nx.fdiv(1.0, zi) - 4.0 / den)
+
+
+def _polish_near_detachment_scalar(x, inv_a, c, target, x_star, tan_max, strong):
+    """Scalar form of :func:`_polish_near_detachment` (for one element that is near)."""
+    goal = math.sqrt(max(tan_max - target, 0.0))
+
+    def residual(xx):
+        f, df = _tan_deflection_and_slope_scalar(xx, inv_a, c, strong)
+        root = nx.fsqrt(max(tan_max - f, 0.0) if f == f else f)
+        return root - goal, nx.fdiv(-df, 2.0 * root)
+
+    start = nx.fclip(x, 0.0, x_star) if math.isfinite(x) else 0.5 * x_star
+    return nx.safeguarded_newton_scalar(residual, start, 0.0, x_star, max_iter=40)
+
 def wave_angle_from_deflection(M1, theta, gamma=1.4, strong=False):
     """Plain core: wave angle β [rad] of the shock that turns a stream M1 by θ [rad].
 
@@ -790,7 +820,7 @@ def scaled_wv_from_deflection(M1, theta, gamma=1.4, strong=False):
 
 def _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong):
     """Scalar form of :func:`scaled_wv_from_deflection`: the same cubic, starts, Newton
-    step and clamps; the (rare) near-detachment polish runs on the array form."""
+    step, clamps and near-detachment polish."""
     a, inv_a, rho, c = _scales_scalar(M1, gamma)
     if theta < 0.0 or theta >= 0.5 * math.pi or M1 < 1.0:
         return math.nan, math.nan, a, True
@@ -818,8 +848,7 @@ def _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong):
                 s = s_series * (1.0 - dy2)
             s = _newton_strong_scalar(nx.fclip(s, 0.0, s_star), tan_theta, inv_a, c, s_star)
             if near:
-                s = float(_polish_near_detachment(np.array([s]), np.array([True]), inv_a, c,
-                                                  tan_theta, s_star, tan_max, True)[0])
+                s = _polish_near_detachment_scalar(s, inv_a, c, tan_theta, s_star, tan_max, True)
         y = s * s
         return 1.0 - y, y, a, False
     if at_max:
@@ -831,8 +860,7 @@ def _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong):
         z = z_series * (1.0 - cy + 2.0 * cy * cy)
     z = _newton_weak_scalar(nx.fclip(z, 0.0, z_star), tan_theta, inv_a, rho, c, z_star)
     if near:
-        z = float(_polish_near_detachment(np.array([z]), np.array([True]), inv_a, c, tan_theta,
-                                          z_star, tan_max, False)[0])
+        z = _polish_near_detachment_scalar(z, inv_a, c, tan_theta, z_star, tan_max, False)
     return z, 1.0 - z, a, False
 
 def _shock_from_deflection(M1, theta, gamma, strong):
