@@ -4,6 +4,10 @@ Plain core (floats and ndarrays, radians, no pint): :func:`prandtl_meyer_angle`,
 :func:`mach_from_prandtl_meyer_angle`, :func:`max_prandtl_meyer_angle`,
 :func:`fan_pressure_ratio`. Unit boundary: :func:`prandtl_meyer`,
 :func:`mach_from_prandtl_meyer`, :func:`expansion_fan`.
+
+Each plain core has a scalar form on the math module right after it (the same
+algorithm, floats in and out); the array form hands plain floats to it. Huge
+Mach numbers (up to 1e300 and inf) give the limits, without overflow warnings.
 """
 
 from __future__ import annotations

@@ -5,6 +5,10 @@ Plain core (floats and ndarrays, no pint): :func:`temperature_ratio`,
 :func:`mach_angle_of` and the inverses :func:`mach_from_temperature_ratio`,
 :func:`mach_from_pressure_ratio`, :func:`mach_from_density_ratio`,
 :func:`mach_from_area_ratio`. Unit boundary: :func:`isentropic_flow`.
+
+Each plain core has a scalar form on the math module right after it (the same
+algorithm, floats in and out); the array form hands plain floats to it. Huge
+Mach numbers (up to 1e300 and inf) give the limits, without overflow warnings.
 """
 
 from __future__ import annotations
@@ -98,7 +102,8 @@ def pressure_ratio(M, gamma=1.4):
 
 
 def _pressure_ratio_scalar(M, gamma):
-    return nx.fexp(-nx.fdiv(gamma, gamma - 1.0) * _log_stagnation_temperature_ratio_scalar(M, gamma))
+    exponent = nx.fdiv(gamma, gamma - 1.0)
+    return nx.fexp(-exponent * _log_stagnation_temperature_ratio_scalar(M, gamma))
 
 def density_ratio(M, gamma=1.4):
     """ρ/ρ0 = (1 + (γ-1)M²/2)^(-1/(γ-1))  (NACA Report 1135, eq. 45)."""

@@ -5,6 +5,10 @@ every ratio from ``w = M1² - 1`` (so that weak shocks keep full precision), and
 the inverses :func:`mach_from_downstream_mach`, :func:`mach_from_density_jump`,
 :func:`mach_from_temperature_jump`, :func:`mach_from_stagnation_pressure_ratio`,
 :func:`mach_from_pitot_ratio`. Unit boundary: :func:`normal_shock`.
+
+Each plain core has a scalar form on the math module right after it (the same
+algorithm, floats in and out); the array form hands plain floats to it. Huge
+Mach numbers (up to 1e300 and inf) give the limits, without overflow warnings.
 """
 
 from __future__ import annotations

@@ -3,8 +3,9 @@
 Plain core (floats and ndarrays, radians, no pint):
 
 - :func:`wave_angle_from_deflection` — β(M1, θ) on either branch: the
-  trigonometric root of the θ-β-M cubic in sin²β, polished by Newton steps in a
-  cancellation-free variable;
+  trigonometric root of the θ-β-M cubic in z = w/(M1² - 1), polished by Newton
+  steps in a cancellation-free variable (:func:`scaled_wv_from_deflection`,
+  :func:`wv_from_deflection` give the solve's variables);
 - :func:`deflection_from_wave_angle` — θ(M1, β);
 - :func:`detachment_angles` and :func:`sonic_angles` — (θ, β) at the maximum
   deflection and at a sonic downstream flow, in closed form;
@@ -16,7 +17,11 @@ Unit boundary: :func:`oblique_shock`, :func:`max_deflection`,
 Throughout, ``w = M1² sin²β - 1`` (the normal Mach number squared, less one)
 and ``v = M1² cos²β`` are the variables in which the relation has no
 cancellation: w → 0 at the Mach wave, v → 0 at the normal shock, and
-w + v = M1² - 1.
+w + v = M1² - 1. The solve works in z = w/(M1² - 1) and y = v/(M1² - 1) = 1 - z,
+whose roots stay apart as M1 → 1 and which cannot overflow as M1 → ∞.
+
+Every plain core has a scalar form on the math module right after it (same
+algorithm); the array form hands plain floats to it (``nx.plain_scalars``).
 """
 
 from __future__ import annotations
@@ -58,6 +63,8 @@ _NEWTON_STEPS = 1  # from the starts below one step reaches rounding (measured v
 _SMALL_WEAK_ROOT = 1e-3  # weak z = w/(M1²-1) below which it comes from deflation
 _SERIES_START = 1e-3  # |c w| below which the weak root starts from the small-deflection series
 _MACH_WAVE_SLACK = 4e-15  # |M1² sin²β - 1| that rounding of sin β alone can produce at β = μ
+_HUGE_MACH = 1e150  # above this M1² may overflow
+_TINY_TURN = 1e-100  # with M1 > 1e150, θ below this is a small disturbance to 1e-200
 
 
 # ------------------------------------------------------------------ plain core
@@ -114,19 +121,17 @@ def wave_angle_from_scaled_wv(z, y, a):
     if nx.plain_scalars(z, y, a):
         return _wave_angle_from_scaled_wv_scalar(z, y, a)
     with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
-        w, v = a * z, a * y
-        beta = np.arctan2(np.sqrt(1.0 + w), np.sqrt(v))
-        huge = np.isinf(w) | np.isinf(v)
+        beta = np.arctan2(np.sqrt(1.0 + a * z), np.sqrt(a * y))
+        huge = np.isinf(a)  # a z and a y (z, y <= 1) overflow only with a itself
         if not nx.any_true(huge):
             return beta
         return np.where(huge, np.arctan2(np.sqrt(z + 1.0 / a), np.sqrt(y)), beta)
 
 
 def _wave_angle_from_scaled_wv_scalar(z, y, a):
-    w, v = a * z, a * y
-    if math.isinf(w) or math.isinf(v):
+    if math.isinf(a):
         return math.atan2(nx.fsqrt(z + nx.fdiv(1.0, a)), nx.fsqrt(y))
-    return math.atan2(nx.fsqrt(1.0 + w), nx.fsqrt(v))
+    return math.atan2(nx.fsqrt(1.0 + a * z), nx.fsqrt(a * y))
 
 def wave_angle_from_wv(w, v):
     """Plain core: β = atan2(√(1+w), √v) [rad] from w = M1² sin²β - 1 and v = M1² cos²β,
@@ -443,18 +448,21 @@ def _put(array, mask, values):
     return array
 
 
-def _weak_start(z_cubic, inv_a, rho, tan_theta, gamma):
+def _weak_start(z_cubic, a, inv_a, rho, tan_theta, gamma):
     """Start for the weak root: the cubic's, or near the Mach wave (where the cubic's
     weak and spurious roots merge) the inverted small-deflection series
     tan θ = k w (1 + c w + ...), k = 2√(M1²-1)/((γ+1)M1²), c = 2/((γ+1)M1²) - M1²/(2(M1²-1)),
     good to (c w)³ there; in z = w/a, z = tan θ (γ+1)ρ √(1/a)/2 to first order."""
-    z_series = 0.5 * tan_theta * (gamma + 1.0) * rho * np.sqrt(inv_a)
     with np.errstate(over="ignore", invalid="ignore"):
-        # c w = (2/((γ+1)M1²) - M1²/(2a)) a z = (2/((γ+1)ρ) - ρ a/2) z, with a = 1/(1/a)
-        cy = (2.0 / ((gamma + 1.0) * rho) - 0.5 * rho / inv_a) * z_series
-    small = np.abs(cy) < _SERIES_START
+        # c w = (2/((γ+1)M1²) - M1²/(2a)) a z = (2/((γ+1)ρ) - ρ a/2) z; the test
+        # |c w| < 1e-3 is made on its square, so the √(1/a) is taken on that subset only
+        k = 0.5 * tan_theta * (gamma + 1.0) * rho  # z_series = k √(1/a)
+        c = 2.0 / ((gamma + 1.0) * rho) - 0.5 * rho * a
+        small = (c * k) * (c * k) * inv_a < _SERIES_START * _SERIES_START
     if not small.any():
         return z_cubic
+    z_series = k * np.sqrt(inv_a)
+    cy = c * z_series
     return _put(z_cubic, small, z_series * (1.0 - cy + 2.0 * cy * cy))
 
 
@@ -686,17 +694,16 @@ def _wave_angle_block(M1, theta, gamma, strong):
     return np.where(tiny, _small_disturbance_shock(M1, theta, gamma)[0], beta)
 
 
-_HUGE_MACH = 1e150  # above this M1² may overflow
-_TINY_TURN = 1e-100  # with M1 > 1e150, θ below this is a small disturbance to 1e-200
-
-
 def _tiny_hypersonic_turn(M1, theta, strong):
     """Mask of weak shocks with M1 > 1e150 and θ < 1e-100 (or None if there are none):
     there z = w/(M1² - 1) underflows, and :func:`_small_disturbance_shock` is exact."""
     if strong:
         return None
+    big = M1 > _HUGE_MACH
+    if not big.any():
+        return None
     with np.errstate(invalid="ignore"):
-        tiny = (M1 > _HUGE_MACH) & (theta < _TINY_TURN) & (theta > 0.0)
+        tiny = big & (theta < _TINY_TURN) & (theta > 0.0)
     return tiny if tiny.any() else None
 
 
@@ -811,7 +818,7 @@ def scaled_wv_from_deflection(M1, theta, gamma=1.4, strong=False):
             z = np.array(z, dtype=float, copy=True)
             z[small] = _small_weak_root(*(np.broadcast_to(x, z.shape)[small]
                                           for x in (tan_theta, gamma, inv_a)))
-        z0 = np.clip(_weak_start(z, inv_a, rho, tan_theta, gamma), 0.0, z_star)
+        z0 = np.clip(_weak_start(z, a, inv_a, rho, tan_theta, gamma), 0.0, z_star)
         z = _newton_weak(z0, tan_theta, inv_a, rho, c, z_star)
         z = _polish_near_detachment(z, near, inv_a, c, tan_theta, z_star, tan_max, False)
         z = _put(_put(z, at_max, z_star), theta == 0.0, 0.0)
@@ -854,9 +861,11 @@ def _scaled_wv_from_deflection_scalar(M1, theta, gamma, strong):
     if at_max:
         return z_star, 1.0 - z_star, a, False
     z = _weak_root_scalar(tan_theta, gamma, inv_a)
-    z_series = 0.5 * tan_theta * (gamma + 1.0) * rho * math.sqrt(inv_a)  # _weak_start
-    cy = (2.0 / ((gamma + 1.0) * rho) - nx.fdiv(0.5 * rho, inv_a)) * z_series
-    if abs(cy) < _SERIES_START:
+    k = 0.5 * tan_theta * (gamma + 1.0) * rho  # _weak_start
+    c_series = 2.0 / ((gamma + 1.0) * rho) - 0.5 * rho * a
+    if (c_series * k) * (c_series * k) * inv_a < _SERIES_START * _SERIES_START:
+        z_series = k * math.sqrt(inv_a)
+        cy = c_series * z_series
         z = z_series * (1.0 - cy + 2.0 * cy * cy)
     z = _newton_weak_scalar(nx.fclip(z, 0.0, z_star), tan_theta, inv_a, rho, c, z_star)
     if near:
@@ -876,7 +885,13 @@ def _shock_from_deflection(M1, theta, gamma, strong):
         w, v = a * z, a * y
         Mn1 = np.sqrt(1.0 + w)
         beta = np.arctan2(Mn1, np.sqrt(v))  # wave_angle_from_scaled_wv, reusing Mn1
-        huge = np.isinf(w) | np.isinf(v)
+        if not nx.any_true(M1 > _HUGE_MACH):  # the usual case: nothing can overflow
+            ratios = normal_shock_ratios(w, gamma)
+            # the tangential velocity is conserved: M2² = Mn2² + M1² cos²β · T1/T2 (no trig)
+            M2 = np.sqrt(ratios.M2 * ratios.M2 + v / ratios.T2_T1)
+            return (beta, Mn1, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,
+                    ratios.T2_T1, ratios.p02_p01, ratios.strength)
+        huge = np.isinf(a)
         if huge.any():  # M1² overflowed: Mn1 = M1 sin β, sin²β = (z + 1/a)/(1 + 1/a)
             Mn1 = np.where(huge, M1 * np.sqrt((z + 1.0 / a) / (1.0 + 1.0 / a)), Mn1)
             w = np.where(huge, (Mn1 - 1.0) * (Mn1 + 1.0), w)  # finite where Mn1² is
@@ -889,8 +904,7 @@ def _shock_from_deflection(M1, theta, gamma, strong):
             Mn1 = np.where(tiny, np.sqrt(1.0 + w), Mn1)
             z = np.where(tiny, 0.0, z)
         ratios = normal_shock_ratios(w, gamma)
-        # the tangential velocity is conserved: M2² = Mn2² + M1² cos²β · T1/T2 (no trig),
-        # with v T1/T2 = y (ρ2/ρ1)/(1/a + 2γz/(γ+1)) (divided through by a: no overflow)
+        # M2² = Mn2² + v T1/T2 with v T1/T2 = y (ρ2/ρ1)/(1/a + 2γz/(γ+1)) (divided by a)
         M2 = np.sqrt(ratios.M2 * ratios.M2 + y * ratios.rho2_rho1
                      / (1.0 / a + 2.0 * gamma / (gamma + 1.0) * z))
         if tiny is not None:  # there M2² = M1² cos²β T1/T2 (1 + O(1/M1²)), cos β = 1
@@ -918,8 +932,11 @@ def _shock_from_deflection_scalar(M1, theta, gamma, strong):
         Mn1 = nx.fsqrt(1.0 + w)
         z = 0.0
     ratios = normal_shock_ratios(w, gamma)
-    M2 = nx.fsqrt(ratios.M2 * ratios.M2 + nx.fdiv(y * ratios.rho2_rho1, nx.fdiv(1.0, a)
-                                                   + 2.0 * gamma / (gamma + 1.0) * z))
+    if M1 > _HUGE_MACH:
+        M2 = nx.fsqrt(ratios.M2 * ratios.M2 + nx.fdiv(y * ratios.rho2_rho1, nx.fdiv(1.0, a)
+                                                       + 2.0 * gamma / (gamma + 1.0) * z))
+    else:
+        M2 = nx.fsqrt(ratios.M2 * ratios.M2 + nx.fdiv(v, ratios.T2_T1))
     if tiny:
         M2 = M1 / math.sqrt(ratios.T2_T1)
     return (beta, Mn1, ratios.M2, M2, ratios.p2_p1, ratios.rho2_rho1,

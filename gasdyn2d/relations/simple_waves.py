@@ -20,7 +20,7 @@ import numpy as np
 from .expansion_fans import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
 from .. import _numerics as nx
 from .normal_shocks import normal_shock_ratios
-from .isentropic import mach_after_isentropic_pressure_change
+from .isentropic import HUGE_MACH, mach_after_isentropic_pressure_change
 from .oblique_shocks import (
     deflection_from_wave_angle,
     deflection_slope_wv,
@@ -121,6 +121,11 @@ def _turn_state_block(M1, turn, gamma, strong):
         T_fan = (1.0 + 0.5 * (gamma - 1.0) * M1**2) / (1.0 + 0.5 * (gamma - 1.0) * M_fan**2)
         fan_slope = gamma * M_fan**2 / np.sqrt((M_fan - 1.0) * (M_fan + 1.0))
         fan_slope = np.where(M_fan == 1.0, np.inf, fan_slope)
+        huge = M_fan > HUGE_MACH  # M_fan >= M1: M² may overflow; isentropic T ∝ p^((γ-1)/γ)
+        if nx.any_true(huge):
+            T_fan = np.where(huge, p_fan ** ((gamma - 1.0) / gamma), T_fan)
+            fan_slope = np.where(huge, gamma * M_fan / np.sqrt(1.0 - 1.0 / M_fan / M_fan),
+                                 fan_slope)
 
         pick = lambda a, b: np.where(is_shock, a, b)  # noqa: E731
         return (pick(shock_M2, M_fan), pick(shock.p2_p1, p_fan), pick(shock.T2_T1, T_fan),
@@ -169,11 +174,16 @@ def _fan_state_scalar(M1, turn, gamma):
         M_fan = math.nan
     vacuum = M_fan != M_fan and math.isfinite(turn) and math.isfinite(M1)
     h = 0.5 * (gamma - 1.0)
-    T_fan = (1.0 + h * M1 * M1) / (1.0 + h * M_fan * M_fan)
-    slope = math.inf if M_fan == 1.0 else (
-        gamma * M_fan * M_fan / nx.fsqrt((M_fan - 1.0) * (M_fan + 1.0)))
-    return WaveState(M_fan, fan_pressure_ratio(M1, M_fan, gamma), T_fan, 1.0 + 0.0 * M1,
-                     math.nan, False, slope, False, vacuum)
+    p_fan = fan_pressure_ratio(M1, M_fan, gamma)
+    if M_fan > HUGE_MACH:  # as in the array form: no M² where it may overflow
+        T_fan = p_fan ** ((gamma - 1.0) / gamma)
+        slope = gamma * M_fan / math.sqrt(1.0 - 1.0 / M_fan / M_fan)
+    else:
+        T_fan = (1.0 + h * (M1 * M1)) / (1.0 + h * (M_fan * M_fan))
+        slope = math.inf if M_fan == 1.0 else (
+            gamma * (M_fan * M_fan) / nx.fsqrt((M_fan - 1.0) * (M_fan + 1.0)))
+    return WaveState(M_fan, p_fan, T_fan, 1.0 + 0.0 * M1, math.nan, False, slope, False,
+                     vacuum)
 
 def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
     """Signed turn [rad] of the single wave that takes a stream M1 to pressure ratio p2/p1.
