@@ -44,7 +44,9 @@ from gasdyn2d import (
     sonic_deflection,
     ureg,
 )
-from gasdyn2d import expansion, isentropic, normal_shocks, oblique_shocks, waves
+from gasdyn2d.relations import expansion_fans as expansion
+from gasdyn2d.relations import isentropic, normal_shocks, oblique_shocks
+from gasdyn2d.relations import simple_waves as waves
 
 GAMMA = 1.4
 TARGET_LOOP_SPEEDUP = 100.0  # issue 2: the vectorised solve must beat a brentq loop 100x

@@ -7,10 +7,13 @@ is the boundary's job, :mod:`gasdyn2d.boundary`).
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
-__all__ = ["CHUNK_SIZE", "NEWTON_ULPS", "any_true", "broadcast_cases", "chunked",
-           "safeguarded_newton"]
+__all__ = ["CHUNK_SIZE", "HUGE_MACH", "NEWTON_ULPS", "any_true", "broadcast_cases", "chunked",
+           "safeguarded_newton", "safeguarded_newton_scalar", "plain_scalars", "fsqrt", "flog",
+           "flog1p", "fexp", "fexpm1", "fdiv", "fclip", "nan_where_nan", "clip_below"]
 
 
 def any_true(mask) -> bool:
@@ -171,3 +174,126 @@ def clip_below(value, lower):
     if type(value) is float:
         return value if not (value < lower) else lower
     return np.maximum(value, lower)
+
+
+# ----------------------------------------------------------------- scalar fast forms
+#
+# Each relation's plain core has a scalar form on the math module beside its array
+# form (same algorithm, floats in and out). The array form dispatches to it when every
+# argument is a plain number: a Python float or int, or an np.float64 (a float
+# subclass, taken as the float it is). The helpers below give the math module numpy's
+# answers where it would raise instead: NaN for a domain error, ±inf for a division
+# by zero or an overflow.
+
+_SCALAR_TYPES = frozenset((float, int, np.float64))
+
+#: Above this Mach number M² may overflow: the relations switch to their large-M forms.
+HUGE_MACH = 1e150
+NAN = math.nan
+INF = math.inf
+_EPS = float(np.finfo(float).eps)
+_TINY = float(np.finfo(float).tiny)
+
+
+def plain_scalars(*args) -> bool:
+    """True when every argument is a plain float, int or np.float64 (not bool, not 0-d)."""
+    for arg in args:
+        if type(arg) not in _SCALAR_TYPES:
+            return False
+    return True
+
+
+def fsqrt(x):
+    """math.sqrt with numpy's NaN below 0."""
+    return math.sqrt(x) if x >= 0.0 else NAN
+
+
+def flog(x):
+    """math.log with numpy's -inf at 0 and NaN below."""
+    if x > 0.0:
+        return math.log(x)
+    return -INF if x == 0.0 else NAN
+
+
+def flog1p(x):
+    """math.log1p with numpy's -inf at -1 and NaN below."""
+    if x > -1.0:
+        return math.log1p(x)
+    return -INF if x == -1.0 else NAN
+
+
+def fexp(x):
+    """math.exp with numpy's inf on overflow."""
+    try:
+        return math.exp(x)
+    except OverflowError:
+        return INF
+
+
+def fexpm1(x):
+    """math.expm1 with numpy's inf on overflow."""
+    try:
+        return math.expm1(x)
+    except OverflowError:
+        return INF
+
+
+def fdiv(a, b):
+    """a / b with numpy's ±inf (or NaN for 0/0 or NaN) at b = 0."""
+    if b != 0.0:
+        return a / b
+    if a != a or a == 0.0:
+        return NAN
+    return math.copysign(INF, a) * math.copysign(1.0, b)
+
+
+def fclip(x, lower, upper):
+    """np.clip for floats (NaN stays NaN)."""
+    return lower if x < lower else (upper if x > upper else x)
+
+
+def _sign(value):
+    """np.sign for a float (NaN stays NaN)."""
+    return NAN if value != value else float((value > 0.0) - (value < 0.0))
+
+
+def safeguarded_newton_scalar(func, x0, lower, upper, *, max_iter=60, rtol=None, atol=0.0,
+                              increasing=None):
+    """Scalar form of :func:`safeguarded_newton` (floats; the same steps and stops)."""
+    rtol = NEWTON_ULPS * _EPS if rtol is None else rtol
+    lo, hi = float(lower), float(upper)
+    if increasing is None:
+        sign_lo = _sign(func(lo)[0])
+    else:
+        sign_lo = -1.0 if increasing else 1.0
+    x = x_out = float(x0)
+    if not math.isfinite(x):
+        return x
+    best_f = INF
+    small_step = False
+    for _ in range(max_iter):
+        f, df = func(x)
+        abs_f = abs(f)
+        stalled = small_step and not abs_f < best_f
+        if abs_f < best_f:
+            x_out, best_f = x, abs_f
+        if _sign(f) == sign_lo:
+            lo = x
+        else:
+            hi = x
+        newton = fdiv(f, df)
+        x_new = x - newton
+        scale = max(abs(x), _TINY)
+        finite_df = math.isfinite(df)
+        tiny_step = abs(newton) <= max(rtol * scale, atol) and finite_df
+        outside = not (lo < x_new < hi) or not math.isfinite(x_new)
+        if outside and not tiny_step:
+            x_new = 0.5 * (lo + hi)
+        small_step = not outside and abs(newton) <= 1e-8 * scale and finite_df
+        collapsed = abs(hi - lo) <= rtol * max(abs(lo), abs(hi))
+        if f != f:
+            return NAN
+        if f == 0 or stalled or collapsed or tiny_step:
+            return x_out
+        x = x_new
+    return x

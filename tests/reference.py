@@ -196,7 +196,9 @@ def _ns(M1, g):
     p0 = r ** (g / (g - 1)) * p ** (-1 / (g - 1))  # eq. 99
     pitot = ((g + 1) / 2 * m2) ** (g / (g - 1)) * ((g + 1) / (2 * g * m2 - (g - 1))) ** (
         1 / (g - 1))  # eq. 100
-    return {"M2": M2, "p2_p1": p, "rho2_rho1": r, "T2_T1": T, "p02_p01": p0, "p02_p1": pitot}
+    strength = 2 * g * (m2 - 1) / (g + 1)  # p2/p1 - 1, eq. 93
+    return {"M2": M2, "p2_p1": p, "rho2_rho1": r, "T2_T1": T, "p02_p01": p0, "p02_p1": pitot,
+            "strength": strength}
 
 
 def normal_shock(M1, g):
@@ -306,6 +308,32 @@ def wave_angle(M1, theta, g, strong=False):
     return _bisect_then_polish(f, mu, b_star)
 
 
+@_workdps
+def wave_angle_and_strength(M1, theta, g, strong=False):
+    """(β, p2/p1 - 1) of the shock of deflection θ; the strength 2γ(M1² sin²β - 1)/(γ+1)
+    (NACA Report 1135, eq. 93 with Mn1 = M1 sin β) keeps ~28 of the 40 digits at
+    M1 - 1 = 1e-12, where p2/p1 - 1 ~ 1e-12."""
+    beta = wave_angle.mp(M1, theta, g, strong)
+    return beta, 2 * g / (g + 1) * (M1**2 * mp.sin(beta) ** 2 - 1)
+
+
+def strength_condition(M1, theta, g, strong=False):
+    """|d ln(p2/p1 - 1)/d ln θ| at fixed M1: the conditioning of the strength (a float).
+
+    From the θ-β-M relation in w = M1² sin²β - 1 (the strength is 2γw/(γ+1)):
+    tan θ = 2w √(v/(1+w))/((γ-1)M1² + 2 + 2v), v = M1² - 1 - w (NACA Report 1135,
+    eq. 138 rewritten), so d ln w/d ln θ = θ (1 + tan²θ)/(w d tan θ/dw).
+    """
+    with mp.workdps(DIGITS):
+        M1, theta, g = _mpf(M1), _mpf(theta), _mpf(g)
+        beta = wave_angle.mp(M1, theta, g, strong)
+        w = M1**2 * mp.sin(beta) ** 2 - 1
+        tan_theta = lambda x: 2 * x * mp.sqrt((M1**2 - 1 - x) / (1 + x)) / (  # noqa: E731
+            (g - 1) * M1**2 + 2 + 2 * (M1**2 - 1 - x))
+        slope = mp.diff(tan_theta, w)
+        return float(abs(theta * (1 + mp.tan(theta) ** 2) / (w * slope))) if slope else float("inf")
+
+
 def oblique_shock(M1, beta, g):
     """Every ratio behind an oblique shock of wave angle β (floats)."""
     with mp.workdps(DIGITS):
@@ -315,7 +343,8 @@ def oblique_shock(M1, beta, g):
         theta = _theta(M1, beta, g)
         out = {"deflection": theta, "Mn1": mn1, "Mn2": ns["M2"],
                "M2": ns["M2"] / mp.sin(beta - theta), "p2_p1": ns["p2_p1"],
-               "rho2_rho1": ns["rho2_rho1"], "T2_T1": ns["T2_T1"], "p02_p01": ns["p02_p01"]}
+               "rho2_rho1": ns["rho2_rho1"], "T2_T1": ns["T2_T1"], "p02_p01": ns["p02_p01"],
+               "strength": ns["strength"]}
         return {k: float(v) for k, v in out.items()}
 
 

@@ -191,6 +191,13 @@ def test_scalar_in_gives_floats_out():
     assert all(type(v) is float for v in shock.to_dict().values())
 
 
+def assert_ulps(array_value, scalar_value, ulps=8):
+    """The array path and the scalar fast path (math-module forms) agree to a few ulp:
+    the same algorithm, with libm and numpy rounding differently in the last place."""
+    assert abs(array_value - scalar_value) <= ulps * np.spacing(abs(scalar_value)), (
+        array_value, scalar_value)
+
+
 @pytest.mark.parametrize("shape", [(4,), (2, 3), (3, 1, 2)])
 def test_arrays_of_any_shape_match_scalar_calls(shape):
     M1 = np.random.default_rng(5).uniform(1.05, 8.0, shape)
@@ -198,7 +205,7 @@ def test_arrays_of_any_shape_match_scalar_calls(shape):
     for name in FIELDS:
         assert getattr(shock, name).shape == shape
     for index in np.ndindex(shape):
-        assert shock.p02_p01[index] == normal_shock(M1[index]).p02_p01
+        assert_ulps(shock.p02_p01[index], normal_shock(M1[index]).p02_p01)
 
 
 def test_gamma_array_broadcasts_and_inverses_follow():

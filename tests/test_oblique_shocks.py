@@ -17,6 +17,7 @@ from gasdyn2d.relations.oblique_shocks import (
     oblique_shock_ratios,
     sonic_angles,
     wave_angle_from_deflection,
+    wv_from_deflection,
 )
 
 deg = math.radians
@@ -331,6 +332,13 @@ def test_scalar_in_gives_floats_out():
     assert all(type(v) is float for v in max_deflection(2.0) + sonic_deflection(2.0))
 
 
+def assert_ulps(array_value, scalar_value, ulps=8):
+    """The array path and the scalar fast path (math-module forms) agree to a few ulp:
+    the same algorithm, with libm and numpy rounding differently in the last place."""
+    assert abs(array_value - scalar_value) <= ulps * np.spacing(abs(scalar_value)), (
+        array_value, scalar_value)
+
+
 @pytest.mark.parametrize("shape", [(3,), (2, 3), (2, 2, 2)])
 def test_arrays_of_any_shape_match_scalar_calls(shape):
     rng = np.random.default_rng(7)
@@ -341,8 +349,8 @@ def test_arrays_of_any_shape_match_scalar_calls(shape):
         assert shock.wave_angle.shape == shape
         for index in np.ndindex(shape):
             one = oblique_shock(M1[index], deflection=theta[index], branch=branch)
-            assert shock.wave_angle[index] == one.wave_angle
-            assert shock.p2_p1[index] == one.p2_p1
+            assert_ulps(shock.wave_angle[index], one.wave_angle)
+            assert_ulps(shock.p2_p1[index], one.p2_p1)
 
 
 def test_broadcasting_mach_deflection_and_gamma():
@@ -430,3 +438,118 @@ def test_deflection_beyond_half_turn_is_detached_not_wrapped():
     with pytest.warns(gasdyn2d.ProbablyDegreesWarning):
         with pytest.raises(gasdyn2d.DetachedShockError, match="deflection"):
             oblique_shock(3.0, deflection=10.0)
+
+
+# ----------------------------------------------------------------- near-sonic shocks (issue 9)
+# As M1 → 1 the θ-β-M roots in sin²β crowd within O(M1 - 1) of 1; the solve works in
+# z = (M1² sin²β - 1)/(M1² - 1), where they stay O(1) apart. The strength p2/p1 - 1 is
+# checked (p2/p1 itself cannot show a loss at 1e-12), against tests/reference.py at 40
+# digits, for the same float inputs. Bound: 32 ulp × max(1, |d ln(p2/p1 - 1)/d ln θ|),
+# the conditioning (~7 at 0.99 θmax). Measured max before the fix: 1.0 (p2/p1 = 1 exactly
+# at M1 - 1 = 1e-5), NaN at 1e-11; after: 1.1e-15 on both branches.
+
+NEAR_SONIC_EXCESS = [1e-3, 1e-5, 1e-8, 1e-11]
+NEAR_SONIC_FRACTIONS = [0.5, 0.9, 0.99]
+
+
+def _near_sonic_bound(M1, theta, g, strong):
+    return 32 * ref.EPS * max(1.0, ref.strength_condition(M1, theta, g, strong))
+
+
+@pytest.mark.parametrize("excess", NEAR_SONIC_EXCESS)
+@pytest.mark.parametrize("branch", ["weak", "strong"])
+def test_near_sonic_strength_and_wave_angle_match_mpmath(excess, branch):
+    M1, strong = 1.0 + excess, branch == "strong"
+    for g in (1.05, 1.4, 1.67):
+        theta_max = float(detachment_angles(M1, g)[0])
+        for fraction in NEAR_SONIC_FRACTIONS:
+            theta = fraction * theta_max
+            beta_ref, strength_ref = ref.wave_angle_and_strength(M1, theta, g, strong)
+            shock = oblique_shock(M1, deflection=theta, gamma=g, branch=branch)
+            bound = _near_sonic_bound(M1, theta, g, strong)
+            where = (excess, g, fraction, branch)
+            assert abs(shock.strength / strength_ref - 1) <= bound, where
+            assert abs(shock.wave_angle / beta_ref - 1) <= bound, where
+            assert shock.p2_p1 == pytest.approx(1.0 + strength_ref, rel=4 * ref.EPS, abs=0)
+            assert shock.p2_p1 > 1.0 and shock.Mn1 > 1.0  # never the Mach wave's exact 1.0
+
+
+@settings(max_examples=40, deadline=None)
+@given(log_excess=st.floats(-12.0, -2.0), g=st.floats(1.05, 1.67),
+       fraction=st.floats(1e-6, 0.999), strong=st.booleans())
+def test_near_sonic_property_matches_mpmath(log_excess, g, fraction, strong):
+    # random near-sonic cases (M1 - 1 log-uniform in [1e-12, 1e-2]), as issue 9 asks
+    M1 = 1.0 + 10.0**log_excess
+    theta = fraction * float(detachment_angles(M1, g)[0])
+    assume(theta > 0.0)
+    beta_ref, strength_ref = ref.wave_angle_and_strength(M1, theta, g, strong)
+    w, v, invalid = wv_from_deflection(np.array([M1]), np.array([theta]), g, strong)
+    strength = 2.0 * g / (g + 1.0) * w[0]
+    beta = wave_angle_from_deflection(M1, theta, g, strong)
+    bound = _near_sonic_bound(M1, theta, g, strong)
+    assert not invalid[0]
+    assert abs(strength / strength_ref - 1) <= bound
+    assert abs(beta / beta_ref - 1) <= bound
+
+
+def test_near_sonic_turn_state_inherits_the_fix():
+    # the simple-wave primitive of the region graph uses the same solve: at M1 = 1 + 1e-10
+    # (NaN before) and 1 + 1e-5 (p2/p1 = 1 exactly before) it must give the mpmath shock
+    from gasdyn2d.relations.simple_waves import turn_state
+
+    for M1 in (1.0 + 1e-5, 1.0 + 1e-10):
+        theta = 0.99 * float(detachment_angles(M1, 1.4)[0])
+        beta_ref, strength_ref = ref.wave_angle_and_strength(M1, theta, 1.4)
+        state = turn_state(M1, theta)
+        assert float(state.p2_p1) == pytest.approx(1.0 + strength_ref, rel=4 * ref.EPS, abs=0)
+        assert float(state.wave_angle) == pytest.approx(beta_ref, rel=4 * ref.EPS)
+        assert not state.detached and np.isfinite(state.dlnp_dturn)
+
+
+def test_scaled_cubic_roots_solve_the_published_cubic():
+    # the solve's cubic in z = w/(M1² - 1) is derived in _cubic_root from the cubic in
+    # x = sin²β of NACA Report 1135, eq. 150; its roots, mapped back to x = (1 + a z)/M1²,
+    # must be roots of eq. 150 (evaluated at 40 digits; residual relative to its terms)
+    import mpmath as mp
+
+    from gasdyn2d.relations.oblique_shocks import _cubic_root
+
+    for M1, g, fraction in [(1.0 + 1e-6, 1.4, 0.3), (1.3, 1.1, 0.8), (4.0, 1.67, 0.5),
+                            (40.0, 1.4, 0.01)]:
+        a = (M1 - 1.0) * (M1 + 1.0)
+        tan_theta = math.tan(fraction * float(detachment_angles(M1, g)[0]))
+        for strong in (False, True):
+            z = float(_cubic_root(tan_theta, g, strong, 1.0 / a))
+            with mp.workdps(40):
+                m2, t2 = mp.mpf(M1) ** 2, mp.mpf(tan_theta) ** 2
+                s2, c2 = t2 / (1 + t2), 1 / (1 + t2)
+                x = (1 + mp.mpf(a) * mp.mpf(z)) / m2
+                terms = [x**3, -((m2 + 2) / m2 + g * s2) * x**2,
+                         ((2 * m2 + 1) / m2**2 + ((g + 1) ** 2 / 4 + (g - 1) / m2) * s2) * x,
+                         -c2 / m2**2]
+                # the terms are O(1) and cancel to O(a³): the residual, in units of the
+                # spacing of the roots, must be at rounding level of z
+                residual = abs(sum(terms)) / (a / m2) ** 3
+            assert residual < 1e-12, (M1, g, fraction, strong, float(residual))
+
+
+@settings(max_examples=60, deadline=None)
+@given(log_excess=st.floats(-15.0, 6.0), log_gm=st.floats(-6.0, 0.6),
+       fraction=st.one_of(st.floats(0.0, 1.0), st.floats(1e-300, 1e-3)), strong=st.booleans())
+def test_valid_deflections_never_give_nan(log_excess, log_gm, fraction, strong):
+    # issue 9: a valid input must never come out NaN; θ in [0, θmax] for any M1 > 1, γ > 1
+    M1, g = 1.0 + 10.0**log_excess, 1.0 + 10.0**log_gm
+    theta = fraction * float(detachment_angles(M1, g)[0])
+    w, v, invalid = wv_from_deflection(np.array([M1]), np.array([theta]), g, strong)
+    assert not invalid[0] and np.isfinite(w[0]) and np.isfinite(v[0])
+    shock = oblique_shock(M1, deflection=theta, gamma=g, branch="strong" if strong else "weak")
+    assert np.isfinite(shock.wave_angle) and shock.strength >= 0
+
+
+def test_normal_shock_strength_is_free_of_cancellation():
+    # NACA Report 1135, eq. 93: p2/p1 - 1 = 2γ(M1² - 1)/(γ + 1), here at M1 - 1 = 1e-11
+    M1 = 1.0 + 1e-11
+    expected = 2 * 1.4 / 2.4 * ((M1 - 1) * (M1 + 1))  # exact to an ulp in float64
+    assert normal_shock(M1).strength == pytest.approx(expected, rel=4 * ref.EPS)
+    assert normal_shock(p2_p1=1.0 + 2**-40).strength == 2**-40  # the caller's value
+    assert oblique_shock(2.0, p2_p1=1.0 + 2**-40).strength == 2**-40

@@ -813,7 +813,10 @@ def test_single_case_float_path_matches_the_array_path(M, alpha, tau, ridge):
     batch = shock_expansion_loads(section, np.array([M]), np.array([alpha]), errors="nan")
     for name in FLAGS:
         assert getattr(one, name) == getattr(batch, name)[0], name
-    for name in ("cl", "cd", "cm_le", "slip_direction", "wake_pressure_ratio"):
+    for name in ("cl", "cd", "cm_le", "wake_pressure_ratio"):
         np.testing.assert_allclose(getattr(one, name), getattr(batch, name)[0], rtol=1e-13,
                                    atol=1e-15, err_msg=name)
+    # the wake slip direction comes out of a pressure match between the two trailing-edge
+    # waves, solved to a few ulp of the turns (~0.1 rad) on each path: an absolute bound
+    np.testing.assert_allclose(one.slip_direction, batch.slip_direction[0], rtol=0, atol=1e-14)
     np.testing.assert_allclose(one.cp_upper, batch.cp_upper[0], rtol=1e-13, atol=1e-15)

@@ -184,7 +184,8 @@ def test_gas_properties_and_air():
     (dict(gamma=np.nan), "gamma must be a finite number > 1"),
     (dict(R=-1.0), "R must be a finite number > 0"),
     (dict(R=np.inf), "R must be a finite number > 0"),
-    (dict(gamma=[1.4, 1.3]), "Gas takes scalar gamma and R"),
+    (dict(gamma=[1.4, 1.3]), "gamma must be a single ratio of specific heats"),
+    (dict(gamma="1.4"), "gamma must be a real number or an array of real numbers; got the string"),
     (dict(R=287 * ureg("J/kg")), "R has units of"),
 ])
 def test_gas_rejects_bad_input(kwargs, text):

@@ -5,6 +5,10 @@ Plain core (floats and ndarrays, radians, no pint): :func:`fan_pressure_ratio`,
 :func:`mach_after_fan_pressure_ratio`; the Prandtl–Meyer function itself is in
 :mod:`gasdyn2d.relations.prandtl_meyer_function` (re-exported here). Unit boundary: :func:`prandtl_meyer`,
 :func:`mach_from_prandtl_meyer`, :func:`expansion_fan`.
+
+Each plain core has a scalar form on the math module right after it (the same
+algorithm, floats in and out); the array form hands plain floats to it. Huge
+Mach numbers (up to 1e300 and inf) give the limits, without overflow warnings.
 """
 
 from __future__ import annotations
@@ -14,6 +18,7 @@ import math
 
 import numpy as np
 
+from .. import numerics as nx
 from ..boundary import Call, ResultTable, one_of, unit_field
 from ..boundary.types import ArrayInput, FloatArray
 from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
@@ -39,16 +44,7 @@ __all__ = [
     "mach_after_fan_pressure_ratio",
 ]
 
-def fan_pressure_ratio(M1, M2, gamma=1.4):
-    """Plain core: p2/p1 across an isentropic turn from M1 to M2 (0 when M2 is infinite)."""
-    if type(M1) is float and type(M2) is float and type(gamma) is float:
-        h = 0.5 * (gamma - 1.0)
-        if M2 == math.inf:
-            return 0.0
-        return math.exp(gamma / (gamma - 1.0) * (math.log1p(h * M1 * M1) - math.log1p(h * M2 * M2)))
-    h = 0.5 * (np.asarray(gamma, dtype=float) - 1.0)
-    with np.errstate(over="ignore"):
-        return np.exp(gamma / (gamma - 1.0) * (np.log1p(h * M1 * M1) - np.log1p(h * M2 * M2)))
+_LARGE_FAN_MACH = 1e8  # above this the fan pressure ratio's logarithms would cancel
 
 
 def fan_temperature_ratio(M1, M2, gamma=1.4):
@@ -92,6 +88,42 @@ def mach_after_fan_pressure_ratio(M1, p2_p1, gamma=1.4):
         M2 = np.where(p2_p1 == 1.0, M1, np.fmax(M2, M1))  # rounding must not slow the flow
     return np.where(np.isnan(p2_p1) | np.isnan(M1), np.nan, M2)
 
+
+def fan_pressure_ratio(M1, M2, gamma=1.4):
+    """Plain core: p2/p1 across an isentropic turn from M1 to M2.
+
+    p2/p1 = [(1 + (γ-1)M1²/2)/(1 + (γ-1)M2²/2)]^(γ/(γ-1)) (NACA Report 1135, eq. 44
+    twice), in logarithms. Where either Mach number exceeds 1e8 the logarithm of the
+    ratio is taken as 2 ln(M1/M2) + ln((h + 1/M1²)/(h + 1/M2²)), h = (γ-1)/2, which
+    neither cancels nor overflows (up to M = inf); M1 = M2 (no turn) gives 1.
+    """
+    if nx.plain_scalars(M1, M2, gamma):
+        return _fan_pressure_ratio_scalar(M1, M2, gamma)
+    M1 = np.asarray(M1, dtype=float)
+    M2 = np.asarray(M2, dtype=float)
+    gamma = np.asarray(gamma, dtype=float)
+    h = 0.5 * (gamma - 1.0)
+    big = (M1 > _LARGE_FAN_MACH) | (M2 > _LARGE_FAN_MACH)
+    if not nx.any_true(big):
+        return np.exp(gamma / (gamma - 1.0) * (np.log1p(h * M1 * M1) - np.log1p(h * M2 * M2)))
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        far = 2.0 * np.log(M1 / M2) + np.log((h + 1.0 / (M1 * M1)) / (h + 1.0 / (M2 * M2)))
+        near = np.log1p(h * M1 * M1) - np.log1p(h * M2 * M2)
+        ratio = np.exp(gamma / (gamma - 1.0) * np.where(big, far, near))
+        return np.where(M1 == M2, 1.0, ratio)
+
+
+def _fan_pressure_ratio_scalar(M1, M2, gamma):
+    """Scalar form of :func:`fan_pressure_ratio`."""
+    h = 0.5 * (gamma - 1.0)
+    exponent = nx.fdiv(gamma, gamma - 1.0)
+    if M1 > _LARGE_FAN_MACH or M2 > _LARGE_FAN_MACH:
+        if M1 == M2:
+            return 1.0
+        far = (2.0 * nx.flog(nx.fdiv(M1, M2))
+               + nx.flog(nx.fdiv(h + nx.fdiv(1.0, M1 * M1), h + nx.fdiv(1.0, M2 * M2))))
+        return nx.fexp(exponent * far)
+    return nx.fexp(exponent * (nx.flog1p(h * M1 * M1) - nx.flog1p(h * M2 * M2)))
 
 # ------------------------------------------------------------------ unit boundary
 

@@ -35,6 +35,7 @@ import math
 
 import numpy as np
 
+from ..boundary import as_si_scalar
 from ..boundary.results import ResultTable, unit_field
 from ..errors import InvalidInputError
 
@@ -189,24 +190,12 @@ class Gas(ResultTable):
     vibrational_temperature: float | None = unit_field("K", default=None)
 
     def __post_init__(self):
-        from .._numerics import is_quantity, to_si
-
-        gamma = self.gamma
-        if is_quantity(gamma):
-            gamma = float(to_si(gamma, "gamma", "dimensionless")[0])
-        R = float(to_si(self.R, "R", "gas_constant")[0]) if is_quantity(self.R) else self.R
+        gamma = as_si_scalar("gamma", self.gamma, what="a single ratio of specific heats")
+        R = as_si_scalar("R", self.R, "J/(kg·K)", what="a single specific gas constant")
         theta = self.vibrational_temperature
-        if is_quantity(theta):
-            theta = to_si(theta, "vibrational_temperature", "temperature")[0]
-        try:
-            gamma, R = float(gamma), float(R)
-            theta = None if theta is None else float(theta)
-        except (TypeError, ValueError):
-            raise InvalidInputError(
-                "Gas takes scalar gamma and R (and a scalar vibrational_temperature); got "
-                f"gamma={self.gamma!r}, R={self.R!r}, "
-                f"vibrational_temperature={self.vibrational_temperature!r}."
-            ) from None
+        if theta is not None:
+            theta = as_si_scalar("vibrational_temperature", theta, "K",
+                                 what="a single characteristic vibrational temperature")
         if not (math.isfinite(gamma) and gamma > 1.0):
             raise InvalidInputError(f"gamma must be a finite number > 1; got {gamma!r}.")
         if not (math.isfinite(R) and R > 0.0):

@@ -5,6 +5,10 @@ Plain core (floats and ndarrays, no pint): :func:`temperature_ratio`,
 :func:`mach_angle_of` and the inverses :func:`mach_from_temperature_ratio`,
 :func:`mach_from_pressure_ratio`, :func:`mach_from_density_ratio`,
 :func:`mach_from_area_ratio`. Unit boundary: :func:`isentropic_flow`.
+
+Each plain core has a scalar form on the math module right after it (the same
+algorithm, floats in and out); the array form hands plain floats to it. Huge
+Mach numbers (up to 1e300 and inf) give the limits, without overflow warnings.
 """
 
 from __future__ import annotations
@@ -40,53 +44,137 @@ __all__ = [
     "mach_from_density_ratio",
     "mach_from_area_ratio",
     "mach_after_isentropic_pressure_change",
+    "log_stagnation_temperature_ratio",
 ]
+
+#: Above this Mach number M² may overflow: the relations switch to logarithmic forms
+#: (1e150² = 1e300 leaves room for the constants multiplying it).
+HUGE_MACH = nx.HUGE_MACH  # above this M² may overflow (the large-M forms take over)
+_HUGE_LOG = 700.0  # exp of more than this overflows (709.78): take the square root first
 
 
 # ------------------------------------------------------------------ plain core
 
 
-def _log_stagnation_temperature_ratio(M, gamma):
-    """ln(T0/T) = ln(1 + (γ-1)M²/2)."""
-    return np.log1p(0.5 * (gamma - 1.0) * M * M)
+def log_stagnation_temperature_ratio(M, gamma=1.4):
+    """Plain core: ln(T0/T) = ln(1 + (γ-1)M²/2) [-], with no overflow for any M.
 
+    Above M = 1e150 (where M² may overflow) it is 2 ln M + ln((γ-1)/2); the
+    dropped term ln(1 + 2/((γ-1)M²)) is below 1e-299. M = inf gives inf.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.isentropic import log_stagnation_temperature_ratio
+    >>> round(float(log_stagnation_temperature_ratio(1e200)), 6)  # 2 ln 1e200 + ln 0.2
+    919.424599
+    """
+    if nx.plain_scalars(M, gamma):
+        return _log_stagnation_temperature_ratio_scalar(M, gamma)
+    M = np.asarray(M, dtype=float)
+    h = 0.5 * (gamma - 1.0)
+    huge = M > HUGE_MACH
+    if not nx.any_true(huge):
+        return np.log1p(h * M * M)
+    log_huge = 2.0 * np.log(np.where(huge, M, 1.0)) + np.log(h)
+    return np.where(huge, log_huge, log_stagnation_temperature_ratio(np.where(huge, 2.0, M), gamma))
+
+
+def _log_stagnation_temperature_ratio_scalar(M, gamma):
+    """Scalar form of :func:`log_stagnation_temperature_ratio` (math module)."""
+    h = 0.5 * (gamma - 1.0)
+    if M > HUGE_MACH:
+        return 2.0 * nx.flog(M) + nx.flog(h)
+    return nx.flog1p(h * M * M)
 
 def temperature_ratio(M, gamma=1.4):
     """T/T0 = 1/(1 + (γ-1)M²/2)  (NACA Report 1135, eq. 43)."""
+    if nx.plain_scalars(M, gamma):
+        return _temperature_ratio_scalar(M, gamma)
     M = np.asarray(M, dtype=float)
+    huge = M > HUGE_MACH
+    if nx.any_true(huge):  # 1/((γ-1)M²/2) without forming M², down to 0 at M = inf
+        return np.where(huge, np.exp(-log_stagnation_temperature_ratio(M, gamma)),
+                        temperature_ratio(np.where(huge, 2.0, M), gamma))
     return 1.0 / (1.0 + 0.5 * (gamma - 1.0) * M * M)
 
 
+def _temperature_ratio_scalar(M, gamma):
+    if M > HUGE_MACH:
+        return nx.fexp(-_log_stagnation_temperature_ratio_scalar(M, gamma))
+    return nx.fdiv(1.0, 1.0 + 0.5 * (gamma - 1.0) * M * M)
+
 def pressure_ratio(M, gamma=1.4):
     """p/p0 = (1 + (γ-1)M²/2)^(-γ/(γ-1))  (NACA Report 1135, eq. 44)."""
+    if nx.plain_scalars(M, gamma):
+        return _pressure_ratio_scalar(M, gamma)
     M = np.asarray(M, dtype=float)
-    return np.exp(-gamma / (gamma - 1.0) * _log_stagnation_temperature_ratio(M, gamma))
+    return np.exp(-gamma / (gamma - 1.0) * log_stagnation_temperature_ratio(M, gamma))
 
+
+def _pressure_ratio_scalar(M, gamma):
+    exponent = nx.fdiv(gamma, gamma - 1.0)
+    return nx.fexp(-exponent * _log_stagnation_temperature_ratio_scalar(M, gamma))
 
 def density_ratio(M, gamma=1.4):
     """ρ/ρ0 = (1 + (γ-1)M²/2)^(-1/(γ-1))  (NACA Report 1135, eq. 45)."""
+    if nx.plain_scalars(M, gamma):
+        return _density_ratio_scalar(M, gamma)
     M = np.asarray(M, dtype=float)
-    return np.exp(-1.0 / (gamma - 1.0) * _log_stagnation_temperature_ratio(M, gamma))
+    return np.exp(-1.0 / (gamma - 1.0) * log_stagnation_temperature_ratio(M, gamma))
 
+
+def _density_ratio_scalar(M, gamma):
+    return nx.fexp(-nx.fdiv(1.0, gamma - 1.0) * _log_stagnation_temperature_ratio_scalar(M, gamma))
 
 def _log_area_ratio(M, gamma):
-    """ln(A/A*) = -ln M + (γ+1)/(2(γ-1)) ln(1 + (γ-1)(M²-1)/(γ+1))."""
+    """ln(A/A*) = -ln M + (γ+1)/(2(γ-1)) ln(1 + (γ-1)(M²-1)/(γ+1)); above M = 1e150 as
+    (2e - 1) ln M + e ln((γ-1)/(γ+1)), e = (γ+1)/(2(γ-1)) (no M², inf at M = inf)."""
     exponent = 0.5 * (gamma + 1.0) / (gamma - 1.0)
+    huge = np.asarray(M) > HUGE_MACH
+    if nx.any_true(huge):
+        far = ((2.0 * exponent - 1.0) * np.log(np.where(huge, M, 1.0))
+               + exponent * np.log((gamma - 1.0) / (gamma + 1.0)))
+        return np.where(huge, far, _log_area_ratio(np.where(huge, 2.0, M), gamma))
     return -np.log(M) + exponent * np.log1p((gamma - 1.0) * (M - 1.0) * (M + 1.0) / (gamma + 1.0))
 
 
+def _log_area_ratio_scalar(M, gamma):
+    """Scalar form of :func:`_log_area_ratio`."""
+    exponent = nx.fdiv(0.5 * (gamma + 1.0), gamma - 1.0)
+    if M > HUGE_MACH:
+        return ((2.0 * exponent - 1.0) * nx.flog(M)
+                + exponent * nx.flog(nx.fdiv(gamma - 1.0, gamma + 1.0)))
+    return -nx.flog(M) + exponent * nx.flog1p(
+        nx.fdiv((gamma - 1.0) * (M - 1.0) * (M + 1.0), gamma + 1.0))
+
 def area_ratio(M, gamma=1.4):
     """A/A* = (1/M)[(2 + (γ-1)M²)/(γ+1)]^((γ+1)/(2(γ-1)))  (NACA Report 1135, eq. 80)."""
+    if nx.plain_scalars(M, gamma):
+        return _area_ratio_scalar(M, gamma)
     M = np.asarray(M, dtype=float)
     with np.errstate(divide="ignore", over="ignore"):  # A/A* → ∞ as M → 0 (inf is exact)
         return np.exp(_log_area_ratio(M, gamma))
 
 
+def _area_ratio_scalar(M, gamma):
+    return nx.fexp(_log_area_ratio_scalar(M, gamma))
+
 def mach_angle_of(M):
     """μ = asin(1/M) [rad] for M >= 1 (NaN below), as atan2(1, √(M²-1)) for accuracy near M = 1."""
+    if nx.plain_scalars(M):
+        return _mach_angle_scalar(M)
     M = np.asarray(M, dtype=float)
+    if nx.any_true(M > HUGE_MACH):  # √(M² - 1) = M to rounding there (and M² may overflow)
+        with np.errstate(invalid="ignore", over="ignore"):
+            return np.arctan2(1.0, np.where(M > HUGE_MACH, M, np.sqrt((M - 1.0) * (M + 1.0))))
     with np.errstate(invalid="ignore"):
         return np.arctan2(1.0, np.sqrt((M - 1.0) * (M + 1.0)))
+
+
+def _mach_angle_scalar(M):
+    if M > HUGE_MACH:
+        return math.atan2(1.0, M)
+    return math.atan2(1.0, nx.fsqrt((M - 1.0) * (M + 1.0)))
 
 
 def mach_from_mach_angle(mu):
@@ -98,14 +186,39 @@ def mach_from_mach_angle(mu):
 
 def mach_from_temperature_ratio(T_T0, gamma=1.4):
     """M = √(2(1 - T/T0)/((γ-1) T/T0)) for 0 < T/T0 <= 1."""
+    if nx.plain_scalars(T_T0, gamma):
+        return _mach_from_temperature_ratio_scalar(T_T0, gamma)
     T_T0 = np.asarray(T_T0, dtype=float)
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
+        tiny = T_T0 < 1e-300
+        if nx.any_true(tiny):  # √T apart, so that a subnormal T/T0 cannot overflow
+            return np.where(tiny, np.sqrt(2.0 * (1.0 - T_T0) / (gamma - 1.0)) / np.sqrt(T_T0),
+                            np.sqrt(2.0 * (1.0 - T_T0) / ((gamma - 1.0) * T_T0)))
         return np.sqrt(2.0 * (1.0 - T_T0) / ((gamma - 1.0) * T_T0))
 
 
+def _mach_from_temperature_ratio_scalar(T_T0, gamma):
+    if T_T0 < 1e-300:
+        return nx.fdiv(nx.fsqrt(nx.fdiv(2.0 * (1.0 - T_T0), gamma - 1.0)), nx.fsqrt(T_T0))
+    return nx.fsqrt(nx.fdiv(2.0 * (1.0 - T_T0), (gamma - 1.0) * T_T0))
+
 def _mach_from_log_stagnation_temperature(log_T0_T, gamma):
+    """M = √(2 (T0/T - 1)/(γ-1)) from ln(T0/T); past ln(T0/T) = 700 as
+    √(2/(γ-1)) e^(L/2) √(1 - e^(-L)), which overflows only when M does."""
+    huge = np.asarray(log_T0_T) > _HUGE_LOG
+    if nx.any_true(huge):
+        with np.errstate(over="ignore"):
+            return np.where(huge, np.sqrt(2.0 / (gamma - 1.0) * -np.expm1(-log_T0_T))
+                            * np.exp(0.5 * log_T0_T),
+                            np.sqrt(2.0 / (gamma - 1.0) * np.expm1(log_T0_T)))
     return np.sqrt(2.0 / (gamma - 1.0) * np.expm1(log_T0_T))
 
+
+def _mach_from_log_stagnation_temperature_scalar(log_T0_T, gamma):
+    scale = nx.fdiv(2.0, gamma - 1.0)
+    if log_T0_T > _HUGE_LOG:
+        return nx.fsqrt(scale * -math.expm1(-log_T0_T)) * nx.fexp(0.5 * log_T0_T)
+    return nx.fsqrt(scale * nx.fexpm1(log_T0_T))
 
 def mach_after_isentropic_pressure_change(M1, p2_p1, gamma=1.4):
     """Plain core: Mach number after an isentropic change of static pressure by p2/p1 > 0.
@@ -133,24 +246,42 @@ def mach_after_isentropic_pressure_change(M1, p2_p1, gamma=1.4):
     >>> round(float(mach_after_isentropic_pressure_change(2.0, 0.5)), 5)  # a fan at Mach 2
     2.44359
     """
-    log_T0_T2 = (np.log1p(0.5 * (gamma - 1.0) * np.asarray(M1, dtype=float) ** 2)
+    if nx.plain_scalars(M1, p2_p1, gamma):
+        return _mach_after_isentropic_pressure_change_scalar(M1, p2_p1, gamma)
+    log_T0_T2 = (log_stagnation_temperature_ratio(M1, gamma)
                  - (gamma - 1.0) / gamma * np.log(p2_p1))
     return _mach_from_log_stagnation_temperature(log_T0_T2, gamma)
 
 
+def _mach_after_isentropic_pressure_change_scalar(M1, p2_p1, gamma):
+    log_T0_T2 = (_log_stagnation_temperature_ratio_scalar(M1, gamma)
+                 - (gamma - 1.0) / gamma * nx.flog(p2_p1))
+    return _mach_from_log_stagnation_temperature_scalar(log_T0_T2, gamma)
+
 def mach_from_pressure_ratio(p_p0, gamma=1.4):
     """M from p/p0 in (0, 1] (closed form through T0/T = (p0/p)^((γ-1)/γ))."""
+    if nx.plain_scalars(p_p0, gamma):
+        return _mach_from_pressure_ratio_scalar(p_p0, gamma)
     p_p0 = np.asarray(p_p0, dtype=float)
     with np.errstate(divide="ignore"):
         return _mach_from_log_stagnation_temperature(-(gamma - 1.0) / gamma * np.log(p_p0), gamma)
 
 
+def _mach_from_pressure_ratio_scalar(p_p0, gamma):
+    return _mach_from_log_stagnation_temperature_scalar(
+        -(gamma - 1.0) / gamma * nx.flog(p_p0), gamma)
+
 def mach_from_density_ratio(rho_rho0, gamma=1.4):
     """M from ρ/ρ0 in (0, 1] (closed form through T0/T = (ρ0/ρ)^(γ-1))."""
+    if nx.plain_scalars(rho_rho0, gamma):
+        return _mach_from_density_ratio_scalar(rho_rho0, gamma)
     rho_rho0 = np.asarray(rho_rho0, dtype=float)
     with np.errstate(divide="ignore"):
         return _mach_from_log_stagnation_temperature(-(gamma - 1.0) * np.log(rho_rho0), gamma)
 
+
+def _mach_from_density_ratio_scalar(rho_rho0, gamma):
+    return _mach_from_log_stagnation_temperature_scalar(-(gamma - 1.0) * nx.flog(rho_rho0), gamma)
 
 _AREA_HALLEY_STEPS = 3  # start within 12 % for γ >= 1.05: 0.12 -> 1e-3 -> 1e-9 -> rounding
 _AREA_ACCEPT_STEP = 1e-8  # a larger last step (relative) sends the element to the fallback
@@ -179,6 +310,19 @@ def _area_root_and_slopes(M, gamma):
     return root, slope, curvature
 
 
+def _area_root_and_slopes_scalar(M, gamma):
+    """Scalar form of :func:`_area_root_and_slopes`."""
+    h = 0.5 * (gamma - 1.0)
+    m2 = M * M
+    F = max(_log_area_ratio_scalar(M, gamma), 0.0)
+    root = math.sqrt(F)
+    dF = nx.fdiv((M - 1.0) * (M + 1.0), M * (1.0 + h * m2))
+    t = 1.0 + h * m2
+    d2F = nx.fdiv(1.0 + (1.0 + 3.0 * h) * m2 - h * m2 * m2, m2 * t * t)
+    if root < _NEAR_SONIC_ROOT:
+        return root, math.sqrt(2.0 / (gamma + 1.0)), -(5.0 * gamma - 3.0) / (3.0 * (gamma + 1.0))
+    return root, abs(dF) / (2.0 * root), nx.fdiv(d2F, dF) - nx.fdiv(dF, 2.0 * F)
+
 def _area_ratio_start(log_A, gamma, supersonic):
     """Explicit start for M(A/A*): of two estimates, the one with the smaller residual.
 
@@ -200,13 +344,32 @@ def _area_ratio_start(log_A, gamma, supersonic):
         far = np.exp(h * (log_A + e * np.log((gamma + 1.0) / (gamma - 1.0))))
         far = np.maximum(far * np.exp(-e * h * np.log1p(1.0 / (h * far * far))), 1.0)
     else:
-        near = np.clip(1.0 - qs * (1.0 - third_c * qs), 1e-300, 1.0)
+        near = np.clip(1.0 - qs * (1.0 - third_c * qs), 5e-324, 1.0)
         M0 = np.exp(e * np.log(2.0 / (gamma + 1.0)) - log_A)
-        far = np.clip(M0 * np.exp(e * np.log1p(h * M0 * M0)), 1e-300, 1.0)
+        far = np.clip(M0 * np.exp(e * np.log1p(h * M0 * M0)), 5e-324, 1.0)
     miss_near = np.abs(np.sqrt(np.maximum(_log_area_ratio(near, gamma), 0.0)) - s)
     miss_far = np.abs(np.sqrt(np.maximum(_log_area_ratio(far, gamma), 0.0)) - s)
     return np.where(miss_far < miss_near, far, near)
 
+
+def _area_ratio_start_scalar(log_A, gamma, supersonic):
+    """Scalar form of :func:`_area_ratio_start`."""
+    e = 0.5 * (gamma + 1.0) / (gamma - 1.0)
+    h = 0.5 * (gamma - 1.0)
+    s = nx.fsqrt(log_A)
+    qs = math.sqrt(0.5 * (gamma + 1.0)) * s
+    third_c = (5.0 * gamma - 3.0) / (6.0 * (gamma + 1.0))
+    if supersonic:
+        near = 1.0 + qs * (1.0 + third_c * qs)
+        far = nx.fexp(h * (log_A + e * math.log((gamma + 1.0) / (gamma - 1.0))))
+        far = max(far * nx.fexp(-e * h * nx.flog1p(nx.fdiv(1.0, h * far * far))), 1.0)
+    else:
+        near = nx.fclip(1.0 - qs * (1.0 - third_c * qs), 5e-324, 1.0)
+        M0 = nx.fexp(e * math.log(2.0 / (gamma + 1.0)) - log_A)
+        far = nx.fclip(M0 * nx.fexp(e * nx.flog1p(h * M0 * M0)), 5e-324, 1.0)
+    miss_near = abs(nx.fsqrt(max(_log_area_ratio_scalar(near, gamma), 0.0)) - s)
+    miss_far = abs(nx.fsqrt(max(_log_area_ratio_scalar(far, gamma), 0.0)) - s)
+    return far if miss_far < miss_near else near
 
 def _area_ratio_halley(A, gamma, supersonic):
     """Fixed-cost part of :func:`mach_from_area_ratio`: start and Halley steps (1-d blocks).
@@ -229,6 +392,23 @@ def _area_ratio_halley(A, gamma, supersonic):
     return M, last
 
 
+def _area_ratio_halley_scalar(A, gamma, supersonic):
+    """Scalar form of :func:`_area_ratio_halley`."""
+    sign = 1.0 if supersonic else -1.0
+    log_A = nx.flog(A)
+    target = sign * nx.fsqrt(log_A)
+    M = _area_ratio_start_scalar(log_A, gamma, supersonic)
+    last = math.inf
+    for _ in range(_AREA_HALLEY_STEPS):
+        root, slope, curvature = _area_root_and_slopes_scalar(M, gamma)
+        newton = nx.fdiv(sign * root - target, slope)
+        halley = newton / max(1.0 - 0.5 * newton * curvature, 0.5) if newton == newton else newton
+        M_new = M - halley
+        M_new = max(M_new, 1.0) if supersonic else nx.fclip(M_new, 0.25 * M, 1.0)
+        last = abs(M_new - M) / M
+        M = M_new
+    return M, last
+
 def mach_from_area_ratio(A_Astar, gamma=1.4, supersonic=True):
     """M from A/A* >= 1 on the supersonic (default) or subsonic branch.
 
@@ -238,10 +418,12 @@ def mach_from_area_ratio(A_Astar, gamma=1.4, supersonic=True):
     :func:`_area_ratio_start`) is followed by three Halley steps, a fixed cost.
     Elements whose last step is still above 1e-8 relative (possible for γ close
     to 1, where the start is poorest) are finished by the bracketed
-    :func:`~gasdyn2d._numerics.safeguarded_newton`. Converges to rounding: the
+    :func:`~gasdyn2d.numerics.safeguarded_newton`. Converges to rounding: the
     error is a few ulp times the condition number of the inverse, which is
     infinite at M = 1 (dA/dM = 0 there).
     """
+    if nx.plain_scalars(A_Astar, gamma):
+        return _mach_from_area_ratio_scalar(A_Astar, gamma, supersonic)
     A, gamma = np.broadcast_arrays(
         np.asarray(A_Astar, dtype=float), np.asarray(gamma, dtype=float)
     )
@@ -255,6 +437,22 @@ def mach_from_area_ratio(A_Astar, gamma=1.4, supersonic=True):
     M = np.where(A == np.inf, np.inf if supersonic else 0.0, M)
     return np.where(A < 1.0, np.nan, M)
 
+
+def _mach_from_area_ratio_scalar(A, gamma, supersonic):
+    """Scalar form of :func:`mach_from_area_ratio`; the rare bracketed fallback runs on
+    the array form (one element), so both forms share it exactly."""
+    if A < 1.0:
+        return math.nan
+    if A == 1.0:
+        return 1.0
+    if A == math.inf:
+        return math.inf if supersonic else 0.0
+    M, last = _area_ratio_halley_scalar(A, gamma, supersonic)
+    if not (last <= _AREA_ACCEPT_STEP) and A > 1.0 and gamma > 1.0:
+        with np.errstate(all="ignore"):
+            M = float(_area_ratio_fallback(np.array([A]), np.array([float(gamma)]),
+                                           supersonic)[0])
+    return M
 
 def _area_ratio_fallback(A, gamma, supersonic):
     """Bracketed Newton on the signed root, for the few elements the fixed steps miss."""

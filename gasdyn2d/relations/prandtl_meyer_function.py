@@ -14,6 +14,7 @@ import math
 import numpy as np
 
 from .. import numerics as nx
+from ..numerics import HUGE_MACH
 
 __all__ = [
     "prandtl_meyer_angle",
@@ -37,6 +38,17 @@ def _atan_minus_x_series(x):
     return acc * x2 * x
 
 
+_SERIES_COEFFICIENTS = tuple((-1.0) ** n / (2 * n + 1) for n in range(_SERIES_TERMS, 0, -1))
+
+
+def _atan_minus_x_series_scalar(x):
+    """Scalar form of :func:`_atan_minus_x_series` (the same terms in the same order)."""
+    x2 = x * x
+    acc = 0.0
+    for coefficient in _SERIES_COEFFICIENTS:
+        acc = acc * x2 + coefficient
+    return acc * x2 * x
+
 def _nu_of_z(z, gamma):
     """ν as a function of z = sqrt(M² - 1) (plain core, radians)."""
     z = np.asarray(z, dtype=float)
@@ -55,6 +67,13 @@ def _nu_of_z(z, gamma):
     return nu
 
 
+def _nu_of_z_scalar(z, gamma):
+    """Scalar form of :func:`_nu_of_z`."""
+    sk = math.sqrt((gamma - 1.0) / (gamma + 1.0))
+    if z < _SERIES_LIMIT:
+        return _atan_minus_x_series_scalar(sk * z) / sk - _atan_minus_x_series_scalar(z)
+    return math.atan(sk * z) / sk - math.atan(z)  # NACA 1135, eq. 171
+
 def _dnu_dz(z, gamma):
     z2 = z * z
     return z2 / ((1.0 + z2) * (1.0 + 0.5 * (gamma - 1.0) * (1.0 + z2)))
@@ -62,18 +81,30 @@ def _dnu_dz(z, gamma):
 
 def max_prandtl_meyer_angle(gamma=1.4):
     """ν_max = (π/2)(√((γ+1)/(γ-1)) - 1) [rad], the turn that expands a sonic flow to vacuum."""
+    if nx.plain_scalars(gamma):
+        return _max_prandtl_meyer_angle_scalar(gamma)
     gamma = np.asarray(gamma, dtype=float)
     return 0.5 * np.pi * (np.sqrt((gamma + 1.0) / (gamma - 1.0)) - 1.0)
 
+
+def _max_prandtl_meyer_angle_scalar(gamma):
+    return 0.5 * math.pi * (nx.fsqrt(nx.fdiv(gamma + 1.0, gamma - 1.0)) - 1.0)
 
 def prandtl_meyer_angle(M, gamma=1.4):
     """Plain core: Prandtl–Meyer function ν(M) [rad] for M >= 1 (NaN below 1).
 
     Accurate to a few ulp from M = 1 (series form) to M → ∞ (ν → ν_max).
     """
+    if nx.plain_scalars(M, gamma):
+        return _prandtl_meyer_angle_scalar(M, gamma)
     M = np.asarray(M, dtype=float)
     with np.errstate(invalid="ignore"):
-        z = np.sqrt((M - 1.0) * (M + 1.0))
+        huge = M > HUGE_MACH
+        if nx.any_true(huge):  # √(M² - 1) = M to rounding there (and M² may overflow)
+            safe = np.where(huge, 2.0, M)
+            z = np.where(huge, M, np.sqrt((safe - 1.0) * (safe + 1.0)))
+        else:
+            z = np.sqrt((M - 1.0) * (M + 1.0))
         nu = _nu_of_z(z, gamma)
     # M = inf is the vacuum limit ν_max (0·inf must not turn it into NaN)
     infinite = M == np.inf
@@ -81,6 +112,13 @@ def prandtl_meyer_angle(M, gamma=1.4):
         return nu
     return np.where(infinite, max_prandtl_meyer_angle(gamma), nu)
 
+
+def _prandtl_meyer_angle_scalar(M, gamma):
+    """Scalar form of :func:`prandtl_meyer_angle`."""
+    if M == math.inf:
+        return _max_prandtl_meyer_angle_scalar(gamma)
+    z = M if M > HUGE_MACH else nx.fsqrt((M - 1.0) * (M + 1.0))
+    return _nu_of_z_scalar(z, gamma)
 
 def mach_from_prandtl_meyer_angle(nu, gamma=1.4):
     """Plain core: Mach number from ν [rad], 0 <= ν <= ν_max (NaN outside).
@@ -94,6 +132,8 @@ def mach_from_prandtl_meyer_angle(nu, gamma=1.4):
     moderate M and grows like M near ν_max (the problem itself amplifies the
     rounding of ν there).
     """
+    if nx.plain_scalars(nu, gamma):
+        return _mach_from_prandtl_meyer_angle_scalar(nu, gamma)
     nu = np.asarray(nu, dtype=float)
     gamma = np.asarray(gamma, dtype=float)
     k = (gamma - 1.0) / (gamma + 1.0)
@@ -117,6 +157,31 @@ def mach_from_prandtl_meyer_angle(nu, gamma=1.4):
     M = np.where(nu == 0.0, 1.0, M)
     M = np.where(nu == nu_max, np.inf, M)
     return np.where(bad, np.nan, M)
+
+
+def _mach_from_prandtl_meyer_angle_scalar(nu, gamma):
+    """Scalar form of :func:`mach_from_prandtl_meyer_angle` (the same start and steps)."""
+    k = (gamma - 1.0) / (gamma + 1.0)
+    nu_max = _max_prandtl_meyer_angle_scalar(gamma)
+    if not (0.0 <= nu <= nu_max):
+        return math.nan
+    if nu == 0.0:
+        return 1.0
+    if nu == nu_max:
+        return math.inf
+    z = (3.0 * nu / (1.0 - k)) ** (1.0 / 3.0) + (1.0 / k - 1.0) * (
+        1.0 / (nu_max - nu) - 1.0 / nu_max
+    )
+    log_z = math.log(z)
+    h = 0.5 * (gamma - 1.0)
+    for _ in range(_HALLEY_STEPS):
+        z = nx.fexp(log_z)
+        z2 = z * z
+        slope = z * (z2 / ((1.0 + z2) * (1.0 + h * (1.0 + z2))))  # z dν/dz, _dnu_dz
+        curvature = 3.0 - 2.0 * z2 / (1.0 + z2) - 2.0 * h * z2 / (1.0 + h + h * z2)
+        newton = nx.fdiv(_nu_of_z_scalar(z, gamma) - nu, slope)
+        log_z = log_z - nx.fdiv(newton, 1.0 - 0.5 * newton * curvature)
+    return math.hypot(1.0, nx.fexp(log_z))
 
 
 def check_prandtl_meyer_angle(nu, gamma, name, check):

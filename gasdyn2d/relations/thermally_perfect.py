@@ -76,7 +76,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from .. import _numerics as nx
+from .. import numerics as nx
 from ..errors import InvalidInputError
 from .expansion_fans import mach_from_prandtl_meyer_angle as _perfect_gas_nu_inverse
 from .expansion_fans import prandtl_meyer_angle as _perfect_gas_nu

@@ -41,7 +41,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from .. import _numerics as nx
+from .. import numerics as nx
 from .oblique_shocks import detachment_angles as _perfect_gas_detachment
 from .oblique_shocks import sonic_angles as _perfect_gas_sonic
 from .oblique_shocks import wv_from_deflection as _perfect_gas_wv

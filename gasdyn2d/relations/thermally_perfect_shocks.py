@@ -55,7 +55,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from .. import _numerics as nx
+from .. import numerics as nx
 from .gas import oscillator_terms
 from .normal_shocks import mach_from_downstream_mach as _perfect_gas_from_downstream_mach
 from .normal_shocks import mach_from_pitot_ratio as _perfect_gas_from_pitot_ratio
