@@ -1,6 +1,6 @@
 """``python -m gasdyn2d``: a short worked analysis of an invented vehicle.
 
-The scenario is ours: *Tern*, a small uncrewed demonstrator cruising at Mach
+The scenario is ours: *Quillmoss*, a small uncrewed demonstrator cruising at Mach
 2.2 at 15 km (standard-atmosphere static pressure 12.11 kPa, temperature
 216.65 K). The tour follows the air from the nose wedge to the intake and the
 control fin, printing what each gasdyn2d tool says about it.
@@ -19,7 +19,7 @@ def _rule(title: str) -> None:
 
 
 def free_stream():
-    _rule("1. Free stream: Tern at Mach 2.2, 15 km")
+    _rule("1. Free stream: Quillmoss at Mach 2.2, 15 km")
     air = gd.FlowState(2.2, 12.11 * ureg.kPa, 216.65 * ureg.K)
     print(f"speed {air.V.to('m/s'):.1f~P}, dynamic pressure {air.q.to('kPa'):.2f~P}, "
           f"stagnation {air.p0.to('kPa'):.1f~P} and {air.T0.to('K'):.1f~P}")

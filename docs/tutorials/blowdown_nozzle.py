@@ -1,6 +1,6 @@
 """Tutorial: the contour of a blowdown-tunnel nozzle by the method of characteristics.
 
-Invented scenario: a university group is building the *Wren* blowdown
+Invented scenario: a university group is building the *Teaselgate* blowdown
 tunnel, Mach 3.0 in a test section 72 mm high (half-height 36 mm). A planar minimum-length
 nozzle with a sharp throat gives the shortest contour; how long is it, how
 close is its exit to the isentropic area ratio, and how does that change with
@@ -46,7 +46,7 @@ nozzle = minimum_length_nozzle(M_EXIT, n_characteristics=16,
                                throat_half_height=throat_half_height)
 fig, ax = plt.subplots(figsize=(9, 3.6), layout="constrained")
 draw_characteristic_net(nozzle, ax=ax)
-ax.set_title("Wren tunnel: Mach 3 minimum-length nozzle, 16 characteristics (upper half)",
+ax.set_title("Teaselgate tunnel: Mach 3 minimum-length nozzle, 16 characteristics (upper half)",
              fontsize="medium")
 fig.savefig(out / "blowdown_nozzle_net.png", dpi=110)
 print(f"largest wall angle at the throat corner: {np.degrees(nozzle.max_wall_angle):.2f}°")

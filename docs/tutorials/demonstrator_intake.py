@@ -1,6 +1,6 @@
 """Tutorial: a two-ramp intake for an uncrewed Mach 2.5 demonstrator.
 
-Invented scenario: the *Kite-25* demonstrator cruises at Mach 2.5 and needs
+Invented scenario: the *Burrowlamp-25* demonstrator cruises at Mach 2.5 and needs
 a planar two-ramp external-compression intake with a capture height set by
 a 0.30 m first ramp. Which ramp turns give the best pressure recovery, where
 do the ramp shocks go, and what happens off design at Mach 2.2?
@@ -71,7 +71,7 @@ for ax, M, intake in zip(axes, (M_CRUISE, M_OFF), (design, off)):
     drawn = draw_wave_pattern(solution, walls=[ramp, cowl], stop_at_waves=False,
                               extent=(-0.05, 0.6, -0.02, 0.40), ax=ax)
     ax.plot(*lip, marker="o", color="black", ms=4)
-    ax.set_title(f"Kite-25 intake ramps at Mach {M}", fontsize="medium")
+    ax.set_title(f"Burrowlamp-25 intake ramps at Mach {M}", fontsize="medium")
 fig.savefig(out / "demonstrator_intake.png", dpi=110)
 
 machs = np.linspace(1.8, 3.0, 25)

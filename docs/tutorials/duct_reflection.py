@@ -1,6 +1,6 @@
 """Tutorial: a wedge shock reflecting in the test section of a wind tunnel.
 
-Invented scenario: the *Kestrel* blowdown tunnel has a Mach 2.6 test section
+Invented scenario: the *Spindlebrook* blowdown tunnel has a Mach 2.6 test section
 120 mm high. A 7° wedge model sits on the floor with its tip at x = 0; its
 shock crosses the test section, reflects from the roof, and comes back down.
 Where does the reflected shock land, and is the reflection regular?
@@ -56,7 +56,7 @@ draw_pattern_polars(solution, ["1", "2"], marks=["2", "3"], ax=left)
 left.set_title("polars of the free stream and of region 2", fontsize="medium")
 drawn = draw_wave_pattern(solution, walls=[floor, roof], extent=(-0.05, x_end, -0.005, 0.125),
                           ax=right)
-right.set_title("Kestrel test section, 7° wedge at Mach 2.6", fontsize="medium")
+right.set_title("Spindlebrook test section, 7° wedge at Mach 2.6", fontsize="medium")
 fig.savefig(out / "duct_reflection.png", dpi=110)
 
 x_hit, y_hit = drawn["lines"]["roof reflection"][0][2:]

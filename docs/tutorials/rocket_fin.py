@@ -1,6 +1,6 @@
 """Tutorial: loads on a fin of a small research rocket, by three theories.
 
-Invented scenario: the *Petrel-3* sounding rocket has four flat-faced fins
+Invented scenario: the *Lintwhistle-3* sounding rocket has four flat-faced fins
 with a double-wedge section, 4.5 % thick with the ridge at 40 % chord. At
 burnout it flies at Mach 3.2; a gust gives the fins 4° of incidence. How
 much do the exact (shock-expansion), linear and second-order theories differ,
@@ -35,10 +35,10 @@ alpha = np.radians(4.0)
 fig, (ax, outline) = plt.subplots(2, 1, figsize=(7, 5.5), height_ratios=[4, 1],
                                   layout="constrained")
 drawn = draw_surface_pressures(fin, 3.2, alpha, ax=ax, section_ax=outline)
-ax.set_title("Petrel-3 fin section at Mach 3.2, 4° incidence", fontsize="medium")
+ax.set_title("Lintwhistle-3 fin section at Mach 3.2, 4° incidence", fontsize="medium")
 fig.savefig(out / "rocket_fin_pressures.png", dpi=110)
 
-print("Petrel-3 fin at Mach 3.2, 4° incidence")
+print("Lintwhistle-3 fin at Mach 3.2, 4° incidence")
 print(f"{'theory':<16} {'cl':>8} {'cd':>8} {'x_cp/c':>8}")
 for theory, loads in drawn["loads"].items():
     print(f"{theory:<16} {loads.cl:8.4f} {loads.cd:8.5f} {loads.x_cp:8.4f}")
@@ -65,5 +65,5 @@ top.set_ylabel("lift coefficient cl [-]")
 bottom.set_ylabel("wave-drag coefficient cd [-]")
 bottom.set_xlabel("Mach number [-]")
 top.legend(frameon=False)
-top.set_title("Petrel-3 fin section, 4° incidence", fontsize="medium")
+top.set_title("Lintwhistle-3 fin section, 4° incidence", fontsize="medium")
 fig.savefig(out / "rocket_fin_coast.png", dpi=110)

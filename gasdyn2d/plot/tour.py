@@ -10,7 +10,7 @@ __all__ = ["tour_figure"]
 def tour_figure(path, *, dpi=110):
     """Save a two-panel figure: the polars of a duct reflection and its wave pattern.
 
-    The scenario is ours: the Mach 2.2 stream of the *Tern* demonstrator
+    The scenario is ours: the Mach 2.2 stream of the *Quillmoss* demonstrator
     (see ``python -m gasdyn2d``) meets an 8° ramp inside a duct of unit
     height; the ramp shock reflects from the opposite wall.
 
