@@ -167,3 +167,18 @@ def test_figure_option_is_refused_with_table(capsys):
     with pytest.raises(SystemExit) as stop:
         main(["--figure", "x.png", "table", "isentropic", "--mach", "2"])
     assert stop.value.code == 2 and "--figure" in capsys.readouterr().err
+
+
+def test_version_comes_from_one_place():
+    # pyproject.toml reads the version from gasdyn2d.__version__: the installed metadata agrees
+    from importlib.metadata import PackageNotFoundError, version
+
+    try:
+        installed = version("gasdyn2d")
+    except PackageNotFoundError:
+        pytest.skip("gasdyn2d is not installed (run from a source tree)")
+    if Path(gasdyn2d.__file__).resolve().parents[1] != ROOT:
+        pytest.skip("another gasdyn2d is imported")
+    pyproject = (ROOT / "pyproject.toml").read_text()
+    assert 'dynamic = ["version"]' in pyproject and "version = \"" not in pyproject
+    assert installed == gasdyn2d.__version__
