@@ -858,3 +858,21 @@ def test_new_figures_are_sized_to_their_data(length, height, tmp_path):
     box = drawn.figure.bbox
     # no empty bands: the drawing and its labels fill most of the figure both ways
     assert used.width / box.width > 0.85 and used.height / box.height > 0.8
+
+
+def test_same_family_shocks_never_run_past_each_other():
+    # invented: the two ramps of merging_ramps() at Mach 2.2, without the merged shock
+    # (29° of turn in one shock would detach at Mach 2.2): the lines end where they meet
+    first, second = np.radians(7.0), np.radians(8.0)
+    corner = (0.30 * np.cos(first), 0.30 * np.sin(first))
+    p = WavePattern(2.2)
+    p.add_wave("first ramp shock", upstream="1", downstream="2", family="left", turn=first,
+               start=(0.0, 0.0))
+    p.add_wave("second ramp shock", upstream="2", downstream="3", family="left", turn=second,
+               start=corner)
+    solution = p.solve()
+    drawn = draw_wave_pattern(solution, extent=(-0.05, 0.8, -0.02, 0.6))
+    point = solution.meeting_point("first ramp shock", "second ramp shock")
+    for name in ("first ramp shock", "second ramp shock"):
+        x, y = drawn.shocks[name].get_data()
+        assert (x[1], y[1]) == pytest.approx(point, rel=1e-9)

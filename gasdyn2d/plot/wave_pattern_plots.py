@@ -40,7 +40,7 @@ def _pattern_waves(solution, case):
         start = (_pick(link.start_x, case), _pick(link.start_y, case))
         placed = link.start_source != "" and np.all(np.isfinite(start))
         out.append((name, link.upstream, link.downstream,
-                    tuple(float(v) for v in start) if placed else None))
+                    tuple(float(v) for v in start) if placed else None, link.family))
     return out
 
 
@@ -85,8 +85,8 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
     ----------
     waves : list of dict
         In solution order, each with ``name``, ``upstream``, ``downstream``,
-        ``start`` ((x, y) or None), ``kind`` ("shock" or "fan") and ``head``,
-        ``tail`` plane directions [rad].
+        ``start`` ((x, y) or None), ``kind`` ("shock" or "fan"), ``family``
+        ("left" or "right") and ``head``, ``tail`` plane directions [rad].
     wall_segments : ndarray, shape (k, 4)
         Wall segments (x0, y0, x1, y1) [m].
     extent : (xmin, xmax, ymin, ymax)
@@ -96,10 +96,20 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
     -------
     dict
         name -> list of (x0, y0, x1, y1), one per line of the wave.
+
+    Notes
+    -----
+    A wave's line is not stopped by the wave that made its upstream region
+    or by the waves leaving its downstream region when they run in the other
+    family (a reflection starts on its incident wave). Two shocks of one
+    family do stop each other: a shock cannot run through a shock of its own
+    family (a second ramp shock overtaking the first), the two merge where
+    they meet, so both lines end at that point.
     """
     reach = 2.0 * np.hypot(extent[1] - extent[0], extent[3] - extent[2])
     fixed = np.vstack([wall_segments.reshape(-1, 4), _box_segments(extent)])
     made_by = {w["downstream"]: w["name"] for w in waves}
+    by_name = {w["name"]: w for w in waves}
     children = {w["name"]: {v["name"] for v in waves if v["upstream"] == w["downstream"]}
                 for w in waves}
     lines = {}
@@ -116,8 +126,11 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
                         "add_wave(..., start=(x, y)) or pass starts={name: (x, y)}.")
                 ends = np.asarray(new[parent])[:, 2:]
                 start = tuple(ends.mean(axis=0))
-            family = {w["name"], made_by.get(w["upstream"])} | children[w["name"]]
-            others = [np.asarray(v) for k, v in lines.items() if k not in family]
+            related = {w["name"], made_by.get(w["upstream"])} | children[w["name"]]
+            merging = {k for k in related if k in by_name and k != w["name"]
+                       and _same_family_shocks(w, by_name[k])}
+            others = [np.asarray(v) for k, v in lines.items()
+                      if k not in related or k in merging]
             blocking = np.vstack([fixed] + others) if stop_at_waves and others else fixed
             x0, y0 = float(start[0]), float(start[1])
             segs = []
@@ -132,18 +145,22 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
     return lines
 
 
+def _same_family_shocks(a, b):
+    return a["kind"] == b["kind"] == "shock" and a.get("family") == b.get("family")
+
+
 # --------------------------------------------------------------- drawing
 
 
 def _solution_waves(solution, starts, case):
     waves = []
-    for name, up, down, start in _pattern_waves(solution, case):
+    for name, up, down, start, family in _pattern_waves(solution, case):
         w = solution.wave(name)
         kind = _pick(w.kind, case)
         given = starts.get(name)
         if given is not None:
             given = tuple(float(v) for v in plain(given))
-        waves.append({"name": name, "upstream": up, "downstream": down,
+        waves.append({"name": name, "upstream": up, "downstream": down, "family": family,
                       "start": given if given is not None else start, "kind": str(kind),
                       "head": _pick(plain(w.head_line_direction), case),
                       "tail": _pick(plain(w.tail_line_direction), case)})
