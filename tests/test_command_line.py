@@ -135,7 +135,8 @@ def test_expansion_fan_table_with_gamma(capsys):
     rows = table(capsys, "expansion-fan", "--mach", "2", "--turn", "10", "--gamma", "1.3")
     nu2 = float(rows[0]["nu2 [deg]"])
     nu1 = float(rows[0]["nu1 [deg]"])
-    assert nu2 - nu1 == pytest.approx(10.0, abs=1e-8)  # the fan turns by ν2 - ν1 (fact of the trade)
+    # the fan turns the flow by ν2 - ν1 (fact of the trade)
+    assert nu2 - nu1 == pytest.approx(10.0, abs=1e-8)
     # ν(2) for γ = 1.3 from the closed form (NACA Report 1135, eq. 171)
     g = 1.3
     ref = (np.sqrt((g + 1) / (g - 1)) * np.arctan(np.sqrt((g - 1) / (g + 1) * 3.0))

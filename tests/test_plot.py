@@ -629,7 +629,8 @@ def test_keyword_arguments_reach_the_artists():
     assert all(w.get_alpha() is None for w in pattern.walls)  # walls keep the house style
     net = draw_characteristic_net(minimum_length_nozzle(2.0, n_characteristics=6),
                                   linewidths=0.3, cmap="viridis")
-    assert net.plus_lines.get_linewidths()[0] == 0.3 and net.minus_lines.get_cmap().name == "viridis"
+    assert net.plus_lines.get_linewidths()[0] == 0.3
+    assert net.minus_lines.get_cmap().name == "viridis"
     cp = draw_surface_pressures(Section.flat_plate(), 2.0, np.radians(2.0), linewidth=2.5)
     assert all(p.get_linewidth() == 2.5 for p in cp.upper.values())
     with pytest.raises(InvalidInputError, match="'colour_of_shock'"):

@@ -104,7 +104,8 @@ for ax, M, intake in zip(axes, (M_CRUISE, M_OFF), (design, off)):
                               length_unit="mm", ax=ax)
     ax.plot(1000 * lip[0], 1000 * lip[1], marker="o", color="black", ms=4)
     meet_x, meet_y = solution.meeting_point("first ramp shock", "second ramp shock")
-    where = "on the lip" if abs(meet_x - lip[0]) < 1e-3 else f"{1000 * (lip[0] - meet_x):.0f} mm ahead of the lip"
+    ahead = 1000 * (lip[0] - meet_x)  # [mm]
+    where = "on the lip" if abs(ahead) < 1.0 else f"{ahead:.0f} mm ahead of the lip"
     ax.plot(1000 * meet_x, 1000 * meet_y, marker="x", color="black", ms=6)
     print(f"Mach {M}: the ramp shocks meet at x = {1000 * meet_x:.0f} mm, "
           f"y = {1000 * meet_y:.0f} mm ({where})")
