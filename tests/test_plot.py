@@ -18,10 +18,12 @@ import numpy as np  # noqa: E402
 import pytest  # noqa: E402
 from scipy.optimize import brentq  # noqa: E402
 
+from gasdyn2d.errors import InvalidInputError  # noqa: E402
 from gasdyn2d.characteristics.jets import underexpanded_slot_jet  # noqa: E402
 from gasdyn2d.characteristics.nozzles import minimum_length_nozzle  # noqa: E402
-from gasdyn2d.plot import (PALETTE, draw_characteristic_net, draw_pattern_polars,  # noqa: E402
-                           draw_polars, draw_surface_pressures, draw_wave_pattern, tour_figure)
+from gasdyn2d.plot import (PALETTE, WAVE_STYLES, Drawing, draw_characteristic_net,  # noqa: E402
+                           draw_pattern_polars, draw_polars, draw_surface_pressures,
+                           draw_wave_pattern, tour_figure)
 from gasdyn2d.patterns.graph import WavePattern  # noqa: E402
 from gasdyn2d.design.sections import Section  # noqa: E402
 
@@ -300,7 +302,7 @@ def test_wave_pattern_errors_and_batch_case(tmp_path):
     q.add_wall("3", direction=0.0)
     partly = q.solve(errors="nan")
     assert list(partly.ok) == [False, True]
-    with pytest.raises(ValueError, match="not solved"):
+    with pytest.raises(InvalidInputError, match="solution must be solved for the case drawn"):
         draw_wave_pattern(partly, walls=walls, case=(0,))
     assert len(draw_wave_pattern(partly, walls=walls, case=(1,))["shocks"]) == 2
     save_png(drawn["ax"], tmp_path, "batch_case")
@@ -317,14 +319,16 @@ def test_nozzle_net(tmp_path):
     assert len(drawn["minus_lines"].get_segments()) == len(net.minus_segments)
     colours = drawn["plus_lines"].get_array()
     assert np.nanmin(colours) >= 1.0 and np.nanmax(colours) == pytest.approx(2.4, rel=1e-9)
-    wall, centreline = drawn["walls"]
+    (wall,) = drawn.walls
+    (centreline,) = drawn.centrelines  # a symmetry line, not a wall
+    assert centreline.get_linestyle() != wall.get_linestyle()
     wx, wy = wall.get_data()
     assert wx[-1] == pytest.approx(float(nozzle.length)) and wy[-1] == pytest.approx(
         float(nozzle.exit_half_height))
     assert list(centreline.get_ydata()) == [0.0, 0.0]
     bar = drawn["colourbar"]
-    assert bar.orientation == "horizontal"  # a nozzle net is long and flat
-    assert bar.ax.get_xlabel() == "Mach number [-]"
+    assert bar.orientation == "vertical"  # beside the axes, clear of the x label
+    assert bar.ax.get_ylabel() == "Mach number [-]"
     assert bar.vmin == pytest.approx(float(np.min(net.mach))) and bar.vmax == pytest.approx(2.4)
     ax = drawn["ax"]
     assert ax.get_xlim()[1] >= float(nozzle.length) and ax.get_xlabel() == "x [m]"
@@ -368,7 +372,7 @@ def test_rounded_throat_and_channel_nets(tmp_path):
 
 
 def test_net_needs_a_net():
-    with pytest.raises(ValueError, match="no characteristic net"):
+    with pytest.raises(InvalidInputError, match="result must be .* characteristic net"):
         draw_characteristic_net(object())
 
 
@@ -471,7 +475,7 @@ def test_free_boundary_reflects_a_shock_as_a_fan(tmp_path):
                               free_boundaries=[edge])
     assert len(drawn["shocks"]) == 1 and len(drawn["fans"]) == 1
     (boundary,) = drawn["free_boundaries"]
-    assert boundary.get_linestyle() == "-."
+    assert boundary.get_color() == WAVE_STYLES["free boundary"]["color"]
     # the shock ends on the jet edge, where the fan starts
     x, y = drawn["shocks"]["shock"].get_data()
     assert y[1] == pytest.approx(1.0)
@@ -563,3 +567,313 @@ def test_channel_net_draws_its_own_walls(tmp_path):
         np.testing.assert_array_equal(wx, nodes_x)  # through the wall nodes of the march
         assert wx[-1] >= 3.0  # the march reached the channel length
     save_png(drawn["ax"], tmp_path, "channel_net_own_walls")
+
+
+# ------------------------------------------------------------------ issue 14: rendered checks
+# Each figure is rendered with Agg to PNG; the bounding boxes of what was drawn are then
+# read from the renderer in display pixels.
+
+
+def rendered(drawing, tmp_path, name):
+    """Save the drawing's figure as PNG at its own dpi and return the renderer of that draw
+    (window extents are then in the pixels of the saved picture)."""
+    path = tmp_path / f"{name}.png"
+    drawing.figure.savefig(path, dpi="figure")
+    assert path.read_bytes()[:8] == PNG_SIGNATURE
+    return drawing.figure.canvas.get_renderer()
+
+
+def overlap(a, b):
+    """True when two display bounding boxes share area (touching edges do not count)."""
+    return a.x0 < b.x1 - 0.5 and b.x0 < a.x1 - 0.5 and a.y0 < b.y1 - 0.5 and b.y0 < a.y1 - 0.5
+
+
+def merging_ramps(M=2.2):
+    """Invented: a two-ramp intake off design; the ramp shocks meet ahead of the cowl."""
+    first, second = np.radians(7.0), np.radians(8.0)
+    corner = (0.30 * np.cos(first), 0.30 * np.sin(first))
+    p = WavePattern(M)
+    p.add_wave("first ramp shock", upstream="1", downstream="2", family="left", turn=first,
+               start=(0.0, 0.0))
+    p.add_wave("second ramp shock", upstream="2", downstream="3", family="left", turn=second,
+               start=corner)
+    p.add_wave("merged shock", upstream="1", downstream="4", family="left")
+    p.add_wave("reflected wave", upstream="3", downstream="5", family="right")
+    p.add_slip_line("4", "5")
+    ramp = ([-0.05, 0.0, corner[0], corner[0] + 0.4 * np.cos(first + second)],
+            [0.0, 0.0, corner[1], corner[1] + 0.4 * np.sin(first + second)])
+    return p.solve(), ramp
+
+
+def test_drawings_have_a_short_repr_and_roles(tmp_path):
+    solution, walls = duct_reflection()
+    drawn = draw_wave_pattern(solution, walls=walls)
+    assert isinstance(drawn, Drawing) and drawn.function == "draw_wave_pattern"
+    text = repr(drawn)
+    assert text.startswith("<Drawing of draw_wave_pattern:") and "\n" not in text
+    assert len(text) < 160 and "shocks ×2" in text
+    assert drawn.shocks is drawn["shocks"] and drawn.figure is drawn.ax.figure
+    with pytest.raises(KeyError, match="roles"):
+        drawn["colourbar"]
+    pressures = draw_surface_pressures(Section.double_wedge(0.05), 2.0, np.radians(2.0))
+    assert len(repr(pressures)) < 160  # the loads are not printed in full
+
+
+def test_keyword_arguments_reach_the_artists():
+    polars = draw_polars([2.0, 3.0], linewidth=3.5, alpha=0.4)
+    assert all(line.get_linewidth() == 3.5 and line.get_alpha() == 0.4
+               for line in polars.shock_polars + polars.expansion_branches)
+    solution, walls = duct_reflection()
+    pattern = draw_wave_pattern(solution, walls=walls, alpha=0.5, zorder=7)
+    assert all(s.get_alpha() == 0.5 and s.get_zorder() == 7 for s in pattern.shocks.values())
+    assert all(w.get_alpha() is None for w in pattern.walls)  # walls keep the house style
+    net = draw_characteristic_net(minimum_length_nozzle(2.0, n_characteristics=6),
+                                  linewidths=0.3, cmap="viridis")
+    assert net.plus_lines.get_linewidths()[0] == 0.3
+    assert net.minus_lines.get_cmap().name == "viridis"
+    cp = draw_surface_pressures(Section.flat_plate(), 2.0, np.radians(2.0), linewidth=2.5)
+    assert all(p.get_linewidth() == 2.5 for p in cp.upper.values())
+    with pytest.raises(InvalidInputError, match="'colour_of_shock'"):
+        draw_polars(2.0, colour_of_shock="red")
+
+
+def _pattern_with_failed_case():
+    q = WavePattern(np.array([1.3, 2.6]))  # invented: Mach 1.3 cannot turn 6° twice
+    q.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=RAMP,
+               start=(0.0, 0.0))
+    q.add_wave("reflected", upstream="2", downstream="3", family="right")
+    q.add_wall("3", direction=0.0)
+    return q.solve(errors="nan")
+
+
+@pytest.mark.parametrize("call, argument", [
+    (lambda: draw_wave_pattern(None), "solution"),
+    (lambda: draw_wave_pattern(duct_reflection()[0], walls=[([0.0], [1.0])]), "walls"),
+    (lambda: draw_wave_pattern(duct_reflection()[0], walls=[(0.0, 1.0, 2.0)]), "walls"),
+    (lambda: draw_wave_pattern(duct_reflection()[0], extent=(1.0, 0.0, 0.0, 1.0)), "extent"),
+    (lambda: draw_wave_pattern(duct_reflection()[0], extent=(0.0, 1.0)), "extent"),
+    (lambda: draw_wave_pattern(duct_reflection()[0], walls=duct_reflection()[1],
+                               length_unit="furlong"), "length_unit"),
+    (lambda: draw_wave_pattern(duct_reflection()[0], walls=duct_reflection()[1],
+                               n_fan_rays=1.5), "n_fan_rays"),
+    (lambda: draw_wave_pattern(_pattern_with_failed_case(), walls=duct_reflection()[1],
+                               case=(5,)), "case"),
+    (lambda: draw_wave_pattern(duct_reflection()[0], walls=duct_reflection()[1],
+                               slip_lines=[("1", "9")]), "slip_lines"),
+    (lambda: draw_wave_pattern(duct_reflection()[0], ax="axes"), "ax"),
+    (lambda: draw_polars(0.8), "streams"),
+    (lambda: draw_polars("fast"), "streams"),
+    (lambda: draw_polars([2.0, 3.0], labels=["only one"]), "labels"),
+    (lambda: draw_polars(2.0, marks=[(0.1, 1.2)], mark_labels=["a", "b"]), "mark_labels"),
+    (lambda: draw_polars(2.0, marks=[0.1]), "marks"),
+    (lambda: draw_polars(2.0, n=2), "n"),
+    (lambda: draw_polars(2.0, min_pressure_ratio=1.5), "min_pressure_ratio"),
+    (lambda: draw_pattern_polars(None, ["1"]), "solution"),
+    (lambda: draw_pattern_polars(duct_reflection()[0], []), "regions"),
+    (lambda: draw_pattern_polars(_pattern_with_failed_case(), ["1"], case=(3,)), "case"),
+    (lambda: draw_characteristic_net(minimum_length_nozzle(2.0, n_characteristics=6),
+                                     mach_range=(2.0, 1.0)), "mach_range"),
+    (lambda: draw_characteristic_net(minimum_length_nozzle(2.0, n_characteristics=6),
+                                     length_unit=3), "length_unit"),
+    (lambda: draw_characteristic_net(minimum_length_nozzle(2.0, n_characteristics=6),
+                                     walls=[("x", "y")]), "walls"),
+    (lambda: draw_surface_pressures("double wedge", 2.0, 0.0), "section"),
+    (lambda: draw_surface_pressures(Section.flat_plate(), 2.0, 0.0, theories=()), "theories"),
+    (lambda: draw_surface_pressures(Section.flat_plate(), [2.0, 3.0], 0.0), "M and alpha"),
+    (lambda: tour_figure("unused.png", dpi=0), "dpi"),
+])
+def test_argument_errors_name_the_argument(call, argument):
+    with pytest.raises(InvalidInputError) as error:
+        call()
+    assert str(error.value).startswith(f"{argument} must be"), str(error.value)
+
+
+def test_length_unit_scales_the_data(tmp_path):
+    solution, walls = duct_reflection()
+    metres = draw_wave_pattern(solution, walls=walls)
+    millimetres = draw_wave_pattern(solution, walls=walls, length_unit="mm")
+    x_m, y_m = metres.shocks["ramp shock"].get_data()
+    x_mm, y_mm = millimetres.shocks["ramp shock"].get_data()
+    # the ramp shock meets the roof 1 m up at x = 1/tan β (brentq reference), drawn in mm
+    assert x_mm[1] == pytest.approx(1000.0 / np.tan(weak_wave_angle(2.6, RAMP)), rel=1e-9)
+    assert np.allclose(x_mm, 1000.0 * x_m) and np.allclose(y_mm, 1000.0 * y_m)
+    assert np.allclose(millimetres.walls[1].get_ydata(), 1000.0)
+    assert millimetres.ax.get_xlim() == pytest.approx((-500.0, 5000.0))
+    assert millimetres.ax.get_xlabel() == "x [mm]"
+    assert millimetres.lines["reflected"][0][2] == pytest.approx(
+        1000.0 * metres.lines["reflected"][0][2])
+    label_m = np.array(metres.labels["2"].get_position())
+    assert np.allclose(millimetres.labels["2"].get_position(), 1000.0 * label_m)
+    nozzle = minimum_length_nozzle(2.4, n_characteristics=8, throat_half_height=0.01)
+    net = draw_characteristic_net(nozzle, length_unit="mm")
+    wx, wy = net.walls[0].get_data()
+    # the contour ends at the nozzle's length and exit half-height, here in millimetres
+    assert wx[-1] == pytest.approx(1000.0 * float(nozzle.length), rel=1e-12)
+    assert wy[-1] == pytest.approx(1000.0 * float(nozzle.exit_half_height), rel=1e-12)
+    segments = np.concatenate(net.plus_lines.get_segments())
+    assert segments[:, 0].max() == pytest.approx(1000.0 * float(np.max(nozzle.net.x)))
+    save_png(net.ax, tmp_path, "nozzle_mm")
+
+
+@pytest.mark.parametrize("figure", ["polars", "pattern", "jet", "pressures", "nozzle"])
+def test_legends_and_colour_bars_stay_clear_of_the_data_and_labels(figure, tmp_path):
+    if figure == "polars":
+        drawn = draw_pattern_polars(crossing_pattern(), ["2", "3"], marks=["4", "5"])
+    elif figure == "pattern":
+        drawn = draw_wave_pattern(*merging_ramps()[:1], walls=[merging_ramps()[1]])
+    elif figure == "jet":
+        drawn = draw_characteristic_net(underexpanded_slot_jet(1.5, 2.0, n_characteristics=10))
+        assert drawn.shock is not None  # this jet folds: its marker must not enter the key inside
+    elif figure == "pressures":
+        drawn = draw_surface_pressures(Section.double_wedge(0.045, ridge=0.4), 3.2,
+                                       np.radians(4.0))
+    else:
+        drawn = draw_characteristic_net(minimum_length_nozzle(2.4, n_characteristics=12))
+    renderer = rendered(drawn, tmp_path, figure)
+    data_area = drawn.ax.get_window_extent(renderer)
+    legend = drawn.legend.get_window_extent(renderer)
+    assert not overlap(legend, data_area), (legend, data_area)
+    for label in (drawn.ax.xaxis.label, drawn.ax.yaxis.label, drawn.ax.title):
+        if label.get_text():
+            assert not overlap(legend, label.get_window_extent(renderer))
+    for tick in drawn.ax.get_xticklabels():
+        if tick.get_text():
+            assert not overlap(legend, tick.get_window_extent(renderer))
+    figure_box = drawn.figure.bbox
+    assert legend.x0 >= figure_box.x0 - 1 and legend.y0 >= figure_box.y0 - 1  # not cut off
+    bar = getattr(drawn, "colourbar", None)
+    if bar is not None:
+        bar_box = bar.ax.get_tightbbox(renderer)
+        assert not overlap(bar_box, data_area)
+        assert not overlap(bar_box, drawn.ax.xaxis.label.get_window_extent(renderer))
+        assert not overlap(bar_box, legend)
+
+
+def test_coincident_polar_marks_share_one_label(tmp_path):
+    # regions 4 and 5 either side of the slip line have one direction and one pressure
+    solution = crossing_pattern()
+    drawn = draw_pattern_polars(solution, ["2", "3"], marks=["2", "3", "4", "5"])
+    texts = [t.get_text() for t in drawn.mark_texts]
+    assert texts == ["2", "3", "4, 5"]
+    assert len(drawn.marks) == 4
+    renderer = rendered(drawn, tmp_path, "coincident_marks")
+    boxes = [t.get_window_extent(renderer) for t in drawn.mark_texts]
+    assert not any(overlap(a, b) for i, a in enumerate(boxes) for b in boxes[i + 1:])
+    apart = draw_polars(2.0, marks=[(0.0, 1.0), (np.radians(10.0), 2.0)], mark_labels=["a", "b"])
+    assert [t.get_text() for t in apart.mark_texts] == ["a", "b"]
+
+
+def test_one_style_per_line_type_with_a_key():
+    p = WavePattern(2.0)  # invented: a 5° shock in a Mach 2 jet whose edge runs along y = 1
+    p.add_wave("shock", upstream="1", downstream="2", family="left", turn=np.radians(5.0),
+               start=(0.0, 0.0))
+    p.add_wave("edge fan", upstream="2", downstream="3", family="right")
+    p.add_free_boundary("3", 1.0, through=(0.0, 1.0))
+    pattern = draw_wave_pattern(p.solve(), walls=[([-0.5, 4.0], [0.0, 0.0])],
+                                extent=(-0.5, 4.0, -0.1, 1.3))
+    jet = draw_characteristic_net(underexpanded_slot_jet(1.5, 2.0, n_characteristics=10))
+    for a, b in ((pattern.free_boundaries[0], jet.boundaries[0]), (pattern.walls[0], jet.walls[0])):
+        assert (a.get_color(), a.get_linestyle(), a.get_linewidth()) == (
+            b.get_color(), b.get_linestyle(), b.get_linewidth())
+    centreline = jet.centrelines[0]
+    assert centreline.get_color() == WAVE_STYLES["centreline"]["color"]
+    assert centreline.get_linewidth() < jet.walls[0].get_linewidth()
+    assert [t.get_text() for t in pattern.legend.get_texts()] == [
+        "shock", "expansion fan", "wall", "free boundary"]
+    assert [t.get_text() for t in jet.legend.get_texts()] == [
+        "wall", "centreline", "free boundary", "shock forms here"]
+    shock_key = pattern.legend.get_lines()[0]
+    assert shock_key.get_color() == pattern.shocks["shock"].get_color()
+    crossing = draw_wave_pattern(crossing_pattern(), extent=(-0.5, 6.0, -0.1, 1.1))
+    (slip,) = crossing.slip_lines.values()
+    assert slip.get_linestyle() == "--" and slip.get_color() == WAVE_STYLES["slip line"]["color"]
+    assert "slip line" in [t.get_text() for t in crossing.legend.get_texts()]
+
+
+def test_free_boundary_drawn_from_the_solution(tmp_path):
+    # invented: the Mach 2 jet above, its edge given to the pattern through (0, 1)
+    p = WavePattern(2.0)
+    p.add_wave("shock", upstream="1", downstream="2", family="left", turn=np.radians(5.0),
+               start=(0.0, 0.0))
+    p.add_wave("edge fan", upstream="2", downstream="3", family="right")
+    p.add_free_boundary("3", 1.0, through=(0.0, 1.0))
+    solution = p.solve()
+    drawn = draw_wave_pattern(solution, walls=[([-0.5, 4.0], [0.0, 0.0])],
+                              extent=(-0.5, 4.0, -0.1, 1.3))
+    (edge,) = drawn.free_boundaries
+    x, y = edge.get_data()
+    (meeting,) = [m for m in solution.meeting_points if m.kind == "free boundary"]
+    beta = weak_wave_angle(2.0, np.radians(5.0))  # brentq reference
+    # the edge runs along the undisturbed jet (y = 1) to where the shock meets it ...
+    assert (x[1], y[1]) == pytest.approx((1.0 / np.tan(beta), 1.0), rel=1e-9)
+    assert (x[1], y[1]) == pytest.approx((float(meeting.x), float(meeting.y)), rel=1e-12)
+    assert y[0] == pytest.approx(1.0) and x[0] == pytest.approx(-0.5)
+    # ... then bends to the flow direction behind the fan, back at the jet pressure
+    bend = np.arctan2(y[2] - y[1], x[2] - x[1])
+    assert bend == pytest.approx(float(solution.region("3").direction), rel=1e-12)
+    assert bend > 0.0  # a compression inside the jet pushes its edge outwards
+    sx, sy = drawn.shocks["shock"].get_data()
+    assert (sx[1], sy[1]) == pytest.approx((x[1], y[1]), rel=1e-9)  # the shock ends on it
+    assert draw_wave_pattern(solution, walls=[([-0.5, 4.0], [0.0, 0.0])],
+                             free_boundaries=()).free_boundaries == []
+    save_png(drawn.ax, tmp_path, "jet_edge_from_solution")
+
+
+def test_merged_ramp_shocks_end_at_their_meeting_point(tmp_path):
+    solution, ramp = merging_ramps()
+    drawn = draw_wave_pattern(solution, walls=[ramp], extent=(-0.05, 0.8, -0.02, 0.6))
+    (meeting,) = [m for m in solution.meeting_points if m.kind == "waves"]
+    point = (float(meeting.x), float(meeting.y))
+    # the meeting point from the two wave angles (independent brentq reference)
+    b1 = weak_wave_angle(2.2, np.radians(7.0))
+    M2 = float(solution.region("2").M)
+    b2 = np.radians(7.0) + weak_wave_angle(M2, np.radians(8.0))
+    cx, cy = 0.30 * np.cos(np.radians(7.0)), 0.30 * np.sin(np.radians(7.0))
+    x = (cy - cx * np.tan(b2)) / (np.tan(b1) - np.tan(b2))
+    assert point == pytest.approx((x, x * np.tan(b1)), rel=1e-9)
+    for name in ("first ramp shock", "second ramp shock"):  # end there, not past it
+        ex, ey = drawn.shocks[name].get_data()
+        assert (ex[1], ey[1]) == pytest.approx(point, rel=1e-9)
+    for name in ("merged shock", "reflected wave"):
+        segments = drawn.lines[name]
+        assert all((s[0], s[1]) == pytest.approx(point, rel=1e-9) for s in segments)
+    (slip,) = drawn.slip_lines.values()
+    assert (slip.get_xdata()[0], slip.get_ydata()[0]) == pytest.approx(point, rel=1e-9)
+    merged = solution.wave("merged shock")
+    assert str(merged.kind) == "shock" and float(merged.turn) > np.radians(14.0)
+    save_png(drawn.ax, tmp_path, "merged_ramp_shocks")
+
+
+@pytest.mark.parametrize("length, height", [(10.0, 1.0), (3.0, 1.5)])
+def test_new_figures_are_sized_to_their_data(length, height, tmp_path):
+    p = WavePattern(2.6)  # invented ducts of different proportions
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left", turn=RAMP,
+               start=(0.0, 0.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wall("3", direction=0.0)
+    walls = [([-0.5, 0.0, length], [0.0, 0.0, length * np.tan(RAMP)]),
+             ([-0.5, length], [height, height])]
+    drawn = draw_wave_pattern(p.solve(errors="nan"), walls=walls)
+    renderer = rendered(drawn, tmp_path, f"sized_{length}")
+    used = drawn.ax.get_tightbbox(renderer)  # the axes with its labels and key
+    box = drawn.figure.bbox
+    # no empty bands: the drawing and its labels fill most of the figure both ways
+    assert used.width / box.width > 0.85 and used.height / box.height > 0.8
+
+
+def test_same_family_shocks_never_run_past_each_other():
+    # invented: the two ramps of merging_ramps() at Mach 2.2, without the merged shock
+    # (29° of turn in one shock would detach at Mach 2.2): the lines end where they meet
+    first, second = np.radians(7.0), np.radians(8.0)
+    corner = (0.30 * np.cos(first), 0.30 * np.sin(first))
+    p = WavePattern(2.2)
+    p.add_wave("first ramp shock", upstream="1", downstream="2", family="left", turn=first,
+               start=(0.0, 0.0))
+    p.add_wave("second ramp shock", upstream="2", downstream="3", family="left", turn=second,
+               start=corner)
+    solution = p.solve()
+    drawn = draw_wave_pattern(solution, extent=(-0.05, 0.8, -0.02, 0.6))
+    point = solution.meeting_point("first ramp shock", "second ramp shock")
+    for name in ("first ramp shock", "second ramp shock"):
+        x, y = drawn.shocks[name].get_data()
+        assert (x[1], y[1]) == pytest.approx(point, rel=1e-9)

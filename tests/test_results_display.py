@@ -129,7 +129,9 @@ def test_repr_and_html(name):
     assert text.startswith(name)
     html = result._repr_html_()
     assert html.startswith("<table>") and html.endswith("</table>")
-    assert f"<caption>{name}</caption>" in html
+    # a net's nodes and a polar's points are rows of a table: "<name>: 34 rows"
+    rows = name in ("CharacteristicNet", "PressureDeflectionPolar")
+    assert (f"<caption>{name}: " if rows else f"<caption>{name}</caption>") in html
     shown = [f for f in dataclasses.fields(result) if f.repr]
     for field in shown:
         # a nested result may show its own fields as "<name>.<field>"
@@ -138,13 +140,14 @@ def test_repr_and_html(name):
         unit = field.metadata.get("unit", "")
         value = getattr(result, field.name)
         if (unit and not hasattr(value, "units") and not dataclasses.is_dataclass(value)
-                and np.ndim(value) <= 1):
+                and np.ndim(value) <= 1 and not rows):
             line = next(x for x in text.splitlines() if x.strip().startswith(field.name + " "))
             assert line.endswith(f"[{unit}]"), line
     lines = text.splitlines()
-    # one line a field at least (FlowState adds derived quantities), head and closing line
-    assert len(lines) >= len(shown) + 2 and lines[-1] == ")"
     assert all(len(x) < 100 for x in lines)
+    if not rows:
+        # one line a field at least (FlowState adds derived quantities), head and closing line
+        assert len(lines) >= len(shown) + 2 and lines[-1] == ")"
 
 
 @pytest.mark.parametrize("name", sorted(n for n, (_, batch) in CASES.items() if batch))
@@ -195,3 +198,73 @@ def test_quantity_fields_show_their_own_unit():
     state = gasdyn2d.FlowState(2.0, 50 * gasdyn2d.ureg.kPa, 220 * gasdyn2d.ureg.K)
     text = repr(state)
     assert "[kPa]" in text and "[K]" in text
+
+
+# ------------------------------------------------------------------ many cases as rows
+
+
+@pytest.mark.parametrize("name", sorted(n for n, (_, batch) in CASES.items() if batch))
+def test_batch_shows_a_row_per_case(name):
+    result = CASES[name][1]()
+    text, html = repr(result), result._repr_html_()
+    assert text.startswith(f"{name}: 3 rows") and f"<caption>{name}: 3 rows</caption>" in html
+    assert html.count("<tr><th>") - 1 == MACHS.size  # one row per case (after the header)
+    assert all(len(line) < 100 for line in text.splitlines())
+    assert "shape (3,)" not in text and "array of 3 labels" not in text
+
+
+def test_few_rows_html_holds_every_value_and_units_in_headers():
+    shocks = gasdyn2d.oblique_shock(MACHS, deflection=10 * DEG)
+    html = shocks._repr_html_()
+    assert "<th><code>wave_angle</code> [rad]</th>" in html and "<th><code>M2</code></th>" in html
+    frame = shocks.to_dataframe()
+    for column in frame.columns:
+        for value in frame[column]:
+            assert f"<td>{value:.6g}</td>" in html, (column, value)
+    text = repr(shocks)
+    assert "wave_angle [rad]" in text.splitlines()[1]
+    # NACA Report 1135 oblique-shock charts via SOURCES.md: M1 = 2, θ = 10°, β = 39.3139°
+    row = text.splitlines()[2].split()  # the first case, M1 = 2
+    assert np.degrees(float(row[3])) == pytest.approx(39.3139, abs=2e-4)  # six digits shown
+
+
+def test_many_rows_show_head_and_tail():
+    machs = np.linspace(1.5, 4.0, 101)  # invented sweep of 101 cases
+    flow = gasdyn2d.isentropic_flow(machs)
+    text, html = repr(flow), flow._repr_html_()
+    lines = text.splitlines()
+    assert lines[0] == "IsentropicFlow: 101 rows"
+    labels = [line.split()[0] for line in lines[2:13]]
+    assert labels == ["0", "1", "2", "3", "4", "…", "96", "97", "98", "99", "100"]
+    assert "91 rows not shown" in text and "91 rows not shown" in html
+    assert html.count("<tr><th>") - 1 == 10
+    assert "<td>1.5</td>" in html and "<td>4</td>" in html and "<td>2.75</td>" not in html
+
+
+def test_labels_flags_and_quantities_in_rows():
+    sweep = wall_reflection(2.8, np.radians([9.0, 14.0, 22.0]))
+    text = repr(sweep)
+    # the README's sweep: regular, regular, Mach reflection (three-shock theory)
+    kinds = [line.split()[1] for line in text.splitlines()[2:5]]
+    assert kinds == ["regular", "regular", "mach"]
+    state = gasdyn2d.FlowState(MACHS, 50 * gasdyn2d.ureg.kPa, 220 * gasdyn2d.ureg.K)
+    assert "p [kPa]" in repr(state) and "<code>p</code> [kPa]" in state._repr_html_()
+    assert "V [m/s]" in repr(state)  # the derived quantities are columns too
+    grid = gasdyn2d.isentropic_flow(np.full((2, 3), 2.0))
+    assert repr(grid).startswith("IsentropicFlow: 6 rows (shape (2, 3))")
+    assert "<th>1,2</th>" in grid._repr_html_()
+
+
+def test_fields_beside_the_rows_are_listed_under_the_table():
+    loads = shock_expansion_loads(Section.double_wedge(0.05), MACHS, 2 * DEG)
+    text = repr(loads)
+    assert "theory" in text.splitlines()[-1] and "shock-expansion" in text
+    assert "<code>theory</code> = shock-expansion" in loads._repr_html_()
+
+
+def test_short_text_arrays_are_shown():
+    from gasdyn2d.boundary.results import _format
+
+    assert _format(np.array(["regular", "regular", "mach"])) == "regular, regular, mach"
+    many = _format(np.array(["regular"] * 40))
+    assert many.startswith("regular, regular, regular, …") and "(40 labels)" in many

@@ -25,7 +25,8 @@ def test_every_tutorial_is_listed():
 
 @pytest.mark.parametrize("script", sorted(EXPECTED))
 def test_tutorial_runs_and_saves_its_figures(script, tmp_path):
-    env = dict(os.environ, MPLBACKEND="Agg")
+    # the package of this checkout, whatever is installed
+    env = dict(os.environ, MPLBACKEND="Agg", PYTHONPATH=str(TUTORIALS.parents[1]))
     run = subprocess.run([sys.executable, str(TUTORIALS / script), str(tmp_path)], cwd=tmp_path,
                          env=env, capture_output=True, text=True, timeout=120)
     assert run.returncode == 0, run.stderr
@@ -35,3 +36,31 @@ def test_tutorial_runs_and_saves_its_figures(script, tmp_path):
         path = tmp_path / name
         assert path.exists(), f"{script} did not save {name}"
         assert path.read_bytes()[:8] == PNG_SIGNATURE and path.stat().st_size > 10_000
+
+
+def _notebooks_module():
+    import importlib.util
+
+    spec = importlib.util.spec_from_file_location(
+        "tutorial_notebooks", TUTORIALS.parent / "_hooks" / "notebooks.py")
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return module
+
+
+@pytest.mark.parametrize("script", sorted(EXPECTED))
+def test_tutorial_becomes_a_notebook(script):
+    notebooks = _notebooks_module()
+    cells = notebooks._cells((TUTORIALS / script).read_text(encoding="utf-8"))
+    kinds = [kind for kind, _ in cells]
+    assert kinds[0] == "markdown" and cells[0][1].startswith("# ")
+    assert kinds.count("code") >= 2 and "markdown" in kinds[1:]
+    code = "\n".join(text for kind, text in cells if kind == "code")
+    assert code.startswith(notebooks.FIRST_CELL)
+    # the script-only lines (backend, output folder, savefig) stay out of the notebook
+    assert "script only" not in code and "savefig" not in code and "sys.argv" not in code
+    compile(code.replace(notebooks.FIRST_CELL, ""), script, "exec")  # valid Python
+    nbformat = pytest.importorskip("nbformat")  # in the docs extra
+    notebook = notebooks.notebook_from_script(TUTORIALS / script)
+    nbformat.validate(notebook)
+    assert len(notebook.cells) == len(cells) + 1  # and the note on where it came from

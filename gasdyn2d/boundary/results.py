@@ -90,7 +90,7 @@ def _format(value) -> str:
         return ", ".join(magnitude) if magnitude else "(none)"
     array = np.asarray(magnitude)
     if array.dtype.kind in "US":
-        return str(array) if array.ndim == 0 else f"array of {array.size} labels"
+        return str(array) if array.ndim == 0 else _label_list(array)
     if array.dtype == object:
         return repr(magnitude)
     if array.dtype == bool:
@@ -108,6 +108,155 @@ def _format(value) -> str:
     return f"shape {array.shape}, {finite.min():.6g} … {finite.max():.6g}"
 
 
+def _label_list(array, *, shown=6, width=60) -> str:
+    """Text labels of an array, comma-separated; the first few and a count when many."""
+    labels = [str(v) for v in array.reshape(-1)]
+    text = ", ".join(labels)
+    if len(labels) <= shown and len(text) <= width:
+        return text
+    return ", ".join(labels[:3]) + f", … ({len(labels)} labels)"
+
+
+# ------------------------------------------------------------------ tables of rows
+# A result holding many cases (a batch, the nodes of a net, the points of a polar)
+# shows one row per case: every row when there are few, the first and last when
+# there are many; fields that are not of the row shape are listed under the table.
+
+FEW_ROWS = 12  #: up to this many rows, every row is shown
+EDGE_ROWS = 5  #: beyond it, this many rows from each end
+TEXT_WIDTH = 96  #: text tables are split into column blocks of at most this width
+
+
+def _cell(value) -> str:
+    """One table cell: six significant digits, labels and flags as they are."""
+    if isinstance(value, (bool, np.bool_)):
+        return str(bool(value))
+    if isinstance(value, (str, np.str_)):
+        return str(value)
+    return f"{float(value):.6g}"
+
+
+def _row_shape(items):
+    """The row shape of (name, unit, value) items, or None when the result is one case.
+
+    The same rows as :meth:`ResultTable.to_dataframe`: the shape of the first array
+    item that is not a single label (a batch's inputs come first), when it has at
+    least one dimension.
+    """
+    for _, _, value in items:
+        magnitude = _magnitude(value)
+        if dataclasses.is_dataclass(magnitude) or isinstance(magnitude, (tuple, list, dict, str)):
+            continue
+        array = np.asarray(magnitude)
+        if array.dtype == object or (array.ndim == 0 and array.dtype.kind in "US"):
+            continue
+        return array.shape if array.ndim else None
+    return None
+
+
+def _row_indices(shape):
+    """Flat indices of the rows shown, with None where rows are left out."""
+    n = int(np.prod(shape))
+    if n <= FEW_ROWS:
+        return list(range(n))
+    return list(range(EDGE_ROWS)) + [None] + list(range(n - EDGE_ROWS, n))
+
+
+def _row_label(flat, shape) -> str:
+    if len(shape) == 1:
+        return str(flat)
+    return ",".join(str(int(i)) for i in np.unravel_index(flat, shape))
+
+
+class _RowTable(NamedTuple):
+    """What a table of rows shows: its columns, the rows kept, and the fields beside it."""
+
+    title: str
+    headers: list  # (name, unit)
+    columns: list  # flat arrays, one per header
+    shape: tuple
+    rows: list  # flat indices, None for the gap
+    others: list  # (name, text, unit) of fields not of the row shape
+
+
+def _row_table(result, items, shape) -> _RowTable:
+    headers, columns, others = [], [], []
+    for name, unit, value in items:
+        magnitude = _magnitude(value)
+        simple = not (dataclasses.is_dataclass(magnitude)
+                      or isinstance(magnitude, (tuple, list, dict, str)))
+        array = np.asarray(magnitude) if simple else None
+        if array is not None and array.dtype != object and array.shape == shape:
+            headers.append((name, unit))
+            columns.append(array.reshape(-1))
+        else:
+            others.append((name, _format(value), unit))
+    n = int(np.prod(shape))
+    title = f"{type(result).__name__}: {n} row{'s' if n != 1 else ''}"
+    if len(shape) > 1:
+        title += f" (shape {shape})"
+    return _RowTable(title, headers, columns, shape, _row_indices(shape), others)
+
+
+def _header_text(name, unit) -> str:
+    return f"{name} [{unit}]" if unit else name
+
+
+def _text_table(table: _RowTable) -> str:
+    n = int(np.prod(table.shape))
+    index = ["row"] + ["…" if i is None else _row_label(i, table.shape) for i in table.rows]
+    cells = [[_header_text(*h)] + ["…" if i is None else _cell(c[i]) for i in table.rows]
+             for h, c in zip(table.headers, table.columns)]
+    index_width = max(len(t) for t in index)
+    widths = [max(len(t) for t in column) for column in cells]
+    blocks, block, used = [], [], index_width
+    for k, width in enumerate(widths):  # columns into blocks that fit the line width
+        if block and used + 2 + width > TEXT_WIDTH:
+            blocks.append(block)
+            block, used = [], index_width
+        block.append(k)
+        used += 2 + width
+    if block:
+        blocks.append(block)
+    lines = [table.title]
+    for b, block in enumerate(blocks):
+        if b:
+            lines.append("")
+        for r in range(len(index)):
+            line = index[r].rjust(index_width) + "".join(
+                "  " + cells[k][r].rjust(widths[k]) for k in block)
+            lines.append(line.rstrip())
+    if n > len([i for i in table.rows if i is not None]):
+        lines.append(f"({n - 2 * EDGE_ROWS} rows not shown; to_dataframe() has them all)")
+    width = max((len(name) for name, _, _ in table.others), default=0)
+    for name, text, unit in table.others:
+        lines.append(f"{name:<{width}} = {text}" + (f"  [{unit}]" if unit else ""))
+    return "\n".join(lines)
+
+
+def _html_table(table: _RowTable) -> str:
+    span = len(table.headers) + 1
+    head = "<th>row</th>" + "".join(
+        f"<th><code>{html.escape(name)}</code>" + (f" [{html.escape(unit)}]" if unit else "")
+        + "</th>" for name, unit in table.headers)
+    body = []
+    n = int(np.prod(table.shape))
+    for i in table.rows:
+        if i is None:
+            body.append(f'<tr><td colspan="{span}">… {n - 2 * EDGE_ROWS} rows not shown '
+                        "(<code>to_dataframe()</code> has them all) …</td></tr>")
+            continue
+        body.append(f"<tr><th>{html.escape(_row_label(i, table.shape))}</th>" + "".join(
+            f"<td>{html.escape(_cell(c[i]))}</td>" for c in table.columns) + "</tr>")
+    foot = "".join(
+        f'<tr><td colspan="{span}"><code>{html.escape(name)}</code> = {html.escape(text)}'
+        + (f" [{html.escape(unit)}]" if unit else "") + "</td></tr>"
+        for name, text, unit in table.others)
+    return (f"<table><caption>{html.escape(table.title)}</caption>"
+            f"<thead><tr>{head}</tr></thead><tbody>{''.join(body)}</tbody>"
+            + (f"<tfoot>{foot}</tfoot>" if foot else "") + "</table>")
+
+
 class ResultTable:
     """Mixin giving a dataclass a text table ``repr``, an HTML table, ``to_dict``,
     ``to_dataframe`` and ``to_xarray``."""
@@ -120,13 +269,33 @@ class ResultTable:
         result.__dict__.update(zip([f.name for f in result_fields(cls)], values))
         return result
 
-    def _rows(self):
+    def _shown(self):
+        """(name, unit, value) of everything the displays show, in order: the fields
+        (nested results flattened one level) and then :meth:`_extra_columns`."""
         for name, field, value in self._columns():
             if field.repr is False:
                 continue
-            yield name, _format(value), _unit_of(field, value)
+            yield name, _unit_of(field, value), value
+        yield from self._extra_columns()
+
+    def _extra_columns(self):
+        """(name, unit, value) of derived quantities shown after the fields (none here)."""
+        return iter(())
+
+    def _rows(self):
+        for name, unit, value in self._shown():
+            yield name, _format(value), unit
+
+    def _table(self):
+        """The table of rows when the result holds many cases, else None."""
+        items = list(self._shown())
+        shape = _row_shape(items)
+        return None if shape is None else _row_table(self, items, shape)
 
     def __repr__(self) -> str:
+        table = self._table()
+        if table is not None:
+            return _text_table(table)
         rows = list(self._rows())
         width = max((len(name) for name, _, _ in rows), default=0)
         lines = [f"{type(self).__name__}("]
@@ -137,6 +306,9 @@ class ResultTable:
         return "\n".join(lines)
 
     def _repr_html_(self) -> str:
+        table = self._table()
+        if table is not None:
+            return _html_table(table)
         cells = "".join(
             f"<tr><td><code>{html.escape(name)}</code></td><td>{html.escape(text)}</td>"
             f"<td>{html.escape(unit)}</td></tr>"

@@ -2,9 +2,12 @@
 
 Needs matplotlib (``pip install "gasdyn2d[plot]"``); importing :mod:`gasdyn2d`
 itself never imports matplotlib. Every function draws on the axes ``ax`` you
-give it (or on new axes of a new figure), leaves global matplotlib settings
-untouched and returns what it drew, so a figure can be restyled, tested or
-combined with others.
+give it (or on new axes of a new figure sized to what it draws), leaves global
+matplotlib settings untouched, passes extra keyword arguments on to the lines it
+draws, and returns a :class:`Drawing` — the axes and the artists by role — so a
+figure can be restyled, tested or combined with others. Each kind of line has
+one style in every figure (:data:`WAVE_STYLES`), with a key under the axes.
+Bad arguments raise :class:`~gasdyn2d.errors.InvalidInputError` naming them.
 
 Public functions
 ----------------
@@ -13,14 +16,16 @@ Public functions
   regions of a solved :class:`~gasdyn2d.patterns.graph.WavePattern`.
 - :func:`draw_wave_pattern` — the wave diagram of a solved pattern with its
   walls: shocks as lines, fans as rays from head to tail, slip lines dashed,
-  regions labelled with their Mach numbers.
+  free boundaries from the solution, regions labelled with their Mach numbers.
 - :func:`draw_characteristic_net` — the characteristic net of a nozzle,
   channel or jet, coloured by Mach number, with the walls or jet boundary.
 - :func:`draw_surface_pressures` — pressure coefficient along both surfaces
   of a section by the exact (shock-expansion), linear and second-order theories.
 - :func:`tour_figure` — one summary figure saved to a file (used by
   ``python -m gasdyn2d``).
-- :data:`PALETTE` — the colour-blind-safe colours used throughout.
+- :class:`Drawing` — what every ``draw_*`` function returns.
+- :data:`PALETTE` — the colour-blind-safe colours used throughout;
+  :data:`WAVE_STYLES` — the line style of each kind of line.
 """
 
 try:
@@ -30,7 +35,7 @@ except ImportError as exc:  # pragma: no cover - depends on the environment
         "gasdyn2d.plot needs matplotlib, which is not installed. Install the plot extra: "
         'pip install "gasdyn2d[plot]"') from exc
 
-from ._style import PALETTE
+from ._style import PALETTE, WAVE_STYLES, Drawing
 from .polar_plots import draw_pattern_polars, draw_polars
 from .wave_pattern_plots import draw_wave_pattern
 from .net_plots import draw_characteristic_net
@@ -38,6 +43,6 @@ from .pressure_plots import draw_surface_pressures
 from .tour import tour_figure
 
 __all__ = [
-    "PALETTE", "draw_polars", "draw_pattern_polars", "draw_wave_pattern",
+    "Drawing", "PALETTE", "WAVE_STYLES", "draw_polars", "draw_pattern_polars", "draw_wave_pattern",
     "draw_characteristic_net", "draw_surface_pressures", "tour_figure",
 ]

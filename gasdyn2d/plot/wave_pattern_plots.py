@@ -5,15 +5,20 @@ directions of its waves, and where waves start when they were given a
 ``start`` point. This module places every wave as straight lines in the
 plane: a wave without a start begins where the wave that made its upstream
 region ends; every line runs until it meets a wall, another wave's line or
-the edge of the drawing.
+the edge of the drawing. Free boundaries the pattern places (``add_free_boundary(...,
+through=(x, y))``) are drawn from the solution: straight along the flow that
+bounds them, bending where a wave meets them to the flow after its reflection.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-from ._style import (FAN_COLOUR, SHOCK_COLOUR, SLIP_COLOUR, WALL_COLOUR, axes_or_new, plain,
-                     tidy)
+from ..errors import InvalidInputError
+from ..patterns.solution import PatternSolution
+from ._style import (WAVE_STYLES, Drawing, apply_properties, axes_or_new, check_axes,
+                     check_count, figure_size_for, key_handles, legend_below,
+                     length_unit_factor, plain, polyline, reject, tidy)
 
 __all__ = ["draw_wave_pattern"]
 
@@ -35,7 +40,7 @@ def _pattern_waves(solution, case):
         start = (_pick(link.start_x, case), _pick(link.start_y, case))
         placed = link.start_source != "" and np.all(np.isfinite(start))
         out.append((name, link.upstream, link.downstream,
-                    tuple(float(v) for v in start) if placed else None))
+                    tuple(float(v) for v in start) if placed else None, link.family))
     return out
 
 
@@ -80,8 +85,8 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
     ----------
     waves : list of dict
         In solution order, each with ``name``, ``upstream``, ``downstream``,
-        ``start`` ((x, y) or None), ``kind`` ("shock" or "fan") and ``head``,
-        ``tail`` plane directions [rad].
+        ``start`` ((x, y) or None), ``kind`` ("shock" or "fan"), ``family``
+        ("left" or "right") and ``head``, ``tail`` plane directions [rad].
     wall_segments : ndarray, shape (k, 4)
         Wall segments (x0, y0, x1, y1) [m].
     extent : (xmin, xmax, ymin, ymax)
@@ -91,10 +96,20 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
     -------
     dict
         name -> list of (x0, y0, x1, y1), one per line of the wave.
+
+    Notes
+    -----
+    A wave's line is not stopped by the wave that made its upstream region
+    or by the waves leaving its downstream region when they run in the other
+    family (a reflection starts on its incident wave). Two shocks of one
+    family do stop each other: a shock cannot run through a shock of its own
+    family (a second ramp shock overtaking the first), the two merge where
+    they meet, so both lines end at that point.
     """
     reach = 2.0 * np.hypot(extent[1] - extent[0], extent[3] - extent[2])
     fixed = np.vstack([wall_segments.reshape(-1, 4), _box_segments(extent)])
     made_by = {w["downstream"]: w["name"] for w in waves}
+    by_name = {w["name"]: w for w in waves}
     children = {w["name"]: {v["name"] for v in waves if v["upstream"] == w["downstream"]}
                 for w in waves}
     lines = {}
@@ -105,14 +120,17 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
             if start is None:
                 parent = made_by.get(w["upstream"])
                 if parent is None or parent not in new:
-                    raise ValueError(
+                    raise InvalidInputError(
                         f"wave {w['name']!r} has no start point and its upstream region "
                         f"{w['upstream']!r} is not made by a placed wave: give it "
                         "add_wave(..., start=(x, y)) or pass starts={name: (x, y)}.")
                 ends = np.asarray(new[parent])[:, 2:]
                 start = tuple(ends.mean(axis=0))
-            family = {w["name"], made_by.get(w["upstream"])} | children[w["name"]]
-            others = [np.asarray(v) for k, v in lines.items() if k not in family]
+            related = {w["name"], made_by.get(w["upstream"])} | children[w["name"]]
+            merging = {k for k in related if k in by_name and k != w["name"]
+                       and _same_family_shocks(w, by_name[k])}
+            others = [np.asarray(v) for k, v in lines.items()
+                      if k not in related or k in merging]
             blocking = np.vstack([fixed] + others) if stop_at_waves and others else fixed
             x0, y0 = float(start[0]), float(start[1])
             segs = []
@@ -127,16 +145,23 @@ def place_waves(waves, wall_segments, extent, *, stop_at_waves=True, n_fan_rays=
     return lines
 
 
+def _same_family_shocks(a, b):
+    return a["kind"] == b["kind"] == "shock" and a.get("family") == b.get("family")
+
+
 # --------------------------------------------------------------- drawing
 
 
 def _solution_waves(solution, starts, case):
     waves = []
-    for name, up, down, start in _pattern_waves(solution, case):
+    for name, up, down, start, family in _pattern_waves(solution, case):
         w = solution.wave(name)
         kind = _pick(w.kind, case)
-        waves.append({"name": name, "upstream": up, "downstream": down,
-                      "start": starts.get(name, start), "kind": str(kind),
+        given = starts.get(name)
+        if given is not None:
+            given = tuple(float(v) for v in plain(given))
+        waves.append({"name": name, "upstream": up, "downstream": down, "family": family,
+                      "start": given if given is not None else start, "kind": str(kind),
                       "head": _pick(plain(w.head_line_direction), case),
                       "tail": _pick(plain(w.tail_line_direction), case)})
     return waves
@@ -146,20 +171,80 @@ def _pick(value, case):
     array = np.asarray(value)
     if array.ndim == 0:
         return array[()]
-    return array[case if case is not None else (0,) * array.ndim]
+    index = tuple(case) if case is not None else (0,) * array.ndim
+    try:
+        return array[index]
+    except (IndexError, TypeError, ValueError):
+        raise reject("case", f"an index tuple into the batch of shape {array.shape}",
+                     case) from None
 
 
-def _default_extent(walls, waves):
+def _free_boundary_anchors(solution, case):
+    """(through point, direction before, bend point or None, direction after) per placed
+    free boundary of the pattern [m, rad], from its conditions and meeting points."""
+    anchors = []
+    for condition in solution.conditions:
+        if condition.kind != "free boundary":
+            continue
+        through = (float(_pick(plain(condition.through_x), case)),
+                   float(_pick(plain(condition.through_y), case)))
+        if not np.all(np.isfinite(through)):
+            continue
+        region = condition.regions[0]
+        after = float(_pick(plain(solution.region(region).direction), case))
+        meeting = next((m for m in solution.meeting_points
+                        if m.kind == "free boundary" and m.boundary_region == region), None)
+        if meeting is None:
+            anchors.append((through, after, None, after))
+            continue
+        bend = (float(_pick(plain(meeting.x), case)), float(_pick(plain(meeting.y), case)))
+        upstream = solution.connection(meeting.incoming[0]).upstream
+        before = float(_pick(plain(solution.region(upstream).direction), case))
+        anchors.append((through, before, bend if np.all(np.isfinite(bend)) else None, after))
+    return anchors
+
+
+def _free_boundary_lines(anchors, extent):
+    """Polylines of the placed free boundaries, from edge to edge of the drawing [m]."""
+    box = _box_segments(extent)
+    reach = 2.0 * np.hypot(extent[1] - extent[0], extent[3] - extent[2])
+    lines = []
+    for through, before, bend, after in anchors:
+        x0, y0 = through
+        back = _ray_length(x0, y0, before + np.pi, box, reach)
+        first = (x0 - back * np.cos(before), y0 - back * np.sin(before))
+        corner = bend if bend is not None else through
+        onward = _ray_length(corner[0], corner[1], after, box, reach)
+        last = (corner[0] + onward * np.cos(after), corner[1] + onward * np.sin(after))
+        points = [first, corner, last] if bend is not None else [first, last]
+        lines.append((np.array([p[0] for p in points]), np.array([p[1] for p in points])))
+    return lines
+
+
+def _default_extent(walls, waves, anchors):
     points = [np.column_stack([np.asarray(x, float), np.asarray(y, float)]) for x, y in walls]
     points += [np.asarray([w["start"]], float) for w in waves if w["start"] is not None]
+    for through, _, bend, _ in anchors:
+        points.append(np.asarray([through] + ([bend] if bend is not None else []), float))
     if not points:
-        raise ValueError("draw_wave_pattern needs walls, wave start points or an extent.")
+        raise reject("walls", "given (or extent=, or wave start points)", walls)
     allp = np.vstack(points)
     (x0, y0), (x1, y1) = allp.min(axis=0), allp.max(axis=0)
     size = max(x1 - x0, y1 - y0, 1e-12)
     if not walls:
         return (x0 - 0.2 * size, x1 + 2.0 * size, y0 - 1.0 * size, y1 + 1.0 * size)
     return (x0, x1, y0 - 0.02 * size, y1 + 0.02 * size)
+
+
+def _checked_extent(extent):
+    try:
+        x0, x1, y0, y1 = (float(plain(v)) for v in extent)
+    except (TypeError, ValueError):
+        raise reject("extent", "(xmin, xmax, ymin, ymax)", extent) from None
+    if not (x1 > x0 and y1 > y0 and np.all(np.isfinite([x0, x1, y0, y1]))):
+        raise reject("extent", "(xmin, xmax, ymin, ymax) with xmax > xmin and ymax > ymin",
+                     extent)
+    return (x0, x1, y0, y1)
 
 
 def _label_points(lines, waves, solution, case, extent):
@@ -194,11 +279,27 @@ def _solution_label_points(solution, points, extent):
     return out
 
 
-def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, slip_lines=None,
-                      extent=None,
-                      label_positions=None, case=None, stop_at_waves=True, n_fan_rays=5,
-                      length_unit="m", ax=None):
-    """Draw a solved wave pattern: walls, shocks, fans, slip lines and region Mach numbers.
+def _slip_line_segments(solution, slip_lines, waves, lines, fixed, extent, case):
+    made_by = {w["downstream"]: w for w in waves}
+    reach = 2.0 * np.hypot(extent[1] - extent[0], extent[3] - extent[2])
+    out = {}
+    for pair in slip_lines:
+        a, b = pair
+        maker = made_by.get(a) or made_by.get(b)
+        if maker is None:
+            raise reject("slip_lines", "pairs of regions of which one is made by a wave (the "
+                         "slip line starts where that wave starts)", pair)
+        x0, y0 = np.asarray(lines[maker["name"]][0][:2])
+        d = float(_pick(plain(solution.region(a).direction), case))
+        t = _ray_length(x0, y0, d, fixed, reach)
+        out[(a, b)] = (x0, y0, x0 + t * np.cos(d), y0 + t * np.sin(d))
+    return out
+
+
+def draw_wave_pattern(solution, *, walls=(), free_boundaries=None, starts=None, slip_lines=None,
+                      extent=None, label_positions=None, case=None, stop_at_waves=True,
+                      n_fan_rays=5, length_unit="m", legend=True, ax=None, **line_properties):
+    """Draw a solved wave pattern: walls, shocks, fans, slip lines, free boundaries, Mach numbers.
 
     Parameters
     ----------
@@ -209,10 +310,14 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
         with ``add_wall(..., through=(x, y))``, the waves leaving a crossing;
         see :attr:`PatternSolution.meeting_points`).
     walls : sequence of (x, y) arrays, optional
-        Solid walls as polylines [m]; wave lines end where they meet one.
+        Solid walls as polylines [m] (numbers in metres or length Quantities);
+        wave lines end where they meet one.
     free_boundaries : sequence of (x, y) arrays, optional
-        Constant-pressure boundaries (a jet's edge) as polylines [m], drawn
-        dash-dotted; wave lines end on them too.
+        Constant-pressure boundaries (a jet's edge) as polylines [m]. By default
+        they come from the solution: each free boundary given to the pattern
+        with ``add_free_boundary(..., through=(x, y))`` is drawn along the flow
+        that bounds it and bends where a wave meets it. Pass ``()`` to draw none.
+        Wave lines end on them too.
     starts : dict, optional
         Start points {wave name: (x, y)} [m] overriding or adding to the
         pattern's. A wave with no start begins at the end of the wave that
@@ -223,7 +328,7 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
     extent : (xmin, xmax, ymin, ymax), optional
         Edges of the drawing [m] (default: the walls' bounding box).
     label_positions : dict, optional
-        {region name: (x, y)} for region labels placed by hand (otherwise
+        {region name: (x, y)} [m] for region labels placed by hand (otherwise
         :meth:`PatternSolution.region_label_point` where the solution's
         geometry gives one, else a point just downstream of the drawn wave
         that makes the region).
@@ -234,17 +339,33 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
         walls and the edges (False).
     n_fan_rays : int
         Lines drawn per fan, head and tail included (>= 2).
-    length_unit : str
-        Unit text of the axis labels (the geometry's own unit).
+    length_unit : {"m", "cm", "mm", "km", "in", "ft"}
+        Unit of the axes: the geometry (given in metres) is drawn in it.
+    legend : bool
+        Add the key of the line types drawn (shock, expansion fan, slip line,
+        wall, free boundary) under the axes.
     ax : matplotlib Axes, optional
+        Where to draw (default: a new figure sized to the drawing's extent).
+    **line_properties
+        matplotlib properties applied to every wave line (shocks, fan rays
+        and slip lines), e.g. ``alpha=0.7`` or ``zorder=4``.
 
     Returns
     -------
-    dict
-        ``"ax"``; ``"shocks"`` {name: Line2D}; ``"fans"`` {name: LineCollection};
-        ``"slip_lines"`` {(a, b): Line2D}; ``"walls"`` and ``"free_boundaries"``
-        (lists of Line2D);
-        ``"labels"`` {region: Text}; ``"lines"`` {name: [(x0, y0, x1, y1), …]}.
+    Drawing
+        ``ax``; ``shocks`` {name: Line2D}; ``fans`` {name: LineCollection};
+        ``slip_lines`` {(a, b): Line2D}; ``walls`` and ``free_boundaries``
+        (lists of Line2D); ``labels`` {region: Text}; ``lines`` {name: [(x0, y0,
+        x1, y1), …]} in ``length_unit``; ``legend`` (or None).
+
+    Raises
+    ------
+    InvalidInputError
+        For a bad argument, naming it: ``solution`` not a solved pattern (or
+        the case not solved), malformed ``walls``, ``free_boundaries``,
+        ``extent``, ``starts`` or ``slip_lines``, ``case`` outside the
+        batch, ``n_fan_rays`` below 2, an unknown ``length_unit``, or a
+        keyword that is not a line property.
 
     Notes
     -----
@@ -266,77 +387,97 @@ def draw_wave_pattern(solution, *, walls=(), free_boundaries=(), starts=None, sl
     >>> _ = duct.add_wall("3", direction=0.0)
     >>> walls = [([-0.5, 0.0, 4.0], [0.0, 0.0, 4.0 * np.tan(np.radians(6.0))]),
     ...          ([-0.5, 4.0], [1.0, 1.0])]
-    >>> drawn = draw_wave_pattern(duct.solve(), walls=walls)
-    >>> sorted(drawn["shocks"]), len(drawn["fans"])
-    (['ramp shock', 'reflected'], 0)
+    >>> drawn = draw_wave_pattern(duct.solve(), walls=walls, length_unit="mm")
+    >>> drawn
+    <Drawing of draw_wave_pattern: shocks ×2, fans ×0, slip_lines ×0, walls ×2, free_boundaries ×0, labels ×3, lines ×2, legend>
+    >>> round(drawn.shocks["ramp shock"].get_xdata()[1])   # where it meets the roof [mm]
+    1942
     """
     from matplotlib.collections import LineCollection
 
-    ax = axes_or_new(ax)
-    if n_fan_rays < 2:
-        raise ValueError(f"n_fan_rays must be >= 2 (head and tail); got {n_fan_rays!r}.")
+    if not isinstance(solution, PatternSolution):
+        raise reject("solution", "a PatternSolution (from WavePattern.solve())", solution)
+    check_axes(ax)
+    n_fan_rays = check_count("n_fan_rays", n_fan_rays, 2)
+    scale, unit_text = length_unit_factor(length_unit)
     if not _pick(solution.ok, case):
-        raise ValueError(f"the pattern was not solved for this case "
-                         f"({_pick(solution.failure, case)}); nothing to draw.")
-    walls = [(plain(x), plain(y)) for x, y in walls]
-    free_boundaries = [(plain(x), plain(y)) for x, y in free_boundaries]
+        raise reject("solution", "solved for the case drawn (it failed: "
+                     f"{_pick(solution.failure, case)})", case if case is not None else "case 0")
+    walls = [polyline("walls", w) for w in walls]
     waves = _solution_waves(solution, dict(starts or {}), case)
-    if extent is None:
-        extent = _default_extent(walls + free_boundaries, waves)
+    anchors = _free_boundary_anchors(solution, case) if free_boundaries is None else []
+    extent = (_default_extent(walls + [polyline("free_boundaries", f) for f in
+                                       (free_boundaries or ())], waves, anchors)
+              if extent is None else _checked_extent(extent))
+    if free_boundaries is None:
+        free_boundaries = _free_boundary_lines(anchors, extent)
+    else:
+        free_boundaries = [polyline("free_boundaries", f) for f in free_boundaries]
     edges = walls + free_boundaries
     wall_segments = (np.vstack([_segments_of(w) for w in edges]) if edges
                      else np.empty((0, 4)))
     lines = place_waves(waves, wall_segments, extent, stop_at_waves=stop_at_waves,
                         n_fan_rays=n_fan_rays)
+    fixed = np.vstack([wall_segments, _box_segments(extent)])
+    slips = _slip_line_segments(solution, solution.slip_lines if slip_lines is None
+                                else slip_lines, waves, lines, fixed, extent, case)
+    if ax is None:
+        ax = axes_or_new(None, figsize=figure_size_for(extent[1] - extent[0],
+                                                       extent[3] - extent[2]))
 
-    drawn = {"ax": ax, "shocks": {}, "fans": {}, "slip_lines": {}, "walls": [],
-             "free_boundaries": [], "labels": {}, "lines": lines}
+    drawn = {"shocks": {}, "fans": {}, "slip_lines": {}, "walls": [], "free_boundaries": []}
     for x, y in walls:
-        (line,) = ax.plot(x, y, color=WALL_COLOUR, lw=2.4, solid_capstyle="butt", gid="wall")
+        (line,) = ax.plot(scale * x, scale * y, solid_capstyle="butt", gid="wall",
+                          **WAVE_STYLES["wall"])
         drawn["walls"].append(line)
     for x, y in free_boundaries:
-        (line,) = ax.plot(x, y, color=SLIP_COLOUR, lw=1.2, ls="-.", gid="free boundary")
+        (line,) = ax.plot(scale * x, scale * y, gid="free boundary",
+                          **WAVE_STYLES["free boundary"])
         drawn["free_boundaries"].append(line)
     for w in waves:
-        segs = np.asarray(lines[w["name"]])
+        segs = scale * np.asarray(lines[w["name"]])
         if w["kind"] == "shock":
-            (line,) = ax.plot(segs[0, [0, 2]], segs[0, [1, 3]], color=SHOCK_COLOUR, lw=1.8,
-                              gid=f"shock:{w['name']}")
+            (line,) = ax.plot(segs[0, [0, 2]], segs[0, [1, 3]], gid=f"shock:{w['name']}",
+                              **WAVE_STYLES["shock"])
             drawn["shocks"][w["name"]] = line
         else:
-            widths = np.full(len(segs), 0.6)
-            widths[[0, -1]] = 1.3
-            fan = LineCollection(segs.reshape(-1, 2, 2), colors=FAN_COLOUR, linewidths=widths,
-                                 gid=f"fan:{w['name']}")
+            style = WAVE_STYLES["expansion fan"]
+            widths = np.full(len(segs), 0.6 * style["linewidth"])
+            widths[[0, -1]] = 1.4 * style["linewidth"]
+            fan = LineCollection(segs.reshape(-1, 2, 2), colors=style["color"],
+                                 linewidths=widths, gid=f"fan:{w['name']}")
             ax.add_collection(fan)
             drawn["fans"][w["name"]] = fan
-    made_by = {w["downstream"]: w for w in waves}
-    reach = 2.0 * np.hypot(extent[1] - extent[0], extent[3] - extent[2])
-    fixed = np.vstack([wall_segments, _box_segments(extent)])
-    for a, b in (solution.slip_lines if slip_lines is None else slip_lines):
-        maker = made_by.get(a) or made_by.get(b)
-        if maker is None:
-            raise ValueError(f"slip line between {a!r} and {b!r}: neither region is made by a "
-                             "wave, so it has no start point.")
-        x0, y0 = np.asarray(lines[maker["name"]][0][:2])
-        d = float(_pick(plain(solution.region(a).direction), case))
-        t = _ray_length(x0, y0, d, fixed, reach)
-        (line,) = ax.plot([x0, x0 + t * np.cos(d)], [y0, y0 + t * np.sin(d)], color=SLIP_COLOUR,
-                          lw=1.2, ls="--", gid=f"slip:{a}|{b}")
-        drawn["slip_lines"][(a, b)] = line
+    for pair, (x0, y0, x1, y1) in slips.items():
+        (line,) = ax.plot(scale * np.array([x0, x1]), scale * np.array([y0, y1]),
+                          gid=f"slip:{pair[0]}|{pair[1]}", **WAVE_STYLES["slip line"])
+        drawn["slip_lines"][pair] = line
+    apply_properties("draw_wave_pattern", [*drawn["shocks"].values(), *drawn["fans"].values(),
+                                           *drawn["slip_lines"].values()], line_properties)
     points = _label_points(lines, waves, solution, case, extent)
     if case is None or not np.shape(solution.ok):
         points.update(_solution_label_points(solution, points, extent))
-    points.update(label_positions or {})
+    points.update({k: tuple(float(v) for v in plain(p))
+                   for k, p in (label_positions or {}).items()})
+    labels = {}
     for region, (x, y) in points.items():
         M = float(_pick(solution.region(region).M, case))
-        drawn["labels"][region] = ax.text(
-            x, y, f"{region}\nM {M:.3f}", ha="center", va="center", fontsize="small",
+        labels[region] = ax.text(
+            scale * x, scale * y, f"{region}\nM {M:.3f}", ha="center", va="center",
+            fontsize="small", zorder=6,
             bbox={"boxstyle": "round,pad=0.25", "fc": "white", "ec": "#BBBBBB", "lw": 0.6})
-    ax.set_xlim(extent[0], extent[1])
-    ax.set_ylim(extent[2], extent[3])
+    ax.set_xlim(scale * extent[0], scale * extent[1])
+    ax.set_ylim(scale * extent[2], scale * extent[3])
     ax.set_aspect("equal")
-    ax.set_xlabel(f"x [{length_unit}]")
-    ax.set_ylabel(f"y [{length_unit}]")
+    ax.set_xlabel(f"x [{unit_text}]")
+    ax.set_ylabel(f"y [{unit_text}]")
     tidy(ax, grid=False)
-    return drawn
+    roles = [role for role, present in (
+        ("shock", drawn["shocks"]), ("expansion fan", drawn["fans"]),
+        ("slip line", drawn["slip_lines"]), ("wall", drawn["walls"]),
+        ("free boundary", drawn["free_boundaries"])) if present]
+    key = legend_below(ax, *key_handles(roles), columns=min(len(roles), 5)) if legend else None
+    drawn_lines = {name: [tuple(scale * v for v in seg) for seg in segs]
+                   for name, segs in lines.items()}
+    return Drawing("draw_wave_pattern", ax, **drawn, labels=labels, lines=drawn_lines,
+                   legend=key)

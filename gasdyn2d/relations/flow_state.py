@@ -7,7 +7,6 @@ import dataclasses
 import numpy as np
 
 from ..boundary import Call, ResultTable, unit_field
-from ..boundary.results import _format
 from ..boundary.types import ArrayInput, FloatArray
 from ..errors import InvalidInputError
 from .gas import AIR, Gas
@@ -172,14 +171,13 @@ class FlowState(ResultTable):
         """Broadcast shape of the state's arrays (``()`` for a single state)."""
         return np.shape(self.M_si)
 
-    def _rows(self):
-        yield from super()._rows()
+    def _extra_columns(self):
         for name in ("rho", "a", "V", "p0", "T0", "q", "nu", "mu"):
             value = getattr(self, name)
             unit = f"{value.units:~P}" if hasattr(value, "units") else {
                 "rho": "kg/m³", "a": "m/s", "V": "m/s", "p0": "Pa", "T0": "K", "q": "Pa",
                 "nu": "rad", "mu": "rad"}[name]
-            yield name, _format(value), unit
+            yield name, unit, value
 
     def __eq__(self, other):
         if not isinstance(other, FlowState):
