@@ -36,10 +36,11 @@ import dataclasses
 import numpy as np
 
 from .. import _numerics as nx
-from ..errors import IllPosedProblemError, NoSolutionError
+from ..boundary.checks import Check, errors_mode, format_value
+from ..errors import DetachedShockError, IllPosedProblemError, InvalidInputError, NoSolutionError
 from ..relations.isentropic import mach_angle_of
 from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
-from .solution import PatternSolution, RegionSolution, WaveSolution
+from .solution import PatternSolution, RegionSolution, WaveSolution, region_name
 from ..relations.flow_state import FlowState
 from ..relations.simple_waves import turn_for_pressure_ratio, turn_state
 
@@ -50,7 +51,7 @@ _FD_STEP = 1e-7  # finite-difference step in a turn [rad] for the Jacobian
 _MAX_HALVINGS = 30
 
 
-@dataclasses.dataclass
+@dataclasses.dataclass(frozen=True)
 class _Wave:
     name: str
     upstream: str
@@ -63,7 +64,7 @@ class _Wave:
     start: object
 
 
-@dataclasses.dataclass
+@dataclasses.dataclass(frozen=True)
 class _Condition:
     kind: str  # "wall", "free boundary", "slip line"
     regions: tuple
@@ -129,25 +130,37 @@ class WavePattern:
     (2.1051, 2.1404)
     """
 
-    def __init__(self, inflow, *, direction=0.0, gamma=1.4, name="1"):
+    def __init__(self, inflow, *, direction=None, gamma=None, name="1"):
         if isinstance(inflow, FlowState):
-            self.inflow_state = inflow
+            if direction is not None or gamma is not None:
+                given = " and ".join(k for k, v in (("direction", direction), ("gamma", gamma))
+                                     if v is not None)
+                raise InvalidInputError(
+                    f"{given} cannot be given with a FlowState inflow, which carries its own "
+                    "direction and gas; set them on the FlowState instead, e.g. "
+                    "FlowState(M, p, T, direction=..., gas=Gas(gamma=...)).")
+            self._inflow_state = inflow
             M, d, g = inflow.M_si, inflow.direction_si, np.asarray(inflow.gas.gamma)
             self._angle_units = [getattr(inflow.direction, "units", None)]  # its angle unit
             self._pressure_scale = inflow.p_si
             self._pressure_kind = "pressure"
         else:
-            self.inflow_state = None
+            self._inflow_state = None
             M, _ = nx.to_si(inflow, "inflow", "dimensionless")
-            d, unit = nx.to_si(direction, "direction", "angle")
+            d, unit = nx.to_si(0.0 if direction is None else direction, "direction", "angle")
             self._angle_units = [unit]
-            g, _ = nx.to_si(gamma, "gamma", "dimensionless")
+            g, _ = nx.to_si(1.4 if gamma is None else gamma, "gamma", "dimensionless")
             self._pressure_scale = np.asarray(1.0)
             self._pressure_kind = "dimensionless"
-        self._M_in, self._d_in, self._gamma = M, d, g
-        self.inflow_name = str(name)
+        self._M_in, self._d_in, self._gamma = _frozen(M), _frozen(d), _frozen(g)
+        self.inflow_name = region_name(name, "name")
         self._waves: dict[str, _Wave] = {}
         self._conditions: list[_Condition] = []
+
+    @property
+    def inflow_state(self):
+        """The inflow :class:`~gasdyn2d.FlowState`, or None if the inflow was a Mach number."""
+        return self._inflow_state
 
     # -- building the pattern
     def add_wave(self, name, *, upstream, downstream, family, turn=None, direction=None,
@@ -184,7 +197,9 @@ class WavePattern:
         WavePattern
             ``self``, so calls can be chained.
         """
-        name = str(name)
+        name = region_name(name, "name")
+        upstream = region_name(upstream, "upstream")
+        downstream = region_name(downstream, "downstream")
         if name in self._waves:
             raise IllPosedProblemError(f"a wave named {name!r} already exists; give each wave "
                                        "its own name.")
@@ -201,18 +216,16 @@ class WavePattern:
         if spec in ("turn", "direction"):
             value, unit = nx.to_si(value, spec, "angle")
             self._angle_units.append(unit)
+            value = _frozen(value)
         elif spec == "pressure":
-            value = nx.to_si(value, "pressure", self._pressure_kind)[0] / self._pressure_scale
-            with np.errstate(invalid="ignore"):
-                if np.any(value <= 0):
-                    raise nx.InvalidInputError(
-                        f"wave {name!r}: pressure must be > 0; got {np.min(value):g}.")
+            value = _frozen(nx.to_si(value, "pressure", self._pressure_kind)[0]
+                            / self._pressure_scale)
         if downstream == upstream:
             raise IllPosedProblemError(f"wave {name!r} has the same region {upstream!r} on "
                                        "both sides.")
         if guess is not None:
-            guess = nx.to_si(guess, "guess", "angle")[0]
-        self._waves[name] = _Wave(name, str(upstream), str(downstream), _FAMILY_SIGN[family],
+            guess = _frozen(nx.to_si(guess, "guess", "angle")[0])
+        self._waves[name] = _Wave(name, upstream, downstream, _FAMILY_SIGN[family],
                                   spec, value, branch == "strong", guess,
                                   _point(start, "start"))
         return self
@@ -227,7 +240,8 @@ class WavePattern:
         """
         value, unit = nx.to_si(direction, "direction", "angle")
         self._angle_units.append(unit)
-        self._conditions.append(_Condition("wall", (str(region),), value,
+        self._conditions.append(_Condition("wall", (region_name(region, "region"),),
+                                           _frozen(value),
                                            _point(through, "through")))
         return self
 
@@ -242,13 +256,16 @@ class WavePattern:
         of the wave leaving into ``region``.
         """
         value = nx.to_si(pressure, "pressure", self._pressure_kind)[0] / self._pressure_scale
-        self._conditions.append(_Condition("free boundary", (str(region),), value,
+        self._conditions.append(_Condition("free boundary", (region_name(region, "region"),),
+                                           _frozen(value),
                                            _point(through, "through")))
         return self
 
     def add_slip_line(self, region_a, region_b):
         """Join two regions by a slip line: equal pressure and equal direction."""
-        self._conditions.append(_Condition("slip line", (str(region_a), str(region_b)), None))
+        self._conditions.append(_Condition("slip line", (region_name(region_a, "region_a"),
+                                                         region_name(region_b, "region_b")),
+                                           None))
         return self
 
     # -- well-posedness
@@ -437,35 +454,79 @@ class WavePattern:
         -------
         PatternSolution
         """
-        nx.check_errors_mode(errors)
+        nan_mode = errors_mode(errors)
         order, deps = self.check()
         unknown_names = [w.name for w in order if w.spec == "unknown"]
         plan = (order, deps, {n: i for i, n in enumerate(unknown_names)})
         case, shape = self._cases()
-        case["M"] = nx.check_mach_supersonic(case["M"], "inflow Mach number", errors)
-        case["g"] = nx.check_gamma(case["g"], errors)
         n = case["M"].size
+        reasons = self._validate(case, shape, Check(nan_mode))
+        # NaN in gives NaN out: a case with any NaN input is not solved and is no failure
+        live = np.ones(n, dtype=bool)
+        for key, value in case.items():
+            live &= ~np.isnan(value)
+        case["live"] = live
         k = len(unknown_names)
         x = np.zeros((k, n))
         for i, name in enumerate(unknown_names):
             if "guess:" + name in case:
                 x[i] = case["guess:" + name]
+        x[:, ~live] = np.nan
         x, converged, iterations, (regions, waves), step = self._newton(plan, x, case,
                                                                         max_iterations)
         residual = self._residuals(regions, case)
         finite = np.all(np.isfinite(residual), axis=0) & np.isfinite(_regions_lnp(regions))
-        ok = converged & finite & np.all(np.isfinite(x), axis=0)
-        failure = self._diagnose(plan, x, step, case, ok, regions, waves)
+        ok = converged & finite & np.all(np.isfinite(x), axis=0) & live
+        failure, detached_given = self._diagnose(plan, x, step, case, ok, regions, waves)
+        failure = np.where(reasons != "", reasons, failure)
         ok &= failure == ""
-        if errors == "raise" and not np.all(ok | np.isnan(case["M"])):
-            first = int(np.flatnonzero(~ok & ~np.isnan(case["M"]))[0])
-            count = int(np.count_nonzero(~ok & ~np.isnan(case["M"])))
+        failed = ~ok & live
+        if not nan_mode and failed.any():
+            first = int(np.flatnonzero(failed)[0])
+            count = int(np.count_nonzero(failed))
             index = tuple(int(i) for i in np.unravel_index(first, shape))
             where = f" at index {index} ({count} of {n} cases fail)" if shape else ""
-            raise NoSolutionError(
+            error = DetachedShockError if detached_given[first] else NoSolutionError
+            raise error(
                 f"no solution{where}: {failure[first]} Pass errors='nan' to get NaN for "
                 "these cases, with the reason in solution.failure.")
         return self._package(regions, waves, ok, failure, iterations, shape, case["g"])
+
+    def _validate(self, case, shape, check):
+        """Check the case inputs in place (raise, or NaN them); the per-case reasons."""
+        reasons = np.full(case["M"].size, "", dtype=object)
+
+        def checked(key, name, test, requirement, **kwargs):
+            value = case[key].reshape(shape)
+            with np.errstate(invalid="ignore"):
+                bad = test(value) & ~np.isnan(value)
+            out = check.reject(bad, value, name, requirement, **kwargs)
+            flat_bad = bad.reshape(-1)
+            for i in np.flatnonzero(flat_bad & (reasons == "")):
+                reasons[i] = (f"{name} = {_show(case[key][i], kwargs.get('unit_text', ''))} is "
+                              f"not {requirement}.")
+            case[key] = np.asarray(out, dtype=float).reshape(-1)
+
+        checked("M", "inflow Mach number", lambda v: ~(v >= 1.0) | np.isinf(v),
+                "finite and >= 1 (supersonic flow)")
+        checked("g", "gamma", lambda v: ~(v > 1.0) | np.isinf(v),
+                "a finite ratio of specific heats > 1")
+        checked("d", "direction", np.isinf, "finite", unit_text="rad")
+        for w in self._waves.values():
+            if w.spec == "pressure":
+                checked("w:" + w.name, f"pressure (of wave {w.name!r})",
+                        lambda v: ~(v > 0.0) | np.isinf(v), "finite and > 0")
+            elif w.spec != "unknown":
+                checked("w:" + w.name, f"{w.spec} (of wave {w.name!r})", np.isinf, "finite",
+                        unit_text="rad")
+        for i, c in enumerate(self._conditions):
+            if c.kind == "wall":
+                checked(f"c:{i}", f"direction (of the {c.label()})", np.isinf, "finite",
+                        unit_text="rad")
+            elif c.kind == "free boundary":
+                checked(f"c:{i}", f"pressure (of the {c.label()})",
+                        lambda v: ~(v > 0.0) | np.isinf(v), "finite and > 0")
+        return reasons.astype(str)
 
     def _newton(self, plan, x, case, max_iterations):
         """Batched damped Newton iteration; returns (x, converged, iterations, evaluation).
@@ -483,7 +544,7 @@ class WavePattern:
         full_ev = ev
         converged = np.zeros(n, dtype=bool)
         last_step = np.full_like(x, np.nan)
-        idx = np.flatnonzero(np.isfinite(case["M"]) & np.all(np.isfinite(x), axis=0))
+        idx = np.flatnonzero(case["live"] & np.all(np.isfinite(x), axis=0))
         ev = _take(ev, idx)
         iterations = 0
         for iterations in range(1, max_iterations + 1):
@@ -519,7 +580,7 @@ class WavePattern:
         halving ends at a start the iteration can work from.
         """
         for _ in range(_MAX_HALVINGS):
-            bad = np.flatnonzero(~np.all(np.isfinite(r), axis=0) & np.isfinite(case["M"]))
+            bad = np.flatnonzero(~np.all(np.isfinite(r), axis=0) & case["live"])
             if bad.size == 0:
                 break
             x[:, bad] *= 0.5
@@ -582,9 +643,11 @@ class WavePattern:
         at the full last Newton step (where the conditions were heading).
         """
         failure = np.full(x.shape[1], "", dtype=object)
-        bad = ~ok & ~np.isnan(case["M"])
+        detached_given = np.zeros(x.shape[1], dtype=bool)
+        bad = ~ok & case["live"]
         if not np.any(bad):
-            return failure.astype(str)
+            return failure.astype(str), detached_given
+        self._given_detached(plan, regions, waves, case, bad, failure, detached_given)
         self._wave_reasons(plan, regions, waves, bad, failure, "")
         rest = bad & (failure == "")
         if np.any(rest):
@@ -600,7 +663,28 @@ class WavePattern:
         failure[rest] = ("the conditions cannot be met by attached waves: the Newton "
                          "iteration did not converge (for example, the pressure-deflection "
                          "polars do not intersect).")
-        return failure.astype(str)
+        return failure.astype(str), detached_given
+
+    def _given_detached(self, plan, regions, waves, case, bad, failure, detached_given):
+        """Waves given by turn or direction from a region that depends on no unknown, and
+        detached there: the input itself is beyond θmax (a DetachedShockError)."""
+        order, deps, _ = plan
+        for w in order:
+            if w.spec not in ("turn", "direction") or deps[w.upstream]:
+                continue
+            turn, s = waves[w.name]
+            hit = bad & (failure == "") & s.detached
+            if not hit.any():
+                continue
+            M_up = regions[w.upstream][0]
+            theta_max = detachment_angles(M_up[hit], case["g"][hit])[0]
+            for j, i in enumerate(np.flatnonzero(hit)):
+                failure[i] = (f"wave {w.name!r} detached: its turn {_show(abs(turn[i]), 'rad')} "
+                              f"exceeds the detachment deflection θmax = "
+                              f"{_show(theta_max[j], 'rad')} of its upstream region "
+                              f"{w.upstream!r} (M = {_show(M_up[i])}), so no attached "
+                              "straight shock exists there.")
+                detached_given[i] = True
 
     def _wave_reasons(self, plan, regions, waves, bad, failure, context):
         for w in plan[0]:
@@ -625,16 +709,17 @@ class WavePattern:
                 f"angle (to vacuum){context}.")
 
     def _package(self, regions, waves, ok, failure, iterations, shape, gamma):
-        out = lambda v: nx.scalar_or_array(np.where(ok, v, np.nan).reshape(shape))  # noqa: E731
+        out = lambda v: _result_value(np.where(ok, v, np.nan).reshape(shape))  # noqa: E731
         unit = next((u for u in self._angle_units if u is not None), None)
         unit = nx.output_angle_unit(unit)
-        angle = lambda v: nx.angle_out(out(v), unit)  # noqa: E731
+        angle = lambda v: _result_value(nx.angle_out(out(v), unit))  # noqa: E731
         region_results = {}
         for name, (M, lnp, d, lnT, lnp0) in regions.items():
             region_results[name] = RegionSolution(out(M), out(np.exp(lnp)), out(np.exp(lnT)),
                                                   out(np.exp(lnp0)), angle(d))
         wave_results = {}
-        for w in self._order()[0]:
+        order = self._order()[0]
+        for w in order:
             turn, s = waves[w.name]
             M_up, _, d_up = regions[w.upstream][:3]
             M_dn, _, d_dn = regions[w.downstream][:3]
@@ -644,11 +729,39 @@ class WavePattern:
             head = d_up + w.sign * np.where(shock, s.wave_angle, mu_up)
             tail = np.where(shock, head, d_dn + w.sign * mu_dn)
             wave_results[w.name] = WaveSolution(
-                str(kind) if not shape else kind, "left" if w.sign > 0 else "right",
+                str(kind) if not shape else _result_value(kind),
+                "left" if w.sign > 0 else "right",
                 angle(turn + 0 * M_up), out(s.p2_p1), angle(s.wave_angle), angle(mu_up),
                 angle(mu_dn), angle(head), angle(tail))
-        return PatternSolution(self, region_results, wave_results, ok, failure, iterations,
-                               shape, gamma=nx.scalar_or_array(gamma.reshape(shape)))
+        gamma = np.broadcast_to(gamma, ok.shape).reshape(shape)
+        return PatternSolution(
+            inflow_name=self.inflow_name, inflow_state=self._inflow_state, links=order,
+            conditions=tuple(self._conditions), regions=region_results, waves=wave_results,
+            ok=ok, failure=failure, iterations=iterations, shape=shape,
+            gamma=float(gamma) if not shape else gamma)
+
+
+def _result_value(value):
+    """A result field: a float for one case, else a read-only array (also inside a Quantity)."""
+    magnitude = getattr(value, "magnitude", value)
+    if np.ndim(magnitude) == 0:
+        return value if nx.is_quantity(value) else (
+            str(value) if np.asarray(value).dtype.kind == "U" else float(value))
+    if isinstance(magnitude, np.ndarray):
+        magnitude.flags.writeable = False
+    return value
+
+
+def _frozen(value):
+    """A read-only float copy: the pattern keeps what it was given, whatever the caller
+    does with their own array afterwards."""
+    value = np.array(value, dtype=float, copy=True)
+    value.flags.writeable = False
+    return value
+
+
+def _show(value, unit_text=""):
+    return format_value(value, unit_text)
 
 
 def _point(point, name):
@@ -659,7 +772,8 @@ def _point(point, name):
         x, y = point
     except (TypeError, ValueError):
         raise nx.InvalidInputError(f"{name} must be a point (x, y) [m]; got {point!r}.") from None
-    return nx.to_si(x, f"{name}[0]", "length")[0], nx.to_si(y, f"{name}[1]", "length")[0]
+    return (_frozen(nx.to_si(x, f"{name}[0]", "length")[0]),
+            _frozen(nx.to_si(y, f"{name}[1]", "length")[0]))
 
 
 def _regions_lnp(regions):

@@ -284,9 +284,9 @@ def turn_to_pressure(M1, p2_p1, *, gamma=1.4, errors="raise"):
     M, _ = nx.to_si(M1, "M1", "dimensionless")
     p, _ = nx.to_si(p2_p1, "p2_p1", "dimensionless")
     g, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    arrays = nx.broadcast(M1=M, p2_p1=p, gamma=g)
-    shape = arrays[0].shape
-    M0, p0, g0 = (a.reshape(-1) for a in arrays)
+    M0, p0, g0 = nx.broadcast(M1=M, p2_p1=p, gamma=g)
+    shape = M0.shape
+    # checked in the case shape (an index in a message is the caller's), then flattened
     M = nx.check_mach_supersonic(M0, "M1", errors)
     g = nx.check_gamma(g0, errors)
     failure = _input_reasons(M0, M, g0, g)
@@ -300,6 +300,7 @@ def turn_to_pressure(M1, p2_p1, *, gamma=1.4, errors="raise"):
         p = nx.reject(p > p_max, p, "p2_p1", "at most the normal-shock pressure ratio of M1 "
                       "(no single wave reaches more)", errors, limit=p_max,
                       error_class=NoSolutionError)
+    M, g, p, failure = (np.reshape(a, -1) for a in (M, g, p, failure))
     pattern = WavePattern(M, gamma=g)
     pattern.add_wave("lip wave", upstream="1", downstream="2", family="left", pressure=p)
     solution = pattern.solve(errors="nan")

@@ -14,6 +14,7 @@ import dataclasses
 import numpy as np
 
 from .. import _numerics as nx
+from ..boundary import as_si_scalar
 from ..boundary.results import ResultTable, unit_field
 from ..relations.expansion_fans import fan_pressure_ratio, max_prandtl_meyer_angle, prandtl_meyer_angle
 from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
@@ -91,9 +92,10 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     """
     if not isinstance(state, FlowState):
         state = FlowState(state, 101325.0, 288.15)
+    if not isinstance(n, (int, np.integer)) or isinstance(n, (bool, np.bool_)) or n < 3:
+        raise nx.InvalidInputError(f"n must be an integer >= 3; got {n!r}.")
     n = int(n)
-    if n < 3:
-        raise nx.InvalidInputError(f"n must be an integer >= 3; got {n}.")
+    min_pressure_ratio = as_si_scalar("min_pressure_ratio", min_pressure_ratio)
     if not 0.0 < min_pressure_ratio < 1.0:
         raise nx.InvalidInputError(
             f"min_pressure_ratio must be between 0 and 1; got {min_pressure_ratio!r}.")

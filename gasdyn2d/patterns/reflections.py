@@ -235,7 +235,7 @@ def wall_reflection(M1, deflection, *, gamma=1.4, errors="raise"):
         mr_ok[idx] = ok_sub
     kind = np.where(rr_ok, "regular", np.where(mr_ok, "mach", "none"))
     dual = rr_ok & mr_ok  # both reflections found (the p3 >= p_normal cases)
-    none = (kind == "none") & np.isfinite(M) & np.isfinite(theta)
+    none = (kind == "none") & np.isfinite(M) & np.isfinite(theta) & np.isfinite(g)
     if np.any(none):
         failure[none] = _no_reflection_reasons(M[none], theta[none], g[none])
     failure = _raise_or_label(failure, shape, errors, "wall_reflection",

@@ -19,7 +19,7 @@ from ..boundary.results import ResultTable, unit_field
 from ..relations.flow_state import FlowState
 
 __all__ = ["PatternSolution", "RegionSolution", "WaveSolution", "WaveConnection",
-           "PatternCondition", "MeetingPoint"]
+           "PatternCondition", "MeetingPoint", "region_name"]
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
@@ -149,35 +149,46 @@ class PatternSolution:
     the flow downstream. :attr:`meeting_points` lists every point so found.
     """
 
-    def __init__(self, pattern, regions, waves, ok, failure, iterations, shape, *,
-                 gamma=None):
-        self._pattern = pattern
-        self._regions = regions
-        self._waves = waves
-        self._shape = shape
-        self.ok = nx.scalar_or_array(ok.reshape(shape)) if shape else bool(ok.reshape(()))
+    def __init__(self, *, inflow_name, inflow_state, links, conditions, regions, waves, ok,
+                 failure, iterations, shape, gamma):
+        put = object.__setattr__
+        put(self, "_inflow_name", inflow_name)
+        put(self, "_inflow_state", inflow_state)
+        put(self, "_regions", dict(regions))
+        put(self, "_waves", dict(waves))
+        put(self, "_shape", shape)
+        put(self, "ok", _read_only(ok.reshape(shape)) if shape else bool(ok.reshape(())))
         failure = failure.reshape(shape)
-        self.failure = str(failure) if not shape else failure
-        self.iterations = iterations
-        self.gamma = gamma if gamma is not None else nx.scalar_or_array(
-            np.broadcast_to(pattern._gamma, shape).copy())
-        self._links = {w.name: w for w in pattern._order()[0]}
-        self._conditions = tuple(_condition_record(c) for c in pattern._conditions)
-        self._starts, self._sources, self._meetings = _place_waves(self, pattern)
+        put(self, "failure", str(failure) if not shape else _read_only(failure))
+        put(self, "iterations", int(iterations))
+        put(self, "gamma", gamma if type(gamma) is float else _read_only(gamma))
+        put(self, "_links", {w.name: w for w in links})
+        put(self, "_conditions", tuple(_condition_record(c) for c in conditions))
+        starts, sources, meetings = _place_waves(self, conditions)
+        put(self, "_starts", starts)
+        put(self, "_sources", sources)
+        put(self, "_meetings", meetings)
+
+    def __setattr__(self, name, value):
+        raise AttributeError(f"a PatternSolution is a snapshot of one solve and cannot be "
+                             f"changed (tried to set {name!r}); solve the pattern again.")
+
+    __delattr__ = __setattr__
 
     # -- how the pattern is connected
     @property
     def inflow_name(self) -> str:
         """Name of the inflow region."""
-        return self._pattern.inflow_name
+        return self._inflow_name
 
     @property
     def inflow_state(self):
         """The inflow :class:`~gasdyn2d.FlowState`, or None if the inflow was a Mach number."""
-        return self._pattern.inflow_state
+        return self._inflow_state
 
     def connection(self, name) -> WaveConnection:
         """Regions, family, branch, specification and start point of wave ``name``."""
+        name = region_name(name, "name")
         w = self._links.get(name)
         if w is None:
             raise nx.InvalidInputError(
@@ -190,6 +201,7 @@ class PatternSolution:
 
     def wave_start(self, name):
         """Start point ``(x, y)`` [m] of wave ``name`` (given or implied), or None."""
+        name = region_name(name, "name")
         self.connection(name)  # checks the name
         point = self._starts.get(name)
         return None if point is None else tuple(nx.scalar_or_array(v) for v in point)
@@ -211,6 +223,7 @@ class PatternSolution:
 
     def made_by(self, region):
         """Name of the wave whose downstream region is ``region`` (None for the inflow)."""
+        region = region_name(region, "region")
         self.region(region)  # checks the name
         return next((n for n, w in self._links.items() if w.downstream == region), None)
 
@@ -222,6 +235,7 @@ class PatternSolution:
         region's flow. For the inflow region: that far upstream of the middle
         of the first placed wave leaving it. The first case of a batch.
         """
+        name = region_name(name, "name")
         maker = self.made_by(name)
         if maker is None:
             placed = [n for n in self._links if n in self._starts
@@ -267,6 +281,7 @@ class PatternSolution:
 
     def region(self, name) -> RegionSolution:
         """The state of region ``name`` (ratios to the inflow region)."""
+        name = region_name(name, "name")
         try:
             return self._regions[name]
         except KeyError:
@@ -275,6 +290,7 @@ class PatternSolution:
 
     def wave(self, name) -> WaveSolution:
         """The solved wave ``name``."""
+        name = region_name(name, "name")
         try:
             return self._waves[name]
         except KeyError:
@@ -287,7 +303,7 @@ class PatternSolution:
         Needs the pattern's inflow to have been a ``FlowState`` (which fixes
         pressure, temperature and the gas).
         """
-        inflow = self._pattern.inflow_state
+        inflow = self._inflow_state
         if inflow is None:
             raise nx.InvalidInputError(
                 "state() needs absolute inflow conditions: build the WavePattern from a "
@@ -352,7 +368,8 @@ class PatternSolution:
         return np.stack([x0, x1]), np.stack([y0, y1])
 
     def _line(self, item, ray):
-        if isinstance(item, str):
+        if isinstance(item, (str, int)) and not isinstance(item, bool):
+            item = region_name(item, "wave")
             self.connection(item)  # checks the name
             start = self._starts.get(item)
             if start is None:
@@ -384,6 +401,9 @@ class PatternSolution:
         n_cases = int(np.prod(self._shape)) if self._shape else 1
         n_ok = int(np.count_nonzero(self.ok)) if self._shape else int(self.ok)
         head = f"PatternSolution: {n_ok} of {n_cases} case(s) solved"
+        if n_cases == 0:
+            return (f"PatternSolution: an empty batch of shape {self._shape}; regions "
+                    f"{self.region_names}, waves {self.wave_names}")
         if self._shape:
             head += "; values of the first case"
         width = max(len(name) for name in [*self._regions, *self._waves, "region"])
@@ -403,6 +423,24 @@ class PatternSolution:
         if bad:
             lines.append(f"  {len(bad)} failure(s); first: {bad[0]}")
         return "\n".join(lines)
+
+
+def region_name(value, argument: str) -> str:
+    """The one rule for region and wave names: text, or an integer taken as its decimal text
+    (so that ``region=2`` and ``region("2")`` name the same region); anything else is refused."""
+    if isinstance(value, str):
+        return value
+    if isinstance(value, (int, np.integer)) and not isinstance(value, (bool, np.bool_)):
+        return str(int(value))
+    raise nx.InvalidInputError(f"{argument} must be a name (a string, or an integer taken as "
+                               f"its text); got {value!r} of type {type(value).__name__}.")
+
+
+def _read_only(array):
+    """A read-only copy of ``array`` (a snapshot no caller can change)."""
+    array = np.array(array, copy=True)
+    array.flags.writeable = False
+    return array
 
 
 def _condition_record(c):
@@ -434,7 +472,7 @@ def _chain(region, made_by):
     return waves, regions
 
 
-def _place_waves(solution, pattern):
+def _place_waves(solution, conditions):
     """Given and implied start points, their sources, and the meeting points."""
     links = solution._links
     made_by = {w.downstream: w for w in links.values()}
@@ -459,7 +497,7 @@ def _place_waves(solution, pattern):
 
     for w in links.values():
         parent = made_by.get(w.upstream)
-        for c in pattern._conditions:
+        for c in conditions:
             if (c.kind == "slip line" or c.through is None or c.regions[0] != w.downstream
                     or parent is None or parent.name not in starts):
                 continue
@@ -467,7 +505,7 @@ def _place_waves(solution, pattern):
                 solution.region(parent.upstream).direction)
             point = _intersect(starts[parent.name], head(parent.name), c.through, line)
             meet(c.kind, (parent.name,), (w.name,), c.regions[0], point)
-        for c in pattern._conditions:
+        for c in conditions:
             if c.kind != "slip line" or w.downstream not in c.regions:
                 continue
             a, b = c.regions
