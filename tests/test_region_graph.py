@@ -377,12 +377,12 @@ def test_reflection_points_batch_and_quantities():
     p.add_wave("reflected", upstream="2", downstream="3", family="right")
     p.add_wall("3", direction=0.0, through=(0.0 * ureg.cm, 12.0 * ureg.cm))
     s = p.solve()
-    x, y = s.wave_start("reflected")
+    x, y = s.wave_start("reflected")  # in the unit of the first length given (m here)
     beta = wave_angle_from_deflection(M, ramp)
-    assert x.shape == (3,)
-    np.testing.assert_allclose(x, 0.12 / np.tan(beta), rtol=1e-13)
-    np.testing.assert_allclose(y, 0.12, rtol=1e-14)
-    assert s.conditions[0].through_y == pytest.approx(0.12, rel=1e-15)
+    assert x.shape == (3,) and x.units == ureg.m
+    np.testing.assert_allclose(x.m_as("m"), 0.12 / np.tan(beta), rtol=1e-13)
+    np.testing.assert_allclose(y.m_as("m"), 0.12, rtol=1e-14)
+    assert np.all(s.conditions[0].through_y.m_as("m") == pytest.approx(0.12, rel=1e-15))
     with pytest.raises(InvalidInputError, match=r"through must be a point \(x, y\) \[m\]"):
         WavePattern(2.0).add_wall("2", 0.0, through=0.5)
 
@@ -410,7 +410,7 @@ def test_crossing_point_of_two_placed_shocks():
         assert s.connection(name).start_source == "wave meeting"
         np.testing.assert_allclose(s.wave_start(name), (x, x * np.tan(bl)), rtol=1e-13)
     assert s.slip_lines == [("4", "5")]
-    assert s.conditions[0].kind == "slip line" and np.isnan(s.conditions[0].value)
+    assert s.conditions[0].kind == "slip line" and np.isnan(s.conditions[0].direction)
 
 
 def test_merging_point_of_two_shocks_from_successive_corners():
@@ -471,8 +471,9 @@ def test_public_accessors():
     assert s.inflow_name == "1" and s.inflow_state is None
     assert s.made_by("3") == "reflected" and s.made_by("1") is None
     (wall,) = s.conditions
-    assert wall.kind == "wall" and wall.regions == ("3",) and wall.value == 0.0
-    assert np.isnan(wall.through_x)
+    assert wall.kind == "wall" and wall.regions == ("3",) and np.all(wall.direction == 0.0)
+    assert np.all(np.isnan(wall.pressure_ratio))
+    assert np.all(np.isnan(wall.through_x))
     assert s.connection("ramp shock").given_by == "turn"
     with pytest.raises(InvalidInputError, match=r"no wave named 'roof'; the waves are "
                                                 r"\['ramp shock', 'reflected'\]"):
