@@ -531,3 +531,40 @@ def test_meeting_points_are_nan_where_a_case_fails():
     beta = wave_angle_from_deflection(3.0, np.radians(10.0))
     np.testing.assert_allclose(first.x, [np.nan, 1.0 / np.tan(beta)], rtol=1e-13)
     assert np.isnan(second.x[0]) and np.isfinite(second.x[1])
+
+
+# ------------------------------------------------------------ display
+
+
+def test_pattern_repr_shows_the_graph():
+    p = _placed_duct(2.6, np.radians(6.0), 0.1)
+    text = repr(p)
+    assert text.startswith("WavePattern: 4 region(s), 3 wave(s), 2 unknown turn(s), "
+                           "2 condition(s): well posed")
+    assert "1 → 2  left   shock  turn 0.1047197551 rad (6°)" in text
+    assert "reflected" in text and "unknown" in text and "wall on '3': direction" in text
+    assert "<table><caption>waves</caption>" in p._repr_html_()
+    q = _duct(np.array([2.0, 3.0]), 6 * ureg.deg)
+    assert ": well posed" in repr(q) and "shape (2,), 2 … 3" in repr(q)
+    assert "turn 6 deg" in repr(q)
+    q.add_wave("extra", upstream="3", downstream="4", family="left")
+    assert "not well posed: the pattern has 2 unknown wave turn(s)" in repr(q)
+
+
+def test_solution_html_and_meeting_point_table():
+    p = WavePattern(np.array([2.6, 3.0]))
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left",
+               turn=np.radians(6.0), start=(0.0, 0.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wall("3", 0.0, through=(0.0, 0.1))
+    s = p.solve()
+    html = s._repr_html_()
+    assert "<caption>regions</caption>" in html and "<caption>waves</caption>" in html
+    assert "2 of 2 case(s) solved" in html
+    table = s.meeting_points
+    assert isinstance(table, tuple) and len(table) == 1
+    text = repr(table)
+    assert text.startswith("MeetingPoints (first case):") and "ramp shock" in text
+    assert "<table>" in table._repr_html_()
+    frame = table.to_dataframe()
+    assert len(frame) == 2 and list(frame["y [m]"]) == pytest.approx([0.1, 0.1])

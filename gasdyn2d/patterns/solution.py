@@ -870,11 +870,13 @@ def _magnitude(value):
 
 
 def _unit_label(value, unit_text):
-    units = getattr(value, "units", None)
-    if units is None and type(value).__module__.split(".")[0] == "xarray":
-        units = getattr(value.data, "units", None)
+    """The unit a result field came back in, as a column label ("" for plain numbers)."""
+    if type(value).__module__.split(".")[0] == "xarray":
+        units = getattr(value.data, "units", None)  # pint-xarray keeps it in the data
         if units is None:
             return value.attrs.get("units", unit_text)
+    else:
+        units = getattr(value, "units", None)
     return f"{units:~P}" if units is not None else unit_text
 
 
