@@ -42,6 +42,8 @@ def flat(value):
 
 def shaped(value, shape):
     """A solver value back in the case shape (a float for one case)."""
+    if type(value) is float:
+        return value
     if not shape:
         return float(np.asarray(value).reshape(-1)[0]) if np.ndim(value) else float(value)
     return np.reshape(value, shape)
@@ -63,6 +65,8 @@ class CaseReasons:
     def note(self, bad, template, *values):
         """Write ``template`` filled with the case's values where ``bad`` and no reason yet
         (NaN values never count as bad)."""
+        if bad is False:
+            return
         if self.scalar:
             if bad and self.text == "" and not any(v != v for v in values[:1]):
                 self.text = template.format(*(show(v) for v in values))
@@ -96,7 +100,9 @@ class CaseReasons:
         in degrees unless the name is M1 or p2_p1).
         """
         if self.scalar:
-            if self.text and not check.nan:
+            if not self.text:
+                return ""
+            if not check.nan:
                 case = ", ".join(_input_text(k, v) for k, v in inputs.items())
                 raise NoSolutionError(f"{what} has no solution, for {case}: {self.text} Pass "
                                       "errors='nan' to get NaN for such cases, with the reason "
@@ -123,6 +129,9 @@ def _input_text(name, value):
 
 def check_mach_and_gamma(M, gamma, check, reasons, name="M1"):
     """M1 >= 1 and γ > 1, by the call's policy, with a reason for each case turned to NaN."""
+    if type(M) is float and type(gamma) is float and 1.0 <= M < math.inf and \
+            1.0 < gamma < math.inf:
+        return M, gamma  # one valid case: nothing to check or note
     with np.errstate(invalid="ignore"):
         reasons.note(~(M >= 1.0) | (M == math.inf) if not reasons.scalar
                      else not (1.0 <= M < math.inf),
@@ -143,6 +152,8 @@ def check_shock_turn(theta, M, gamma, name, check, reasons, *, upstream="M1",
     (``free_stream`` is the free-stream Mach number when ``M`` is another region's).
     """
     theta_max = scalar_of(detachment_angles(M, gamma)[0])
+    if type(theta) is float and 0.0 <= theta <= theta_max:
+        return theta  # one valid case: nothing to note
     with np.errstate(invalid="ignore"):
         negative = theta < 0
         reasons.note(negative, f"{name} = {{}}° is negative: the {wave} needs a compression "

@@ -27,6 +27,7 @@ Ben-Dor, G. (2007), *Shock Wave Reflection Phenomena*, 2nd ed., Springer
 from __future__ import annotations
 
 import dataclasses
+import math
 
 import numpy as np
 
@@ -257,6 +258,8 @@ def _wall_reflection_core(M, theta, g, check):
     reasons = CaseReasons(M)
     M, g = check_mach_and_gamma(M, g, check, reasons)
     theta = check_shock_turn(theta, M, g, "deflection", check, reasons)
+    if type(M) is float:
+        return _wall_reflection_one(M, theta, g, check, reasons)
     shape = np.shape(M)
     Mf, tf, gf = flat(M), flat(theta), g if type(g) is float else flat(g)
     regular = _regular(Mf, tf, gf)
@@ -310,10 +313,45 @@ def _wall_reflection_core(M, theta, g, check):
             out(mach["angle"]), failure)
 
 
+def _wall_reflection_one(M, theta, g, check, reasons):
+    """The scalar form of :func:`_wall_reflection_core` (one case on Python floats)."""
+    nan = math.nan
+    regular = _regular(M, theta, g)
+    r3 = regular.regions["3"]
+    rr_ok = regular.ok
+    finite = math.isfinite(M) and math.isfinite(theta) and math.isfinite(g)
+    dual = False
+    if rr_ok:
+        p_normal = float(normal_shock_ratios((M - 1.0) * (M + 1.0), g).p2_p1)
+        dual = math.exp(r3.lnp) >= p_normal
+    mach = (nan, nan, nan, nan, nan)
+    mr_ok = False
+    if finite and (dual or not rr_ok):
+        sub = _mach(M, theta, g)
+        if sub.ok and sub.regions["4"].direction <= 0.0:
+            mr_ok = True
+            mach = (sub.regions["3"].M, math.exp(sub.regions["3"].lnp), _reflected_angle(sub),
+                    sub.regions["4"].M, -sub.regions["4"].direction)
+    kind = "regular" if rr_ok else ("mach" if mr_ok else "none")
+    if kind == "none" and finite:
+        reasons.add(_no_reflection_reasons(np.array([M]), np.array([theta]), g)[0])
+    failure = reasons.finish(check, "wall_reflection", {"M1": M, "deflection": theta})
+    if rr_ok:
+        M3, p3, angle = r3.M, math.exp(r3.lnp), _reflected_angle(regular)
+    else:
+        M3, p3, angle = mach[0], mach[1], mach[2]
+    M2 = regular.regions["2"].M if theta == theta else nan
+    return (kind, bool(rr_ok and mr_ok), M2, M3, p3, angle, mach[3], mach[4], mach[0], mach[1],
+            mach[2], failure)
+
+
 def _reflected_angle(raw):
     """Plane direction of the reflected (left-running) shock: region 2's flow plus its
     wave angle; with the wall along x it is the shock's angle to the wall."""
     state = raw.waves["reflected"][1]
+    if type(state.wave_angle) is float:  # one case
+        angle = state.wave_angle if state.is_shock else float(mach_angle_of(raw.regions["2"].M))
+        return raw.regions["2"].direction + angle
     with np.errstate(invalid="ignore"):  # a zero turn is the Mach wave, at the Mach angle
         angle = np.where(state.is_shock, state.wave_angle, mach_angle_of(raw.regions["2"].M))
     return raw.regions["2"].direction + angle
