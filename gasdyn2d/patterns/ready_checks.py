@@ -181,7 +181,7 @@ def check_shock_turn(theta, M, gamma, name, check, reasons, *, upstream="M1",
                         hint="No attached shock exists beyond it." + where)
 
 
-def solve_ready(plan, case, shape):
+def solve_ready(plan, case, shape, explain=True):
     """Solve a ready problem's region graph on checked inputs (NaN where invalid).
 
     Floats solve one case (the scalar path), arrays a batch (flattened here); the
@@ -194,4 +194,5 @@ def solve_ready(plan, case, shape):
         n = next(v.size for v in case.values() if type(v) is not float)
         case = {key: v if type(v) is float and key == "g" else
                 np.broadcast_to(v, (n,)) for key, v in case.items()}
-    return solve_cases(plan, case, shape if scalar else (case["M"].size,), _NAN_CHECK)
+    return solve_cases(plan, case, shape if scalar else (case["M"].size,), _NAN_CHECK,
+                       explain=explain)

@@ -100,9 +100,10 @@ _MACH = {"weak": _mach_plan("weak"), "strong": _mach_plan("strong")}
 
 
 def _regular(M, theta, g):
-    """The regular reflection of every case (flat arrays or floats)."""
+    """The regular reflection of every case (flat arrays or floats); a failed case is
+    explained by :func:`_no_reflection_reasons` if the Mach reflection fails too."""
     return solve_ready(_REGULAR, {"M": M, "d": 0.0, "g": g, "w:incident": -theta,
-                                  "guess:reflected": theta, "c:0": 0.0}, ())
+                                  "guess:reflected": theta, "c:0": 0.0}, (), explain=False)
 
 
 _STEM_SAMPLES = 48
@@ -183,7 +184,7 @@ def _mach(M, theta, g, reflected="weak"):
         stem_guess, reflected_guess = float(stem_guess[0]), float(reflected_guess[0])
     return solve_ready(_MACH[reflected], {
         "M": M, "d": 0.0, "g": g, "w:incident": -theta, "guess:reflected": reflected_guess,
-        "guess:Mach stem": stem_guess, "c:0": 0.0}, ())
+        "guess:Mach stem": stem_guess, "c:0": 0.0}, (), explain=False)
 
 
 def wall_reflection(M1: ArrayInput, deflection: ArrayInput, *, gamma: ArrayInput = 1.4,

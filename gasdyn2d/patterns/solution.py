@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import dataclasses
 import html
+import math
 from types import MappingProxyType
 
 import numpy as np
@@ -717,6 +718,8 @@ class _Packer:
 
 
 def _scalar(value):
+    if type(value) in (float, str, bool):
+        return value
     array = np.asarray(value)
     if array.dtype.kind == "b":
         return bool(array)
@@ -727,6 +730,9 @@ def _scalar(value):
 
 def _si_fields(raw, plan, ok, shape, case):
     """SI values of every field, NaN where a case is not solved, in the case shape."""
+    if not shape:
+        return _si_fields_one(raw, plan, bool(ok), case)
+
     def out(v):
         v = np.where(ok, np.reshape(v, shape), np.nan)
         return float(v) if not shape else v
@@ -760,9 +766,46 @@ def _si_fields(raw, plan, ok, shape, case):
             "gamma": _shaped(case["g"], shape)}
 
 
+def _si_fields_one(raw, plan, ok, case):
+    """The scalar form of :func:`_si_fields` (one case, Python floats and math)."""
+    nan = math.nan
+
+    def out(v):
+        return float(v) if ok else nan
+
+    def mu(M):
+        return math.asin(1.0 / M) if M >= 1.0 else nan
+
+    regions = {name: (out(r.M), out(math.exp(r.lnp)), out(math.exp(r.lnT)),
+                      out(math.exp(r.lnp0)), out(r.direction))
+               for name, r in raw.regions.items()}
+    waves = {}
+    for link in plan.order:
+        turn, s = raw.waves[link.name]
+        up, down = raw.regions[link.upstream], raw.regions[link.downstream]
+        mu_up, mu_dn = mu(up.M), mu(down.M)
+        if not ok:
+            kind = "none"
+        elif s.is_shock:
+            kind = "shock"
+        else:
+            kind = ("compression" if link.compression == "isentropic"
+                    and turn * link.sign > 0 else "fan")
+        head = up.direction + link.sign * (s.wave_angle if s.is_shock else mu_up)
+        tail = head if s.is_shock else down.direction + link.sign * mu_dn
+        waves[link.name] = (kind, out(turn), out(s.p2_p1), out(s.wave_angle), out(mu_up),
+                            out(mu_dn), out(head), out(tail))
+    conditions = [nan if c.kind == "slip line" else float(case[f"c:{i}"])
+                  for i, c in enumerate(plan.conditions)]
+    return {"regions": regions, "waves": waves, "conditions": conditions,
+            "gamma": float(case["g"])}
+
+
 def _shaped(value, shape):
     """A float for one case; else ``value`` (flat, of the cases' size, or a scalar) in the
     case shape."""
+    if type(value) is float and not shape:
+        return value
     array = np.asarray(value, dtype=float)
     if not shape:
         return float(array.reshape(-1)[0])

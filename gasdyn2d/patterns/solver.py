@@ -437,11 +437,13 @@ def _plainly_valid(plan, case):
 # ------------------------------------------------------------------ the solve
 
 
-def solve_cases(plan, case, shape, check, *, max_iterations=40):
+def solve_cases(plan, case, shape, check, *, max_iterations=40, explain=True):
     """Solve every case of ``case`` (floats: one case; flat arrays: a batch).
 
     Invalid inputs raise or become NaN with a reason (``check``'s policy); a case with
     any NaN input is NaN out and no failure. Returns a :class:`RawSolution`.
+    ``explain=False`` lets a failed single case go without its reason (and the batch
+    pass that finds it), for callers that explain failures themselves.
     """
     if not isinstance(max_iterations, int) or isinstance(max_iterations, bool) \
             or max_iterations < 1:
@@ -466,7 +468,7 @@ def solve_cases(plan, case, shape, check, *, max_iterations=40):
     if scalar:
         if not any(v != v for v in case.values()):
             solved = _solve_scalar(plan, case, max_iterations)
-            if solved is not None:
+            if solved.ok or not explain:
                 return solved
         # NaN in, or a failure to explain: the batch form on one case gives the message
         arrays = {key: np.array([v]) for key, v in case.items()}
@@ -496,7 +498,8 @@ def _norm(r):
 
 
 def _solve_scalar(plan, case, max_iterations):
-    """Newton on Python floats; None where the case fails (the batch form explains it)."""
+    """Newton on Python floats: the RawSolution of one case (``ok`` False where it fails,
+    its reason left to the batch form, with the last state evaluated)."""
     k = len(plan.unknowns)
     x = [float(case.get("guess:" + name, 0.0)) for name in plan.unknowns]
     constant = _constant_part(plan, case)
@@ -509,7 +512,7 @@ def _solve_scalar(plan, case, max_iterations):
         regions, waves = _evaluate(plan, x, case, constant)
         r, J = _residuals(plan, regions, case)
     else:
-        return None
+        return _unsolved(regions, waves, 0)
     norm = _norm(r)
     iterations = 0
     converged = k == 0 or norm == 0.0
@@ -517,7 +520,7 @@ def _solve_scalar(plan, case, max_iterations):
         iterations += 1
         dx = _solve_small_scalar(J, [-v for v in r])
         if dx is None:
-            return None
+            return _unsolved(regions, waves, iterations)
         scale = max(abs(v) for v in x)
         near = max(abs(v) for v in dx) <= _BASIN * scale
         lam = 1.0
@@ -531,16 +534,21 @@ def _solve_scalar(plan, case, max_iterations):
                 break
             lam *= 0.5
         else:
-            return None
+            return _unsolved(regions, waves, iterations)
         step = lam * max(abs(v) for v in dx)
         x, regions, waves, r, J, norm = trial, t_regions, t_waves, t_r, t_J, t_norm
         converged = (norm == 0.0 or step <= 4.0 * _EPS * max(abs(v) for v in x)
                      or (near and not decrease))
-    if not converged or not all(v == v for v in x):
-        return None
-    if any(s.detached or s.vacuum or s.M2 != s.M2 for _, s in waves.values()):
-        return None
+    if not converged or not all(v == v for v in x) or any(
+            s.detached or s.vacuum or s.M2 != s.M2 for _, s in waves.values()):
+        return _unsolved(regions, waves, iterations)
     return RawSolution({name: reg.values for name, reg in regions.items()}, waves, True, "",
+                       False, iterations)
+
+
+def _unsolved(regions, waves, iterations):
+    """A one-case RawSolution that failed (no reason yet: the batch form gives it)."""
+    return RawSolution({name: reg.values for name, reg in regions.items()}, waves, False, "",
                        False, iterations)
 
 
