@@ -87,7 +87,8 @@ def _same(result_value, solution_value, rtol=1e-13):
 def test_wall_reflection_regular_conserves():
     rng = _rng("conservation regular")
     M = rng.uniform(1.6, 6.0, 24)
-    theta = rng.uniform(0.02, 0.95, 24) * np.asarray(reflection_transition(M).detachment.deflection)
+    detachment = np.asarray(reflection_transition(M).detachment.deflection)
+    theta = rng.uniform(0.02, 0.95, 24) * detachment
     r = wall_reflection(M, theta)
     assert np.all(r.kind == "regular")
     p = WavePattern(M)  # the graph stated in wall_reflection's Notes

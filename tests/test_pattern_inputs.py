@@ -30,6 +30,7 @@ da = pytest.importorskip("dask.array")
 MACH = np.array([2.4, 3.0, 3.6])
 ANGLE_DEG = np.array([6.0, 8.0])
 OTHER = pint.UnitRegistry()
+XR_UNITS = pint.UnitRegistry(force_ndarray_like=True)  # as pint-xarray wants its registries
 
 
 def _duct(M, ramp):
@@ -107,9 +108,16 @@ def test_dataarrays_broadcast_by_name_and_keep_coordinates(name):
     np.testing.assert_array_equal(ratio.coords["ramp"], ANGLE_DEG)
     expected = _reference(name, MACH[:, None], np.radians(ANGLE_DEG))[1]
     np.testing.assert_allclose(ratio.values, expected, rtol=1e-14)
-    # degrees through pint-xarray are converted, never read as radians
-    pytest.importorskip("pint_xarray")
-    deg = xr.DataArray(ANGLE_DEG, dims="ramp").pint.quantify("deg")
+    # degrees through pint-xarray are converted, never read as radians (a registry of the
+    # test's own: importing pint-xarray switches the application registry to
+    # force_ndarray_like, which the rest of the test run must not inherit)
+    application = pint.get_application_registry().get()
+    flag = application.force_ndarray_like
+    try:
+        pytest.importorskip("pint_xarray")
+    finally:
+        application.force_ndarray_like = flag
+    deg = xr.DataArray(ANGLE_DEG, dims="ramp").pint.quantify("deg", unit_registry=XR_UNITS)
     angle = getattr(call(M, deg), angle_field)
     assert angle.dims == ("mach", "ramp")
     np.testing.assert_allclose(np.asarray(angle.data.m_as("rad")),

@@ -14,7 +14,8 @@ from hypothesis import strategies as st
 from gasdyn2d import ureg
 from gasdyn2d.errors import DetachedShockError, InvalidInputError, NoSolutionError
 from gasdyn2d.relations.oblique_shocks import detachment_angles
-from gasdyn2d.patterns.reflections import free_boundary_reflection, reflection_transition, wall_reflection
+from gasdyn2d.patterns.reflections import (free_boundary_reflection, reflection_transition,
+                                           wall_reflection)
 from gasdyn2d.patterns.interactions import merging_shocks, shock_crossing, turn_to_pressure
 
 from wave_problem_reference import (

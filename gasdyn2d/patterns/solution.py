@@ -15,185 +15,24 @@ with each other, with the pattern or with the caller's inputs.
 
 from __future__ import annotations
 
-import dataclasses
 import html
 import math
 from types import MappingProxyType
 
 import numpy as np
 
-from ..boundary import Call, ResultTable, result_fields, unit_field
+from ..boundary import Call, result_fields
 from ..boundary.results import FieldInfo, pint_unit
-from ..boundary.types import FloatArray
 from ..errors import InvalidInputError
 from ..relations.flow_state import FlowState
 from ..relations.isentropic import mach_angle_of
+from .placement import intersect, place_waves, shaped
+from .records import (MeetingPoint, MeetingPoints, PatternCondition, RegionSolution,
+                      WaveConnection, WaveSolution, first_case, html_table, magnitude,
+                      region_name, si_length, text_table)
 
 __all__ = ["PatternSolution", "RegionSolution", "WaveSolution", "WaveConnection",
            "PatternCondition", "MeetingPoint", "MeetingPoints", "region_name"]
-
-
-def region_name(value, argument: str) -> str:
-    """The one rule for region and wave names: text, or an integer taken as its decimal
-    text (so that ``region(2)`` and ``region("2")`` name the same region); anything
-    else is refused with an :class:`~gasdyn2d.errors.InvalidInputError`."""
-    if isinstance(value, str):
-        return value
-    if isinstance(value, (int, np.integer)) and not isinstance(value, (bool, np.bool_)):
-        return str(int(value))
-    raise InvalidInputError(f"{argument} must be a name (a string, or an integer taken as "
-                            f"its text); got {value!r} of type {type(value).__name__}.")
-
-
-# --------------------------------------------------------------------- result records
-
-
-@dataclasses.dataclass(frozen=True, repr=False)
-class RegionSolution(ResultTable):
-    """The uniform state of one region, relative to the inflow region.
-
-    For a single case every field is a float; for a batch, a read-only array
-    of the batch shape (or the caller's container: Quantity, DataArray, Series).
-    """
-
-    M: FloatArray = unit_field("", "Mach number")
-    p_ratio: FloatArray = unit_field("", "static pressure over the inflow static pressure")
-    T_ratio: FloatArray = unit_field("", "static temperature over the inflow temperature")
-    p0_ratio: FloatArray = unit_field("", "stagnation pressure over the inflow's")
-    direction: FloatArray = unit_field("rad", "flow direction, counterclockwise from x")
-
-
-@dataclasses.dataclass(frozen=True, repr=False)
-class WaveSolution(ResultTable):
-    """One wave of a solved pattern.
-
-    ``kind`` is ``"shock"``, ``"fan"`` (an expansion), ``"compression"`` (an
-    isentropic compression) or ``"none"`` (case not solved). ``wave_angle`` is
-    the shock angle from the upstream flow (NaN for a simple wave);
-    ``head_mach_angle`` and ``tail_mach_angle`` are the Mach angles of the
-    upstream and downstream flows (a simple wave's first and last Mach lines,
-    also given for shocks as the limits a weak shock lies between);
-    ``head_line_direction`` and ``tail_line_direction`` are the directions of
-    the wave's lines in the plane (for a shock both are the shock line).
-    """
-
-    kind: FloatArray = unit_field("", "shock, fan, compression or none", dtype=str)
-    family: str = unit_field("", "left or right", dtype=str)
-    turn: FloatArray = unit_field("rad", "signed change of flow direction across the wave")
-    p_ratio: FloatArray = unit_field("", "downstream over upstream static pressure")
-    wave_angle: FloatArray = unit_field("rad", "shock angle from the upstream flow")
-    head_mach_angle: FloatArray = unit_field("rad", "Mach angle of the upstream flow")
-    tail_mach_angle: FloatArray = unit_field("rad", "Mach angle of the downstream flow")
-    head_line_direction: FloatArray = unit_field("rad", "plane direction of the head line")
-    tail_line_direction: FloatArray = unit_field("rad", "plane direction of the tail line")
-
-
-@dataclasses.dataclass(frozen=True, repr=False)
-class WaveConnection(ResultTable):
-    """Where a wave sits in its pattern: its regions, family, branch and start point.
-
-    ``start_source`` says where the start point came from: ``"given"``
-    (``add_wave(..., start=...)``), ``"wall"`` or ``"free boundary"`` (the
-    point where the wave that made the upstream region meets a placed wall
-    or free boundary), ``"wave meeting"`` (where two placed waves meet and
-    a slip line leaves), or ``""`` (not placed; ``start_x``, ``start_y``
-    NaN).
-    """
-
-    upstream: str = unit_field("", "region upstream of the wave", dtype=str)
-    downstream: str = unit_field("", "region downstream of the wave", dtype=str)
-    family: str = unit_field("", "left or right", dtype=str)
-    branch: str = unit_field("", "weak or strong (where the wave is a shock)", dtype=str)
-    compression: str = unit_field("", "shock or isentropic", dtype=str)
-    given_by: str = unit_field("", "turn, direction, pressure or unknown", dtype=str)
-    start_x: FloatArray = unit_field("m", "start point, x (NaN where not placed)")
-    start_y: FloatArray = unit_field("m", "start point, y (NaN where not placed)")
-    start_source: str = unit_field("", "given, wall, free boundary, wave meeting or ''",
-                                   dtype=str)
-
-
-@dataclasses.dataclass(frozen=True, repr=False)
-class PatternCondition(ResultTable):
-    """A condition of the pattern: a wall, a free boundary or a slip line.
-
-    ``direction`` is a wall's direction (NaN otherwise); ``pressure_ratio``
-    the prescribed pressure of a free boundary over the inflow pressure (NaN
-    otherwise); ``through_x``, ``through_y`` the point given with
-    ``through=`` (NaN if none).
-    """
-
-    kind: str = unit_field("", "wall, free boundary or slip line", dtype=str)
-    regions: tuple = unit_field("", "one region, or the two of a slip line")
-    direction: FloatArray = unit_field("rad", "wall direction (NaN for other conditions)")
-    pressure_ratio: FloatArray = unit_field("", "free-boundary pressure over the inflow's")
-    through_x: FloatArray = unit_field("m", "a point of a placed wall or free boundary, x")
-    through_y: FloatArray = unit_field("m", "a point of a placed wall or free boundary, y")
-
-
-@dataclasses.dataclass(frozen=True, repr=False)
-class MeetingPoint(ResultTable):
-    """Where placed waves meet a wall, a free boundary or each other.
-
-    ``kind`` is ``"wall"``, ``"free boundary"`` or ``"waves"``;
-    ``incoming`` are the waves that end there, ``outgoing`` those that
-    start there (a reflected wave; the two waves either side of a slip
-    line); ``boundary_region`` is the region whose condition the wall or
-    free boundary is ("" for waves meeting). ``x``, ``y`` are NaN in cases
-    where the lines are parallel or not solved.
-    """
-
-    kind: str = unit_field("", "wall, free boundary or waves", dtype=str)
-    incoming: tuple = unit_field("", "waves ending at the point")
-    outgoing: tuple = unit_field("", "waves starting at the point")
-    boundary_region: str = unit_field("", "region of the wall or free-boundary condition",
-                                      dtype=str)
-    x: FloatArray = unit_field("m", "meeting point, x")
-    y: FloatArray = unit_field("m", "meeting point, y")
-
-
-class MeetingPoints(tuple):
-    """The meeting points of a solution: a tuple of :class:`MeetingPoint` shown as a table.
-
-    One row per point (the first case of a batch), in text and HTML; ``to_dataframe()``
-    gives one row per point and case.
-    """
-
-    __slots__ = ()
-
-    def _table(self):
-        rows = []
-        for m in self:
-            x, y = _first(_si_length(m.x)), _first(_si_length(m.y))
-            rows.append((m.kind, ", ".join(m.incoming), ", ".join(m.outgoing),
-                         m.boundary_region, f"{x:.6g}", f"{y:.6g}"))
-        return ("kind", "incoming", "outgoing", "boundary region", "x [m]", "y [m]"), rows
-
-    def __repr__(self) -> str:
-        if not self:
-            return "MeetingPoints: none (no wave placed with start= meets a placed line)"
-        head, rows = self._table()
-        return "MeetingPoints (first case):\n" + _text_table(head, rows)
-
-    def _repr_html_(self) -> str:
-        head, rows = self._table()
-        return _html_table("meeting points (first case)", head, rows)
-
-    def to_dataframe(self):
-        """One row per meeting point and case: kind, incoming, outgoing, region, x, y [m]."""
-        import pandas as pd
-
-        frames = []
-        for i, m in enumerate(self):
-            x = np.atleast_1d(_si_length(m.x)).reshape(-1)
-            y = np.atleast_1d(_si_length(m.y)).reshape(-1)
-            frames.append(pd.DataFrame({
-                "point": i, "case": np.arange(x.size), "kind": m.kind,
-                "incoming": ", ".join(m.incoming), "outgoing": ", ".join(m.outgoing),
-                "boundary_region": m.boundary_region, "x [m]": x, "y [m]": y}))
-        if not frames:
-            return pd.DataFrame(columns=["point", "case", "kind", "incoming", "outgoing",
-                                         "boundary_region", "x [m]", "y [m]"])
-        return pd.concat(frames, ignore_index=True)
 
 
 # --------------------------------------------------------------------- the solution
@@ -284,7 +123,7 @@ class PatternSolution:
                                       str))
         put(self, "iterations", int(raw.iterations))
         put(self, "gamma", pack.one("gamma", si["gamma"], ""))
-        starts, sources, meetings = _place_waves(plan, si, points, shape)
+        starts, sources, meetings = place_waves(plan, si, points, shape)
         put(self, "_starts", MappingProxyType(starts))
         connections = {}
         for link in plan.order:
@@ -304,7 +143,7 @@ class PatternSolution:
             ty = points.get(f"through:{i}:y", np.nan)
             fields = pack.many((("direction", "rad"), ("pressure_ratio", ""),
                                 ("through_x", "m"), ("through_y", "m")),
-                               (direction, pressure, _shaped(tx, shape), _shaped(ty, shape)))
+                               (direction, pressure, shaped(tx, shape), shaped(ty, shape)))
             conditions.append(PatternCondition(c.kind, tuple(c.regions), *fields))
         put(self, "_conditions", tuple(conditions))
         put(self, "_meetings", MeetingPoints(
@@ -439,9 +278,9 @@ class PatternSolution:
         """
         p1, a1 = self._line(first, first_ray)
         p2, a2 = self._line(second, second_ray)
-        x, y = _intersect(p1, a1, p2, a2)
+        x, y = intersect(p1, a1, p2, a2)
         return tuple(_Packer(self._call, self._shape).many((("x", "m"), ("y", "m")), (
-            _shaped(x, self._shape), _shaped(y, self._shape))))
+            shaped(x, self._shape), shaped(y, self._shape))))
 
     def wave_segment(self, name, *, until=None, length=1.0, ray="head"):
         """End points of a placed wave line, for drawing (plain metres).
@@ -468,7 +307,7 @@ class PatternSolution:
             x1, y1 = x0 + length * np.cos(direction), y0 + length * np.sin(direction)
         else:
             other, other_ray = self._line(until, "head")
-            x1, y1 = _intersect((x0, y0), direction, other, other_ray)
+            x1, y1 = intersect((x0, y0), direction, other, other_ray)
         x0, y0, x1, y1 = np.broadcast_arrays(*(np.asarray(v, dtype=float)
                                                for v in (x0, y0, x1, y1)))
         return np.stack([x0, x1]), np.stack([y0, y1])
@@ -519,7 +358,7 @@ class PatternSolution:
             return None
         (x0, y0), (x1, y1) = segment
         scale = sign * 0.25 * np.hypot(x1 - x0, y1 - y0)
-        d = _first(self._si["regions"][name][4])
+        d = first_case(self._si["regions"][name][4])
         point = (0.5 * (x0 + x1) + scale * np.cos(d), 0.5 * (y0 + y1) + scale * np.sin(d))
         return None if not np.all(np.isfinite(point)) else tuple(float(v) for v in point)
 
@@ -530,8 +369,8 @@ class PatternSolution:
         end = next((m for m in self._meetings if name in m.incoming), None)
         if end is None:
             return None
-        start = tuple(_first(v) for v in self._starts[name])
-        return start, (_first(_si_length(end.x)), _first(_si_length(end.y)))
+        start = tuple(first_case(v) for v in self._starts[name])
+        return start, (first_case(si_length(end.x)), first_case(si_length(end.y)))
 
     # -- tables
     def arrays(self) -> dict:
@@ -607,7 +446,7 @@ class PatternSolution:
                     continue
                 values = [getattr(items[n], field.name) for n in names]
                 unit = _unit_label(values[0], field.unit) if values else field.unit
-                stacked = np.stack([np.reshape(_magnitude(v), self._shape) for v in values],
+                stacked = np.stack([np.reshape(magnitude(v), self._shape) for v in values],
                                    axis=-1) if values else np.empty(self._shape + (0,))
                 var = field.name if field.name.startswith(prefix) else prefix + field.name
                 attrs = {"long_name": field.description}
@@ -616,7 +455,7 @@ class PatternSolution:
                 data[var] = xr.Variable(dims + (kind,), stacked, attrs=attrs)
         data["wave_family"] = xr.Variable(("wave",), [w.family for w in self._waves.values()])
         for name in ("ok", "failure", "gamma"):
-            data[name] = xr.Variable(dims, np.reshape(_magnitude(getattr(self, name)),
+            data[name] = xr.Variable(dims, np.reshape(magnitude(getattr(self, name)),
                                                       self._shape))
         coords = dict(coords, region=list(self._regions), wave=list(self._waves))
         return xr.Dataset(data, coords=coords)
@@ -633,7 +472,7 @@ class PatternSolution:
     # -- display
     def _summary(self):
         n_cases = int(np.prod(self._shape)) if self._shape else 1
-        ok = np.asarray(_magnitude(self.ok))
+        ok = np.asarray(magnitude(self.ok))
         n_ok = int(np.count_nonzero(ok))
         head = f"PatternSolution: {n_ok} of {n_cases} case(s) solved"
         if self._shape and n_cases:
@@ -641,7 +480,7 @@ class PatternSolution:
         return head, n_cases
 
     def _region_rows(self):
-        pick = lambda v: _first(v)  # noqa: E731
+        pick = lambda v: first_case(v)  # noqa: E731
         return [(name, f"{pick(r[0]):.5f}", f"{pick(r[1]):.5f}", f"{pick(r[2]):.5f}",
                  f"{pick(r[3]):.6f}", f"{_degrees(pick(r[4])):.4f}")
                 for name, r in self._si["regions"].items()]
@@ -651,15 +490,15 @@ class PatternSolution:
         for name, w in self._si["waves"].items():
             kind = np.asarray(w[0]).reshape(-1)
             rows.append((name, self._waves[name].family, str(kind[0]) if kind.size else "",
-                         f"{_degrees(_first(w[1])):.4f}", f"{_degrees(_first(w[3])):.4f}",
-                         f"{_first(w[2]):.5f}"))
+                         f"{_degrees(first_case(w[1])):.4f}", f"{_degrees(first_case(w[3])):.4f}",
+                         f"{first_case(w[2]):.5f}"))
         return rows
 
     _REGION_HEAD = ("region", "M", "p/p_in", "T/T_in", "p0/p0_in", "direction [deg]")
     _WAVE_HEAD = ("wave", "family", "kind", "turn [deg]", "wave angle [deg]", "p ratio")
 
     def _failures(self):
-        failures = np.atleast_1d(np.asarray(_magnitude(self.failure)))
+        failures = np.atleast_1d(np.asarray(magnitude(self.failure)))
         return [f for f in failures.reshape(-1) if f]
 
     def __repr__(self) -> str:
@@ -667,8 +506,8 @@ class PatternSolution:
         if n_cases == 0:
             return (f"PatternSolution: an empty batch of shape {self._shape}; regions "
                     f"{self.region_names}, waves {self.wave_names}")
-        lines = [head, _text_table(self._REGION_HEAD, self._region_rows(), indent="  "),
-                 _text_table(self._WAVE_HEAD, self._wave_rows(), indent="  ")]
+        lines = [head, text_table(self._REGION_HEAD, self._region_rows(), indent="  "),
+                 text_table(self._WAVE_HEAD, self._wave_rows(), indent="  ")]
         bad = self._failures()
         if bad:
             lines.append(f"  {len(bad)} failure(s); first: {bad[0]}")
@@ -679,8 +518,8 @@ class PatternSolution:
         if n_cases == 0:
             return f"<p>{html.escape(repr(self))}</p>"
         parts = [f"<div><p><b>{html.escape(head)}</b></p>",
-                 _html_table("regions", self._REGION_HEAD, self._region_rows()),
-                 _html_table("waves", self._WAVE_HEAD, self._wave_rows())]
+                 html_table("regions", self._REGION_HEAD, self._region_rows()),
+                 html_table("waves", self._WAVE_HEAD, self._wave_rows())]
         bad = self._failures()
         if bad:
             parts.append(f"<p>{len(bad)} failure(s); first: {html.escape(bad[0])}</p>")
@@ -760,10 +599,10 @@ def _si_fields(raw, plan, ok, shape, case):
                             out(s.p2_p1), out(s.wave_angle), out(mu_up), out(mu_dn), out(head),
                             out(tail))
     # the WaveSolution order: kind, turn, p_ratio, wave_angle, head mu, tail mu, head, tail
-    conditions = [np.nan if c.kind == "slip line" else _shaped(case[f"c:{i}"], shape)
+    conditions = [np.nan if c.kind == "slip line" else shaped(case[f"c:{i}"], shape)
                   for i, c in enumerate(plan.conditions)]
     return {"regions": regions, "waves": waves, "conditions": conditions,
-            "gamma": _shaped(case["g"], shape)}
+            "gamma": shaped(case["g"], shape)}
 
 
 def _si_fields_one(raw, plan, ok, case):
@@ -801,115 +640,7 @@ def _si_fields_one(raw, plan, ok, case):
             "gamma": float(case["g"])}
 
 
-def _shaped(value, shape):
-    """A float for one case; else ``value`` (flat, of the cases' size, or a scalar) in the
-    case shape."""
-    if type(value) is float and not shape:
-        return value
-    array = np.asarray(value, dtype=float)
-    if not shape:
-        return float(array.reshape(-1)[0])
-    if array.ndim and array.size == int(np.prod(shape)):
-        return array.reshape(shape)
-    return np.broadcast_to(array, shape)
-
-
-# --------------------------------------------------------------------- geometry
-
-
-def _intersect(p1, a1, p2, a2):
-    """Crossing point of the lines (p1, direction a1) and (p2, a2) [m, rad]; NaN if parallel."""
-    (x1, y1), (x2, y2) = p1, p2
-    c1, s1, c2, s2 = np.cos(a1), np.sin(a1), np.cos(a2), np.sin(a2)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        den = c1 * s2 - s1 * c2
-        t = ((x2 - x1) * s2 - (y2 - y1) * c2) / den
-        t = np.where(np.abs(den) < 1e-14, np.nan, t)
-    return x1 + t * c1, y1 + t * s1
-
-
-def _chain(region, made_by):
-    """Waves and regions from ``region`` back to the inflow: ([wave, ...], [region, ...])."""
-    waves, regions = [], [region]
-    while region in made_by:
-        w = made_by[region]
-        waves.append(w)
-        region = w.upstream
-        regions.append(region)
-    return waves, regions
-
-
-def _place_waves(plan, si, points, shape):
-    """Given and implied start points [m], their sources, and the meeting points."""
-    links = {w.name: w for w in plan.order}
-    made_by = {w.downstream: w for w in plan.order}
-    starts = {}
-    for name in links:
-        if f"start:{name}:x" in points:
-            starts[name] = (_shaped(points[f"start:{name}:x"], shape),
-                            _shaped(points[f"start:{name}:y"], shape))
-    sources = {n: "given" for n in starts}
-    meetings, seen = [], set()
-
-    def head(name):
-        return si["waves"][name][6]
-
-    def meet(kind, incoming, outgoing, region, point):
-        key = (kind, incoming, region)
-        if key in seen:
-            return
-        seen.add(key)
-        point = tuple(_shaped(v, shape) for v in point)
-        meetings.append((kind, incoming, outgoing, region, *point))
-        for name in outgoing:
-            if name not in starts:
-                starts[name] = point
-                sources[name] = "wave meeting" if kind == "waves" else kind
-
-    for w in plan.order:
-        parent = made_by.get(w.upstream)
-        for i, c in enumerate(plan.conditions):
-            if (c.kind == "slip line" or f"through:{i}:x" not in points
-                    or c.regions[0] != w.downstream or parent is None
-                    or parent.name not in starts):
-                continue
-            line = (si["conditions"][i] if c.kind == "wall"
-                    else si["regions"][parent.upstream][4])
-            through = (points[f"through:{i}:x"], points[f"through:{i}:y"])
-            point = _intersect(starts[parent.name], head(parent.name),
-                               tuple(_shaped(v, shape) for v in through), line)
-            meet(c.kind, (parent.name,), (w.name,), c.regions[0], point)
-        for c in plan.conditions:
-            if c.kind != "slip line" or w.downstream not in c.regions:
-                continue
-            a, b = c.regions
-            if a not in made_by or b not in made_by:
-                continue
-            (wa, *in_a), regions_a = _chain(a, made_by)
-            (wb, *in_b), regions_b = _chain(b, made_by)
-            common = next(r for r in regions_a if r in regions_b)
-            in_a = in_a[:regions_a.index(common) - 1]
-            in_b = in_b[:regions_b.index(common) - 1]
-            incoming = [v.name for v in in_a + in_b]
-            if len(incoming) != 2 or not all(n in starts for n in incoming):
-                continue
-            point = _intersect(starts[incoming[0]], head(incoming[0]),
-                               starts[incoming[1]], head(incoming[1]))
-            meet("waves", tuple(incoming), (wa.name, wb.name), "", point)
-    return starts, sources, meetings
-
-
 # --------------------------------------------------------------------- small helpers
-
-
-def _magnitude(value):
-    """Plain numbers of a result field (Quantity magnitude, DataArray/Series values)."""
-    value = getattr(value, "magnitude", value)
-    kind = type(value).__module__.split(".")[0]
-    if kind in ("xarray", "pandas"):
-        value = value.to_numpy() if kind == "pandas" else value.values
-        value = getattr(value, "magnitude", value)
-    return value
 
 
 def _unit_label(value, unit_text):
@@ -924,52 +655,13 @@ def _unit_label(value, unit_text):
 
 
 def _flat(value):
-    return np.reshape(np.asarray(_magnitude(value)), -1)
+    return np.reshape(np.asarray(magnitude(value)), -1)
 
 
 def _plain(value):
     return value if isinstance(value, (float, str)) else np.asarray(value)
 
 
-def _si_length(value):
-    """Metres from a length result (a Quantity in the caller's unit, or plain metres)."""
-    if hasattr(value, "units") and hasattr(value, "to"):
-        return value.to("meter").magnitude
-    return _magnitude(value)
-
-
-def _first(value):
-    """The first case of a scalar or batch value, as a float."""
-    array = np.asarray(value, dtype=float)
-    return float(array.reshape(-1)[0]) if array.size else float("nan")
-
-
 def _degrees(angle):
     """Degrees for the table, without a '-0.0000' for rounding-level negatives."""
     return float(np.round(np.degrees(angle), 9)) + 0.0
-
-
-def _text_table(head, rows, indent=""):
-    widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(head)]
-    lines = [indent + "  ".join(f"{h:<{w}}" if i == 0 else f"{h:>{w}}"
-                                for i, (h, w) in enumerate(zip(head, widths)))]
-    for r in rows:
-        lines.append(indent + "  ".join(f"{c:<{w}}" if i == 0 or not _numeric(c) else
-                                        f"{c:>{w}}" for i, (c, w) in enumerate(zip(r, widths))))
-    return "\n".join(lines)
-
-
-def _numeric(text):
-    try:
-        float(text)
-    except ValueError:
-        return False
-    return True
-
-
-def _html_table(caption, head, rows):
-    esc = html.escape
-    body = "".join("<tr>" + "".join(f"<td>{esc(c)}</td>" for c in r) + "</tr>" for r in rows)
-    heads = "".join(f"<th>{esc(h)}</th>" for h in head)
-    return (f"<table><caption>{esc(caption)}</caption><thead><tr>{heads}</tr></thead>"
-            f"<tbody>{body}</tbody></table>")
