@@ -43,6 +43,7 @@ import numpy as np
 
 from ..boundary import Call, choice, errors_mode
 from ..boundary.checks import Check, format_value
+from ..boundary.units import is_quantity
 from ..boundary.types import ArrayInput
 from ..errors import DetachedShockError, IllPosedProblemError, InvalidInputError, NoSolutionError
 from ..relations.flow_state import FlowState
@@ -635,28 +636,29 @@ class WavePattern:
 
 
 def _describe(value, unit_text):
-    """A short text for a value given to the pattern (as given: plain, array or Quantity)."""
-    units = getattr(value, "units", None)
-    magnitude = getattr(value, "magnitude", value)
-    if type(magnitude).__module__.split(".")[0] in ("xarray", "pandas"):
-        magnitude = np.asarray(magnitude)
-    if isinstance(magnitude, (list, tuple)):
-        try:
-            magnitude = np.asarray([getattr(v, "magnitude", v) for v in magnitude], dtype=float)
-        except (TypeError, ValueError):
-            return repr(value)
-        units = units or getattr(value[0], "units", None) if len(value) else units
-    array = np.asarray(magnitude, dtype=float)
-    suffix = f" {units:~P}" if units is not None else ""
+    """A short text for a value given to the pattern, in the unit it was given in."""
+    data = value
+    library = type(value).__module__.split(".")[0]
+    if library == "xarray":
+        data = value.data
+    elif library == "pandas":
+        data = value.to_numpy()
+    units = None
+    if is_quantity(data):
+        units, data = data.units, data.magnitude
+    elif isinstance(data, (list, tuple)) and data and is_quantity(data[0]):
+        units = data[0].units
+        data = [v.m_as(units) for v in data]
+    try:
+        array = np.asarray(data, dtype=float)
+    except (TypeError, ValueError):
+        return repr(value)
+    suffix = f" {units:~P}" if units is not None else (f" {unit_text}" if unit_text else "")
     if array.ndim == 0:
-        number = float(array)
         if units is None and unit_text == "rad":
-            return format_value(number, "rad").replace(" rad (", " rad (", 1)
-        return f"{number:.6g}{suffix}" if units is not None or not unit_text else (
-            f"{number:.6g} {unit_text}")
+            return format_value(float(array), "rad")  # radians, with degrees beside
+        return f"{float(array):.6g}{suffix}"
     with np.errstate(all="ignore"):
         finite = array[np.isfinite(array)]
     span = f"{finite.min():.6g} … {finite.max():.6g}" if finite.size else "all NaN"
-    if units is None and unit_text:
-        suffix = f" {unit_text}"
     return f"shape {array.shape}, {span}{suffix}"
