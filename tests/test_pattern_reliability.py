@@ -329,6 +329,27 @@ BAD_INPUTS = [
     ("polar min_pressure_ratio range", lambda: pressure_deflection_polar(
         2.0, min_pressure_ratio=1.5), InvalidInputError, "min_pressure_ratio"),
     ("polar subsonic", lambda: pressure_deflection_polar(0.9), InvalidInputError, "M"),
+    # not numbers: refused at the boundary, naming the argument and the type received
+    ("pattern inflow text", lambda: WavePattern("2.5"), InvalidInputError, "inflow"),
+    ("pattern gamma bool", lambda: WavePattern(2.0, gamma=True), InvalidInputError, "gamma"),
+    ("pattern turn complex", lambda: WavePattern(2.0).add_wave(
+        "a", upstream="1", downstream="2", family="left", turn=0.1j), InvalidInputError,
+     "turn (of wave 'a')"),
+    ("pattern wall text", lambda: WavePattern(2.0).add_wall("2", "0.1"), InvalidInputError,
+     "direction"),
+    ("pattern guess text", lambda: WavePattern(2.0).add_wave(
+        "a", upstream="1", downstream="2", family="left", guess="0.1"), InvalidInputError,
+     "guess"),
+    ("pattern pressure unit", lambda: WavePattern(2.0).add_free_boundary(
+        "2", 50 * ureg.kPa), InvalidInputError, "pressure"),
+    ("wall_reflection M1 text", lambda: wall_reflection("2.5", 0.1), InvalidInputError, "M1"),
+    ("wall_reflection M1 bool", lambda: wall_reflection(True, 0.1), InvalidInputError, "M1"),
+    ("shock_crossing complex", lambda: shock_crossing(2.0, 0.1j, 0.1), InvalidInputError,
+     "deflection_upper"),
+    ("turn_to_pressure text", lambda: turn_to_pressure(2.0, "1.5"), InvalidInputError,
+     "p2_p1"),
+    ("reflection_transition unit", lambda: reflection_transition(2.0 * ureg.m),
+     InvalidInputError, "M1"),
 ]
 
 
