@@ -28,7 +28,7 @@ from ..relations.normal_shocks import normal_shock_ratios
 from ..relations.oblique_shocks import detachment_angles
 from ..relations.simple_waves import turn_state
 from .graph import ConditionLink, WaveLink, plan_pattern
-from .ready_checks import (CaseReasons, check_mach_and_gamma, check_shock_turn, flat, scalar_of,
+from .ready_checks import (CaseReasons, check_mach_and_gamma, check_shock_turn, scalar_of,
                            shaped, solve_ready)
 
 __all__ = [

@@ -20,8 +20,8 @@ from ..errors import DetachedShockError, NoSolutionError
 from ..relations.oblique_shocks import detachment_angles
 from .solver import solve_cases
 
-__all__ = ["CaseReasons", "check_mach_and_gamma", "check_shock_turn", "flat", "shaped",
-           "solve_ready", "show"]
+__all__ = ["CaseReasons", "check_mach_and_gamma", "check_shock_turn", "flat", "scalar_of",
+           "shaped", "solve_ready", "show"]
 
 _NAN_CHECK = Check(True)
 
@@ -112,6 +112,8 @@ class CaseReasons:
         if not check.nan and bad.any():
             index = tuple(int(i) for i in np.argwhere(bad)[0])
             where = f" at index {index}" if self.shape else ""
+            if where and getattr(check, "in_block", False):
+                where += " of a dask block"
             count = f" ({int(np.count_nonzero(bad))} of {bad.size} cases)" if bad.size > 1 else ""
             case = ", ".join(_input_text(k, np.broadcast_to(v, self.shape)[index])
                              for k, v in inputs.items())

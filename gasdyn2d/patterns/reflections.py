@@ -40,8 +40,8 @@ from ..relations.oblique_shocks import (deflection_slope_wv, detachment_angles,
                                          oblique_shock_ratios)
 from ..relations.simple_waves import turn_for_pressure_ratio, turn_state
 from .graph import ConditionLink, WaveLink, plan_pattern
-from .ready_checks import (CaseReasons, check_mach_and_gamma, check_shock_turn, flat, scalar_of,
-                           shaped, show, solve_ready)
+from .ready_checks import (CaseReasons, check_mach_and_gamma, check_shock_turn, flat, shaped,
+                           solve_ready)
 
 __all__ = [
     "wall_reflection", "WallReflection",
