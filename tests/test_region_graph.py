@@ -543,6 +543,7 @@ def test_pattern_repr_shows_the_graph():
                            "2 condition(s): well posed")
     assert "1 → 2  left   shock  turn 0.1047197551 rad (6°)" in text
     assert "reflected" in text and "unknown" in text and "wall on '3': direction" in text
+    assert "  regions: 1, 2, 3, 4" in text
     assert "<table><caption>waves</caption>" in p._repr_html_()
     q = _duct(np.array([2.0, 3.0]), 6 * ureg.deg)
     assert ": well posed" in repr(q) and "shape (2,), 2 … 3" in repr(q)

@@ -586,6 +586,10 @@ class WavePattern:
             conditions.append((c.label(), text))
         return waves, conditions
 
+    def _region_names(self):
+        """The inflow, then each wave's downstream region, in the order added."""
+        return [self._inflow_name] + [w.downstream for w in self._waves.values()]
+
     def _status(self):
         n_unknown = sum(w.given == "unknown" for w in self._waves.values())
         n_eq = sum(2 if c.kind == "slip line" else 1 for c in self._conditions)
@@ -607,7 +611,8 @@ class WavePattern:
 
     def __repr__(self) -> str:
         waves, conditions = self._rows()
-        lines = [f"WavePattern: {self._status()}", f"  {self._inflow_text()}"]
+        lines = [f"WavePattern: {self._status()}", f"  {self._inflow_text()}",
+                 f"  regions: {', '.join(self._region_names())}"]
         if waves:
             widths = [max(len(row[i]) for row in waves) for i in range(4)]
             lines.append("  waves:")
@@ -627,7 +632,8 @@ class WavePattern:
         condition_rows = "".join(f"<tr><td>{esc(a)}</td><td>{esc(b)}</td></tr>"
                                  for a, b in conditions)
         return (f"<div><p><b>WavePattern</b>: {esc(self._status())}<br>"
-                f"{esc(self._inflow_text())}</p>"
+                f"{esc(self._inflow_text())}<br>"
+                f"regions: {esc(', '.join(self._region_names()))}</p>"
                 "<table><caption>waves</caption><thead><tr><th>wave</th><th>regions</th>"
                 "<th>family</th><th>kind</th><th>given</th></tr></thead>"
                 f"<tbody>{wave_rows}</tbody></table>"
