@@ -377,12 +377,12 @@ def test_reflection_points_batch_and_quantities():
     p.add_wave("reflected", upstream="2", downstream="3", family="right")
     p.add_wall("3", direction=0.0, through=(0.0 * ureg.cm, 12.0 * ureg.cm))
     s = p.solve()
-    x, y = s.wave_start("reflected")
+    x, y = s.wave_start("reflected")  # in the unit of the first length given (m here)
     beta = wave_angle_from_deflection(M, ramp)
-    assert x.shape == (3,)
-    np.testing.assert_allclose(x, 0.12 / np.tan(beta), rtol=1e-13)
-    np.testing.assert_allclose(y, 0.12, rtol=1e-14)
-    assert s.conditions[0].through_y == pytest.approx(0.12, rel=1e-15)
+    assert x.shape == (3,) and x.units == ureg.m
+    np.testing.assert_allclose(x.m_as("m"), 0.12 / np.tan(beta), rtol=1e-13)
+    np.testing.assert_allclose(y.m_as("m"), 0.12, rtol=1e-14)
+    assert np.all(s.conditions[0].through_y.m_as("m") == pytest.approx(0.12, rel=1e-15))
     with pytest.raises(InvalidInputError, match=r"through must be a point \(x, y\) \[m\]"):
         WavePattern(2.0).add_wall("2", 0.0, through=0.5)
 
@@ -410,7 +410,7 @@ def test_crossing_point_of_two_placed_shocks():
         assert s.connection(name).start_source == "wave meeting"
         np.testing.assert_allclose(s.wave_start(name), (x, x * np.tan(bl)), rtol=1e-13)
     assert s.slip_lines == [("4", "5")]
-    assert s.conditions[0].kind == "slip line" and np.isnan(s.conditions[0].value)
+    assert s.conditions[0].kind == "slip line" and np.isnan(s.conditions[0].direction)
 
 
 def test_merging_point_of_two_shocks_from_successive_corners():
@@ -471,8 +471,9 @@ def test_public_accessors():
     assert s.inflow_name == "1" and s.inflow_state is None
     assert s.made_by("3") == "reflected" and s.made_by("1") is None
     (wall,) = s.conditions
-    assert wall.kind == "wall" and wall.regions == ("3",) and wall.value == 0.0
-    assert np.isnan(wall.through_x)
+    assert wall.kind == "wall" and wall.regions == ("3",) and np.all(wall.direction == 0.0)
+    assert np.all(np.isnan(wall.pressure_ratio))
+    assert np.all(np.isnan(wall.through_x))
     assert s.connection("ramp shock").given_by == "turn"
     with pytest.raises(InvalidInputError, match=r"no wave named 'roof'; the waves are "
                                                 r"\['ramp shock', 'reflected'\]"):
@@ -530,3 +531,41 @@ def test_meeting_points_are_nan_where_a_case_fails():
     beta = wave_angle_from_deflection(3.0, np.radians(10.0))
     np.testing.assert_allclose(first.x, [np.nan, 1.0 / np.tan(beta)], rtol=1e-13)
     assert np.isnan(second.x[0]) and np.isfinite(second.x[1])
+
+
+# ------------------------------------------------------------ display
+
+
+def test_pattern_repr_shows_the_graph():
+    p = _placed_duct(2.6, np.radians(6.0), 0.1)
+    text = repr(p)
+    assert text.startswith("WavePattern: 4 region(s), 3 wave(s), 2 unknown turn(s), "
+                           "2 condition(s): well posed")
+    assert "1 → 2  left   shock  turn 0.1047197551 rad (6°)" in text
+    assert "reflected" in text and "unknown" in text and "wall on '3': direction" in text
+    assert "  regions: 1, 2, 3, 4" in text
+    assert "<table><caption>waves</caption>" in p._repr_html_()
+    q = _duct(np.array([2.0, 3.0]), 6 * ureg.deg)
+    assert ": well posed" in repr(q) and "shape (2,), 2 … 3" in repr(q)
+    assert "turn 6 deg" in repr(q)
+    q.add_wave("extra", upstream="3", downstream="4", family="left")
+    assert "not well posed: the pattern has 2 unknown wave turn(s)" in repr(q)
+
+
+def test_solution_html_and_meeting_point_table():
+    p = WavePattern(np.array([2.6, 3.0]))
+    p.add_wave("ramp shock", upstream="1", downstream="2", family="left",
+               turn=np.radians(6.0), start=(0.0, 0.0))
+    p.add_wave("reflected", upstream="2", downstream="3", family="right")
+    p.add_wall("3", 0.0, through=(0.0, 0.1))
+    s = p.solve()
+    html = s._repr_html_()
+    assert "<caption>regions</caption>" in html and "<caption>waves</caption>" in html
+    assert "2 of 2 case(s) solved" in html
+    table = s.meeting_points
+    assert isinstance(table, tuple) and len(table) == 1
+    text = repr(table)
+    assert text.startswith("MeetingPoints (first case):") and "ramp shock" in text
+    assert "<table>" in table._repr_html_()
+    frame = table.to_dataframe()
+    assert len(frame) == 2 and list(frame["y [m]"]) == pytest.approx([0.1, 0.1])

@@ -277,3 +277,15 @@ def _random_mach(n):
 
 def _close(actual, expected, rtol=RTOL, atol=1e-14):
     np.testing.assert_allclose(actual, expected, rtol=rtol, atol=atol)
+
+
+def near_sonic_wedge(M1, fraction, g=1.4, digits=60):
+    """(θ, p2/p1 - 1) of the weak shock turning M1 by ``fraction`` of θmax(M1), for M1
+    just above 1: θ is rounded to a float first (the value a caller passes), then the
+    strength 2γ(M1² sin²β - 1)/(γ + 1) (NACA Report 1135, eq. 93 on M1 sin β) is solved
+    at ``digits`` digits, where the θ-β-M relation keeps every digit as M1 -> 1."""
+    with mp.workdps(digits):
+        M1, g = _f(M1), _f(g)
+        theta = float(_f(fraction) * theta_max(M1, g))
+        b = beta_of_theta(M1, _f(theta), g)
+        return theta, float(2 * g / (g + 1) * (M1**2 * mp.sin(b) ** 2 - 1))

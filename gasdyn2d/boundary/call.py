@@ -218,6 +218,8 @@ class Call:
         si = np.empty(len(leaves))
         for i, (leaf, unit) in enumerate(zip(leaves, units)):
             magnitude = leaf.magnitude
+            if isinstance(magnitude, np.ndarray) and magnitude.ndim == 0:
+                magnitude = _float_array(name, magnitude)[()]  # a registry that forces arrays
             if not isinstance(magnitude, numbers.Real) or isinstance(magnitude, (bool, np.bool_)):
                 raise refuse_type(name, magnitude, "a list of scalar Quantities")
             si[i] = magnitude * unit.scale + unit.offset

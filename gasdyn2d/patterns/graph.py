@@ -1,14 +1,13 @@
-"""Coupled planar wave patterns as a graph of uniform regions, solved in batches.
+"""Coupled planar wave patterns as a graph of uniform regions: stating the pattern.
 
 A steady planar wave pattern is a graph: uniform flow regions are its nodes,
-simple waves (oblique shocks and centred Prandtl–Meyer fans) are its edges,
-and conditions tie regions to walls (fixed direction), to free boundaries
-(fixed pressure) and to each other across slip lines (equal pressure and
-direction). :class:`WavePattern` lets the user state such a pattern; its
-:meth:`~WavePattern.solve` finds every unknown wave turn so that all the
-conditions hold, for one case or for many cases at once, and returns a
-:class:`PatternSolution` with every region's state and every wave's type,
-angles and turn.
+simple waves (oblique shocks, centred Prandtl–Meyer fans and isentropic
+compressions) are its edges, and conditions tie regions to walls (fixed
+direction), to free boundaries (fixed pressure) and to each other across slip
+lines (equal pressure and direction). :class:`WavePattern` states such a pattern
+and checks that it is well posed; :meth:`WavePattern.solve` hands it to the
+solver (:mod:`gasdyn2d.patterns.solver`), which finds every unknown wave turn for
+one case or many at once, and returns a :class:`~gasdyn2d.patterns.solution.PatternSolution`.
 
 Conventions
 -----------
@@ -19,64 +18,215 @@ Conventions
   compression turns the flow clockwise).
 - A wave's ``turn`` is the signed change of flow direction across it
   (counterclockwise positive). Its sign and the family decide the wave type:
-  left-running with turn > 0, or right-running with turn < 0, is an oblique
-  shock; the other signs give an expansion fan.
+  left-running with turn > 0, or right-running with turn < 0, is a compression
+  (an oblique shock, or an isentropic compression if the wave was added with
+  ``compression="isentropic"``); the other signs give an expansion fan.
 
 The solution is exact for the relations of each wave: fans are centred
 simple waves and shocks are straight, so states reached after two fans cross
 or after a fan reflects from a wall are exact (Riemann invariants are carried
 unchanged across the other family), while states after a shock meets a fan
-are the usual wave-by-wave approximation of the curved interaction.
+are the usual wave-by-wave approximation of the curved interaction. An
+isentropic compression is exact while its characteristics, which converge, do
+not meet within the pattern.
 """
 
 from __future__ import annotations
 
+import copy
 import dataclasses
+import html
+import math
+from typing import NamedTuple
 
 import numpy as np
 
-from .. import _numerics as nx
-from ..errors import IllPosedProblemError, NoSolutionError
-from ..relations.isentropic import mach_angle_of
-from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
-from .solution import PatternSolution, RegionSolution, WaveSolution
+from ..boundary import Call, choice, errors_mode
+from ..boundary.checks import Check, format_value
+from ..boundary.units import is_quantity
+from ..boundary.types import ArrayInput
+from ..errors import DetachedShockError, IllPosedProblemError, InvalidInputError, NoSolutionError
 from ..relations.flow_state import FlowState
-from ..relations.simple_waves import turn_for_pressure_ratio, turn_state
+from .solution import PatternSolution, region_name
+from .solver import solve_cases
 
-__all__ = ["WavePattern", "PatternSolution", "RegionSolution", "WaveSolution"]
+__all__ = ["WavePattern", "WaveLink", "ConditionLink", "SolvePlan", "plan_pattern"]
 
-_FAMILY_SIGN = {"left": 1.0, "right": -1.0}
-_FD_STEP = 1e-7  # finite-difference step in a turn [rad] for the Jacobian
-_MAX_HALVINGS = 30
+_FAMILIES = {"left": "left", "right": "right"}
+_BRANCHES = {"weak": "weak", "strong": "strong"}
+_COMPRESSIONS = {"shock": "shock", "isentropic": "isentropic"}
 
 
-@dataclasses.dataclass
-class _Wave:
+# --------------------------------------------------------------------- the graph
+
+
+@dataclasses.dataclass(frozen=True)
+class WaveLink:
+    """One wave of a pattern's graph, without values.
+
+    ``given`` is what fixes the wave: ``"turn"``, ``"direction"``,
+    ``"pressure"`` or ``"unknown"`` (its turn is an unknown of the pattern).
+    """
+
     name: str
     upstream: str
     downstream: str
-    sign: float  # +1 left-running, -1 right-running
-    spec: str  # "turn", "direction", "pressure" or "unknown"
-    value: object  # ndarray (SI) or None
-    strong: bool
-    guess: object
-    start: object
+    family: str  #: "left" or "right"
+    given: str = "unknown"
+    branch: str = "weak"  #: "weak" or "strong" (where the wave is a shock)
+    compression: str = "shock"  #: "shock" or "isentropic"
+
+    @property
+    def sign(self) -> float:
+        """+1 for a left-running wave, -1 for a right-running one."""
+        return 1.0 if self.family == "left" else -1.0
+
+    @property
+    def strong(self) -> bool:
+        return self.branch == "strong"
 
 
-@dataclasses.dataclass
-class _Condition:
-    kind: str  # "wall", "free boundary", "slip line"
+@dataclasses.dataclass(frozen=True)
+class ConditionLink:
+    """One condition of a pattern's graph: ``"wall"``, ``"free boundary"`` or
+    ``"slip line"``, on one region (two for a slip line)."""
+
+    kind: str
     regions: tuple
-    value: object
-    through: object = None  # (x, y) [m] on a straight wall or free boundary, or None
 
-    def label(self):
+    def label(self) -> str:
         if self.kind == "slip line":
             return f"slip line between {self.regions[0]!r} and {self.regions[1]!r}"
         return f"{self.kind} on {self.regions[0]!r}"
 
 
-# --------------------------------------------------------------------- pattern
+class SolvePlan(NamedTuple):
+    """A checked pattern graph, in the form the solver takes.
+
+    ``order`` lists the waves so that each upstream region is known before it is
+    used; ``deps`` maps each region to the unknown waves it depends on;
+    ``unknowns`` names the unknown waves and ``index`` gives their positions.
+    """
+
+    inflow: str
+    order: tuple
+    deps: dict
+    unknowns: tuple
+    index: dict
+    conditions: tuple
+
+
+def plan_pattern(inflow: str, waves, conditions) -> SolvePlan:
+    """Check a pattern graph and order it for the solver.
+
+    Raises :class:`~gasdyn2d.errors.IllPosedProblemError` saying what is missing
+    or extra: a region reached by two waves or by none, a condition on a region
+    no wave reaches, unknowns and conditions unequal in number, or a condition
+    that no unknown of its own can meet (checked by bipartite matching).
+    """
+    order, known = _order(inflow, waves)
+    for c in conditions:
+        for r in c.regions:
+            if r not in known:
+                raise IllPosedProblemError(
+                    f"the {c.label()} names region {r!r}, which no wave reaches; the "
+                    f"regions are {sorted(known)}.")
+    unknowns = tuple(w.name for w in order if w.given == "unknown")
+    n_eq = sum(2 if c.kind == "slip line" else 1 for c in conditions)
+    if len(unknowns) != n_eq:
+        listed = ", ".join(repr(u) for u in unknowns) or "none"
+        conds = "; ".join(c.label() + (" (2 conditions)" if c.kind == "slip line" else "")
+                          for c in conditions) or "none"
+        diff = len(unknowns) - n_eq
+        advice = (f"add {diff} condition(s) (wall, free boundary or slip line) or give "
+                  f"{diff} of these waves a turn, direction or pressure" if diff > 0 else
+                  f"remove {-diff} condition(s) or leave {-diff} more wave turn(s) unknown")
+        raise IllPosedProblemError(
+            f"the pattern has {len(unknowns)} unknown wave turn(s) ({listed}) but {n_eq} "
+            f"condition(s) ({conds}): {advice}.")
+    deps = {inflow: frozenset()}
+    for w in order:
+        own = {w.name} if w.given == "unknown" else set()
+        deps[w.downstream] = deps[w.upstream] | own
+    _check_matching(conditions, deps)
+    return SolvePlan(inflow, tuple(order), deps, unknowns,
+                     {name: i for i, name in enumerate(unknowns)}, tuple(conditions))
+
+
+def _order(inflow, waves):
+    """Waves in an order where each upstream region is known before use."""
+    known = {inflow}
+    reached_by = {}
+    for w in waves:
+        if w.downstream == inflow:
+            raise IllPosedProblemError(
+                f"wave {w.name!r} ends in the inflow region {inflow!r}; the inflow state is "
+                "given and cannot be downstream of a wave.")
+        if w.downstream in reached_by:
+            raise IllPosedProblemError(
+                f"region {w.downstream!r} is downstream of two waves, "
+                f"{reached_by[w.downstream]!r} and {w.name!r}; each region is reached "
+                "through exactly one wave: give the second wave its own downstream region "
+                "and join the two regions with add_slip_line.")
+        reached_by[w.downstream] = w.name
+    order, pending = [], list(waves)
+    while pending:
+        ready = [w for w in pending if w.upstream in known]
+        if not ready:
+            names = ", ".join(f"{w.name!r} (from {w.upstream!r})" for w in pending)
+            raise IllPosedProblemError(
+                f"waves {names} cannot be reached from the inflow region {inflow!r}: their "
+                "upstream regions are not downstream of any wave. Add the missing waves or "
+                "correct the region names.")
+        for w in ready:
+            order.append(w)
+            known.add(w.downstream)
+            pending.remove(w)
+    return order, known
+
+
+def _check_matching(conditions, deps):
+    """Every condition must be matched to its own unknown (bipartite matching)."""
+    rows = []
+    for c in conditions:
+        touched = set().union(*(deps[r] for r in c.regions))
+        if c.kind == "slip line":
+            touched = deps[c.regions[0]] ^ deps[c.regions[1]]
+            rows += [(c.label() + " (pressure)", touched),
+                     (c.label() + " (direction)", touched)]
+        else:
+            rows.append((c.label(), touched))
+    match = {}
+
+    def augment(i, seen):
+        for u in rows[i][1]:
+            if u not in seen:
+                seen.add(u)
+                if u not in match or augment(match[u], seen):
+                    match[u] = i
+                    return True
+        return False
+
+    for i, (label, touched) in enumerate(rows):
+        if not augment(i, set()):
+            raise IllPosedProblemError(
+                f"the {label} cannot be met by a wave of its own: the unknown waves it "
+                f"depends on ({', '.join(sorted(map(repr, touched))) or 'none'}) are all "
+                "needed by other conditions. Leave a wave upstream of it unknown, or drop "
+                "the condition.")
+
+
+# --------------------------------------------------------------------- the pattern
+
+
+class _Input(NamedTuple):
+    """A value given to the pattern: its case key, argument name, SI unit text, a copy."""
+
+    key: str
+    name: str
+    value: object
+    unit_text: str
+    keep_scalar: bool
 
 
 class WavePattern:
@@ -86,31 +236,37 @@ class WavePattern:
     ----------
     inflow : FlowState or float or array_like
         The given upstream region: a :class:`~gasdyn2d.FlowState` (then
-        pressures in conditions are absolute [Pa] and :meth:`PatternSolution.state`
-        gives full states), or a Mach number (array for a batch; pressures
-        in conditions are then ratios to the inflow pressure).
+        pressures in conditions are absolute [Pa], the gas and the inflow
+        direction are the state's, and :meth:`PatternSolution.state` gives full
+        states), or a Mach number (array, Series or DataArray for a batch;
+        pressures in conditions are then ratios to the inflow pressure).
     direction : float or Quantity, optional
-        Inflow direction [rad] when ``inflow`` is a Mach number.
+        Inflow direction [rad] when ``inflow`` is a Mach number (default 0).
     gamma : float or array_like, optional
-        Ratio of specific heats when ``inflow`` is a Mach number (may be an array).
+        Ratio of specific heats when ``inflow`` is a Mach number (default 1.4;
+        may be an array). Both are refused with a FlowState inflow, which
+        carries its own.
     name : str, optional
-        Name of the inflow region (default ``"1"``).
+        Name of the inflow region (default ``"1"``). Names are text; an integer
+        is taken as its text everywhere (``region(2)`` is ``region("2")``).
 
     Notes
     -----
-    Angles in the solution are plain radians, or Quantities in the unit of
-    the first angle given as a Quantity (inflow direction, a turn, a wave's
-    direction or a wall direction).
+    Every value (the inflow, turns, directions, pressures, guesses, points)
+    may be a number, an array, a pint Quantity of any registry, an xarray
+    DataArray or a pandas Series; they broadcast together into the cases of the
+    pattern (DataArrays by dimension name). The pattern keeps a copy of each
+    value when it is added. The solution comes back in the same containers:
+    angles in the unit of the first angle given as a Quantity, lengths in that
+    of the first length, labels of the DataArrays or the Series kept. dask
+    arrays are refused: a pattern holds every region of every case, so it
+    cannot stay lazy; the ready functions
+    (:func:`~gasdyn2d.patterns.reflections.wall_reflection`, ...) can.
 
     Each wave adds one region (its ``downstream``) reached from an existing
     one; each wave of unknown turn adds one unknown; a wall or a free
     boundary adds one condition and a slip line two (equal pressure, equal
     direction). :meth:`check` reports precisely what is missing or extra.
-    The Newton iteration runs on all cases at once: residuals are the
-    direction and log-pressure mismatches; the Jacobian is a forward
-    difference over each unknown turn (one-sided away from detachment),
-    re-evaluating only the waves downstream of that unknown; a step that
-    lands beyond detachment or increases the residual is halved.
 
     Examples
     --------
@@ -129,29 +285,73 @@ class WavePattern:
     (2.1051, 2.1404)
     """
 
-    def __init__(self, inflow, *, direction=0.0, gamma=1.4, name="1"):
+    def __init__(self, inflow, *, direction: ArrayInput = None, gamma: ArrayInput = None,
+                 name="1"):
+        self._inputs: list[_Input] = []
+        self._waves: dict[str, WaveLink] = {}
+        self._conditions: list[ConditionLink] = []
+        self._inflow_name = region_name(name, "name")
         if isinstance(inflow, FlowState):
-            self.inflow_state = inflow
-            M, d, g = inflow.M_si, inflow.direction_si, np.asarray(inflow.gas.gamma)
-            self._angle_units = [getattr(inflow.direction, "units", None)]  # its angle unit
-            self._pressure_scale = inflow.p_si
-            self._pressure_kind = "pressure"
+            if direction is not None or gamma is not None:
+                given = " and ".join(k for k, v in (("direction", direction), ("gamma", gamma))
+                                     if v is not None)
+                raise InvalidInputError(
+                    f"{given} cannot be given with a FlowState inflow, which carries its own "
+                    "direction and gas; set them on the FlowState instead, e.g. "
+                    "FlowState(M, p, T, direction=..., gas=Gas(gamma=...)).")
+            self._inflow_state = inflow
+            self._take("M", "inflow.M", inflow.M)
+            self._take("d", "inflow.direction", inflow.direction, "rad")
+            self._take("p_in", "inflow.p", inflow.p, "Pa")
+            self._take("T_in", "inflow.T", inflow.T, "K")
+            self._take("g", "gamma", float(inflow.gas.gamma), keep_scalar=True)
         else:
-            self.inflow_state = None
-            M, _ = nx.to_si(inflow, "inflow", "dimensionless")
-            d, unit = nx.to_si(direction, "direction", "angle")
-            self._angle_units = [unit]
-            g, _ = nx.to_si(gamma, "gamma", "dimensionless")
-            self._pressure_scale = np.asarray(1.0)
-            self._pressure_kind = "dimensionless"
-        self._M_in, self._d_in, self._gamma = M, d, g
-        self.inflow_name = str(name)
-        self._waves: dict[str, _Wave] = {}
-        self._conditions: list[_Condition] = []
+            self._inflow_state = None
+            self._take("M", "inflow", inflow)
+            self._take("d", "direction", 0.0 if direction is None else direction, "rad")
+            self._take("g", "gamma", 1.4 if gamma is None else gamma, keep_scalar=True)
+
+    def _take(self, key, name, value, unit_text="", keep_scalar=False):
+        """Check one value now (type and unit: a clear error at the line that gave it) and
+        keep a copy of it, so that later changes to the caller's array do not reach the
+        pattern."""
+        call = Call()
+        call.take(name, value, unit_text, keep_scalar=keep_scalar)
+        if call.lazy:
+            raise InvalidInputError(
+                f"{name} is a dask array: a WavePattern holds every region of every case "
+                "and cannot stay lazy; compute it first, or use the ready functions "
+                "(wall_reflection, shock_crossing, ...), which map over dask blocks.")
+        if type(value) not in (float, int):
+            value = copy.deepcopy(value)
+        self._inputs.append(_Input(key, name, value, unit_text, keep_scalar))
+
+    # -- what the pattern holds
+    @property
+    def inflow_name(self) -> str:
+        """Name of the inflow region."""
+        return self._inflow_name
+
+    @property
+    def inflow_state(self):
+        """The inflow :class:`~gasdyn2d.FlowState`, or None if the inflow was a Mach number."""
+        return self._inflow_state
+
+    @property
+    def waves(self) -> tuple:
+        """The waves, as :class:`WaveLink` records, in the order added."""
+        return tuple(self._waves.values())
+
+    @property
+    def conditions(self) -> tuple:
+        """The conditions, as :class:`ConditionLink` records, in the order added."""
+        return tuple(self._conditions)
 
     # -- building the pattern
-    def add_wave(self, name, *, upstream, downstream, family, turn=None, direction=None,
-                 pressure=None, branch="weak", guess=None, start=None):
+    def add_wave(self, name, *, upstream, downstream, family: str, turn: ArrayInput = None,
+                 direction: ArrayInput = None, pressure: ArrayInput = None,
+                 branch: str = "weak", compression: str = "shock", guess: ArrayInput = None,
+                 start=None) -> "WavePattern":
         """Add a wave from region ``upstream`` to a new region ``downstream``.
 
         Parameters
@@ -168,7 +368,13 @@ class WavePattern:
             inflow pressure when the inflow was a Mach number). None of them:
             the turn is an unknown of the pattern.
         branch : {"weak", "strong"}
-            Branch of the shock when the wave is a compression.
+            Branch of the shock when the wave is a shock compression.
+        compression : {"shock", "isentropic"}
+            What the wave is where it compresses: an oblique shock (default), or
+            an isentropic (Prandtl–Meyer) compression, ν2 = ν1 - |turn|, exact
+            while its converging characteristics do not meet within the pattern
+            (they coalesce into a shock further out). Expansions are fans either
+            way.
         guess : float or array_like, optional
             Starting turn [rad] for an unknown wave (default 0).
         start : (x, y), optional
@@ -177,47 +383,58 @@ class WavePattern:
             at the point where the wave that made ``upstream`` meets a wall
             or free boundary placed with ``through=``, or at the crossing of
             two placed waves ahead of a slip line (see
-            :class:`PatternSolution`, Notes).
+            :class:`~gasdyn2d.patterns.solution.PatternSolution`, Notes).
 
         Returns
         -------
         WavePattern
             ``self``, so calls can be chained.
         """
-        name = str(name)
+        name = region_name(name, "name")
+        upstream = region_name(upstream, "upstream")
+        downstream = region_name(downstream, "downstream")
         if name in self._waves:
             raise IllPosedProblemError(f"a wave named {name!r} already exists; give each wave "
                                        "its own name.")
-        if family not in _FAMILY_SIGN:
-            raise nx.InvalidInputError(f"family must be 'left' or 'right'; got {family!r}.")
-        nx.check_branch(branch, ("weak", "strong"))
+        family = choice("family", family, _FAMILIES)
+        branch = choice("branch", branch, _BRANCHES)
+        compression = choice("compression", compression, _COMPRESSIONS)
         given = {k: v for k, v in (("turn", turn), ("direction", direction),
                                    ("pressure", pressure)) if v is not None}
         if len(given) > 1:
             raise IllPosedProblemError(
                 f"wave {name!r}: give at most one of turn, direction and pressure; got "
                 f"{', '.join(given)}.")
-        spec, value = next(iter(given.items())) if given else ("unknown", None)
-        if spec in ("turn", "direction"):
-            value, unit = nx.to_si(value, spec, "angle")
-            self._angle_units.append(unit)
-        elif spec == "pressure":
-            value = nx.to_si(value, "pressure", self._pressure_kind)[0] / self._pressure_scale
-            with np.errstate(invalid="ignore"):
-                if np.any(value <= 0):
-                    raise nx.InvalidInputError(
-                        f"wave {name!r}: pressure must be > 0; got {np.min(value):g}.")
         if downstream == upstream:
             raise IllPosedProblemError(f"wave {name!r} has the same region {upstream!r} on "
                                        "both sides.")
+        spec, value = next(iter(given.items())) if given else ("unknown", None)
+        if spec == "pressure":
+            self._take("w:" + name, f"pressure (of wave {name!r})", value, self._pressure_unit)
+        elif spec != "unknown":
+            self._take("w:" + name, f"{spec} (of wave {name!r})", value, "rad")
         if guess is not None:
-            guess = nx.to_si(guess, "guess", "angle")[0]
-        self._waves[name] = _Wave(name, str(upstream), str(downstream), _FAMILY_SIGN[family],
-                                  spec, value, branch == "strong", guess,
-                                  _point(start, "start"))
+            self._take("guess:" + name, f"guess (of wave {name!r})", guess, "rad")
+        self._take_point("start:" + name, "start", start)
+        self._waves[name] = WaveLink(name, upstream, downstream, family, spec, branch,
+                                     compression)
         return self
 
-    def add_wall(self, region, direction, *, through=None):
+    @property
+    def _pressure_unit(self):
+        return "Pa" if self._inflow_state is not None else ""
+
+    def _take_point(self, key, name, point):
+        if point is None:
+            return
+        try:
+            x, y = point
+        except (TypeError, ValueError):
+            raise InvalidInputError(f"{name} must be a point (x, y) [m]; got {point!r}.") from None
+        self._take(key + ":x", f"{name}[0]", x, "m")
+        self._take(key + ":y", f"{name}[1]", y, "m")
+
+    def add_wall(self, region, direction: ArrayInput, *, through=None) -> "WavePattern":
         """Require region ``region`` to flow along a wall of direction ``direction`` [rad].
 
         ``through=(x, y)`` [m], a point of the (straight) wall, places it in
@@ -225,13 +442,14 @@ class WavePattern:
         meets the wall at a point the solution reports, and the wave leaving
         into ``region`` starts there unless it was given a ``start``.
         """
-        value, unit = nx.to_si(direction, "direction", "angle")
-        self._angle_units.append(unit)
-        self._conditions.append(_Condition("wall", (str(region),), value,
-                                           _point(through, "through")))
+        condition = ConditionLink("wall", (region_name(region, "region"),))
+        i = len(self._conditions)
+        self._take(f"c:{i}", f"direction (of the {condition.label()})", direction, "rad")
+        self._take_point(f"through:{i}", "through", through)
+        self._conditions.append(condition)
         return self
 
-    def add_free_boundary(self, region, pressure, *, through=None):
+    def add_free_boundary(self, region, pressure: ArrayInput, *, through=None) -> "WavePattern":
         """Require region ``region`` to be at ``pressure`` (a free boundary of fixed pressure).
 
         ``pressure`` is absolute [Pa] when the inflow was a ``FlowState``,
@@ -241,454 +459,212 @@ class WavePattern:
         as for :meth:`add_wall`, it places the meeting point and the start
         of the wave leaving into ``region``.
         """
-        value = nx.to_si(pressure, "pressure", self._pressure_kind)[0] / self._pressure_scale
-        self._conditions.append(_Condition("free boundary", (str(region),), value,
-                                           _point(through, "through")))
+        condition = ConditionLink("free boundary", (region_name(region, "region"),))
+        i = len(self._conditions)
+        self._take(f"c:{i}", f"pressure (of the {condition.label()})", pressure,
+                   self._pressure_unit)
+        self._take_point(f"through:{i}", "through", through)
+        self._conditions.append(condition)
         return self
 
-    def add_slip_line(self, region_a, region_b):
+    def add_slip_line(self, region_a, region_b) -> "WavePattern":
         """Join two regions by a slip line: equal pressure and equal direction."""
-        self._conditions.append(_Condition("slip line", (str(region_a), str(region_b)), None))
+        self._conditions.append(ConditionLink("slip line", (region_name(region_a, "region_a"),
+                                                            region_name(region_b, "region_b"))))
         return self
 
     # -- well-posedness
-    def _order(self):
-        """Waves in an order where each upstream region is known before use."""
-        known = {self.inflow_name}
-        reached_by = {}
-        for w in self._waves.values():
-            if w.downstream == self.inflow_name:
-                raise IllPosedProblemError(
-                    f"wave {w.name!r} ends in the inflow region {self.inflow_name!r}; the "
-                    "inflow state is given and cannot be downstream of a wave.")
-            if w.downstream in reached_by:
-                raise IllPosedProblemError(
-                    f"region {w.downstream!r} is downstream of two waves, "
-                    f"{reached_by[w.downstream]!r} and {w.name!r}; each region is reached "
-                    "through exactly one wave: give the second wave its own downstream region "
-                    "and join the two regions with add_slip_line.")
-            reached_by[w.downstream] = w.name
-        order, pending = [], list(self._waves.values())
-        while pending:
-            ready = [w for w in pending if w.upstream in known]
-            if not ready:
-                names = ", ".join(f"{w.name!r} (from {w.upstream!r})" for w in pending)
-                raise IllPosedProblemError(
-                    f"waves {names} cannot be reached from the inflow region "
-                    f"{self.inflow_name!r}: their upstream regions are not downstream of any "
-                    "wave. Add the missing waves or correct the region names.")
-            for w in ready:
-                order.append(w)
-                known.add(w.downstream)
-                pending.remove(w)
-        return order, known
-
-    def check(self):
+    def check(self) -> None:
         """Check the pattern is well posed; raise :class:`IllPosedProblemError` if not.
 
-        Returns
-        -------
-        (order, dependencies)
-            Internal solve plan (waves in order; the unknowns each region depends on).
+        Every region must be reached from the inflow through exactly one wave,
+        the unknowns and the conditions must be equal in number, and each
+        condition must be met by an unknown of its own.
         """
-        order, known = self._order()
-        for c in self._conditions:
-            for r in c.regions:
-                if r not in known:
-                    raise IllPosedProblemError(
-                        f"the {c.label()} names region {r!r}, which no wave reaches; the "
-                        f"regions are {sorted(known)}.")
-        unknowns = [w.name for w in order if w.spec == "unknown"]
-        n_eq = sum(2 if c.kind == "slip line" else 1 for c in self._conditions)
-        if len(unknowns) != n_eq:
-            listed = ", ".join(repr(u) for u in unknowns) or "none"
-            conds = "; ".join(c.label() + (" (2 conditions)" if c.kind == "slip line" else "")
-                              for c in self._conditions) or "none"
-            diff = len(unknowns) - n_eq
-            advice = (f"add {diff} condition(s) (wall, free boundary or slip line) or give "
-                      f"{diff} of these waves a turn, direction or pressure" if diff > 0 else
-                      f"remove {-diff} condition(s) or leave {-diff} more wave turn(s) unknown")
-            raise IllPosedProblemError(
-                f"the pattern has {len(unknowns)} unknown wave turn(s) ({listed}) but {n_eq} "
-                f"condition(s) ({conds}): {advice}.")
-        deps = {self.inflow_name: frozenset()}
-        for w in order:
-            own = {w.name} if w.spec == "unknown" else set()
-            deps[w.downstream] = deps[w.upstream] | own
-        self._check_structure(unknowns, deps)
-        return order, deps
+        self._plan()
 
-    def _check_structure(self, unknowns, deps):
-        """Every condition must be matched to its own unknown (bipartite matching)."""
-        rows = []
-        for c in self._conditions:
-            touched = set().union(*(deps[r] for r in c.regions))
-            if c.kind == "slip line":
-                touched = deps[c.regions[0]] ^ deps[c.regions[1]]
-                rows += [(c.label() + " (pressure)", touched), (c.label() + " (direction)",
-                                                                 touched)]
-            else:
-                rows.append((c.label(), touched))
-        match = {}
-
-        def augment(i, seen):
-            for u in rows[i][1]:
-                if u not in seen:
-                    seen.add(u)
-                    if u not in match or augment(match[u], seen):
-                        match[u] = i
-                        return True
-            return False
-
-        for i, (label, touched) in enumerate(rows):
-            if not augment(i, set()):
-                raise IllPosedProblemError(
-                    f"the {label} cannot be met by a wave of its own: the unknown waves it "
-                    f"depends on ({', '.join(sorted(map(repr, touched))) or 'none'}) are all "
-                    "needed by other conditions. Leave a wave upstream of it unknown, or drop "
-                    "the condition.")
-
-    # -- evaluation
-    def _cases(self):
-        arrays = {"M": self._M_in, "d": self._d_in, "g": self._gamma}
-        for w in self._waves.values():
-            if w.value is not None:
-                arrays["w:" + w.name] = w.value
-            if w.guess is not None:
-                arrays["guess:" + w.name] = w.guess
-        for i, c in enumerate(self._conditions):
-            if c.value is not None:
-                arrays[f"c:{i}"] = c.value
-        names = list(arrays)
-        shaped = nx.broadcast(**{k.replace(":", "_").replace(" ", "_"): arrays[k]
-                                 for k in names})
-        shape = shaped[0].shape
-        return {k: a.reshape(-1) for k, a in zip(names, shaped)}, shape
-
-    @staticmethod
-    def _wave_state(wave, M_up, lnp_up, d_up, x_turn, case):
-        g = case["g"]
-        if wave.spec == "turn":
-            turn = case["w:" + wave.name]
-        elif wave.spec == "direction":
-            turn = case["w:" + wave.name] - d_up
-        elif wave.spec == "pressure":
-            ratio = np.exp(np.log(case["w:" + wave.name]) - lnp_up)
-            signed = turn_for_pressure_ratio(M_up, ratio, g)
-            _, beta_star = detachment_angles(M_up, g)
-            strong = ratio > oblique_shock_ratios(M_up, beta_star, g).p2_p1
-            weak_state = turn_state(M_up, signed, g, strong=False)
-            strong_state = turn_state(M_up, signed, g, strong=True)
-            state = type(weak_state)(*(np.where(strong, b, a)
-                                       for a, b in zip(weak_state, strong_state)))
-            return wave.sign * signed, state
-        else:
-            turn = x_turn
-        return turn, turn_state(M_up, wave.sign * turn, g, strong=wave.strong)
-
-    def _evaluate(self, plan, x, case, base=None, changed=None):
-        """Propagate states through the waves; returns (regions, waves) dicts of arrays."""
-        order, deps, unknown_index = plan
-        regions = {self.inflow_name: (case["M"], np.zeros_like(case["M"]), case["d"],
-                                      np.zeros_like(case["M"]), np.zeros_like(case["M"]))}
-        waves = {}
-        for w in order:
-            if base is not None and not (deps[w.downstream] & changed):
-                regions[w.downstream] = base[0][w.downstream]
-                waves[w.name] = base[1][w.name]
-                continue
-            M, lnp, d, lnT, lnp0 = regions[w.upstream]
-            x_turn = x[unknown_index[w.name]] if w.name in unknown_index else None
-            turn, s = self._wave_state(w, M, lnp, d, x_turn, case)
-            with np.errstate(divide="ignore", invalid="ignore"):
-                regions[w.downstream] = (s.M2, lnp + np.log(s.p2_p1), d + turn,
-                                         lnT + np.log(s.T2_T1), lnp0 + np.log(s.p02_p01))
-            waves[w.name] = (turn, s)
-        return regions, waves
-
-    def _residuals(self, regions, case):
-        out = []
-        for i, c in enumerate(self._conditions):
-            if c.kind == "wall":
-                out.append(regions[c.regions[0]][2] - case[f"c:{i}"])
-            elif c.kind == "free boundary":
-                out.append(regions[c.regions[0]][1] - np.log(case[f"c:{i}"]))
-            else:
-                a, b = regions[c.regions[0]], regions[c.regions[1]]
-                out += [a[1] - b[1], a[2] - b[2]]
-        if not out:
-            return np.zeros((0, case["M"].size))
-        return np.array(out).reshape(len(out), -1)
+    def _plan(self) -> SolvePlan:
+        return plan_pattern(self._inflow_name, tuple(self._waves.values()),
+                            tuple(self._conditions))
 
     # -- solving
-    def solve(self, *, errors="raise", max_iterations=40):
+    def solve(self, *, errors: str = "raise", max_iterations: int = 40) -> PatternSolution:
         """Find every unknown turn so that all conditions hold, for all cases.
 
         Parameters
         ----------
         errors : {"raise", "nan"}
-            On a case without solution, raise :class:`~gasdyn2d.errors.NoSolutionError`
-            naming the case and the reason, or return NaN for it (reason in
-            ``solution.failure``).
+            On an invalid input or a case without solution, raise (an
+            :class:`~gasdyn2d.errors.InvalidInputError` naming the argument; a
+            :class:`~gasdyn2d.errors.DetachedShockError` for a given turn beyond
+            detachment; a :class:`~gasdyn2d.errors.NoSolutionError` naming the case
+            and the reason), or return NaN for that case with the reason in
+            ``solution.failure``. A case with a NaN input is NaN, and no failure.
         max_iterations : int
             Newton iterations before a case is declared not converged.
 
         Returns
         -------
         PatternSolution
-        """
-        nx.check_errors_mode(errors)
-        order, deps = self.check()
-        unknown_names = [w.name for w in order if w.spec == "unknown"]
-        plan = (order, deps, {n: i for i, n in enumerate(unknown_names)})
-        case, shape = self._cases()
-        case["M"] = nx.check_mach_supersonic(case["M"], "inflow Mach number", errors)
-        case["g"] = nx.check_gamma(case["g"], errors)
-        n = case["M"].size
-        k = len(unknown_names)
-        x = np.zeros((k, n))
-        for i, name in enumerate(unknown_names):
-            if "guess:" + name in case:
-                x[i] = case["guess:" + name]
-        x, converged, iterations, (regions, waves), step = self._newton(plan, x, case,
-                                                                        max_iterations)
-        residual = self._residuals(regions, case)
-        finite = np.all(np.isfinite(residual), axis=0) & np.isfinite(_regions_lnp(regions))
-        ok = converged & finite & np.all(np.isfinite(x), axis=0)
-        failure = self._diagnose(plan, x, step, case, ok, regions, waves)
-        ok &= failure == ""
-        if errors == "raise" and not np.all(ok | np.isnan(case["M"])):
-            first = int(np.flatnonzero(~ok & ~np.isnan(case["M"]))[0])
-            count = int(np.count_nonzero(~ok & ~np.isnan(case["M"])))
-            index = tuple(int(i) for i in np.unravel_index(first, shape))
-            where = f" at index {index} ({count} of {n} cases fail)" if shape else ""
-            raise NoSolutionError(
-                f"no solution{where}: {failure[first]} Pass errors='nan' to get NaN for "
-                "these cases, with the reason in solution.failure.")
-        return self._package(regions, waves, ok, failure, iterations, shape, case["g"])
+            A snapshot: later changes to the pattern do not reach it.
 
-    def _newton(self, plan, x, case, max_iterations):
-        """Batched damped Newton iteration; returns (x, converged, iterations, evaluation).
-
-        The evaluation of the last accepted iterate is carried from one
-        iteration to the next (and its waves that depend on no unknown are
-        never recomputed); cases leave the active set as they converge.
+        Notes
+        -----
+        The unknowns are the turns of the unknown waves; the residuals are the
+        direction and log-pressure mismatches of the conditions. One pass
+        through the waves gives the residuals and their exact Jacobian (each
+        wave's partial derivatives in closed form); a damped Newton iteration
+        runs on all cases at once, halving a case's step while it detaches a
+        wave or fails to reduce the residual. A single case (plain floats) runs
+        the same iteration on Python floats.
         """
-        n, k = x.shape[1], x.shape[0]
-        ev = self._evaluate(plan, x, case)
-        if k == 0:
-            return x, np.ones(n, dtype=bool), 0, ev, np.zeros_like(x)
-        r = self._residuals(ev[0], case)
-        ev, r = self._pull_back_start(plan, x, r, case, ev)
-        full_ev = ev
-        converged = np.zeros(n, dtype=bool)
-        last_step = np.full_like(x, np.nan)
-        idx = np.flatnonzero(np.isfinite(case["M"]) & np.all(np.isfinite(x), axis=0))
-        ev = _take(ev, idx)
-        iterations = 0
-        for iterations in range(1, max_iterations + 1):
-            if idx.size == 0:
-                break
-            sub = {key: v[idx] for key, v in case.items()}
-            xs, rs = x[:, idx], r[:, idx]
-            J = self._jacobian(plan, xs, rs, sub, ev)
-            dx = _solve_small(J, -rs)
-            last_step[:, idx] = dx
-            xs_new, rs_new, ev_new, halved = self._line_search(plan, xs, rs, dx, sub, ev)
-            small = np.max(np.abs(xs_new - xs), axis=0) <= 1e-14 * np.maximum(
-                1.0, np.max(np.abs(xs), axis=0))
-            tiny = np.max(np.abs(rs_new), axis=0) <= 1e-15
-            x[:, idx], r[:, idx] = xs_new, rs_new
-            done = (small | tiny) & np.all(np.isfinite(rs_new), axis=0)
-            converged[idx[done]] = True
-            keep = ~(done | ~np.all(np.isfinite(dx), axis=0))
-            idx = idx[keep]
-            if halved:
-                ev = self._evaluate(plan, x[:, idx], {key: v[idx] for key, v in case.items()},
-                                    _take(full_ev, idx), frozenset(plan[2]))
+        check = Check(errors_mode(errors))
+        plan = self._plan()
+        call = Call(errors)
+        for item in self._inputs:
+            call.take(item.name, item.value, item.unit_text, keep_scalar=item.keep_scalar,
+                      degrees_above=math.inf)  # warned when the value was added
+        values = dict(zip((item.key for item in self._inputs), call.prepare()))
+        shape = np.shape(values["M"])
+        flat = (lambda v: v) if type(values["M"]) is float else (
+            lambda v: v if type(v) is float else np.ascontiguousarray(v).reshape(-1))
+        case = {key: flat(v) for key, v in values.items()
+                if not key.startswith(("start:", "through:", "p_in", "T_in"))}
+        if self._inflow_state is not None:  # absolute pressures become ratios to the inflow
+            p_in = flat(values["p_in"])
+            for key in case:
+                if key.startswith("c:") or key.startswith("w:"):
+                    if self._is_pressure(key):
+                        case[key] = case[key] / p_in
+        raw = solve_cases(plan, case, shape, check, max_iterations=max_iterations)
+        failed = np.asarray(raw.failure) != ""
+        if not check.nan and failed.any():
+            first = int(np.flatnonzero(failed.reshape(-1))[0])
+            failure = np.asarray(raw.failure).reshape(-1)[first]
+            where = ""
+            if shape:
+                count = int(np.count_nonzero(failed))
+                index = tuple(int(i) for i in np.unravel_index(first, shape))
+                where = f" at index {index} ({count} of {failed.size} cases fail)"
+            error = (DetachedShockError if np.asarray(raw.detached_given).reshape(-1)[first]
+                     else NoSolutionError)
+            raise error(f"no solution{where}: {failure} Pass errors='nan' to get NaN for "
+                        "these cases, with the reason in solution.failure.")
+        points = {key: flat(v) for key, v in values.items()
+                  if key.startswith(("start:", "through:"))}
+        return PatternSolution.from_solver(
+            raw, plan, call, shape, case=case, points=points, inflow_state=self._inflow_state,
+            inflow_si={key: flat(values[key]) for key in ("p_in", "T_in") if key in values})
+
+    def _is_pressure(self, key):
+        if key.startswith("w:"):
+            return self._waves[key[2:]].given == "pressure"
+        return self._conditions[int(key[2:])].kind == "free boundary"
+
+    # -- display
+    def _value_text(self, key):
+        item = next((i for i in self._inputs if i.key == key), None)
+        return "" if item is None else _describe(item.value, item.unit_text)
+
+    def _rows(self):
+        waves = []
+        for w in self._waves.values():
+            if w.given == "unknown":
+                given = "unknown"
+                guess = self._value_text("guess:" + w.name)
+                if guess:
+                    given += f" (guess {guess})"
             else:
-                ev = _take(ev_new, np.flatnonzero(keep))
-        close = np.all(np.abs(r) <= 1e-11, axis=0)
-        final = self._evaluate(plan, x, case, full_ev, frozenset(plan[2]))
-        return x, converged | close, iterations, final, last_step
+                given = f"{w.given} {self._value_text('w:' + w.name)}"
+            kind = "isentropic" if w.compression == "isentropic" else (
+                "strong shock" if w.strong else "shock")
+            waves.append((w.name, f"{w.upstream} → {w.downstream}", w.family, kind, given))
+        conditions = []
+        for i, c in enumerate(self._conditions):
+            value = {"wall": "direction", "free boundary": "pressure"}.get(c.kind)
+            text = f"{value} {self._value_text(f'c:{i}')}" if value else "equal p and direction"
+            conditions.append((c.label(), text))
+        return waves, conditions
 
-    def _pull_back_start(self, plan, x, r, case, ev):
-        """Halve the starting turns (in place) of cases whose start is detached or vacuous.
+    def _region_names(self):
+        """The inflow, then each wave's downstream region, in the order added."""
+        return [self._inflow_name] + [w.downstream for w in self._waves.values()]
 
-        A zero turn is a Mach wave, always defined in supersonic flow, so the
-        halving ends at a start the iteration can work from.
-        """
-        for _ in range(_MAX_HALVINGS):
-            bad = np.flatnonzero(~np.all(np.isfinite(r), axis=0) & np.isfinite(case["M"]))
-            if bad.size == 0:
-                break
-            x[:, bad] *= 0.5
-            ev = self._evaluate(plan, x, case, ev, frozenset(plan[2]))
-            r = self._residuals(ev[0], case)
-        return ev, r
+    def _status(self):
+        n_unknown = sum(w.given == "unknown" for w in self._waves.values())
+        n_eq = sum(2 if c.kind == "slip line" else 1 for c in self._conditions)
+        try:
+            self._plan()
+            posed = "well posed"
+        except IllPosedProblemError as exc:
+            posed = f"not well posed: {exc}"
+        regions = 1 + len(self._waves)
+        return (f"{regions} region(s), {len(self._waves)} wave(s), {n_unknown} unknown "
+                f"turn(s), {n_eq} condition(s): {posed}")
 
-    def _jacobian(self, plan, x, r, case, base):
-        """Forward differences per unknown (backward where the forward step detaches)."""
-        k, n = x.shape
-        J = np.empty((n, k, k))
-        for name, j in plan[2].items():
-            step = np.zeros_like(x)
-            step[j] = _FD_STEP
-            changed = frozenset([name])
-            forward = self._residuals(self._evaluate(plan, x + step, case, base, changed)[0],
-                                      case)
-            column = (forward - r) / _FD_STEP
-            bad = np.flatnonzero(~np.all(np.isfinite(column), axis=0))
-            if bad.size:
-                sub = {key: v[bad] for key, v in case.items()}
-                xb = x[:, bad] - step[:, bad]
-                backward = self._residuals(
-                    self._evaluate(plan, xb, sub, _take(base, bad), changed)[0], sub)
-                column[:, bad] = (r[:, bad] - backward) / _FD_STEP
-            J[:, :, j] = column.T
-        return J
+    def _inflow_text(self):
+        parts = [f"M = {self._value_text('M')}", f"direction {self._value_text('d')}",
+                 f"γ = {self._value_text('g')}"]
+        if self._inflow_state is not None:
+            parts += [f"p = {self._value_text('p_in')}", f"T = {self._value_text('T_in')}"]
+        return f"inflow {self._inflow_name!r}: " + ", ".join(parts)
 
-    def _line_search(self, plan, x, r, dx, case, base):
-        """Full Newton step, halved per case while it detaches or does not reduce the residual."""
-        unknown = frozenset(plan[2])
-        norm0 = np.max(np.abs(r), axis=0)
-        lam = np.ones(x.shape[1])
-        x_new = np.where(np.isfinite(dx), x + dx, x)
-        ev = self._evaluate(plan, x_new, case, base, unknown)
-        r_new = self._residuals(ev[0], case)
-        halved = False
-        for _ in range(_MAX_HALVINGS):
-            norm = np.max(np.abs(r_new), axis=0)
-            bad = ~(norm <= np.maximum(norm0 * (1.0 - 1e-4 * lam), 1e-13)) & np.all(
-                np.isfinite(dx), axis=0)
-            if not np.any(bad):
-                break
-            halved = True
-            idx = np.flatnonzero(bad)
-            lam[idx] *= 0.5
-            sub = {key: v[idx] for key, v in case.items()}
-            xt = x[:, idx] + lam[idx] * dx[:, idx]
-            x_new[:, idx] = xt
-            r_new[:, idx] = self._residuals(
-                self._evaluate(plan, xt, sub, _take(base, idx), unknown)[0], sub)
-        return x_new, r_new, ev, halved
+    def __repr__(self) -> str:
+        waves, conditions = self._rows()
+        lines = [f"WavePattern: {self._status()}", f"  {self._inflow_text()}",
+                 f"  regions: {', '.join(self._region_names())}"]
+        if waves:
+            widths = [max(len(row[i]) for row in waves) for i in range(4)]
+            lines.append("  waves:")
+            for row in waves:
+                cells = "  ".join(f"{cell:<{w}}" for cell, w in zip(row[:4], widths))
+                lines.append(f"    {cells}  {row[4]}")
+        if conditions:
+            lines.append("  conditions:")
+            lines += [f"    {label}: {text}" for label, text in conditions]
+        return "\n".join(lines)
 
-    def _diagnose(self, plan, x, step, case, ok, regions, waves):
-        """Per-case reason of failure ('' where solved).
-
-        Checked in order: a wave whose upstream region is subsonic, a given
-        pressure out of reach, a detached shock or a fan to vacuum at the
-        last iterate; for cases where the iteration stalled, the same checks
-        at the full last Newton step (where the conditions were heading).
-        """
-        failure = np.full(x.shape[1], "", dtype=object)
-        bad = ~ok & ~np.isnan(case["M"])
-        if not np.any(bad):
-            return failure.astype(str)
-        self._wave_reasons(plan, regions, waves, bad, failure, "")
-        rest = bad & (failure == "")
-        if np.any(rest):
-            idx = np.flatnonzero(rest)
-            sub = {key: v[idx] for key, v in case.items()}
-            xt = x[:, idx] + np.nan_to_num(step[:, idx])
-            r_t, w_t = self._evaluate(plan, xt, sub)
-            part = np.full(idx.size, "", dtype=object)
-            self._wave_reasons(plan, r_t, w_t, np.ones(idx.size, dtype=bool), part,
-                               " to meet the conditions")
-            failure[idx] = part
-        rest = bad & (failure == "")
-        failure[rest] = ("the conditions cannot be met by attached waves: the Newton "
-                         "iteration did not converge (for example, the pressure-deflection "
-                         "polars do not intersect).")
-        return failure.astype(str)
-
-    def _wave_reasons(self, plan, regions, waves, bad, failure, context):
-        for w in plan[0]:
-            turn, s = waves[w.name]
-            open_ = bad & (failure == "")
-            with np.errstate(invalid="ignore"):
-                subsonic = open_ & (regions[w.upstream][0] < 1.0)
-            failure[subsonic] = (f"region {w.upstream!r}, upstream of wave {w.name!r}, is "
-                                 f"subsonic{context}, so no oblique shock or fan can stand "
-                                 "there.")
-            if w.spec == "pressure":
-                lost = open_ & np.isnan(turn) & ~subsonic
-                failure[lost] = (f"the pressure given for wave {w.name!r} cannot be reached: it "
-                                 "is above the normal-shock pressure of its upstream stream.")
-            open_ = bad & (failure == "")
-            failure[open_ & s.detached] = (
-                f"wave {w.name!r} detached: the compression it needs{context} exceeds the "
-                "maximum deflection of its upstream Mach number, so no attached straight "
-                "shock exists there.")
-            failure[open_ & s.vacuum & ~s.detached] = (
-                f"wave {w.name!r} would expand its stream beyond the maximum Prandtl–Meyer "
-                f"angle (to vacuum){context}.")
-
-    def _package(self, regions, waves, ok, failure, iterations, shape, gamma):
-        out = lambda v: nx.scalar_or_array(np.where(ok, v, np.nan).reshape(shape))  # noqa: E731
-        unit = next((u for u in self._angle_units if u is not None), None)
-        unit = nx.output_angle_unit(unit)
-        angle = lambda v: nx.angle_out(out(v), unit)  # noqa: E731
-        region_results = {}
-        for name, (M, lnp, d, lnT, lnp0) in regions.items():
-            region_results[name] = RegionSolution(out(M), out(np.exp(lnp)), out(np.exp(lnT)),
-                                                  out(np.exp(lnp0)), angle(d))
-        wave_results = {}
-        for w in self._order()[0]:
-            turn, s = waves[w.name]
-            M_up, _, d_up = regions[w.upstream][:3]
-            M_dn, _, d_dn = regions[w.downstream][:3]
-            mu_up, mu_dn = mach_angle_of(M_up), mach_angle_of(M_dn)
-            shock = s.is_shock & ok
-            kind = np.where(ok, np.where(shock, "shock", "fan"), "none").reshape(shape)
-            head = d_up + w.sign * np.where(shock, s.wave_angle, mu_up)
-            tail = np.where(shock, head, d_dn + w.sign * mu_dn)
-            wave_results[w.name] = WaveSolution(
-                str(kind) if not shape else kind, "left" if w.sign > 0 else "right",
-                angle(turn + 0 * M_up), out(s.p2_p1), angle(s.wave_angle), angle(mu_up),
-                angle(mu_dn), angle(head), angle(tail))
-        return PatternSolution(self, region_results, wave_results, ok, failure, iterations,
-                               shape, gamma=nx.scalar_or_array(gamma.reshape(shape)))
+    def _repr_html_(self) -> str:
+        waves, conditions = self._rows()
+        esc = html.escape
+        wave_rows = "".join("<tr>" + "".join(f"<td>{esc(c)}</td>" for c in row) + "</tr>"
+                            for row in waves)
+        condition_rows = "".join(f"<tr><td>{esc(a)}</td><td>{esc(b)}</td></tr>"
+                                 for a, b in conditions)
+        return (f"<div><p><b>WavePattern</b>: {esc(self._status())}<br>"
+                f"{esc(self._inflow_text())}<br>"
+                f"regions: {esc(', '.join(self._region_names()))}</p>"
+                "<table><caption>waves</caption><thead><tr><th>wave</th><th>regions</th>"
+                "<th>family</th><th>kind</th><th>given</th></tr></thead>"
+                f"<tbody>{wave_rows}</tbody></table>"
+                "<table><caption>conditions</caption><thead><tr><th>condition</th>"
+                f"<th>value</th></tr></thead><tbody>{condition_rows}</tbody></table></div>")
 
 
-def _point(point, name):
-    """An (x, y) point [m] (floats, arrays or length Quantities), or None."""
-    if point is None:
-        return None
+def _describe(value, unit_text):
+    """A short text for a value given to the pattern, in the unit it was given in."""
+    data = value
+    library = type(value).__module__.split(".")[0]
+    if library == "xarray":
+        data = value.data
+    elif library == "pandas":
+        data = value.to_numpy()
+    units = None
+    if is_quantity(data):
+        units, data = data.units, data.magnitude
+    elif isinstance(data, (list, tuple)) and data and is_quantity(data[0]):
+        units = data[0].units
+        data = [v.m_as(units) for v in data]
     try:
-        x, y = point
+        array = np.asarray(data, dtype=float)
     except (TypeError, ValueError):
-        raise nx.InvalidInputError(f"{name} must be a point (x, y) [m]; got {point!r}.") from None
-    return nx.to_si(x, f"{name}[0]", "length")[0], nx.to_si(y, f"{name}[1]", "length")[0]
-
-
-def _regions_lnp(regions):
-    """Sum of log pressures over regions (finite only if every region is)."""
-    return np.sum([r[1] for r in regions.values()], axis=0)
-
-
-def _take(evaluation, idx):
-    """The evaluation (regions, waves) restricted to the cases ``idx``."""
-    regions, waves = evaluation
-    return ({name: tuple(a[idx] for a in r) for name, r in regions.items()},
-            {name: (turn[idx], type(s)(*(a[idx] for a in s))) for name, (turn, s)
-             in waves.items()})
-
-
-def _solve_small(J, b):
-    """Solve J x = b for a stack of small systems (n, k, k) @ (k, n), NaN where singular."""
-    n, k, _ = J.shape
+        return repr(value)
+    suffix = f" {units:~P}" if units is not None else (f" {unit_text}" if unit_text else "")
+    if array.ndim == 0:
+        if units is None and unit_text == "rad":
+            return format_value(float(array), "rad")  # radians, with degrees beside
+        return f"{float(array):.6g}{suffix}"
     with np.errstate(all="ignore"):
-        if k == 1:
-            return b / J[:, 0, 0][None, :]
-        if k == 2:
-            det = J[:, 0, 0] * J[:, 1, 1] - J[:, 0, 1] * J[:, 1, 0]
-            x0 = (b[0] * J[:, 1, 1] - b[1] * J[:, 0, 1]) / det
-            x1 = (J[:, 0, 0] * b[1] - J[:, 1, 0] * b[0]) / det
-            return np.array([x0, x1])
-        good = np.all(np.isfinite(J), axis=(1, 2))
-        good[good] = np.abs(np.linalg.det(J[good])) > 0
-        out = np.full((k, n), np.nan)
-        if np.any(good):
-            out[:, good] = np.linalg.solve(J[good], b.T[good][..., None])[..., 0].T
-        return out
+        finite = array[np.isfinite(array)]
+    span = f"{finite.min():.6g} … {finite.max():.6g}" if finite.size else "all NaN"
+    return f"shape {array.shape}, {span}{suffix}"

@@ -1,8 +1,9 @@
 """Waves meeting waves: crossing and merging shocks, and pressure matching.
 
-Each function states its problem as a :class:`~gasdyn2d.patterns.graph.WavePattern`
-(inflow region ``"1"`` along the x axis), solves it for all cases at once, and
-returns a small result object of fixed fields:
+Each function states its problem as a region graph (inflow region ``"1"`` along the
+x axis, the graph written out in its Notes), solves it for all cases at once with the
+pattern solver (:mod:`gasdyn2d.patterns.solver`), and returns a small result object of
+fixed fields:
 
 - :func:`shock_crossing` — two shocks from opposite wedges crossing, with the
   transmitted waves and the slip line;
@@ -19,23 +20,16 @@ import dataclasses
 
 import numpy as np
 
-from .. import _numerics as nx
-from ..boundary.results import ResultTable, unit_field
+from ..boundary import Call, ResultTable, unit_field
+from ..boundary.types import ArrayInput, FloatArray
 from ..errors import NoSolutionError
+from ..relations.isentropic import mach_angle_of
 from ..relations.normal_shocks import normal_shock_ratios
 from ..relations.oblique_shocks import detachment_angles
-from .graph import WavePattern
 from ..relations.simple_waves import turn_state
-from .ready_checks import (
-    _input_reasons,
-    _note,
-    _check_shock_turn,
-    _collect_failures,
-    _raise_or_label,
-    _flat_inputs,
-    _shaped,
-    _wave_kind,
-)
+from .graph import ConditionLink, WaveLink, plan_pattern
+from .ready_checks import (CaseReasons, check_mach_and_gamma, check_shock_turn, scalar_of,
+                           shaped, solve_ready)
 
 __all__ = [
     "shock_crossing", "ShockCrossing",
@@ -59,20 +53,34 @@ class ShockCrossing(ResultTable):
     signed change of flow direction.
     """
 
-    slip_direction: object = unit_field("rad")  #: slip-line direction, > 0 towards the upper wedge
-    p_p1: object = unit_field("")  #: pressure on the slip line over p1
-    M_above_slip: object = unit_field("")  #: Mach number in region 4
-    M_below_slip: object = unit_field("")  #: Mach number in region 5
-    transmitted_above_kind: object = unit_field("")  #: "shock" or "fan"
-    transmitted_above_turn: object = unit_field("rad")  #: its signed turn
-    transmitted_above_wave_angle: object = unit_field("rad")  #: shock angle from region 2's flow
-    transmitted_below_kind: object = unit_field("")  #: "shock" or "fan"
-    transmitted_below_turn: object = unit_field("rad")  #: its signed turn
-    transmitted_below_wave_angle: object = unit_field("rad")  #: shock angle from region 3's flow
-    failure: object = unit_field("", default="")  #: why a case has no solution ("" where solved)
+    slip_direction: FloatArray = unit_field(
+        "rad", "slip-line direction, > 0 towards the upper wedge")
+    p_p1: FloatArray = unit_field("", "pressure on the slip line over p1")
+    M_above_slip: FloatArray = unit_field("", "Mach number in region 4")
+    M_below_slip: FloatArray = unit_field("", "Mach number in region 5")
+    transmitted_above_kind: FloatArray = unit_field("", "'shock' or 'fan'", dtype=str)
+    transmitted_above_turn: FloatArray = unit_field("rad", "its signed turn")
+    transmitted_above_wave_angle: FloatArray = unit_field(
+        "rad", "shock angle from region 2's flow")
+    transmitted_below_kind: FloatArray = unit_field("", "'shock' or 'fan'", dtype=str)
+    transmitted_below_turn: FloatArray = unit_field("rad", "its signed turn")
+    transmitted_below_wave_angle: FloatArray = unit_field(
+        "rad", "shock angle from region 3's flow")
+    failure: FloatArray = unit_field("", "why a case has no solution ('' where solved)",
+                                     dtype=str, default="")
 
 
-def shock_crossing(M1, deflection_upper, deflection_lower, *, gamma=1.4, errors="raise"):
+#: 1 -(upper, right, -δu)-> 2 -(left, unknown)-> 4; 1 -(lower, left, +δl)-> 3 -(right,
+#: unknown)-> 5; slip line 4|5.
+_CROSSING = plan_pattern("1", (
+    WaveLink("upper shock", "1", "2", "right", "turn"),
+    WaveLink("lower shock", "1", "3", "left", "turn"),
+    WaveLink("transmitted above", "2", "4", "left"),
+    WaveLink("transmitted below", "3", "5", "right")), (ConditionLink("slip line", ("4", "5")),))
+
+
+def shock_crossing(M1: ArrayInput, deflection_upper: ArrayInput, deflection_lower: ArrayInput,
+                   *, gamma: ArrayInput = 1.4, errors: str = "raise") -> ShockCrossing:
     """Crossing of the shocks from an upper wedge (turning the flow down) and a lower one (up).
 
     Parameters
@@ -110,37 +118,49 @@ def shock_crossing(M1, deflection_upper, deflection_lower, *, gamma=1.4, errors=
     >>> round(float(np.degrees(x.slip_direction)), 4), round(x.p_p1, 4)
     (3.9605, 3.8303)
     """
-    M, g, (du, dl), unit, shape, failure = _flat_inputs(errors, gamma, M1,
-                                                        deflection_upper=deflection_upper,
-                                                        deflection_lower=deflection_lower)
-    inputs = {"M1": M, "deflection_upper": np.degrees(du), "deflection_lower": np.degrees(dl)}
-    du = _check_shock_turn(du, M, g, "deflection_upper", errors, wave="upper shock",
-                           failure=failure, shape=shape)
-    dl = _check_shock_turn(dl, M, g, "deflection_lower", errors, wave="lower shock",
-                           failure=failure, shape=shape)
-    pattern = WavePattern(M, gamma=g)
-    pattern.add_wave("upper shock", upstream="1", downstream="2", family="right", turn=-du)
-    pattern.add_wave("lower shock", upstream="1", downstream="3", family="left", turn=dl)
-    pattern.add_wave("transmitted above", upstream="2", downstream="4", family="left", guess=dl)
-    pattern.add_wave("transmitted below", upstream="3", downstream="5", family="right",
-                     guess=-du)
-    pattern.add_slip_line("4", "5")
-    solution = pattern.solve(errors="nan")
-    failure = _raise_or_label(_collect_failures(failure, solution), shape, errors,
-                              "shock_crossing", inputs)
-    out = _shaped(shape, unit)
-    above, below = solution.wave("transmitted above"), solution.wave("transmitted below")
-    return ShockCrossing(
-        out(solution.region("4").direction, True), out(solution.region("4").p_ratio),
-        out(solution.region("4").M), out(solution.region("5").M),
-        _wave_kind(solution, "transmitted above", shape), out(above.turn, True),
-        out(above.wave_angle, True),
-        _wave_kind(solution, "transmitted below", shape), out(below.turn, True),
-        out(below.wave_angle, True), failure)
+    call = Call(errors)
+    call.take("M1", M1)
+    call.take("deflection_upper", deflection_upper, "rad")
+    call.take("deflection_lower", deflection_lower, "rad")
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run(ShockCrossing, _crossing_core)
+
+
+def _crossing_core(M, du, dl, g, check):
+    """Checked core of :func:`shock_crossing` (floats or case-shaped arrays)."""
+    reasons = CaseReasons(M)
+    M, g = check_mach_and_gamma(M, g, check, reasons)
+    inputs = {"M1": M, "deflection_upper": du, "deflection_lower": dl}
+    du = check_shock_turn(du, M, g, "deflection_upper", check, reasons, wave="upper shock")
+    dl = check_shock_turn(dl, M, g, "deflection_lower", check, reasons, wave="lower shock")
+    shape = np.shape(M)
+    raw = solve_ready(_CROSSING, {"M": M, "d": 0.0, "g": g, "w:upper shock": -du,
+                                  "w:lower shock": dl, "guess:transmitted above": dl,
+                                  "guess:transmitted below": -du, "c:0": 0.0}, shape)
+    reasons.add(raw.failure)
+    failure = reasons.finish(check, "shock_crossing", inputs)
+    keep = _keeper(raw, shape)
+    above, below = raw.waves["transmitted above"], raw.waves["transmitted below"]
+    return (keep(raw.regions["4"].direction), keep(np.exp(raw.regions["4"].lnp)),
+            keep(raw.regions["4"].M), keep(raw.regions["5"].M), _kind(raw, "transmitted above",
+                                                                        shape),
+            keep(above[0]), keep(above[1].wave_angle), _kind(raw, "transmitted below", shape),
+            keep(below[0]), keep(below[1].wave_angle), failure)
+
+
+def _keeper(raw, shape):
+    """Values of solved cases in the case shape (NaN elsewhere)."""
+    return lambda v: shaped(np.where(raw.ok, v, np.nan), shape)
+
+
+def _kind(raw, name, shape):
+    """'shock' or 'fan' per solved case, 'none' elsewhere."""
+    is_shock = raw.waves[name][1].is_shock
+    kind = np.where(raw.ok, np.where(is_shock, "shock", "fan"), "none")
+    return str(kind) if not shape else np.reshape(kind, shape)
 
 
 # ---------------------------------------------------------------- merging shocks
-
 
 @dataclasses.dataclass(frozen=True, repr=False)
 class MergingShocks(ResultTable):
@@ -151,18 +171,29 @@ class MergingShocks(ResultTable):
     wave (below it).
     """
 
-    slip_direction: object = unit_field("rad")  #: slip-line direction from the x axis
-    p_p1: object = unit_field("")  #: pressure on the slip line over p1
-    wave_angle: object = unit_field("rad")  #: merged shock angle from the free stream
-    merged_turn: object = unit_field("rad")  #: flow turn across the merged shock
-    reflected_kind: object = unit_field("")  #: "shock" or "fan"
-    reflected_turn: object = unit_field("rad")  #: signed turn across the reflected wave
-    M_above_slip: object = unit_field("")  #: Mach number in region 4
-    M_below_slip: object = unit_field("")  #: Mach number in region 5
-    failure: object = unit_field("", default="")  #: why a case has no solution ("" where solved)
+    slip_direction: FloatArray = unit_field("rad", "slip-line direction from the x axis")
+    p_p1: FloatArray = unit_field("", "pressure on the slip line over p1")
+    wave_angle: FloatArray = unit_field("rad", "merged shock angle from the free stream")
+    merged_turn: FloatArray = unit_field("rad", "flow turn across the merged shock")
+    reflected_kind: FloatArray = unit_field("", "'shock' or 'fan'", dtype=str)
+    reflected_turn: FloatArray = unit_field("rad", "signed turn across the reflected wave")
+    M_above_slip: FloatArray = unit_field("", "Mach number in region 4")
+    M_below_slip: FloatArray = unit_field("", "Mach number in region 5")
+    failure: FloatArray = unit_field("", "why a case has no solution ('' where solved)",
+                                     dtype=str, default="")
 
 
-def merging_shocks(M1, deflection_first, deflection_second, *, gamma=1.4, errors="raise"):
+#: 1 -(+δ1)-> 2 -(+δ2)-> 3, 1 -(merged, left, unknown)-> 4, 3 -(reflected, right, unknown)-> 5,
+#: slip line 4|5.
+_MERGING = plan_pattern("1", (
+    WaveLink("first", "1", "2", "left", "turn"),
+    WaveLink("second", "2", "3", "left", "turn"),
+    WaveLink("merged", "1", "4", "left"),
+    WaveLink("reflected", "3", "5", "right")), (ConditionLink("slip line", ("4", "5")),))
+
+
+def merging_shocks(M1: ArrayInput, deflection_first: ArrayInput, deflection_second: ArrayInput,
+                   *, gamma: ArrayInput = 1.4, errors: str = "raise") -> MergingShocks:
     """Two shocks of the same family meet and merge; a reflected wave and a slip line leave.
 
     Parameters
@@ -198,54 +229,62 @@ def merging_shocks(M1, deflection_first, deflection_second, *, gamma=1.4, errors
     >>> m.reflected_kind, round(float(np.degrees(m.slip_direction)), 4)
     ('fan', 13.0091)
     """
-    M, g, (d1, d2), unit, shape, failure = _flat_inputs(errors, gamma, M1,
-                                                        deflection_first=deflection_first,
-                                                        deflection_second=deflection_second)
-    inputs = {"M1": M, "deflection_first": np.degrees(d1), "deflection_second": np.degrees(d2)}
-    d1 = _check_shock_turn(d1, M, g, "deflection_first", errors, wave="first shock",
-                           failure=failure, shape=shape)
-    M2 = turn_state(M, d1, g).M2
-    d2 = _check_shock_turn(d2, M2, g, "deflection_second", errors, upstream="M2",
-                           wave="second shock", failure=failure, free_stream=M, shape=shape)
-    theta_max, _ = detachment_angles(M, g)
-    pattern = WavePattern(M, gamma=g)
-    pattern.add_wave("first", upstream="1", downstream="2", family="left", turn=d1)
-    pattern.add_wave("second", upstream="2", downstream="3", family="left", turn=d2)
-    pattern.add_wave("merged", upstream="1", downstream="4", family="left",
-                     guess=np.minimum(d1 + d2, 0.999 * theta_max))
-    pattern.add_wave("reflected", upstream="3", downstream="5", family="right", guess=0.0)
-    pattern.add_slip_line("4", "5")
-    solution = pattern.solve(errors="nan")
-    failure = _raise_or_label(_collect_failures(failure, solution), shape, errors,
-                              "merging_shocks", inputs)
-    out = _shaped(shape, unit)
-    merged, reflected = solution.wave("merged"), solution.wave("reflected")
-    return MergingShocks(
-        out(solution.region("4").direction, True), out(solution.region("4").p_ratio),
-        out(merged.wave_angle, True), out(merged.turn, True),
-        _wave_kind(solution, "reflected", shape), out(reflected.turn, True),
-        out(solution.region("4").M), out(solution.region("5").M), failure)
+    call = Call(errors)
+    call.take("M1", M1)
+    call.take("deflection_first", deflection_first, "rad")
+    call.take("deflection_second", deflection_second, "rad")
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run(MergingShocks, _merging_core)
+
+
+def _merging_core(M, d1, d2, g, check):
+    """Checked core of :func:`merging_shocks` (floats or case-shaped arrays)."""
+    reasons = CaseReasons(M)
+    M, g = check_mach_and_gamma(M, g, check, reasons)
+    inputs = {"M1": M, "deflection_first": d1, "deflection_second": d2}
+    d1 = check_shock_turn(d1, M, g, "deflection_first", check, reasons, wave="first shock")
+    M2 = scalar_of(turn_state(M, d1, g).M2)
+    d2 = check_shock_turn(d2, M2, g, "deflection_second", check, reasons, upstream="M2",
+                          wave="second shock", free_stream=M)
+    theta_max = scalar_of(detachment_angles(M, g)[0])
+    shape = np.shape(M)
+    raw = solve_ready(_MERGING, {"M": M, "d": 0.0, "g": g, "w:first": d1, "w:second": d2,
+                                 "guess:merged": np.minimum(d1 + d2, 0.999 * theta_max),
+                                 "guess:reflected": 0.0, "c:0": 0.0}, shape)
+    reasons.add(raw.failure)
+    failure = reasons.finish(check, "merging_shocks", inputs)
+    keep = _keeper(raw, shape)
+    merged, reflected = raw.waves["merged"], raw.waves["reflected"]
+    return (keep(raw.regions["4"].direction), keep(np.exp(raw.regions["4"].lnp)),
+            keep(merged[1].wave_angle), keep(merged[0]), _kind(raw, "reflected", shape),
+            keep(reflected[0]), keep(raw.regions["4"].M), keep(raw.regions["5"].M), failure)
 
 
 # ---------------------------------------------------------------- pressure matching
-
 
 @dataclasses.dataclass(frozen=True, repr=False)
 class PressureMatchingWave(ResultTable):
     """The single wave that brings a stream to a given pressure."""
 
-    kind: object = unit_field("")  #: "shock" (p2/p1 > 1) or "fan" (< 1)
-    deflection: object = unit_field("rad")  #: magnitude of the flow turn
-    M2: object = unit_field("")  #: Mach number behind the wave
-    wave_angle: object = unit_field("rad")  #: shock angle from the upstream flow (NaN for a fan)
+    kind: FloatArray = unit_field("", "'shock' (p2/p1 > 1) or 'fan' (< 1)", dtype=str)
+    deflection: FloatArray = unit_field("rad", "magnitude of the flow turn")
+    M2: FloatArray = unit_field("", "Mach number behind the wave")
+    wave_angle: FloatArray = unit_field(
+        "rad", "shock angle from the upstream flow (NaN for a fan)")
     #: Mach angle of the fan's first line, from the upstream flow (NaN for a shock)
     fan_head_angle: object = unit_field("rad")
     #: Mach angle of the fan's last line, from the turned flow (NaN for a shock)
     fan_tail_angle: object = unit_field("rad")
-    failure: object = unit_field("", default="")  #: why a case has no solution ("" where solved)
+    failure: FloatArray = unit_field("", "why a case has no solution ('' where solved)",
+                                     dtype=str, default="")
 
 
-def turn_to_pressure(M1, p2_p1, *, gamma=1.4, errors="raise"):
+#: 1 -(lip wave, left, given pressure)-> 2.
+_LIP = plan_pattern("1", (WaveLink("lip wave", "1", "2", "left", "pressure"),), ())
+
+
+def turn_to_pressure(M1: ArrayInput, p2_p1: ArrayInput, *, gamma: ArrayInput = 1.4,
+                     errors: str = "raise") -> PressureMatchingWave:
     """The single shock or fan that takes a stream M1 to the pressure ratio p2/p1.
 
     As at the lip of a planar nozzle exhausting into still air: an
@@ -280,36 +319,38 @@ def turn_to_pressure(M1, p2_p1, *, gamma=1.4, errors="raise"):
     >>> lip.kind, round(float(np.degrees(lip.deflection)), 4), round(lip.M2, 4)
     ('shock', 7.4933, 1.7321)
     """
-    nx.check_errors_mode(errors)
-    M, _ = nx.to_si(M1, "M1", "dimensionless")
-    p, _ = nx.to_si(p2_p1, "p2_p1", "dimensionless")
-    g, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    arrays = nx.broadcast(M1=M, p2_p1=p, gamma=g)
-    shape = arrays[0].shape
-    M0, p0, g0 = (a.reshape(-1) for a in arrays)
-    M = nx.check_mach_supersonic(M0, "M1", errors)
-    g = nx.check_gamma(g0, errors)
-    failure = _input_reasons(M0, M, g0, g)
+    call = Call(errors)
+    call.take("M1", M1)
+    call.take("p2_p1", p2_p1)
+    call.take("gamma", gamma, keep_scalar=True)
+    return call.run(PressureMatchingWave, _pressure_core)
+
+
+def _pressure_core(M, p, g, check):
+    """Checked core of :func:`turn_to_pressure` (floats or case-shaped arrays)."""
+    reasons = CaseReasons(M)
+    M, g = check_mach_and_gamma(M, g, check, reasons)
     with np.errstate(invalid="ignore"):
-        positive = (p0 > 0) & ~np.isinf(p0) | np.isnan(p0)
-        _note(failure, ~positive, "p2_p1 = {} is not a finite pressure ratio > 0.", p0)
-        p = nx.reject(~positive, p0, "p2_p1", "finite and > 0", errors)
-        p_max = normal_shock_ratios((M - 1.0) * (M + 1.0), g).p2_p1
-        _note(failure, p > p_max, "the wave cannot reach p2_p1 = {}: a single shock gives at "
-              "most the normal-shock ratio {} of M1 = {}.", p, p_max, M)
-        p = nx.reject(p > p_max, p, "p2_p1", "at most the normal-shock pressure ratio of M1 "
-                      "(no single wave reaches more)", errors, limit=p_max,
-                      error_class=NoSolutionError)
-    pattern = WavePattern(M, gamma=g)
-    pattern.add_wave("lip wave", upstream="1", downstream="2", family="left", pressure=p)
-    solution = pattern.solve(errors="nan")
-    out = _shaped(shape, None)
-    wave = solution.wave("lip wave")
-    fan = np.asarray(wave.kind) == "fan"
-    return PressureMatchingWave(
-        _wave_kind(solution, "lip wave", shape), out(np.abs(wave.turn), True),
-        out(solution.region("2").M), out(wave.wave_angle, True),
-        out(np.where(fan, wave.head_mach_angle, np.nan), True),
-        out(np.where(fan, wave.tail_mach_angle, np.nan), True),
-        _raise_or_label(_collect_failures(failure, solution), shape, errors,
-                        "turn_to_pressure", {"M1": M, "p2_p1": p}))
+        positive = (p > 0) & (p != np.inf)
+        reasons.note(~positive if not reasons.scalar else not positive,
+                     "p2_p1 = {} is not a finite pressure ratio > 0.", p)
+        p = check.reject(~positive if not reasons.scalar else not positive, p, "p2_p1",
+                         "finite and > 0")
+        p_max = scalar_of(normal_shock_ratios((M - 1.0) * (M + 1.0), g).p2_p1)
+        reasons.note(p > p_max, "the wave cannot reach p2_p1 = {}: a single shock gives at "
+                     "most the normal-shock ratio {} of M1 = {}.", p, p_max, M)
+        p = check.reject(p > p_max, p, "p2_p1", "at most the normal-shock pressure ratio of M1 "
+                         "(no single wave reaches more)", limit=p_max,
+                         error_class=NoSolutionError)
+    shape = np.shape(M)
+    raw = solve_ready(_LIP, {"M": M, "d": 0.0, "g": g, "w:lip wave": p}, shape)
+    reasons.add(raw.failure)
+    failure = reasons.finish(check, "turn_to_pressure", {"M1": M, "p2_p1": p})
+    keep = _keeper(raw, shape)
+    turn, state = raw.waves["lip wave"]
+    fan = ~np.asarray(state.is_shock)
+    with np.errstate(invalid="ignore"):  # the Mach angles of a fan's head and tail
+        head = np.where(fan, mach_angle_of(raw.regions["1"].M), np.nan)
+        tail = np.where(fan, mach_angle_of(state.M2), np.nan)
+    return (_kind(raw, "lip wave", shape), keep(np.abs(turn)), keep(raw.regions["2"].M),
+            keep(state.wave_angle), keep(head), keep(tail), failure)

@@ -13,13 +13,15 @@ import dataclasses
 
 import numpy as np
 
-from .. import _numerics as nx
-from ..boundary.results import ResultTable, unit_field
-from ..relations.expansion_fans import fan_pressure_ratio, max_prandtl_meyer_angle, prandtl_meyer_angle
-from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
+from ..boundary import Call, ResultTable, as_si_scalar, unit_field
+from ..boundary.types import FloatArray
+from ..boundary.units import to_caller_units
+from ..errors import InvalidInputError
+from ..relations.expansion_fans import (fan_pressure_ratio, mach_from_prandtl_meyer_angle,
+                                        max_prandtl_meyer_angle, prandtl_meyer_angle)
+from ..relations.flow_state import FlowState
 from ..relations.isentropic import mach_after_isentropic_pressure_change, mach_angle_of
 from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
-from ..relations.flow_state import FlowState
 
 __all__ = ["pressure_deflection_polar", "PressureDeflectionPolar"]
 
@@ -38,14 +40,14 @@ class PressureDeflectionPolar(ResultTable):
     plus the turn).
     """
 
-    shock_direction: object = unit_field("rad")  #: flow direction behind the shock
-    shock_pressure_ratio: object = unit_field("")  #: p behind the shock over the stream's p
-    shock_wave_angle: object = unit_field("rad")  #: wave angle from the stream
-    shock_strong: object = unit_field("")  #: True on the strong branch
-    expansion_direction_left: object = unit_field("rad")  #: behind a left-running fan
-    expansion_direction_right: object = unit_field("rad")  #: behind a right-running fan
-    expansion_pressure_ratio: object = unit_field("")  #: p behind the fan over the stream's p
-    max_deflection: object = unit_field("rad")  #: θmax of the stream
+    shock_direction: FloatArray = unit_field("rad", "flow direction behind the shock")
+    shock_pressure_ratio: FloatArray = unit_field("", "p behind the shock over the stream's p")
+    shock_wave_angle: FloatArray = unit_field("rad", "wave angle from the stream")
+    shock_strong: FloatArray = unit_field("", "True on the strong branch", dtype=bool)
+    expansion_direction_left: FloatArray = unit_field("rad", "behind a left-running fan")
+    expansion_direction_right: FloatArray = unit_field("rad", "behind a right-running fan")
+    expansion_pressure_ratio: FloatArray = unit_field("", "p behind the fan over the stream's p")
+    max_deflection: FloatArray = unit_field("rad", "θmax of the stream")
 
 
 def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
@@ -89,18 +91,31 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     >>> round(float(np.max(polar.shock_pressure_ratio)), 4)
     4.5
     """
-    if not isinstance(state, FlowState):
-        state = FlowState(state, 101325.0, 288.15)
+    call = Call()
+    if isinstance(state, FlowState):
+        call.take("state.M", state.M)
+        call.take("state.direction", state.direction, "rad")
+        g = float(state.gas.gamma)
+    else:
+        call.take("state", state)  # a Mach number: air along x
+        call.take("direction", 0.0, "rad")
+        g = 1.4
+    if call.labels is not None or call.lazy:
+        raise InvalidInputError(
+            "pressure_deflection_polar traces curves of points (a last axis of points) for "
+            "plotting: give the state as a FlowState or Mach number of plain numbers, arrays "
+            "or Quantities, not DataArrays, Series or dask arrays (select a case first).")
+    if not isinstance(n, (int, np.integer)) or isinstance(n, (bool, np.bool_)) or n < 3:
+        raise InvalidInputError(f"n must be an integer >= 3; got {n!r}.")
     n = int(n)
-    if n < 3:
-        raise nx.InvalidInputError(f"n must be an integer >= 3; got {n}.")
+    min_pressure_ratio = as_si_scalar("min_pressure_ratio", min_pressure_ratio)
     if not 0.0 < min_pressure_ratio < 1.0:
-        raise nx.InvalidInputError(
+        raise InvalidInputError(
             f"min_pressure_ratio must be between 0 and 1; got {min_pressure_ratio!r}.")
-    M = nx.check_mach_supersonic(np.asarray(state.M_si, dtype=float), "state.M", "raise")
+    M, d = (np.asarray(v, dtype=float) for v in call.prepare())
+    M = np.asarray(call.check.supersonic_mach(M if M.ndim else float(M), "state.M"))
     M = M[..., None]
-    g = state.gas.gamma
-    d = state.direction_si[..., None]
+    d = d[..., None]
     mu = mach_angle_of(M)
     theta_max, beta_star = detachment_angles(M, g)
     # cluster points near both ends and near detachment with a cosine spacing in β
@@ -123,8 +138,23 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     turn = (nu_low - nu1) * np.linspace(0.0, 1.0, n)
     M_fan = mach_from_prandtl_meyer_angle(nu1 + turn, g)
     p_fan = fan_pressure_ratio(M, M_fan, g)
-    unit = getattr(state.direction, "units", None)  # the state's own angle unit, if any
-    out = lambda v: nx.angle_out(v, unit)  # noqa: E731
-    return PressureDeflectionPolar(
-        out(direction), pressure, out(wave_angle), strong, out(d - turn), out(d + turn),
-        p_fan, out(nx.scalar_or_array(theta_max[..., 0])))
+    angle = _angle_packer(call)
+    theta_max = theta_max[..., 0]
+    fields = (angle(direction), pressure, angle(wave_angle), strong, angle(d - turn),
+              angle(d + turn), p_fan, angle(float(theta_max) if theta_max.ndim == 0
+                                           else theta_max))
+    for value in fields:  # results are read-only, and share no memory
+        magnitude = getattr(value, "magnitude", value)
+        if isinstance(magnitude, np.ndarray):
+            magnitude.flags.writeable = False
+    return PressureDeflectionPolar(*fields)
+
+
+def _angle_packer(call):
+    """Angles in the caller's angle unit and registry when a Quantity was given."""
+    like = next((u for t, u in zip(call.unit_texts, call.units) if t == "rad" and u is not None
+                 and str(u.units) != "dimensionless"), None)
+    if call.registry is None:
+        return lambda value: np.array(value, dtype=float) if np.ndim(value) else value
+    return lambda value: to_caller_units(np.array(value, dtype=float) if np.ndim(value)
+                                         else value, "rad", like, call.registry)

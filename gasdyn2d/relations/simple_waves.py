@@ -29,7 +29,7 @@ from .oblique_shocks import (
     wave_angle_from_wv,
 )
 
-__all__ = ["WaveState", "turn_state", "turn_for_pressure_ratio"]
+__all__ = ["WaveState", "turn_state", "isentropic_turn_state", "turn_for_pressure_ratio"]
 
 
 class WaveState(NamedTuple):
@@ -97,40 +97,121 @@ def turn_state(M1, turn, gamma=1.4, strong=False):
 
 
 def _turn_state_block(M1, turn, gamma, strong):
-    """:func:`turn_state` on one block of equal-shape arrays (γ may be a scalar)."""
+    """:func:`turn_state` on one block of equal-shape arrays (γ may be a scalar).
+
+    Only the branch each case needs is computed: the shock relations where
+    turn > 0, the fan relations elsewhere; a block of one kind (the usual case in
+    a coupled solve) runs one branch on the whole block without gathering.
+    """
+    is_shock = turn > 0.0
+    n_shock = int(np.count_nonzero(is_shock))
+    if n_shock == is_shock.size:
+        return _shock_branch(M1, turn, gamma, strong)
+    if n_shock == 0:
+        return _simple_wave_branch(M1, turn, gamma, compression=False)
+    fan = ~is_shock
+    pick = (lambda a, m: a) if np.ndim(gamma) == 0 else (lambda a, m: a[m])  # noqa: E731
+    shock = _shock_branch(M1[is_shock], turn[is_shock], pick(gamma, is_shock), strong)
+    expansion = _simple_wave_branch(M1[fan], turn[fan], pick(gamma, fan), compression=False)
+    out = []
+    for a, b in zip(shock, expansion):
+        field = np.empty(M1.shape, dtype=np.result_type(a, b))
+        field[is_shock] = a
+        field[fan] = b
+        out.append(field)
+    return tuple(out)
+
+
+def _shock_branch(M1, theta, gamma, strong):
+    """WaveState fields of oblique shocks of deflection θ > 0 (equal-shape arrays)."""
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        is_shock = turn > 0.0
-        # the shock, in the cancellation-free variables w = Mn1² - 1 and v = M1² cos²β
-        theta = np.where(is_shock, turn, 0.0)
+        # the shock, in the cancellation-free variables z = w/(M1² - 1), y = 1 - z
+        # (w = Mn1² - 1, v = M1² cos²β): exact down to M1 - 1 = 1e-12
         z, y, a, invalid = scaled_wv_from_deflection(M1, theta, gamma, strong)
-        detached = is_shock & invalid & (M1 >= 1.0)
-        z = np.where(invalid, np.nan, z)
+        detached = invalid & (M1 >= 1.0)
+        if invalid.any():
+            z = np.where(invalid, np.nan, z)
         w, v = a * z, a * y
         beta = wave_angle_from_scaled_wv(z, y, a)
         shock = normal_shock_ratios(w, gamma)
-        shock_M2 = shock.M2 / np.sin(beta - theta)
-        shock_slope = _shock_log_pressure_slope(M1, w, v, gamma, strong)
+        M2 = shock.M2 / np.sin(beta - theta)
+        slope = _shock_log_pressure_slope(M1, w, v, gamma, strong)
+        is_shock = np.ones(M1.shape, dtype=bool)
+        return (M2, shock.p2_p1, shock.T2_T1, shock.p02_p01, beta, is_shock, slope, detached,
+                np.zeros(M1.shape, dtype=bool))
 
+
+def _simple_wave_branch(M1, turn, gamma, compression):
+    """WaveState fields of centred simple waves: ν2 = ν1 - turn (equal-shape arrays).
+
+    An expansion fan for turn <= 0; with ``compression`` also an isentropic
+    (Prandtl–Meyer) compression for turn > 0, which cannot slow the flow below
+    sonic (ν2 < 0 is flagged ``detached``: no simple compression turns that far).
+    """
+    with np.errstate(invalid="ignore", divide="ignore"):
         nu1 = prandtl_meyer_angle(M1, gamma)
-        nu2 = nu1 - np.where(is_shock, 0.0, turn)
-        M_fan = mach_from_prandtl_meyer_angle(nu2, gamma)
-        # a fan never slows the flow: no rounding of the inverse may give M2 < M1
-        M_fan = np.where(turn == 0.0, M1, np.maximum(M_fan, M1))
-        vacuum = np.isnan(M_fan) & ~is_shock & np.isfinite(turn) & np.isfinite(M1)
-        p_fan = fan_pressure_ratio(M1, M_fan, gamma)
-        T_fan = (1.0 + 0.5 * (gamma - 1.0) * M1**2) / (1.0 + 0.5 * (gamma - 1.0) * M_fan**2)
-        fan_slope = gamma * M_fan**2 / np.sqrt((M_fan - 1.0) * (M_fan + 1.0))
-        fan_slope = np.where(M_fan == 1.0, np.inf, fan_slope)
-        huge = M_fan > HUGE_MACH  # M_fan >= M1: M² may overflow; isentropic T ∝ p^((γ-1)/γ)
+        M2 = mach_from_prandtl_meyer_angle(nu1 - turn, gamma)
+        # a fan never slows the flow, a compression never speeds it up: no rounding of
+        # the inverse may say otherwise
+        if compression:
+            M2 = np.where(turn > 0.0, np.minimum(M2, M1), np.maximum(M2, M1))
+        else:
+            M2 = np.maximum(M2, M1)
+        M2 = np.where(turn == 0.0, M1, M2)
+        finite = np.isfinite(turn) & np.isfinite(M1) & (M1 >= 1.0)
+        lost = np.isnan(M2) & finite
+        vacuum = lost & (turn < 0.0)
+        choked = lost & (turn > 0.0)
+        p = fan_pressure_ratio(M1, M2, gamma)
+        with np.errstate(over="ignore"):
+            T = (1.0 + 0.5 * (gamma - 1.0) * M1**2) / (1.0 + 0.5 * (gamma - 1.0) * M2**2)
+            slope = gamma * M2**2 / np.sqrt((M2 - 1.0) * (M2 + 1.0))
+        slope = np.where(M2 == 1.0, np.inf, slope)
+        huge = M2 > HUGE_MACH  # M2 >= M1: M² may overflow; isentropic T ∝ p^((γ-1)/γ)
         if nx.any_true(huge):
-            T_fan = np.where(huge, p_fan ** ((gamma - 1.0) / gamma), T_fan)
-            fan_slope = np.where(huge, gamma * M_fan / np.sqrt(1.0 - 1.0 / M_fan / M_fan),
-                                 fan_slope)
+            T = np.where(huge, p ** ((gamma - 1.0) / gamma), T)
+            slope = np.where(huge, gamma * M2 / np.sqrt(1.0 - 1.0 / M2 / M2), slope)
+        shape = M1.shape
+        return (M2, p, T, np.where(np.isnan(M1 + turn), np.nan, np.ones(shape)),
+                np.full(shape, np.nan), np.zeros(shape, dtype=bool), slope, choked, vacuum)
 
-        pick = lambda a, b: np.where(is_shock, a, b)  # noqa: E731
-        return (pick(shock_M2, M_fan), pick(shock.p2_p1, p_fan), pick(shock.T2_T1, T_fan),
-                pick(shock.p02_p01, 1.0 + 0.0 * M1), pick(beta, np.nan), is_shock,
-                pick(shock_slope, fan_slope), detached, vacuum)
+
+def isentropic_turn_state(M1, turn, gamma=1.4):
+    """State behind the centred simple wave that turns a stream M1 by ``turn`` [rad].
+
+    Like :func:`turn_state`, but a compression (turn > 0) is isentropic: a
+    Prandtl–Meyer compression, ν2 = ν1 - turn, instead of an oblique shock.
+    Exact while its characteristics do not meet (they converge and would
+    coalesce into a shock some distance from the wall). A compression past
+    ν2 = 0 (to below sonic speed) has no simple-wave solution: ``detached`` is
+    set and the fields are NaN. Negative turns are the same fans as
+    :func:`turn_state`.
+
+    Parameters
+    ----------
+    M1, turn, gamma : float or ndarray
+        Upstream Mach number (>= 1), signed turn [rad], ratio of specific heats.
+
+    Returns
+    -------
+    WaveState
+        ``is_shock`` False everywhere, ``p02_p01`` = 1, ``wave_angle`` NaN.
+
+    References
+    ----------
+    Ames Research Staff (1953), NACA Report 1135, eq. 171 (the Prandtl–Meyer function).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.relations.simple_waves import isentropic_turn_state
+    >>> state = isentropic_turn_state(2.0, np.radians([10.0, -10.0]))
+    >>> np.round(state.M2, 5), np.round(state.p2_p1, 5)
+    (array([1.65142, 2.38489]), array([1.7052 , 0.54797]))
+    """
+    M1, turn, gamma = nx.broadcast_cases(gamma, M1, turn)
+    return WaveState(*nx.chunked(
+        lambda m, t, g: _simple_wave_branch(m, t, g, compression=True), M1, turn, gamma))
 
 
 def _turn_state_scalar(M1, turn, gamma, strong):
@@ -172,7 +253,8 @@ def _fan_state_scalar(M1, turn, gamma):
         M_fan = max(M_fan, M1)
     elif M1 != M1:
         M_fan = math.nan
-    vacuum = M_fan != M_fan and math.isfinite(turn) and math.isfinite(M1)
+    vacuum = (M_fan != M_fan and math.isfinite(turn) and math.isfinite(M1) and M1 >= 1.0
+              and turn < 0.0)
     h = 0.5 * (gamma - 1.0)
     p_fan = fan_pressure_ratio(M1, M_fan, gamma)
     if M_fan > HUGE_MACH:  # as in the array form: no M² where it may overflow
@@ -182,8 +264,8 @@ def _fan_state_scalar(M1, turn, gamma):
         T_fan = (1.0 + h * (M1 * M1)) / (1.0 + h * (M_fan * M_fan))
         slope = math.inf if M_fan == 1.0 else (
             gamma * (M_fan * M_fan) / nx.fsqrt((M_fan - 1.0) * (M_fan + 1.0)))
-    return WaveState(M_fan, p_fan, T_fan, 1.0 + 0.0 * M1, math.nan, False, slope, False,
-                     vacuum)
+    recovery = math.nan if M1 != M1 or turn != turn else 1.0
+    return WaveState(M_fan, p_fan, T_fan, recovery, math.nan, False, slope, False, vacuum)
 
 def turn_for_pressure_ratio(M1, p2_p1, gamma=1.4):
     """Signed turn [rad] of the single wave that takes a stream M1 to pressure ratio p2/p1.
