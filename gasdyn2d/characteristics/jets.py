@@ -13,12 +13,11 @@ import numpy as np
 
 from .. import _numerics as nx
 from .._display import ResultTable, unit_field
+from .fan_nets import band_segments, march_fan_band
 from .unit_processes import (
     CharacteristicNet,
-    band_segments,
     check_design_input,
     check_line_count,
-    march_fan_band,
 )
 from ..errors import InvalidInputError
 from ..relations.expansion_fans import prandtl_meyer_angle

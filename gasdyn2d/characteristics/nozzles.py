@@ -14,15 +14,14 @@ import numpy as np
 from .. import _numerics as nx
 from .._display import ResultTable, unit_field
 from .channels import march_rows
+from .fan_nets import band_segments, march_fan_band
 from .unit_processes import (
     CharacteristicNet,
     check_design_input,
     check_line_count,
     WallContour,
-    band_segments,
     cancellation_point,
     mach_angle_from_nu,
-    march_fan_band,
     symmetry_point,
 )
 from ..errors import InvalidInputError, NoSolutionError
