@@ -40,7 +40,7 @@ class _Band:
     valid: np.ndarray
     boundary_index: object
     fold: tuple | None  # (x, y, b, a) of the first folded cell, or None
-    #: axisymmetric nets: node records (x, y, θ, ν, z, μ) stacked, shape (6, b, a)
+    #: axisymmetric nets: node records (x, y, θ, ν, z, μ, s) stacked, shape (7, b, a)
     records: np.ndarray | None = None
 
 
@@ -237,12 +237,13 @@ def _march_axisymmetric_band(fan_theta, fan_nu, corner_x, corner_y, boundary, n_
     else:
         raise ValueError(f"boundary {boundary!r} is planar only; use 'open' or 'pressure'")
     shape = (n_plus_lines + 1, int(boundary_index(n_plus_lines)) + 1)
-    records = np.full((6,) + shape + batch, np.nan)  # x, y, θ, ν, z, μ
+    records = np.full((7,) + shape + batch, np.nan)  # x, y, θ, ν, z, μ, sin θ / y
     valid = np.zeros(shape, dtype=bool)
     mach = mach_from_prandtl_meyer_angle(fan_nu, gamma)
     z = np.sqrt((mach - 1.0) * (mach + 1.0))
     mu = np.arctan2(1.0, z)
-    records[:, 0, 1:n + 1] = np.broadcast_arrays(corner_x, corner_y, fan_theta, fan_nu, z, mu)
+    records[:, 0, 1:n + 1] = np.broadcast_arrays(corner_x, corner_y, fan_theta, fan_nu, z, mu,
+                                                 np.sin(fan_theta) / corner_y)
     valid[0, 1:n + 1] = True
     b_all = np.arange(1, n_plus_lines + 1)
     top = boundary_index(b_all)
@@ -296,7 +297,7 @@ def _advance_diagonal(records, b, a, top, boundary, boundary_index, nu_boundary,
     inner = ~on_axis & ~on_top
     if np.any(inner):
         i, j = b[inner], a[inner]  # from (b, a-1) along the C+ and (b-1, a) along the C-
-        # both upstream points in one gather: (6, 2, m), row 0 on the C+, row 1 on the C-
+        # both upstream points in one gather: (7, 2, m), row 0 on the C+, row 1 on the C-
         node, t_plus, t_minus = _interior_stacked(records[:, (i, i - 1), (j - 1, j)], gamma)
         records[:, i, j] = node
         ok[inner] = (t_plus > 0) & (t_minus > 0)
@@ -316,8 +317,7 @@ def _advance_diagonal(records, b, a, top, boundary, boundary_index, nu_boundary,
         above = (i - 1, np.where(has_above, i + 1, i))
         upstream = records[:, i - 1, i]
         has_above = has_above.reshape(has_above.shape + (1,) * len(batch))
-        slope = np.where(has_above, np.sin(records[2][above]) / records[1][above],
-                         np.sin(upstream[2]) / upstream[1])
+        slope = np.where(has_above, records[6][above], upstream[6])
         node, t_minus = _axis_axisymmetric(upstream, slope, gamma)
         records[:, i, i] = node
         ok[on_axis] = t_minus > 0

@@ -64,8 +64,9 @@ a length <= 0 means characteristics of one family have crossed (the net has
 folded: a shock has formed there) and the node is not valid.
 
 Node state: the processes work on (x, y, θ, ν), and the axisymmetric ones on
-the record ``(x, y, θ, ν, z, μ, Q)`` of :func:`node_record` (z = cot μ =
-√(M² - 1), Q the source term). Rotational flow would add one field to the
+the record ``(x, y, θ, ν, z, μ, s)`` of :func:`node_record` (z = cot μ =
+√(M² - 1), s = sin θ / y, on the axis its limit ∂θ/∂y). Rotational flow
+would add one field to the
 record (the entropy, or the stagnation-pressure ratio, carried along the
 streamline as a third characteristic) and its term to the two compatibility
 relations; the geometry stays an explicit argument.
@@ -233,16 +234,24 @@ def cot_mach_angle_step(z, nu, gamma=1.4):
     return z * np.exp(np.minimum(np.maximum(np.log(nu / nu_z) / log_slope, -1.0), 1.0))
 
 
-def node_record(x, y, theta, nu, gamma=1.4):
-    """Plain core: the node record (x, y, θ, ν, z, μ) of the axisymmetric processes.
+#: the fields of an axisymmetric node record, in order
+RECORD_FIELDS = ("x", "y", "theta", "nu", "cot_mu", "mu", "sin_theta_over_y")
 
-    z = cot μ = √(M² - 1), μ the Mach angle [rad]; lengths [m], angles [rad].
+
+def node_record(x, y, theta, nu, gamma=1.4, axis_slope=None):
+    """Plain core: the node record (x, y, θ, ν, z, μ, s) of the axisymmetric processes.
+
+    z = cot μ = √(M² - 1), μ the Mach angle [rad], s = sin θ / y [1/m]; on the
+    axis (y = 0) s is the limit ∂θ/∂y, ``axis_slope`` [rad/m] (NaN if not
+    given). Lengths [m], angles [rad].
     """
     x, y, theta, nu = (np.asarray(v, dtype=float) for v in (x, y, theta, nu))
     mach = mach_from_prandtl_meyer_angle(nu, gamma)
-    with np.errstate(invalid="ignore"):
+    with np.errstate(invalid="ignore", divide="ignore"):
         z = np.sqrt((mach - 1.0) * (mach + 1.0))
-    return x, y, theta, nu, z, mach_angle_of(mach)
+        ratio = np.sin(theta) / y
+    ratio = np.where(y == 0.0, np.nan if axis_slope is None else axis_slope, ratio)
+    return x, y, theta, nu, z, mach_angle_of(mach), ratio
 
 
 def _sin_ratio(angle):
@@ -268,26 +277,32 @@ def _interior_axisymmetric(p1, p2, gamma, correctors=AXISYMMETRIC_CORRECTORS):
         a± = ½ t± sin μ̄ sin(θ̄)/(θ̄ ȳ)  (sin θ̄/θ̄ from the previous pass),
 
     which keeps the pass stable where the source term is stiff (Q ∝ θ/y near
-    the axis). Returns the record of the new node and (t_plus, t_minus).
+    the axis). A C+ leaving the axis (y1 = 0) takes instead the trapezoid of
+    sin θ / y, ½(s1 + sin θ3 / y3) with s1 = ∂θ/∂y of the axis node, exact when
+    θ is proportional to y with a slope linear along the segment (near the
+    axis, where θ is odd in y); the mean state there would take ∂θ/∂y at the
+    far end only. Returns the record of the new node and (t_plus, t_minus).
     """
     return _interior_stacked(np.stack([np.asarray(p1, dtype=float), np.asarray(p2, dtype=float)],
                                       axis=1), gamma, correctors)
 
 
 def _interior_stacked(upstream, gamma, correctors=AXISYMMETRIC_CORRECTORS):
-    """:func:`_interior_axisymmetric` on the records of points 1 and 2 stacked, shape (6, 2, ...).
+    """:func:`_interior_axisymmetric` on the records of points 1 and 2 stacked, shape (7, 2, ...).
 
     The C+ quantities are row 0 and the C- ones row 1 of every stacked array,
     so one numpy call serves both characteristics (the marchers gather both
     upstream points with one index).
     """
-    x_up, y_up, th_up, nu_up, z_up, mu_up = upstream
+    x_up, y_up, th_up, nu_up, z_up, mu_up, s_up = upstream
     th1, th2 = th_up
     signs = _PLUS_MINUS.reshape((2,) + (1,) * (th_up.ndim - 1))
     direction_up = th_up + signs * mu_up
     k_minus, k_plus = th2 + nu_up[1], th1 - nu_up[0]
     half_sum, half_difference = 0.5 * (k_minus + k_plus), 0.5 * (k_minus - k_plus)
     dx, dy = x_up[1] - x_up[0], y_up[1] - y_up[0]
+    from_axis = y_up == 0.0  # a C+ leaving the axis (row 0 only)
+    any_from_axis = bool(from_axis.any())
     # Euler predictor: upstream directions, source term at the upstream state
     directions, th3, mu3, z3 = direction_up, th_up, mu_up, 0.5 * (z_up[0] + z_up[1])
     for step in range(correctors + 1):
@@ -295,17 +310,22 @@ def _interior_stacked(upstream, gamma, correctors=AXISYMMETRIC_CORRECTORS):
         det = sine[0] * cosine[1] - cosine[0] * sine[1]  # sin(angle+ - angle-)
         t = (cosine[::-1] * dy - sine[::-1] * dx) / det  # (t_plus, t_minus)
         y3 = y_up[0] + t[0] * sine[0]
-        mean_th = 0.5 * (th_up + th3)
-        a = t * np.sin(0.5 * (mu_up + mu3)) * _sin_ratio(mean_th) / (y_up + y3)
-        th3 = (half_sum + 0.5 * (a[1] * th2 - a[0] * th1)) / (1.0 - 0.5 * (a[1] - a[0]))
-        nu3 = half_difference + 0.5 * (a[1] * (th2 + th3) + a[0] * (th1 + th3))
+        # source term of each segment, Q̄ t = c + a θ3 (linear in the unknown θ3)
+        t_sin_mu = t * np.sin(0.5 * (mu_up + mu3))
+        a = t_sin_mu * _sin_ratio(0.5 * (th_up + th3)) / (y_up + y3)
+        c = a * th_up
+        if any_from_axis:  # trapezoid of sin θ / y, exact for θ = f(x)·y near the axis
+            a = np.where(from_axis, 0.5 * t_sin_mu * _sin_ratio(th3) / y3, a)
+            c = np.where(from_axis, 0.5 * t_sin_mu * s_up, c)
+        th3 = (half_sum + 0.5 * (c[1] - c[0])) / (1.0 - 0.5 * (a[1] - a[0]))
+        nu3 = half_difference + 0.5 * (c[1] + c[0] + (a[1] + a[0]) * th3)
         z3 = cot_mach_angle_step(z3, nu3, gamma)
         mu3 = np.arctan2(1.0, z3)
         if step == correctors:
             break
         directions = 0.5 * (direction_up + (th3 + signs * mu3))
     x3 = x_up[0] + t[0] * cosine[0]
-    return (x3, y3, th3, nu3, z3, mu3), t[0], t[1]
+    return (x3, y3, th3, nu3, z3, mu3, np.sin(th3) / y3), t[0], t[1]
 
 
 def _axis_axisymmetric(p2, axis_slope, gamma, correctors=AXISYMMETRIC_CORRECTORS):
@@ -315,10 +335,10 @@ def _axis_axisymmetric(p2, axis_slope, gamma, correctors=AXISYMMETRIC_CORRECTORS
     rule on sin θ / y, which is smooth up to the axis (θ is odd in y) and
     tends to ∂θ/∂y there. Returns the record of the new node and t_minus.
     """
-    x2, y2, th2, nu2, z2, mu2 = p2
+    x2, y2, th2, nu2, z2, mu2, s2 = p2
     minus2 = th2 - mu2
     k_minus = th2 + nu2
-    slope_mean = 0.5 * (np.sin(th2) / y2 + axis_slope)
+    slope_mean = 0.5 * (s2 + axis_slope)
     direction, mu3, z3 = minus2, mu2, z2
     for step in range(correctors + 1):
         t_minus = -y2 / np.sin(direction)
@@ -332,14 +352,14 @@ def _axis_axisymmetric(p2, axis_slope, gamma, correctors=AXISYMMETRIC_CORRECTORS
         direction = 0.5 * (minus2 - mu3)
     x3 = x2 + t_minus * np.cos(direction)
     zero = 0.0 * x3
-    return (x3, zero, zero, nu3, z3, mu3), t_minus
+    return (x3, zero, zero, nu3, z3, mu3, axis_slope + zero), t_minus
 
 
 def _free_boundary_axisymmetric(p1, xb, yb, thetab, nu_boundary, gamma,
                                 correctors=AXISYMMETRIC_CORRECTORS):
     """Constant-pressure boundary node from the C+ of record ``p1`` and the boundary
     streamline from (xb, yb) at ``thetab``. Returns the record, t_plus and t_stream."""
-    x1, y1, th1, nu1, z1, mu1 = p1
+    x1, y1, th1, nu1, z1, mu1, _ = p1
     plus1, k_plus = th1 + mu1, th1 - nu1
     nu3 = np.asarray(nu_boundary, dtype=float) + 0.0 * xb
     mach3 = mach_from_prandtl_meyer_angle(nu3, gamma)
@@ -357,7 +377,7 @@ def _free_boundary_axisymmetric(p1, xb, yb, thetab, nu_boundary, gamma,
             break
         x3, y3, t_plus, t_stream = _intersect(x1, y1, 0.5 * (plus1 + (th3 + mu3)),
                                               xb, yb, 0.5 * (thetab + th3))
-    return (x3, y3, th3, nu3, z3, mu3), t_plus, t_stream
+    return (x3, y3, th3, nu3, z3, mu3, np.sin(th3) / y3), t_plus, t_stream
 
 
 def _wall_axisymmetric(p2, wall, side, gamma):
@@ -366,7 +386,7 @@ def _wall_axisymmetric(p2, wall, side, gamma):
     The planar iteration of :func:`wall_point` with the source term of the
     arriving segment (averaged property). Returns the record and the signed length.
     """
-    x2, y2, th2, nu2, z2, mu2 = p2
+    x2, y2, th2, nu2, z2, mu2, _ = p2
     sign = -1.0 if side == "lower" else 1.0
     invariant = th2 - sign * nu2
     upstream_direction = th2 + sign * mu2
@@ -390,10 +410,11 @@ def _wall_axisymmetric(p2, wall, side, gamma):
         x3 = x_new
         if settled and step >= AXISYMMETRIC_CORRECTORS:
             break
-    return (x3, y3, theta3, nu3, z3, mu3), t_char
+    return (x3, y3, theta3, nu3, z3, mu3, np.sin(theta3) / y3), t_char
 
 
-def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4, *, geometry="planar"):
+def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4, *, geometry="planar",
+                   axis_slope=None):
     """Plain core: new interior node from point 1 (on its C+) and point 2 (on its C-).
 
     Parameters
@@ -405,8 +426,10 @@ def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4, *, geome
     gamma : float, optional
         Ratio of specific heats [-].
     geometry : {"planar", "axisymmetric"}, optional
-        Planar flow, or axisymmetric flow with y the radius (point 1 may lie
-        on the axis, y1 = 0).
+        Planar flow, or axisymmetric flow with y the radius.
+    axis_slope : float or ndarray, optional
+        Axisymmetric flow with point 1 on the axis (y1 = 0): ∂θ/∂y there
+        [rad/m], the limit of sin θ / y (see :func:`symmetry_point`).
 
     Returns
     -------
@@ -451,9 +474,9 @@ def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4, *, geome
     (0.866025403784, 1.0)
     """
     if check_geometry(geometry):
-        node, t_plus, t_minus = _interior_axisymmetric(node_record(x1, y1, theta1, nu1, gamma),
-                                                       node_record(x2, y2, theta2, nu2, gamma),
-                                                       gamma)
+        node, t_plus, t_minus = _interior_axisymmetric(
+            node_record(x1, y1, theta1, nu1, gamma, axis_slope=axis_slope),
+            node_record(x2, y2, theta2, nu2, gamma), gamma)
         return node[0], node[1], node[2], node[3], t_plus, t_minus
     mu1 = mach_angle_from_nu(nu1, gamma)
     mu2 = mach_angle_from_nu(nu2, gamma)
