@@ -45,7 +45,8 @@ class _Band:
 
 
 def march_fan_band(fan_theta, fan_nu, corner_x, corner_y, *, boundary, n_plus_lines,
-                   nu_boundary=None, gamma=1.4, x_stop=np.inf, geometry="planar"):
+                   nu_boundary=None, gamma=1.4, x_stop=np.inf, geometry="planar",
+                   upstream_lines=None):
     """Plain core: march the net of a centred fan at an upper corner over a symmetry line or axis.
 
     The n lines of the fan leave the corner as C- characteristics (label a =
@@ -77,6 +78,13 @@ def march_fan_band(fan_theta, fan_nu, corner_x, corner_y, *, boundary, n_plus_li
         Axisymmetric: y is the radius and the invariants gather the source
         term, so node states are found with the positions, diagonal by
         diagonal (see :mod:`gasdyn2d.characteristics.unit_processes`).
+    upstream_lines : tuple (x, y, θ, ν) of arrays of length M, optional
+        Axisymmetric only: M C+ lines started upstream of the fan (on the exit
+        plane of a jet, from the lip down to the axis), which become C+ lines
+        1..M; the axis reflections follow as lines M+1, ... In planar flow
+        they would all carry the same state (a uniform region); in round flow
+        they resolve the flow, and the boundary, ahead of the first reflected
+        wave.
 
     Returns
     -------
@@ -106,7 +114,7 @@ def march_fan_band(fan_theta, fan_nu, corner_x, corner_y, *, boundary, n_plus_li
     if check_geometry(geometry):
         return _march_axisymmetric_band(np.asarray(fan_theta, float), np.asarray(fan_nu, float),
                                         corner_x, corner_y, boundary, n_plus_lines, nu_boundary,
-                                        gamma, x_stop)
+                                        gamma, x_stop, upstream_lines)
     n = len(fan_theta)
     if boundary == "cancel":
         def boundary_index(b):
@@ -218,7 +226,7 @@ def band_segments(valid, skip=None):
 
 
 def _march_axisymmetric_band(fan_theta, fan_nu, corner_x, corner_y, boundary, n_plus_lines,
-                             nu_boundary, gamma, x_stop):
+                             nu_boundary, gamma, x_stop, upstream_lines=None):
     """The axisymmetric twin of the planar band march: states found diagonal by diagonal.
 
     ``fan_theta`` and ``fan_nu`` may have a trailing batch axis (n, K): K fans
@@ -245,28 +253,45 @@ def _march_axisymmetric_band(fan_theta, fan_nu, corner_x, corner_y, boundary, n_
     records[:, 0, 1:n + 1] = np.broadcast_arrays(corner_x, corner_y, fan_theta, fan_nu, z, mu,
                                                  np.sin(fan_theta) / corner_y)
     valid[0, 1:n + 1] = True
+    offset = 0
+    if upstream_lines is not None:  # their start nodes sit in column a = 0
+        ux, uy, uth, unu = (np.asarray(v, dtype=float) for v in upstream_lines)
+        offset = ux.size
+        u_mach = mach_from_prandtl_meyer_angle(unu, gamma)
+        uz = np.sqrt((u_mach - 1.0) * (u_mach + 1.0))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ratio = np.where(uy > 0.0, np.sin(uth) / uy, 0.0)
+        start = np.array([ux, uy, uth, unu, uz, np.arctan2(1.0, uz), ratio])
+        records[:, 1:offset + 1, 0] = start.reshape(start.shape + (1,) * len(batch))
+        valid[1:offset + 1, 0] = True
     b_all = np.arange(1, n_plus_lines + 1)
     top = boundary_index(b_all)
     fold = None
     with np.errstate(all="ignore"):  # folded or sonic nodes are caught by the checks below
         fold = _march_diagonals(records, valid, b_all, top, boundary, boundary_index,
-                                nu_boundary, gamma, x_stop, stop_on_fold=not batch)
+                                nu_boundary, gamma, x_stop, stop_on_fold=not batch,
+                                offset=offset)
     x, y, theta, nu = records[:4]
     return _Band(x, y, theta, nu, valid, boundary_index, fold, records)
 
 
 def _march_diagonals(records, valid, b_all, top, boundary, boundary_index, nu_boundary, gamma,
-                     x_stop, stop_on_fold=True):
-    """The diagonals of an axisymmetric band, in place; returns the first fold or None."""
+                     x_stop, stop_on_fold=True, offset=0):
+    """The diagonals of an axisymmetric band, in place; returns the first fold or None.
+
+    C+ lines 1..``offset`` start upstream (column a = 0) and meet the fan from
+    a = 1; line b > offset starts on the axis at a = b - offset.
+    """
     n_plus_lines = b_all[-1]
+    lowest = np.where(b_all <= offset, 1, b_all - offset)
     for s in range(2, int(top[-1]) + n_plus_lines + 1):
         a_all = s - b_all
-        keep = (a_all >= b_all) & (a_all <= top)
+        keep = (a_all >= lowest) & (a_all <= top)
         b, a = b_all[keep], a_all[keep]
         if b.size == 0:
             continue
         ok = _advance_diagonal(records, b, a, top[keep], boundary, boundary_index, nu_boundary,
-                               gamma)
+                               gamma, offset)
         if not stop_on_fold:
             if not np.all(ok):  # this candidate of the batch is lost from here on
                 nodes = records[:, b, a]
@@ -279,7 +304,7 @@ def _march_diagonals(records, valid, b_all, top, boundary, boundary_index, nu_bo
             bad = np.flatnonzero(~ok)
             first = bad[np.argmin(np.where(np.isnan(x3[bad]), np.inf, x3[bad]))]
             i, j = b[first], a[first]
-            upstream = (i, j - 1) if j > i else (i - 1, j)
+            upstream = (i, j - 1) if j > i - offset else (i - 1, j)
             records[:, b, a] = np.nan
             return (float(records[0][upstream]), float(records[1][upstream]), int(i), int(j))
         valid[b, a] = True
@@ -288,11 +313,12 @@ def _march_diagonals(records, valid, b_all, top, boundary, boundary_index, nu_bo
     return None
 
 
-def _advance_diagonal(records, b, a, top, boundary, boundary_index, nu_boundary, gamma):
+def _advance_diagonal(records, b, a, top, boundary, boundary_index, nu_boundary, gamma,
+                      offset=0):
     """Records of the nodes (b, a) of one diagonal (written in place); False where it folds."""
     batch = records.shape[3:]
     ok = np.ones((b.size,) + batch, dtype=bool)
-    on_axis = a == b
+    on_axis = (a == b - offset) & (b > offset)
     on_top = (a == top) & (boundary == "pressure")
     inner = ~on_axis & ~on_top
     if np.any(inner):
@@ -310,16 +336,17 @@ def _advance_diagonal(records, b, a, top, boundary, boundary_index, nu_boundary,
         ok[on_top] = (t_plus > 0) & (t_stream >= 0)
     if np.any(on_axis):
         i = b[on_axis]
+        j = i - offset  # the C- line reflected here
         # ∂θ/∂y on the axis from the node above on this diagonal (θ odd in y: θ/y to O(y²)),
         # or from the arriving point where there is none (the last fan line of a kernel)
         # (not on the corner row b = 0: the corner is not above the node)
-        has_above = (i + 1 <= boundary_index(i - 1)) & (i >= 2)
-        above = (i - 1, np.where(has_above, i + 1, i))
-        upstream = records[:, i - 1, i]
+        has_above = (j + 1 <= boundary_index(i - 1)) & (i >= 2)
+        above = (i - 1, np.where(has_above, j + 1, j))
+        upstream = records[:, i - 1, j]
         has_above = has_above.reshape(has_above.shape + (1,) * len(batch))
         slope = np.where(has_above, records[6][above], upstream[6])
         node, t_minus = _axis_axisymmetric(upstream, slope, gamma)
-        records[:, i, i] = node
+        records[:, i, j] = node
         ok[on_axis] = t_minus > 0
     nu3 = records[3, b, a]
     return ok & (nu3 > 0.0) & np.isfinite(records[0, b, a]) & np.isfinite(records[1, b, a])

@@ -118,6 +118,8 @@ class ExitPlane:
     wall_p_p0: float  #: static over stagnation pressure at the lip (the wall's last point)
     discharge_coefficient: float  #: throat mass flow over that of a uniform sonic throat
     gamma: float  #: ratio of specific heats the net was computed with
+    #: where the profile comes from: "characteristics" (the computed net) or a named model
+    model: str = "characteristics"
 
     @classmethod
     def uniform(cls, geometry, throat_size, exit_size, mach, gamma, discharge_coefficient=1.0):
@@ -185,6 +187,8 @@ class NozzlePerformance(ResultTable):
     divergence_factor: float = unit_field("")  #: ∫ρu² dA / ∫ρuV dA on the exit plane
     area_ratio: float = unit_field("")  #: exit-to-throat area ratio of the contour
     geometry: str = unit_field("")  #: "planar" (per unit depth) or "axisymmetric"
+    #: "characteristics" (the exit plane of the computed net) or the model used instead
+    exit_flow: str = unit_field("", default="characteristics")
 
 
 def nozzle_performance(plane, *, p0, T0, p_ambient, gas=AIR, errors="raise"):
@@ -282,6 +286,7 @@ def _performance_core(plane, integrals, p0, T0, pa, gas):
                                                              gamma),
         "divergence_factor": integrals["axial_momentum"] / integrals["momentum"],
         "area_ratio": integrals["area_ratio"], "geometry": plane.geometry,
+        "exit_flow": plane.model,
     }
 
 
@@ -318,7 +323,7 @@ def _performance_result(core, plane, p0_unit, t0_unit, pa_unit):
         separation_likely=out("separation_likely", None),
         thrust_coefficient_ideal=out("thrust_coefficient_ideal", None),
         divergence_factor=core["divergence_factor"], area_ratio=core["area_ratio"],
-        geometry=core["geometry"],
+        geometry=core["geometry"], exit_flow=core["exit_flow"],
     )
 
 
