@@ -16,6 +16,7 @@ from .. import _numerics as nx
 from .._display import ResultTable, unit_field
 from .fan_nets import band_segments, march_fan_band
 from .unit_processes import (
+    ROUND_LINE_LIMIT,
     CharacteristicNet,
     check_design_input,
     check_geometry,
@@ -195,8 +196,9 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
                        "finite and > 1 (an under-expanded jet; an over-expanded one starts "
                        "with lip shocks, outside this method)")
     check_design_input(b, "slot_half_height", b > 0.0, "finite and > 0", "m")
-    n = check_line_count(n_characteristics)
-    geometry_name = "axisymmetric" if check_geometry(geometry) else "planar"
+    round_ = check_geometry(geometry)
+    n = check_line_count(n_characteristics, ROUND_LINE_LIMIT if round_ else 5000)
+    geometry_name = "axisymmetric" if round_ else "planar"
     if not isinstance(n_cells, int) or not 1 <= n_cells <= 20:
         raise InvalidInputError(f"n_cells must be an integer from 1 to 20; got {n_cells!r}.")
     M, ratio, g, b = float(M), float(ratio), float(g), float(b)

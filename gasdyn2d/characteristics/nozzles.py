@@ -29,6 +29,7 @@ from .round_nozzles import (
     sauer_round_start_line,
 )
 from .unit_processes import (
+    ROUND_LINE_LIMIT,
     CharacteristicNet,
     check_design_input,
     check_geometry,
@@ -155,7 +156,7 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     flow between the last fan line and the uniform exit characteristic; it
     bends further out after the corner before straightening
     (``max_wall_angle`` > ``corner_angle``). The area ratio converges to the
-    isentropic one at first order: -4.9e-4 (Mach 2) and -7.1e-4 (Mach 3)
+    isentropic one at first order: -4.8e-4 (Mach 2) and -6.6e-4 (Mach 3)
     relative at n = 100. See :mod:`gasdyn2d.characteristics.round_nozzles`.
 
     References
@@ -190,10 +191,11 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     check_design_input(g, "gamma", g > 1.0, "a finite ratio of specific heats > 1")
     check_design_input(M, "M_exit", M > 1.0, "finite and > 1 (a supersonic exit)")
     check_design_input(h, "throat_half_height", h > 0.0, "finite and > 0", "m")
-    n = check_line_count(n_characteristics)
+    round_ = check_geometry(geometry)
+    n = check_line_count(n_characteristics, ROUND_LINE_LIMIT if round_ else 5000)
     M, g, h = float(M), float(g), float(h)
     angle_unit = None if length_unit is None else nx.ureg().radian
-    if check_geometry(geometry):
+    if round_:
         return _round_minimum_length_nozzle(M, n, g, h, length_unit, angle_unit)
     wall_x, wall_y, band = minimum_length_contour(M, n, g)
     net = _nozzle_net(band, n, h, g)

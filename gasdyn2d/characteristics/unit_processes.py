@@ -108,6 +108,9 @@ AXISYMMETRIC_CORRECTORS = 1
 
 #: the geometry switch of every unit process, marcher and design tool
 GEOMETRIES = ("planar", "axisymmetric")
+#: most fan lines of a round nozzle or jet: their nets hold seven fields per node, and a
+#: round nozzle's kernel is marched for seven candidate corner angles at once (60 MB at 400)
+ROUND_LINE_LIMIT = 400
 
 
 def check_geometry(geometry):
@@ -130,14 +133,15 @@ def check_design_input(value, name, ok, requirement, unit_text=""):
                                 f"{nx.format_value(value, unit_text)}.")
 
 
-def check_line_count(n):
-    """An integer number of fan lines from 2 to 5000."""
+def check_line_count(n, limit=5000):
+    """An integer number of fan lines from 2 to ``limit`` (5000; 400 for the round nets,
+    whose node records, seven per node and marched as a batch, grow as n²)."""
     if isinstance(n, bool) or not isinstance(n, numbers.Integral) or n < 2:
         raise InvalidInputError(
             f"n_characteristics must be an integer >= 2; got {n!r}. Use 20-200 lines: "
             "the area-ratio error falls as n^(-4/3).")
-    if n > 5000:
-        raise InvalidInputError(f"n_characteristics must be <= 5000; got {n}.")
+    if n > limit:
+        raise InvalidInputError(f"n_characteristics must be <= {limit}; got {n}.")
     return int(n)
 
 
