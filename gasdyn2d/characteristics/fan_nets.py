@@ -13,6 +13,7 @@ Plain core: :func:`march_fan_band` (planar or axisymmetric) and
 from __future__ import annotations
 
 import dataclasses
+import functools
 
 import numpy as np
 
@@ -264,34 +265,23 @@ def _march_axisymmetric_band(fan_theta, fan_nu, corner_x, corner_y, boundary, n_
         start = np.array([ux, uy, uth, unu, uz, np.arctan2(1.0, uz), ratio])
         records[:, 1:offset + 1, 0] = start.reshape(start.shape + (1,) * len(batch))
         valid[1:offset + 1, 0] = True
-    b_all = np.arange(1, n_plus_lines + 1)
-    top = boundary_index(b_all)
-    fold = None
     with np.errstate(all="ignore"):  # folded or sonic nodes are caught by the checks below
-        fold = _march_diagonals(records, valid, b_all, top, boundary, boundary_index,
-                                nu_boundary, gamma, x_stop, stop_on_fold=not batch,
-                                offset=offset)
+        fold = _march_diagonals(records, valid, n_plus_lines, n, boundary, nu_boundary, gamma,
+                                x_stop, stop_on_fold=not batch, offset=offset)
     x, y, theta, nu = records[:4]
     return _Band(x, y, theta, nu, valid, boundary_index, fold, records)
 
 
-def _march_diagonals(records, valid, b_all, top, boundary, boundary_index, nu_boundary, gamma,
+def _march_diagonals(records, valid, n_plus_lines, n_fan, boundary, nu_boundary, gamma,
                      x_stop, stop_on_fold=True, offset=0):
     """The diagonals of an axisymmetric band, in place; returns the first fold or None.
 
     C+ lines 1..``offset`` start upstream (column a = 0) and meet the fan from
     a = 1; line b > offset starts on the axis at a = b - offset.
     """
-    n_plus_lines = b_all[-1]
-    lowest = np.where(b_all <= offset, 1, b_all - offset)
-    for s in range(2, int(top[-1]) + n_plus_lines + 1):
-        a_all = s - b_all
-        keep = (a_all >= lowest) & (a_all <= top)
-        b, a = b_all[keep], a_all[keep]
-        if b.size == 0:
-            continue
-        ok = _advance_diagonal(records, b, a, top[keep], boundary, boundary_index, nu_boundary,
-                               gamma, offset)
+    for plan in _diagonal_plans(int(n_plus_lines), int(n_fan), offset, boundary):
+        b, a = plan.b, plan.a
+        ok = _advance_diagonal(records, plan, nu_boundary, gamma)
         if not stop_on_fold:
             if not np.all(ok):  # this candidate of the batch is lost from here on
                 nodes = records[:, b, a]
@@ -313,40 +303,79 @@ def _march_diagonals(records, valid, b_all, top, boundary, boundary_index, nu_bo
     return None
 
 
-def _advance_diagonal(records, b, a, top, boundary, boundary_index, nu_boundary, gamma,
-                      offset=0):
-    """Records of the nodes (b, a) of one diagonal (written in place); False where it folds."""
-    batch = records.shape[3:]
-    ok = np.ones((b.size,) + batch, dtype=bool)
-    on_axis = (a == b - offset) & (b > offset)
-    on_top = (a == top) & (boundary == "pressure")
-    inner = ~on_axis & ~on_top
-    if np.any(inner):
+@dataclasses.dataclass(frozen=True)
+class _DiagonalPlan:
+    """Index arrays of one diagonal of a band: its nodes in the order inner, top, axis."""
+
+    b: np.ndarray
+    a: np.ndarray
+    inner: tuple  # gather index of (upstream C+, upstream C-) and the nodes' own index
+    top: tuple | None
+    axis: tuple | None
+
+
+@functools.lru_cache(maxsize=32)
+def _diagonal_plans(n_plus_lines, n_fan, offset, boundary):
+    """The diagonals of a band (same for every march of that shape: computed once)."""
+    b_all = np.arange(1, n_plus_lines + 1)
+    top = b_all + n_fan if boundary == "pressure" else np.full_like(b_all, n_fan)
+    lowest = np.where(b_all <= offset, 1, b_all - offset)
+    plans = []
+    for s in range(2, int(top[-1]) + n_plus_lines + 1):
+        a_all = s - b_all
+        keep = (a_all >= lowest) & (a_all <= top)
+        b, a = b_all[keep], a_all[keep]
+        if b.size == 0:
+            continue
+        on_axis = (a == b - offset) & (b > offset)
+        on_top = (a == top[keep]) & (boundary == "pressure")
+        inner = ~on_axis & ~on_top
         i, j = b[inner], a[inner]  # from (b, a-1) along the C+ and (b-1, a) along the C-
-        # both upstream points in one gather: (7, 2, m), row 0 on the C+, row 1 on the C-
-        node, t_plus, t_minus = _interior_stacked(records[:, (i, i - 1), (j - 1, j)], gamma)
-        records[:, i, j] = node
-        ok[inner] = (t_plus > 0) & (t_minus > 0)
-    if np.any(on_top):
-        i, j = b[on_top], a[on_top]  # C+ from (b, a-1), boundary streamline from (b-1, a-1)
+        inner_plan = ((np.stack([i, i - 1]), np.stack([j - 1, j])), (i, j))
+        top_plan = None
+        if np.any(on_top):
+            i, j = b[on_top], a[on_top]  # C+ from (b, a-1), boundary streamline from (b-1, a-1)
+            top_plan = ((i, j - 1), (i - 1, j - 1), (i, j))
+        axis_plan = None
+        if np.any(on_axis):
+            i = b[on_axis]
+            j = i - offset  # the C- line reflected here
+            # ∂θ/∂y on the axis from the node above on this diagonal (θ odd in y: θ/y to
+            # O(y²)), or from the arriving point where there is none (the last fan line of a
+            # kernel; the corner row b = 0 is not above the node)
+            top_above = (i - 1) + n_fan if boundary == "pressure" else np.full_like(i, n_fan)
+            has_above = (j + 1 <= top_above) & (i >= 2)
+            axis_plan = ((i - 1, j), (i - 1, np.where(has_above, j + 1, j)), has_above, (i, j))
+        order = np.concatenate([np.flatnonzero(inner), np.flatnonzero(on_top),
+                                np.flatnonzero(on_axis)])
+        plans.append(_DiagonalPlan(b[order], a[order], inner_plan, top_plan, axis_plan))
+    return tuple(plans)
+
+
+def _advance_diagonal(records, plan, nu_boundary, gamma):
+    """Records of the nodes of one diagonal (written in place); False where it folds."""
+    batch = records.shape[3:]
+    checks = []
+    gather, own = plan.inner
+    if own[0].size:
+        node, t_plus, t_minus = _interior_stacked(records[:, gather[0], gather[1]], gamma)
+        records[:, own[0], own[1]] = node
+        checks.append((t_plus > 0) & (t_minus > 0))
+    if plan.top is not None:
+        upstream, previous, own = plan.top
         node, t_plus, t_stream = _free_boundary_axisymmetric(
-            records[:, i, j - 1], records[0, i - 1, j - 1], records[1, i - 1, j - 1],
-            records[2, i - 1, j - 1], nu_boundary, gamma)
-        records[:, i, j] = node
-        ok[on_top] = (t_plus > 0) & (t_stream >= 0)
-    if np.any(on_axis):
-        i = b[on_axis]
-        j = i - offset  # the C- line reflected here
-        # ∂θ/∂y on the axis from the node above on this diagonal (θ odd in y: θ/y to O(y²)),
-        # or from the arriving point where there is none (the last fan line of a kernel)
-        # (not on the corner row b = 0: the corner is not above the node)
-        has_above = (j + 1 <= boundary_index(i - 1)) & (i >= 2)
-        above = (i - 1, np.where(has_above, j + 1, j))
-        upstream = records[:, i - 1, j]
+            records[:, upstream[0], upstream[1]], records[0][previous], records[1][previous],
+            records[2][previous], nu_boundary, gamma)
+        records[:, own[0], own[1]] = node
+        checks.append((t_plus > 0) & (t_stream >= 0))
+    if plan.axis is not None:
+        upstream, above, has_above, own = plan.axis
+        arriving = records[:, upstream[0], upstream[1]]
         has_above = has_above.reshape(has_above.shape + (1,) * len(batch))
-        slope = np.where(has_above, records[6][above], upstream[6])
-        node, t_minus = _axis_axisymmetric(upstream, slope, gamma)
-        records[:, i, j] = node
-        ok[on_axis] = t_minus > 0
-    nu3 = records[3, b, a]
-    return ok & (nu3 > 0.0) & np.isfinite(records[0, b, a]) & np.isfinite(records[1, b, a])
+        slope = np.where(has_above, records[6][above], arriving[6])
+        node, t_minus = _axis_axisymmetric(arriving, slope, gamma)
+        records[:, own[0], own[1]] = node
+        checks.append(t_minus > 0)
+    ok = np.concatenate(checks) if len(checks) > 1 else checks[0]
+    nodes = records[:4, plan.b, plan.a]
+    return ok & (nodes[3] > 0.0) & np.isfinite(nodes[0]) & np.isfinite(nodes[1])
