@@ -70,7 +70,8 @@ def source_state(x, y, round_=True):
 
 
 def source_state_array(x, y, round_=True):
-    """Exact (θ, ν) of source flow on arrays: mpmath-checked float inverse of A/A*."""
+    """Exact (θ, ν) of source flow on arrays, through the package's inverse of A/A*
+    (checked against mpmath to ~1e-12 in test_isentropic; spot-checked here below)."""
     from gasdyn2d.relations.expansion_fans import prandtl_meyer_angle
     from gasdyn2d.relations.isentropic import mach_from_area_ratio
 
@@ -243,6 +244,12 @@ def _cone_march(n, round_=True, length=4.0):
     error = np.maximum(np.abs(th - exact_theta), np.abs(nu_n - exact_nu))
     middle = (np.arctan2(yy, x) > 0.25 * alpha) & (np.arctan2(yy, x) < 0.75 * alpha)
     return error.max(), error[middle].max()
+
+
+def test_array_source_state_matches_the_mpmath_one():
+    theta, nu = source_state_array(np.array([1.7, 3.0]), np.array([0.2, 0.5]))
+    for k, (x, y) in enumerate([(1.7, 0.2), (3.0, 0.5)]):
+        assert (theta[k], nu[k]) == pytest.approx(source_state(x, y), rel=1e-12)
 
 
 def test_source_flow_in_a_cone_is_reproduced_at_second_order():

@@ -77,7 +77,7 @@ def _fingerprint(value, digest=None):
     return digest
 
 
-def _unit_process_cases():
+def _unit_process_cases(**switch):
     rng = np.random.default_rng(12)  # invented states
     th1, th2 = rng.uniform(-0.2, 0.2, (2, 7))
     nu1, nu2 = rng.uniform(0.2, 0.9, (2, 7))
@@ -85,12 +85,12 @@ def _unit_process_cases():
     bend = WallContour.bend(0.0, 0.3, 0.12, 1.5)
     roof = WallContour.bend(2.0, 0.3, -0.1, 1.5)
     return (
-        interior_point(0.0, 0.0, th1, nu1, 0.1, y2, th2, nu2),
-        interior_point(0.0, 0.0, th1, nu1, 0.1, y2, th2, nu2, gamma=1.3),
-        symmetry_point(0.0, y2, th2, nu2),
-        wall_point(0.0, 1.0, th2, nu2, bend, "lower"),
-        wall_point(0.0, 1.0, th1, nu1, roof, "upper"),
-        free_boundary_point(0.0, 0.0, th1, nu1, -0.5, y2, th2, 0.5 * (nu1 + nu2)),
+        interior_point(0.0, 0.0, th1, nu1, 0.1, y2, th2, nu2, **switch),
+        interior_point(0.0, 0.0, th1, nu1, 0.1, y2, th2, nu2, gamma=1.3, **switch),
+        symmetry_point(0.0, y2, th2, nu2, **switch),
+        wall_point(0.0, 1.0, th2, nu2, bend, "lower", **switch),
+        wall_point(0.0, 1.0, th1, nu1, roof, "upper", **switch),
+        free_boundary_point(0.0, 0.0, th1, nu1, -0.5, y2, th2, 0.5 * (nu1 + nu2), **switch),
         cancellation_point(0.0, 0.0, th1, nu1, -1.0, y2, th2),
     )
 
@@ -151,6 +151,23 @@ RECORDED_VALUES = {
 @pytest.mark.parametrize("name", sorted(CASES))
 def test_planar_results_are_bit_for_bit_unchanged(name):
     assert _fingerprint(CASES[name]()).hexdigest() == RECORDED[name]
+
+
+# The same cases with the geometry switch set to "planar" explicitly: the same bits.
+EXPLICIT_PLANAR = {
+    "minimum_length_nozzle M2.8 n50": lambda: minimum_length_nozzle(
+        2.8, n_characteristics=50, geometry="planar"),
+    "rounded_throat_nozzle M2.8 R2 n21": lambda: rounded_throat_nozzle(
+        2.8, throat_radius=2.0, n_points=21, geometry="planar"),
+    "underexpanded_slot_jet M1.6 1.1 n60": lambda: underexpanded_slot_jet(
+        1.6, 1.1, n_characteristics=60, geometry="planar"),
+    "unit processes": lambda: _unit_process_cases(geometry="planar"),
+}
+
+
+@pytest.mark.parametrize("name", sorted(EXPLICIT_PLANAR))
+def test_explicit_planar_switch_is_bit_for_bit_unchanged(name):
+    assert _fingerprint(EXPLICIT_PLANAR[name]()).hexdigest() == RECORDED[name]
 
 
 @pytest.mark.parametrize("name, field, expected", [
