@@ -91,7 +91,8 @@ class SlotJet(ResultTable):
     max_half_width: object = unit_field("m")  #: widest half-width of the first cell
     max_width_x: object = unit_field("m")  #: where the boundary is widest
     cell_length: object = unit_field("m")  #: twice the distance to the widest point (planar)
-    cell_length_linear: object = unit_field("m")  #: 2h√(Mj² - 1), h = full width (round: 1.306 D…)
+    #: linear theory: 2h√(Mj² - 1), h the full width (round: 1.3064 D√(Mj² - 1))
+    cell_length_linear: object = unit_field("m")
     shock_formed: bool = unit_field("")  #: compressions coalesced within the marched length
     shock_x: object = unit_field("m")  #: where the net first folds (NaN if not)
     shock_y: object = unit_field("m")

@@ -7,10 +7,11 @@ radius 1).
 
 A round minimum-length nozzle differs from the planar one in three ways:
 
-- The largest wall angle is not ν(M_exit)/2: the waves of the corner fan
+- The corner angle is not ν(M_exit)/2: the waves of the corner fan
   strengthen as they converge on the axis, so the corner angle that brings the
   axis to M_exit exactly where the last fan line arrives is found by a
-  root-find on whole kernel marches (about 0.22 ν(M_exit) at Mach 2).
+  root-find on whole kernel marches (about 0.22 ν(M_exit) at Mach 2). Nor is
+  it the largest wall angle: the wall bends further out past the corner.
 - The flow between the kernel's last C- and the exit characteristic is no
   simple wave: it is marched (:mod:`~gasdyn2d.characteristics.turning_regions`)
   and the wall traced through it as a streamline.
@@ -27,8 +28,9 @@ A round minimum-length nozzle differs from the planar one in three ways:
 Root-finding the corner angle: the kernels of several candidate angles are
 marched together (one batch: numpy's per-call cost is shared), first on
 coarse nets (8 and 16 lines, extrapolated to n at second order, about the
-measured order of the corner angle), then seven candidates at n around it. The root of the residual polynomial through them is
-the corner angle, and the kernel there is the Lagrange interpolant of the
+measured order of the corner angle), then seven candidates at n around it.
+The root of the residual polynomial through them is the corner angle, and
+the kernel there is the Lagrange interpolant of the
 seven marched kernels in the angle (the march is smooth in it): its error
 (∝ spread⁷) is estimated from the six-point interpolant at run time and must
 be below 1e-11 of the node coordinates, else the candidates close in on the
@@ -113,7 +115,7 @@ def _scan_root(fractions, excess):
 
 
 def _stencil_root(centre, spread, n, nu_exit, gamma):
-    """March seven candidates centre·(1 + spread·(-3..3)); the root and the kernel there, or None."""
+    """March candidates centre·(1 + spread·(-3..3)); the root and the kernel there, or None."""
     u = _STENCIL
     fractions = centre * (1.0 + spread * u)
     excess, band = _axis_excess(fractions, n, nu_exit, gamma)
@@ -198,7 +200,7 @@ class RoundDesign:
     """Plain-core result of a round nozzle design (throat radius 1)."""
 
     wall: np.ndarray  # (4, k): x, y, θ, ν of the wall from the throat corner to the lip
-    corner_angle: float  # largest wall angle [rad]
+    corner_angle: float  # wall angle where the design starts: throat corner or arc end [rad]
     net: tuple  # (x, y, θ, ν, plus_segments, minus_segments) of the characteristic net
 
 
@@ -212,8 +214,8 @@ def round_minimum_length_design(M_exit, n, gamma=1.4):
     line = records[:, np.arange(n + 1), n]  # the last fan line, corner (b = 0) to the axis
     exit_radius = np.sqrt(float(isentropic_area_ratio(M_exit, gamma)))
     exit_length = exit_radius / np.sin(float(mach_angle_of(M_exit)))
-    # the wall rises to its lip, near the isentropic exit radius (within a few per cent)
-    def wall_bound(x):
+
+    def wall_bound(x):  # the wall rises to its lip, within a few per cent of exit_radius
         return np.full_like(x, 1.25 * exit_radius)
 
     # C- lines at half the C+ count (at least 48): the area ratio moves by 1e-5 at n = 100
@@ -458,7 +460,7 @@ class _RoundKernel:
         return self.minus_line_from_arc(self.x[self.upper[k]], arc, nu_exit, gamma)
 
     def minus_line_from_arc(self, x_a, arc, nu_exit, gamma):
-        """Records (7, m + 1) of the C- from the arc at ``x_a`` to the axis, and ν - ν_exit there."""
+        """Records (7, m + 1) of the C- from the arc at ``x_a`` to the axis, and ν - ν_exit."""
         upper = self.upper
         k = int(np.clip(np.searchsorted(self.x[upper], x_a), 1, upper.size - 1))
         i, j = upper[k - 1], upper[k]

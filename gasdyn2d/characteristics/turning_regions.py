@@ -1,4 +1,4 @@
-"""The straightening wall of a nozzle: the flow between a kernel's last C- and the exit characteristic.
+"""The straightening wall of a nozzle: the flow between a kernel's last C- and the exit.
 
 A nozzle kernel (the corner fan of a minimum-length nozzle, the throat arc of
 a rounded-throat one) ends on a C- characteristic running from the wall to

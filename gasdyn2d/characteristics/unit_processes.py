@@ -208,7 +208,7 @@ def _nu_of_cot_mu(z, gamma):
 
 
 def cot_mach_angle_step(z, nu, gamma=1.4):
-    """Plain core: one Newton step towards z = cot μ = √(M² - 1) of the flow with Prandtl–Meyer angle ``nu``.
+    """Plain core: one Newton step towards z = cot μ = √(M² - 1) of the flow of ν = ``nu``.
 
     Newton's method on ln ν(z) = ln ν in ln z, nearly linear from M = 1 (where
     ν ∝ z³) to M → ∞: from a guess 8 % off one step leaves 2e-3, two 2e-6,
