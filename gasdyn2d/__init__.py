@@ -46,6 +46,8 @@ from .characteristics.unit_processes import CharacteristicNet, WallContour
 from .characteristics.nozzles import MinimumLengthNozzle, RoundedThroatNozzle, minimum_length_nozzle, rounded_throat_nozzle
 from .characteristics.channels import ChannelFlow, channel_flow
 from .characteristics.jets import SlotJet, underexpanded_slot_jet
+from .characteristics.conical_nozzles import ConicalNozzle, conical_nozzle
+from .characteristics.performance import NozzlePerformance
 from .design.section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
 from .design.intakes import RampIntake, ramp_intake
 from .design.intake_design import ContractionLimits, OptimalRamps, contraction_limits, optimal_ramps
@@ -76,6 +78,7 @@ __all__ = [
     "minimum_length_nozzle", "MinimumLengthNozzle", "rounded_throat_nozzle",
     "RoundedThroatNozzle", "channel_flow", "ChannelFlow", "underexpanded_slot_jet", "SlotJet",
     "WallContour", "CharacteristicNet",
+    "conical_nozzle", "ConicalNozzle", "NozzlePerformance",
     "Section", "SectionLoads", "shock_expansion_loads", "linear_loads", "second_order_loads",
     "ramp_intake", "RampIntake", "optimal_ramps", "OptimalRamps", "contraction_limits",
     "ContractionLimits",

@@ -191,3 +191,90 @@ def test_jet_properties(M_exit, ratio, gamma):
         assert np.allclose(invariant[seg[:, 0]], invariant[seg[:, 1]], rtol=0, atol=1e-11)
     assert np.all(net.y >= 0) and np.all(net.y <= jet.boundary_y.max() + 1e-12)
     assert jet.boundary_theta[0] == pytest.approx(jet.lip_turn, rel=1e-14)
+
+
+# ---------------------------------------------------------------- round jets
+# Sources: linear theory of a round jet (Prandtl 1904; Pack 1950): the Fourier-Bessel
+# solution of the linearised potential with p = pa on the boundary r = R. Its shock-cell
+# length is π D √(Mj² - 1)/j0,1 = 1.3064 D √(Mj² - 1) (j0,1 = 2.404826, the first zero of
+# J0; Abramowitz & Stegun 1964, Table 9.5), and its boundary slope is proportional to
+# Σ sin(j0,k ξ)/j0,k, ξ = x/(R√(Mj² - 1)): recomputed below with scipy's Bessel zeros.
+
+
+def _linear_round_boundary_slope(xi, zeros=20000):
+    """Σ sin(j_k ξ)/j_k with Lanczos factors (the series converges like a Fourier series)."""
+    from scipy.special import jn_zeros
+
+    j = jn_zeros(0, zeros)
+    sigma = np.sinc(np.arange(1, zeros + 1) / (zeros + 1))
+    return np.array([np.sum(sigma * np.sin(j * x) / j) for x in np.atleast_1d(xi)])
+
+
+def test_round_widest_point_constant_from_the_bessel_series():
+    from scipy.optimize import brentq
+
+    from gasdyn2d.characteristics.jets import ROUND_JET_WIDEST_POINT
+
+    root = brentq(lambda x: _linear_round_boundary_slope(x)[0], 1.3, 1.6, xtol=1e-12)
+    assert root == pytest.approx(ROUND_JET_WIDEST_POINT, abs=2e-8)
+    assert float(linear_cell_length(2.0, 2.0, "axisymmetric")) == pytest.approx(
+        math.pi * 2.0 * math.sqrt(3.0) / 2.404825557695773, rel=1e-15)
+
+
+def test_weak_round_jet_against_linear_theory():
+    # The boundary angle along the first half-cell, normalised by the lip turn, follows the
+    # linear theory's slope 2 Σ sin(j_k ξ)/j_k (to O(ε)); the widest point tends to
+    # ξ = 1.43634 at first order in ε (measured 1.4399, 1.4379 at ε = 0.01, 0.005, n = 40).
+    jet = underexpanded_slot_jet(2.0, 1.01, n_characteristics=40, geometry="axisymmetric")
+    beta = math.sqrt(jet.mach_jet**2 - 1)
+    xi = np.array([0.2, 0.5, 1.0, 1.3, 1.6])
+    angle = np.interp(xi * beta, jet.boundary_x, jet.boundary_theta) / jet.lip_turn
+    linear = 2 * _linear_round_boundary_slope(xi)
+    assert np.allclose(angle, linear, atol=0.1), (angle, linear)
+    assert np.allclose(angle[:3], linear[:3], atol=0.003)
+    departures = []
+    for eps in (0.02, 0.01, 0.005):
+        weak = underexpanded_slot_jet(2.0, 1 + eps, n_characteristics=40,
+                                      geometry="axisymmetric")
+        assert weak.max_width_x_linear == pytest.approx(
+            1.43634071 * math.sqrt(weak.mach_jet**2 - 1), rel=1e-8)
+        departures.append(weak.max_width_x / weak.max_width_x_linear - 1)
+    assert all(0 < d < eps for d, eps in zip(departures, (0.02, 0.01, 0.005)))
+    ratios = [a / b for a, b in zip(departures, departures[1:])]
+    assert all(1.7 < r < 2.3 for r in ratios), ratios  # first order in ε
+    assert math.isnan(jet.cell_length)  # not symmetric about the widest point: no cell
+    assert jet.cell_length_linear == pytest.approx(
+        1.3064 * 2 * beta, rel=1e-4)  # Pack's round cell, D = 2R
+
+
+def test_round_jet_first_shock_forms_near_the_lip_compressions():
+    # A round boundary curves inward at once after the lip, sending compressions to the axis,
+    # where they focus: the first fold (the start of the intercepting shock) converges under
+    # refinement (measured x = 3.05, 2.85, 2.78, 2.73 for n = 10-80 at Me 2, pe/pa = 1.5),
+    # well ahead of a planar jet's (8.2 half-heights here).
+    shocks = [underexpanded_slot_jet(2.0, 1.5, n_characteristics=n, geometry="axisymmetric")
+              for n in (10, 20, 40)]
+    x = [float(s.shock_x) for s in shocks]
+    assert all(s.shock_formed for s in shocks)
+    assert abs(x[2] - x[1]) < abs(x[1] - x[0])
+    assert 2.6 < x[2] < 3.0
+    planar = underexpanded_slot_jet(2.0, 1.5, n_characteristics=40)
+    assert planar.shock_x > 2 * x[2]
+
+
+@settings(max_examples=6, deadline=None)
+@given(st.floats(1.1, 3.0), st.floats(1.02, 4.0))
+def test_round_jet_properties(M_exit, ratio):
+    # Ambient pressure on the boundary; boundary leaving the lip at the lip turn; the net's
+    # compatibility relations with the source term hold on every segment to O(h²).
+    jet = underexpanded_slot_jet(M_exit, ratio, n_characteristics=12, geometry="axisymmetric")
+    from gasdyn2d.relations.isentropic import pressure_ratio
+
+    net = jet.net
+    assert net.p_p0[jet.boundary_nodes] == pytest.approx(pressure_ratio(M_exit) / ratio,
+                                                         rel=1e-11)
+    assert jet.boundary_theta[0] == pytest.approx(jet.lip_turn, rel=1e-14)
+    assert np.all(np.isfinite(net.mach)) and np.all(net.y >= 0)
+    assert jet.geometry == "axisymmetric"
+    with pytest.raises(InvalidInputError, match="geometry"):
+        underexpanded_slot_jet(M_exit, ratio, geometry="annular")

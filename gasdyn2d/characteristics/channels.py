@@ -17,8 +17,12 @@ from ..boundary.results import ResultTable, unit_field
 from .unit_processes import (
     CharacteristicNet,
     WallContour,
+    _axis_axisymmetric,
     _interior,
+    _interior_stacked,
+    _wall_axisymmetric,
     check_design_input,
+    check_geometry,
     mach_angle_from_nu,
     symmetry_point,
     wall_point,
@@ -170,6 +174,8 @@ class _Row:
     index: np.ndarray  # global node numbers
     lower_on_wall: bool
     upper_on_wall: bool
+    z: np.ndarray | None = None  # cot μ, axisymmetric rows only
+    s: np.ndarray | None = None  # sin θ / y (∂θ/∂y on the axis), axisymmetric rows only
 
 
 class _Nodes:
@@ -181,14 +187,20 @@ class _Nodes:
         self.plus, self.minus = [], []
         self.lower, self.upper = [], []  # global indices of wall nodes
 
-    def add(self, x, y, theta, nu):
+    def add(self, x, y, theta, nu, *more):
+        """Append nodes (x, y, θ, ν and, for axisymmetric rows, the rest of their records)."""
         index = np.arange(self.count, self.count + len(x))
-        self.parts.append((x, y, theta, nu))
+        self.parts.append((x, y, theta, nu) + more)
         self.count += len(x)
         return index
 
     def arrays(self):
         return [np.concatenate([p[k] for p in self.parts]) for k in range(4)]
+
+    def records(self):
+        """All node records (axisymmetric rows: x, y, θ, ν, z, μ, s), shape (7, count)."""
+        return np.array([np.concatenate([p[k] for p in self.parts])
+                         for k in range(len(self.parts[0]))])
 
 
 def _march_channel(M, gamma, lower_wall, upper_wall, length, n, y_low, y_up):
@@ -198,28 +210,48 @@ def _march_channel(M, gamma, lower_wall, upper_wall, length, n, y_low, y_up):
                       gamma, lambda row: np.min(row.x) > length)
 
 
-def march_rows(x, y, theta, nu, lower_wall, upper_wall, gamma, stop):
+def march_rows(x, y, theta, nu, lower_wall, upper_wall, gamma, stop, geometry="planar"):
     """Plain core: march rows of nodes downstream from an initial data line.
 
     ``x, y, theta, nu`` give the initial line from the lower to the upper
     boundary (both end nodes on the boundaries). ``lower_wall`` is a
-    WallContour or None for the symmetry line y = 0; ``stop(row)`` is asked
-    before every step. Returns (nodes, last row, stop reason, fold position).
+    WallContour or None for the symmetry line y = 0 (the axis, in
+    axisymmetric flow); ``stop(row)`` is asked before every step. Returns
+    (nodes, last row, stop reason, fold position).
+
+    With ``geometry="axisymmetric"`` y is the radius and the axisymmetric
+    unit processes march the rows; a node on the axis takes ∂θ/∂y, the limit
+    of sin θ / y there, from the first interior node of its own row.
     """
     nodes = _Nodes()
-    row = _Row(x, y, theta, nu, mach_angle_from_nu(nu, gamma), nodes.add(x, y, theta, nu),
-               True, True)
+    axisymmetric = check_geometry(geometry)
+    if axisymmetric:
+        x, y, theta, nu = (np.asarray(v, dtype=float) for v in (x, y, theta, nu))
+        mu = mach_angle_from_nu(nu, gamma)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ratio = np.sin(theta) / y
+        if y[0] == 0.0:  # on the axis: ∂θ/∂y from the next node of the line
+            ratio[0] = ratio[1]
+        z = 1.0 / np.tan(mu)
+        row = _Row(x, y, theta, nu, mu, nodes.add(x, y, theta, nu, z, mu, ratio), True, True,
+                   z, ratio)
+    else:
+        row = _Row(x, y, theta, nu, mach_angle_from_nu(nu, gamma), nodes.add(x, y, theta, nu),
+                   True, True)
     nodes.lower.append(row.index[0])
     nodes.upper.append(row.index[-1])
     reason, fold = "length", (np.nan, np.nan)
+    advance = _next_row_axisymmetric if axisymmetric else _next_row
     for _ in range(_MAX_ROWS):
         if stop(row):
             break
-        new, status, where = _next_row(row, lower_wall, upper_wall, gamma)
+        with np.errstate(all="ignore"):  # folded or sonic nodes are caught by the checks
+            new, status, where = advance(row, lower_wall, upper_wall, gamma)
         if status != "ok":
             reason, fold = status, where
             break
-        new.index = nodes.add(new.x, new.y, new.theta, new.nu)
+        more = (new.z, new.mu, new.s) if axisymmetric else ()
+        new.index = nodes.add(new.x, new.y, new.theta, new.nu, *more)
         _connect(nodes, row, new)
         row = new
     return nodes, row, reason, fold
@@ -254,6 +286,38 @@ def _next_row(row, lower_wall, upper_wall, gamma):
         return None, "shock", _fold_position(row, folded, walls_folded)
     new = _Row(x, y, theta, nu, mach_angle_from_nu(nu, gamma), None,
                not row.lower_on_wall, not row.upper_on_wall)
+    return new, "ok", None
+
+
+def _next_row_axisymmetric(row, lower_wall, upper_wall, gamma):
+    """:func:`_next_row` with the axisymmetric unit processes (node records carry cot μ)."""
+    records = np.array([row.x, row.y, row.theta, row.nu, row.z, row.mu, row.s])
+    upstream = np.stack([records[:, :-1], records[:, 1:]], axis=1)  # (7, 2, m): C+ row 0
+    interior, t_plus, t_minus = _interior_stacked(upstream, gamma)
+    parts = [interior]
+    checks = [t_plus, t_minus]
+    if not row.lower_on_wall:
+        if lower_wall is None:  # the axis: ∂θ/∂y from the first interior node of this row
+            slope = interior[6][:1]
+            node, t_char = _axis_axisymmetric(records[:, :1], slope, gamma)
+        else:
+            node, t_char = _wall_axisymmetric(records[:, :1], lower_wall, "lower", gamma)
+        parts.insert(0, node)
+        checks.append(np.atleast_1d(t_char))
+    if not row.upper_on_wall:
+        node, t_char = _wall_axisymmetric(records[:, -1:], upper_wall, "upper", gamma)
+        parts.append(node)
+        checks.append(np.atleast_1d(t_char))
+    x, y, theta, nu, z, mu, ratio = (np.concatenate([np.atleast_1d(p[k]) for p in parts])
+                                     for k in range(7))
+    if np.any(~(nu > 0.0)):  # the stream has been compressed to M = 1
+        k = int(np.argmin(row.nu))
+        return None, "sonic", (float(row.x[k]), float(row.y[k]))
+    folded = np.concatenate([~(c > 0) for c in checks[:2]])
+    walls_folded = [~(c > 0) for c in checks[2:]]
+    if np.any(folded) or any(np.any(w) for w in walls_folded):
+        return None, "shock", _fold_position(row, folded, walls_folded)
+    new = _Row(x, y, theta, nu, mu, None, not row.lower_on_wall, not row.upper_on_wall, z, ratio)
     return new, "ok", None
 
 

@@ -1,8 +1,9 @@
-"""Planar under-expanded supersonic jet from a slot, by the method of characteristics.
+"""Under-expanded supersonic jet from a slot (planar) or a round nozzle, by characteristics.
 
-Unit boundary: :func:`underexpanded_slot_jet`. The net is marched by
-:func:`gasdyn2d.characteristics.unit_processes.march_fan_band` with a constant-pressure
-upper boundary.
+Unit boundary: :func:`underexpanded_slot_jet` (``geometry="planar"`` or
+``"axisymmetric"``). The net is marched by
+:func:`gasdyn2d.characteristics.fan_nets.march_fan_band` with a constant-pressure
+upper boundary, to the first shock.
 """
 
 from __future__ import annotations
@@ -13,26 +14,40 @@ import numpy as np
 
 from .. import _numerics as nx
 from ..boundary.results import ResultTable, unit_field
+from .fan_nets import band_segments, march_fan_band
 from .unit_processes import (
+    ROUND_LINE_LIMIT,
     CharacteristicNet,
-    band_segments,
     check_design_input,
+    check_geometry,
     check_line_count,
-    march_fan_band,
 )
 from ..errors import InvalidInputError
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
 
-__all__ = ["underexpanded_slot_jet", "SlotJet", "linear_cell_length"]
+__all__ = ["underexpanded_slot_jet", "SlotJet", "linear_cell_length", "ROUND_JET_WIDEST_POINT"]
 
 
-def linear_cell_length(M_jet, slot_width):
-    """Plain core: shock-cell length L = 2h√(M² - 1) of linear theory [m].
+#: first zero of the Bessel function J0 (Abramowitz & Stegun 1964, Table 9.5)
+_J0_FIRST_ZERO = 2.404825557695773
+#: linear theory of a round jet: its boundary is widest at x = ξ R √(Mj² - 1) with ξ the
+#: first root of Σ sin(j_k ξ)/j_k over the zeros j_k of J0 (derived here: the Fourier-Bessel
+#: solution of the linearised potential; computed with 10^5 zeros and Lanczos factors,
+#: 1.43634071 to 8 digits; a planar jet's is 2, half its cell)
+ROUND_JET_WIDEST_POINT = 1.43634071
+
+
+def linear_cell_length(M_jet, slot_width, geometry="planar"):
+    """Plain core: shock-cell length of linear theory [m], planar L = 2h√(M² - 1).
 
     ``slot_width`` h is the *full* width of the planar jet (twice the slot
     half-height): a wave leaving the lip crosses the half-width b four times
-    per cell at the Mach angle, L = 4b√(M² - 1) = 2h√(M² - 1).
+    per cell at the Mach angle, L = 4b√(M² - 1) = 2h√(M² - 1). For a round jet
+    (``geometry="axisymmetric"``) ``slot_width`` is the diameter D and
+    L = π D √(M² - 1)/j0 = 1.3064 D √(M² - 1), j0 = 2.404826 the first zero of
+    J0: the linearised potential is J0(kr) cos(kx/√(M² - 1))-like and the
+    boundary condition p = pa at r = D/2 needs J0(kD/2) = 0.
 
     References
     ----------
@@ -46,18 +61,23 @@ def linear_cell_length(M_jet, slot_width):
     >>> from gasdyn2d.characteristics.jets import linear_cell_length
     >>> round(float(linear_cell_length(2.0, 1.0)), 12)   # 2√3
     3.464101615138
+    >>> round(float(linear_cell_length(2.0, 1.0, "axisymmetric")), 6)   # π√3/j0 = 1.3064·√3
+    2.2627
     """
     M = np.asarray(M_jet, dtype=float)
-    return 2.0 * np.asarray(slot_width, dtype=float) * np.sqrt((M - 1.0) * (M + 1.0))
+    root = np.sqrt((M - 1.0) * (M + 1.0))
+    if check_geometry(geometry):
+        return np.pi * np.asarray(slot_width, dtype=float) * root / _J0_FIRST_ZERO
+    return 2.0 * np.asarray(slot_width, dtype=float) * root
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
 class SlotJet(ResultTable):
-    """Upper half of a planar under-expanded jet (centreline y = 0, lip at (0, half-height)).
+    """Upper half of an under-expanded jet (centreline or axis y = 0, lip at (0, half-height)).
 
-    Lengths are in the unit of ``slot_half_height`` (a Quantity if it was one).
-    ``cell_length`` and the width fields are NaN if the first shock forms
-    before the feature is reached.
+    Lengths are in the unit of ``slot_half_height`` (the exit radius of a round
+    jet; a Quantity if it was one). ``cell_length`` and the width fields are
+    NaN if the first shock forms before the feature is reached.
     """
 
     mach_exit: float = unit_field("")  #: Mach number at the slot exit
@@ -70,24 +90,31 @@ class SlotJet(ResultTable):
     boundary_nodes: object = unit_field("")  #: indices of the boundary nodes in ``net``
     max_half_width: object = unit_field("m")  #: widest half-width of the first cell
     max_width_x: object = unit_field("m")  #: where the boundary is widest
-    cell_length: object = unit_field("m")  #: twice the distance to the widest point
-    cell_length_linear: object = unit_field("m")  #: 2h√(Mj² - 1), h = full slot width
+    cell_length: object = unit_field("m")  #: twice the distance to the widest point (planar)
+    #: linear theory: 2h√(Mj² - 1), h the full width (round: 1.3064 D√(Mj² - 1))
+    cell_length_linear: object = unit_field("m")
     shock_formed: bool = unit_field("")  #: compressions coalesced within the marched length
     shock_x: object = unit_field("m")  #: where the net first folds (NaN if not)
     shock_y: object = unit_field("m")
     net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    geometry: str = unit_field("", default="planar")  #: "planar" (a slot) or "axisymmetric"
+    #: linear theory's widest point: 2b√(Mj² - 1) planar, 1.43634 R√(Mj² - 1) round
+    max_width_x_linear: object = unit_field("m", default=None)
 
 
 def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, gamma=1.4,
-                           slot_half_height=1.0, n_cells=1):
-    """Characteristic net of a planar jet leaving a slot above ambient pressure.
+                           slot_half_height=1.0, n_cells=1, geometry="planar"):
+    """Characteristic net of a jet leaving a slot (or a round nozzle) above ambient pressure.
 
     The lip fans expand the stream to ambient pressure; their waves reflect
     from the centreline (as expansions) and from the constant-pressure jet
     boundary (as compressions), which head back to the centreline. Where the
     compressions of one family cross, the net folds: the first shock forms
     there and the march stops. In a planar jet that happens within the first
-    cell however weak the jet (see Notes).
+    cell however weak the jet (see Notes). With ``geometry="axisymmetric"``
+    the jet is round (``slot_half_height`` is its exit radius) and the march
+    carries the axisymmetric source term, to the first shock as well (fitting
+    that shock and marching the cells beyond is left to shock fitting).
 
     Parameters
     ----------
@@ -104,6 +131,8 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
     n_cells : int, optional
         Shock cells to march if no shock forms first (in practice the first
         shock ends the march within the first cell).
+    geometry : {"planar", "axisymmetric"}, optional
+        A planar slot jet (default) or a round jet.
 
     Returns
     -------
@@ -127,6 +156,17 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
     mesh cell of the first crossing).
     Inviscid, homentropic: mixing at the jet boundary and the shocks that end
     the first cell are outside the method.
+
+    Round jets: linear theory gives the shock-cell length 1.3064 D √(Mj² - 1)
+    (Prandtl 1904; Pack 1950) but, its Bessel modes not being harmonics, a
+    boundary that is not symmetric about its widest point, which lies at
+    1.43634 R √(Mj² - 1) (``max_width_x_linear``; derived in
+    :data:`ROUND_JET_WIDEST_POINT`), so ``cell_length`` is NaN for a round
+    jet. The net's widest point tends to that value as ε → 0, at first order
+    (1.4378 R√(Mj² - 1) at Me 1.6, ε = 0.005). The C+ lines that reach the
+    boundary before the first reflected wave are started on the head of the
+    lip fan: in planar flow they would carry one state, in round flow they
+    resolve the boundary there.
 
     References
     ----------
@@ -157,7 +197,9 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
                        "finite and > 1 (an under-expanded jet; an over-expanded one starts "
                        "with lip shocks, outside this method)")
     check_design_input(b, "slot_half_height", b > 0.0, "finite and > 0", "m")
-    n = check_line_count(n_characteristics)
+    round_ = check_geometry(geometry)
+    n = check_line_count(n_characteristics, ROUND_LINE_LIMIT if round_ else 5000)
+    geometry_name = "axisymmetric" if round_ else "planar"
     if not isinstance(n_cells, int) or not 1 <= n_cells <= 20:
         raise InvalidInputError(f"n_cells must be an integer from 1 to 20; got {n_cells!r}.")
     M, ratio, g, b = float(M), float(ratio), float(g), float(b)
@@ -168,18 +210,32 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
               "small enough that the jet does not expand to vacuum", "raise")
     turn = nu_jet - nu_exit
     fan_theta = turn * np.arange(1, n + 1) / n
-    band = march_fan_band(fan_theta, nu_exit + fan_theta, 0.0, 1.0, boundary="pressure",
-                          n_plus_lines=2 * n * n_cells, nu_boundary=nu_jet, gamma=g)
-    return _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, g)
+    if geometry_name == "planar":
+        band = march_fan_band(fan_theta, nu_exit + fan_theta, 0.0, 1.0, boundary="pressure",
+                              n_plus_lines=2 * n * n_cells, nu_boundary=nu_jet, gamma=g)
+    else:
+        # The C+ lines that reach the boundary before the first reflected wave (at twice the
+        # head's run to the axis) cross the head of the lip fan, the C- from the lip with the
+        # exit state: they are started there, from the lip down to the axis. (In a planar
+        # jet they all carry one state, a uniform region; in a round one they do not.)
+        y_start = 1.0 - np.arange(1, n + 1) / n
+        x_start = (1.0 - y_start) * np.sqrt((M - 1.0) * (M + 1.0))
+        band = march_fan_band(fan_theta, nu_exit + fan_theta, 0.0, 1.0, boundary="pressure",
+                              n_plus_lines=n + 2 * n * n_cells, nu_boundary=nu_jet, gamma=g,
+                              geometry="axisymmetric",
+                              upstream_lines=(x_start, y_start, 0.0 * y_start,
+                                              np.full(n, nu_exit)))
+    return _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, g, geometry_name)
 
 
-def _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, gamma):
+def _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, gamma, geometry="planar"):
     rows = np.arange(band.x.shape[0])
     cols = band.boundary_index(rows)
     on_boundary = band.valid[rows, cols]
     bx, by, bth = (a[rows, cols][on_boundary] for a in (band.x, band.y, band.theta))
     widest = _first_crossing(bx, by, bth)
     plus, minus, keep = band_segments(band.valid)
+    # (a round band's column 0 holds the fan's head, the C- through the upstream lines' starts)
     flat_index = (np.cumsum(keep.ravel()) - 1).reshape(keep.shape)
     net = CharacteristicNet.from_nodes(b * band.x[keep], b * band.y[keep], band.theta[keep],
                                        band.nu[keep], plus, minus, gamma)
@@ -188,6 +244,8 @@ def _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, gamma):
         return nx.quantity_out(b * value, "meter", length_unit)
 
     fold = band.fold or (np.nan, np.nan)
+    beta_jet = float(np.sqrt((M_jet - 1.0) * (M_jet + 1.0)))
+    widest_linear = (ROUND_JET_WIDEST_POINT if geometry != "planar" else 2.0) * beta_jet
     return SlotJet(
         mach_exit=M, mach_jet=M_jet, p_exit_p_ambient=ratio,
         lip_turn=nx.angle_out(turn, None if length_unit is None else nx.ureg().radian),
@@ -195,11 +253,11 @@ def _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, gamma):
         boundary_theta=nx.angle_out(bth, None if length_unit is None else nx.ureg().radian),
         boundary_nodes=flat_index[rows, cols][on_boundary],
         max_half_width=length(widest[1]), max_width_x=length(widest[0]),
-        cell_length=length(2.0 * widest[0]),
-        cell_length_linear=length(float(linear_cell_length(M_jet, 2.0))),
+        cell_length=length(2.0 * widest[0] if geometry == "planar" else np.nan),
+        cell_length_linear=length(float(linear_cell_length(M_jet, 2.0, geometry))),
         shock_formed=band.fold is not None,
         shock_x=length(float(fold[0])), shock_y=length(float(fold[1])),
-        net=net,
+        net=net, geometry=geometry, max_width_x_linear=length(widest_linear),
     )
 
 

@@ -1,7 +1,13 @@
-"""Planar supersonic nozzle contours designed by the method of characteristics.
+"""Supersonic nozzle contours designed by the method of characteristics, planar or round.
 
-Unit boundary: :func:`minimum_length_nozzle` (sharp throat corner). The net
-is marched by :func:`gasdyn2d.characteristics.unit_processes.march_fan_band`.
+Unit boundary: :func:`minimum_length_nozzle` (sharp throat corner) and
+:func:`rounded_throat_nozzle` (circular-arc throat), each with
+``geometry="planar"`` (default) or ``"axisymmetric"``. The planar nets are
+marched here (the corner fan by
+:func:`gasdyn2d.characteristics.fan_nets.march_fan_band`); the round ones by
+:mod:`gasdyn2d.characteristics.round_nozzles`. Every result has a
+``performance(p0=..., T0=..., p_ambient=...)`` method
+(:mod:`gasdyn2d.characteristics.performance`).
 """
 
 from __future__ import annotations
@@ -14,15 +20,23 @@ import numpy as np
 from .. import _numerics as nx
 from ..boundary.results import ResultTable, unit_field
 from .channels import march_rows
+from .fan_nets import band_segments, march_fan_band
+from .performance import ExitPlane, NozzlePerformanceMixin
+from .round_nozzles import (
+    round_minimum_length_design,
+    round_rounded_throat_design,
+    sauer_round_discharge_coefficient,
+    sauer_round_start_line,
+)
 from .unit_processes import (
+    ROUND_LINE_LIMIT,
     CharacteristicNet,
     check_design_input,
+    check_geometry,
     check_line_count,
     WallContour,
-    band_segments,
     cancellation_point,
     mach_angle_from_nu,
-    march_fan_band,
     symmetry_point,
 )
 from ..errors import InvalidInputError, NoSolutionError
@@ -41,10 +55,13 @@ __all__ = [
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
-class MinimumLengthNozzle(ResultTable):
-    """Upper half of a planar minimum-length nozzle (the centreline is y = 0).
+class MinimumLengthNozzle(NozzlePerformanceMixin, ResultTable):
+    """Upper half of a minimum-length nozzle (the centreline or axis is y = 0).
 
-    Lengths are in the unit of ``throat_half_height`` (a Quantity if it was one).
+    Lengths are in the unit of ``throat_half_height`` (a Quantity if it was
+    one). A round nozzle's "half-heights" are radii and its area ratio is
+    (exit radius / throat radius)². ``performance(p0=..., T0=..., p_ambient=...)``
+    gives its mass flow, thrust and specific impulse.
     """
 
     mach_exit: float = unit_field("")  #: design exit Mach number
@@ -55,8 +72,13 @@ class MinimumLengthNozzle(ResultTable):
     exit_half_height: object = unit_field("m")  #: half-height of the exit
     area_ratio: float = unit_field("")  #: exit-to-throat area ratio of the contour
     area_ratio_isentropic: float = unit_field("")  #: A/A* of the design Mach number
-    max_wall_angle: object = unit_field("rad")  #: wall angle at the throat corner, ν(M_exit)/2
+    max_wall_angle: object = unit_field("rad")  #: largest wall angle (planar: the corner's, ν/2)
     net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    geometry: str = unit_field("", default="planar")  #: "planar" or "axisymmetric"
+    #: wall angle at the throat corner: the turn of the corner fan (round: below max_wall_angle)
+    corner_angle: object = unit_field("rad", default=None)
+    #: the computed exit plane, for ``performance`` (SI)
+    exit_plane: ExitPlane = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
 
 
 def minimum_length_contour(M_exit, n_characteristics, gamma=1.4):
@@ -76,14 +98,15 @@ def minimum_length_contour(M_exit, n_characteristics, gamma=1.4):
     return band.x[:, n + 1], band.y[:, n + 1], band
 
 
-def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_half_height=1.0):
-    """Contour of a planar minimum-length nozzle with a sharp throat corner.
+def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_half_height=1.0,
+                          geometry="planar"):
+    """Contour of a minimum-length nozzle with a sharp throat corner, planar or round.
 
     A sonic stream at a straight throat of half-height h turns round the
-    throat corner through a centred fan of ``n_characteristics`` lines to the
-    largest wall angle ν(M_exit)/2; the fan reflects from the centreline, and
-    the contour is shaped so that every reflected line meets it without
-    reflection, leaving a uniform, parallel stream at M_exit.
+    throat corner through a centred fan of ``n_characteristics`` lines (to
+    the wall angle ν(M_exit)/2 in planar flow); the fan reflects from the
+    centreline, and the contour is shaped so that every reflected line meets
+    it without reflection, leaving a uniform, parallel stream at M_exit.
 
     Parameters
     ----------
@@ -94,7 +117,10 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     gamma : float, optional
         Ratio of specific heats [-], > 1.
     throat_half_height : float or Quantity, optional
-        Half-height h of the throat [m]; lengths scale with it.
+        Half-height h of the throat [m] (its radius, round); lengths scale
+        with it.
+    geometry : {"planar", "axisymmetric"}, optional
+        Planar (default; per unit depth) or round (axisymmetric) nozzle.
 
     Returns
     -------
@@ -103,8 +129,8 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     Raises
     ------
     InvalidInputError
-        M_exit not above 1, a non-integer or too small n, gamma <= 1, or a
-        non-positive throat half-height.
+        M_exit not above 1, a non-integer or too small n, gamma <= 1, a
+        non-positive throat half-height, or an unknown geometry.
 
     Notes
     -----
@@ -123,6 +149,16 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     The result is an inviscid contour: a real nozzle needs a boundary-layer
     displacement correction and a rounded throat.
 
+    Round nozzles (``geometry="axisymmetric"``): the corner angle is found by
+    a root-find on whole kernels (the fan's waves strengthen towards the
+    axis: about 0.22 ν(M_exit) at Mach 2), the fan lines are clustered to the
+    sonic end (ν ∝ (k/n)⁴), and the wall is the streamline through the marched
+    flow between the last fan line and the uniform exit characteristic; it
+    bends further out after the corner before straightening
+    (``max_wall_angle`` > ``corner_angle``). The area ratio converges to the
+    isentropic one at first order: -4.8e-4 (Mach 2) and -6.6e-4 (Mach 3)
+    relative at n = 100. See :mod:`gasdyn2d.characteristics.round_nozzles`.
+
     References
     ----------
     Zucrow, M. J. & Hoffman, J. D. (1977), *Gas Dynamics*, Vol. 2, ch. 16 (chapter from memory).
@@ -138,6 +174,13 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     (3.498, 3.5)
     >>> round(float(nozzle.length), 4)   # metres
     0.1327
+
+    A round nozzle of the same throat radius:
+
+    >>> round_nozzle = minimum_length_nozzle(2.8, n_characteristics=100, throat_half_height=0.010,
+    ...                                      geometry="axisymmetric")
+    >>> round(round_nozzle.area_ratio, 3), round(float(round_nozzle.length), 4)
+    (3.498, 0.0717)
     """
     M, _ = nx.to_si(M_exit, "M_exit", "dimensionless")
     g, _ = nx.to_si(gamma, "gamma", "dimensionless")
@@ -148,11 +191,16 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     check_design_input(g, "gamma", g > 1.0, "a finite ratio of specific heats > 1")
     check_design_input(M, "M_exit", M > 1.0, "finite and > 1 (a supersonic exit)")
     check_design_input(h, "throat_half_height", h > 0.0, "finite and > 0", "m")
-    n = check_line_count(n_characteristics)
+    round_ = check_geometry(geometry)
+    n = check_line_count(n_characteristics, ROUND_LINE_LIMIT if round_ else 5000)
     M, g, h = float(M), float(g), float(h)
+    angle_unit = None if length_unit is None else nx.ureg().radian
+    if round_:
+        return _round_minimum_length_nozzle(M, n, g, h, length_unit, angle_unit)
     wall_x, wall_y, band = minimum_length_contour(M, n, g)
     net = _nozzle_net(band, n, h, g)
     exit_y = float(wall_y[-1])
+    corner = 0.5 * float(prandtl_meyer_angle(M, g))
     return MinimumLengthNozzle(
         mach_exit=M,
         n_characteristics=n,
@@ -165,6 +213,30 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
         max_wall_angle=nx.angle_out(0.5 * float(prandtl_meyer_angle(M, g)),
                                     None if length_unit is None else nx.ureg().radian),
         net=net,
+        geometry="planar",
+        corner_angle=nx.angle_out(corner, angle_unit),
+        exit_plane=ExitPlane.uniform("planar", h, h * exit_y, M, g),
+    )
+
+
+def _round_minimum_length_nozzle(M, n, gamma, h, length_unit, angle_unit):
+    """The round minimum-length nozzle (unit boundary part; design in round_nozzles)."""
+    design = round_minimum_length_design(M, n, gamma)
+    wall_x, wall_y, wall_theta = design.wall[:3]
+    x, y, theta, nu, plus, minus = design.net
+    exit_r = float(wall_y[-1])
+
+    def length(value):
+        return nx.quantity_out(h * value, "meter", length_unit)
+
+    return MinimumLengthNozzle(
+        mach_exit=M, n_characteristics=n, wall_x=length(wall_x), wall_y=length(wall_y),
+        length=length(float(wall_x[-1])), exit_half_height=length(exit_r),
+        area_ratio=exit_r * exit_r, area_ratio_isentropic=float(isentropic_area_ratio(M, gamma)),
+        max_wall_angle=nx.angle_out(float(np.max(wall_theta)), angle_unit),
+        net=CharacteristicNet.from_nodes(h * x, h * y, theta, nu, plus, minus, gamma),
+        geometry="axisymmetric", corner_angle=nx.angle_out(design.corner_angle, angle_unit),
+        exit_plane=ExitPlane.uniform("axisymmetric", h, h * exit_r, M, gamma),
     )
 
 
@@ -184,10 +256,12 @@ def _nozzle_net(band, n, h, gamma):
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
-class RoundedThroatNozzle(ResultTable):
-    """Upper half of a planar nozzle with a circular-arc throat (centreline y = 0).
+class RoundedThroatNozzle(NozzlePerformanceMixin, ResultTable):
+    """Upper half of a nozzle with a circular-arc throat (centreline or axis y = 0).
 
-    Lengths are in the unit of ``throat_half_height`` (a Quantity if it was one).
+    Lengths are in the unit of ``throat_half_height`` (a Quantity if it was
+    one); a round nozzle's half-heights are radii. ``performance(...)`` gives
+    its mass flow, thrust and specific impulse.
     """
 
     mach_exit: float = unit_field("")  #: design exit Mach number
@@ -195,19 +269,25 @@ class RoundedThroatNozzle(ResultTable):
     wall_x: object = unit_field("m")  #: wall contour abscissae from the throat (x = 0)
     wall_y: object = unit_field("m")  #: wall contour ordinates
     inflection_x: object = unit_field("m")  #: where the arc ends and the straightening begins
-    inflection_angle: object = unit_field("rad")  #: largest wall angle (end of the arc)
+    inflection_angle: object = unit_field("rad")  #: wall angle at the end of the arc
     length: object = unit_field("m")  #: throat-to-exit length
     exit_half_height: object = unit_field("m")
     area_ratio: float = unit_field("")  #: exit-to-throat area ratio of the contour
     area_ratio_isentropic: float = unit_field("")  #: A/A* of the design Mach number
-    discharge_coefficient: float = unit_field("")  #: Sauer's throat mass flow over ρ*a*·h
+    discharge_coefficient: float = unit_field("")  #: Sauer's throat mass flow over ρ*a*·A*
     net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    geometry: str = unit_field("", default="planar")  #: "planar" or "axisymmetric"
+    #: largest wall angle (planar: at the arc's end; round: further on, the wall bends out)
+    max_wall_angle: object = unit_field("rad", default=None)
+    #: the computed exit plane, for ``performance`` (SI)
+    exit_plane: ExitPlane = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
 
 
 _START_PERTURBATION = 0.02  # Sauer's axial velocity excess u/a* on the axis at the start line
 
 
-def sauer_start_line(throat_radius, n_points, gamma=1.4, axis_excess=_START_PERTURBATION):
+def sauer_start_line(throat_radius, n_points, gamma=1.4, axis_excess=_START_PERTURBATION, *,
+                     geometry="planar"):
     """Plain core: x, y, θ, ν [rad] on a straight start line just past a rounded throat.
 
     Throat half-height 1 at x = 0 (the narrowest section), wall radius of
@@ -226,8 +306,11 @@ def sauer_start_line(throat_radius, n_points, gamma=1.4, axis_excess=_START_PERT
     Sauer, R. (1947), "General characteristics of the flow through nozzles at
     near critical speeds", NACA TM 1147 (number from memory; planar case; the coefficients and
     the throat shift are re-derived here from the transonic small-disturbance
-    equation).
+    equation). Round throats (``geometry="axisymmetric"``, radius 1):
+    :func:`gasdyn2d.characteristics.round_nozzles.sauer_round_start_line`.
     """
+    if check_geometry(geometry):
+        return sauer_round_start_line(throat_radius, n_points, gamma, axis_excess)
     alpha = 1.0 / np.sqrt((gamma + 1.0) * throat_radius)
     k = gamma + 1.0
     xi0 = axis_excess / alpha
@@ -243,7 +326,7 @@ def sauer_start_line(throat_radius, n_points, gamma=1.4, axis_excess=_START_PERT
     return np.full(n_points, x_line), y, theta, prandtl_meyer_angle(mach, gamma)
 
 
-def sauer_discharge_coefficient(throat_radius, gamma=1.4, n_points=2001):
+def sauer_discharge_coefficient(throat_radius, gamma=1.4, n_points=2001, *, geometry="planar"):
     """Plain core: mass flow of Sauer's throat over ρ*a*·h (planar, R in half-heights).
 
     Integrates the mass flux of Sauer's transonic field across the narrowest
@@ -255,7 +338,15 @@ def sauer_discharge_coefficient(throat_radius, gamma=1.4, n_points=2001):
     >>> from gasdyn2d.characteristics.nozzles import sauer_discharge_coefficient
     >>> round(sauer_discharge_coefficient(5.0), 6)
     0.998915
+
+    A round throat (R in throat radii) tends to 1 - (γ+1)/(96R²) instead
+    (:func:`gasdyn2d.characteristics.round_nozzles.sauer_round_discharge_coefficient`):
+
+    >>> round(sauer_discharge_coefficient(5.0, geometry="axisymmetric"), 6)
+    0.998976
     """
+    if check_geometry(geometry):
+        return sauer_round_discharge_coefficient(throat_radius, gamma, n_points)
     k = gamma + 1.0
     alpha = 1.0 / np.sqrt(k * throat_radius)
     xi = -k * alpha / 6.0
@@ -269,8 +360,8 @@ def sauer_discharge_coefficient(throat_radius, gamma=1.4, n_points=2001):
 
 
 def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
-                          throat_half_height=1.0):
-    """Contour of a planar nozzle whose throat wall is a circular arc, by characteristics.
+                          throat_half_height=1.0, geometry="planar"):
+    """Contour of a nozzle whose throat wall is a circular arc, by characteristics, planar or round.
 
     The wall leaves the throat on a circular arc of ``throat_radius`` and
     expands the stream until the C- characteristic from the arc's end reaches
@@ -289,7 +380,9 @@ def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
     gamma : float, optional
         Ratio of specific heats [-].
     throat_half_height : float or Quantity, optional
-        Throat half-height h [m].
+        Throat half-height h [m] (the throat radius of a round nozzle).
+    geometry : {"planar", "axisymmetric"}, optional
+        Planar (default; per unit depth) or round nozzle.
 
     Returns
     -------
@@ -309,6 +402,15 @@ def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
     streamline); the start line's mass flow differs from Sauer's throat
     value (``discharge_coefficient``, 1 - (γ+1)/(90R²) for large R) by the
     transonic approximation's own error, 1.5e-3 at R = 2 and 1.2e-5 at R = 20.
+
+    Round nozzles: the start line is Sauer's axisymmetric solution
+    (:func:`gasdyn2d.characteristics.round_nozzles.sauer_round_start_line`),
+    the arc ends where the C- from it, carrying the source term, reaches the
+    axis at ν(M_exit), and the wall beyond is the streamline through the
+    marched flow up to the exit characteristic (it bends further out first:
+    ``max_wall_angle`` exceeds ``inflection_angle``, which is then the arc's
+    end rather than an inflection). The mass balance converges at second
+    order (4.0e-4 at 41 points, Mach 2.8, R = 2).
 
     References
     ----------
@@ -346,9 +448,11 @@ def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
             or not 5 <= n_points <= 2000:
         raise InvalidInputError(f"n_points must be an integer from 5 to 2000; got {n_points!r}.")
     M, g, h = float(M), float(g), float(h)
+    unit = length_unit if length_unit is not None else radius_unit
+    if check_geometry(geometry):
+        return _round_rounded_throat_nozzle(M, R_over_h, int(n_points), g, h, unit)
     design = _rounded_throat_design(M, R_over_h, int(n_points), g)
     wall_x, wall_y, x_a, theta_a, cd, net = design
-    unit = length_unit if length_unit is not None else radius_unit
 
     def length(value):
         return nx.quantity_out(h * np.asarray(value) if np.ndim(value) else h * float(value),
@@ -362,6 +466,34 @@ def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
         area_ratio=float(wall_y[-1]), area_ratio_isentropic=float(isentropic_area_ratio(M, g)),
         discharge_coefficient=cd,
         net=CharacteristicNet.from_nodes(h * net[0], h * net[1], *net[2:], g),
+        geometry="planar",
+        max_wall_angle=nx.angle_out(theta_a, None if unit is None else nx.ureg().radian),
+        exit_plane=ExitPlane.uniform("planar", h, h * float(wall_y[-1]), M, g, cd),
+    )
+
+
+def _round_rounded_throat_nozzle(M, R, n_points, gamma, h, unit):
+    """The round rounded-throat nozzle (unit boundary part; design in round_nozzles)."""
+    design, x_a, theta_a, cd = round_rounded_throat_design(M, R, n_points, gamma)
+    wall_x, wall_y, wall_theta = design.wall[:3]
+    x, y, theta, nu, plus, minus = design.net
+    exit_r = float(wall_y[-1])
+    angle_unit = None if unit is None else nx.ureg().radian
+
+    def length(value):
+        return nx.quantity_out(h * np.asarray(value) if np.ndim(value) else h * float(value),
+                               "meter", unit)
+
+    return RoundedThroatNozzle(
+        mach_exit=M, throat_radius=length(R), wall_x=length(wall_x), wall_y=length(wall_y),
+        inflection_x=length(x_a), inflection_angle=nx.angle_out(theta_a, angle_unit),
+        length=length(float(wall_x[-1])), exit_half_height=length(exit_r),
+        area_ratio=exit_r * exit_r, area_ratio_isentropic=float(isentropic_area_ratio(M, gamma)),
+        discharge_coefficient=cd,
+        net=CharacteristicNet.from_nodes(h * x, h * y, theta, nu, plus, minus, gamma),
+        geometry="axisymmetric",
+        max_wall_angle=nx.angle_out(float(np.max(wall_theta)), angle_unit),
+        exit_plane=ExitPlane.uniform("axisymmetric", h, h * exit_r, M, gamma, cd),
     )
 
 

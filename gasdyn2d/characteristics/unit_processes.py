@@ -1,20 +1,56 @@
-"""Planar method of characteristics: unit processes on the two Riemann invariants.
+"""Method of characteristics, planar and axisymmetric: unit processes on the Riemann invariants.
 
-In steady, planar, homentropic and irrotational supersonic flow of a perfect gas
-the flow direction θ and the Prandtl–Meyer angle ν obey two compatibility
-relations that integrate exactly:
+In steady, homentropic and irrotational supersonic flow of a perfect gas the
+flow direction θ and the Prandtl–Meyer angle ν obey two compatibility
+relations along the characteristics (μ = asin(1/M), s the arc length along
+the line, y the distance from the axis or centreline):
 
-    along a C+ characteristic, dy/dx = tan(θ + μ):   θ - ν = const  (plus invariant)
-    along a C- characteristic, dy/dx = tan(θ - μ):   θ + ν = const  (minus invariant)
+    along a C+ characteristic, dy/dx = tan(θ + μ):   d(θ - ν) = -δ (sin θ sin μ / y) ds
+    along a C- characteristic, dy/dx = tan(θ - μ):   d(θ + ν) = +δ (sin θ sin μ / y) ds
 
-with μ = asin(1/M) the Mach angle. Every unit process below therefore finds
-the *state* of a new node exactly (to rounding) from the invariants it
-receives; only its *position* is approximated, by straight characteristic
-segments whose direction is the average of the directions at their two ends
-(the averaged-coefficient, or trapezoidal, corrector). That makes node
-positions second-order accurate in the mesh spacing. Where the state of the new
-node depends on its position (a point on a prescribed curved wall) the
-predictor-corrector is iterated.
+with δ = 0 in planar flow and δ = 1 in axisymmetric flow (y the radius). The
+``geometry`` switch of every unit process chooses δ.
+
+Planar flow (δ = 0): θ - ν and θ + ν are constant along their lines (the plus
+and minus invariants), so every unit process finds the *state* of a new node
+exactly (to rounding) from the invariants it receives; only its *position* is
+approximated, by straight characteristic segments whose direction is the
+average of the directions at their two ends (the averaged-coefficient, or
+trapezoidal, corrector). That makes node positions second-order accurate in
+the mesh spacing. Where the state of the new node depends on its position (a
+point on a prescribed curved wall) the predictor-corrector is iterated.
+
+Axisymmetric flow (δ = 1): the same equations with the source term
+Q = sin θ sin μ / y. Each segment's source term is taken at its mean state
+and mean radius (the averaged-property rule, second order like the averaged
+directions; a mean of the two end values would not do, since Q ∝ 1/y varies
+strongly on a long segment running towards the axis). State and position now
+depend on each other: an Euler predictor (directions and source term at the
+upstream points) is followed by ``AXISYMMETRIC_CORRECTORS`` correctors
+(Heun's scheme), each solving for the new θ with the source term linear in it
+(the stiff part near the axis, where Q ∝ θ/y). The planar arithmetic is not
+touched by the switch: the source term is skipped, not multiplied by zero, so
+planar results are bit for bit those of a planar-only code.
+
+On the axis (y = 0, θ = 0) the source term is 0/0. By L'Hôpital's rule
+sin θ / y → ∂θ/∂y there, and the continuity equation on the axis,
+∂(ρu)/∂x + 2ρu ∂θ/∂y = 0 (the axisymmetric term v/y → ∂v/∂y doubles the
+planar one), turns this into
+
+    Q_axis = sin μ ∂θ/∂y = ½ cos μ ∂ν/∂x,
+
+half of what the planar term cos μ ∂ν/∂x would be. On the C- that ends on
+the axis, sin θ / y is smooth (θ is odd in y) and is integrated by the
+trapezoidal rule, its axis value ∂θ/∂y taken as θ/y at the node above on the
+same row of the net (second order). In a conical source flow both forms give
+∂θ/∂y = 1/x exactly (the tests check it).
+
+Sources: the compatibility relations are those of Zucrow & Hoffman (1977),
+*Gas Dynamics* Vol. 2, ch. 16, written there per unit dy as
+d(θ ± ν) = ±dy/(y(cot θ ∓ √(M²-1))) (from memory); the per-length form above
+follows with dy = sin(θ ∓ μ) ds. Both the sign and the axis limit were
+verified here: the exact conical source flow satisfies the relations, and is
+reproduced by the axisymmetric march at second order (tests).
 
 All functions here are the plain core: floats or ndarrays, radians, no pint.
 They broadcast like ufuncs, so a whole characteristic line (or a diagonal of
@@ -26,6 +62,14 @@ Each process also returns the signed lengths ``t_plus`` / ``t_minus`` /
 ``t_stream`` travelled from the upstream points along the straight segments;
 a length <= 0 means characteristics of one family have crossed (the net has
 folded: a shock has formed there) and the node is not valid.
+
+Node state: the processes work on (x, y, θ, ν), and the axisymmetric ones on
+the record ``(x, y, θ, ν, z, μ, s)`` of :func:`node_record` (z = cot μ =
+√(M² - 1), s = sin θ / y, on the axis its limit ∂θ/∂y). Rotational flow
+would add one field to the
+record (the entropy, or the stagnation-pressure ratio, carried along the
+streamline as a third characteristic) and its term to the two compatibility
+relations; the geometry stays an explicit argument.
 """
 
 from __future__ import annotations
@@ -42,6 +86,9 @@ from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
 from ..relations.isentropic import mach_angle_of, pressure_ratio
 
 __all__ = [
+    "GEOMETRIES",
+    "check_geometry",
+    "node_record",
     "mach_angle_from_nu",
     "state_from_invariants",
     "interior_point",
@@ -54,6 +101,25 @@ __all__ = [
 ]
 
 _WALL_ITERATIONS = 6  # predictor + correctors, stopping once the node no longer moves
+#: trapezoidal correctors after the Euler predictor of an axisymmetric process. One (Heun's
+#: scheme) makes the local error O(h³), second order; a second changes a nozzle's corner
+#: angle by 4e-6 at n = 40 (O(h²), shrinking 4x per doubling) and costs half as much again
+AXISYMMETRIC_CORRECTORS = 1
+
+#: the geometry switch of every unit process, marcher and design tool
+GEOMETRIES = ("planar", "axisymmetric")
+#: most fan lines of a round nozzle or jet: their nets hold seven fields per node, and a
+#: round nozzle's kernel is marched for seven candidate corner angles at once (60 MB at 400)
+ROUND_LINE_LIMIT = 400
+
+
+def check_geometry(geometry):
+    """True for ``"axisymmetric"``, False for ``"planar"``; InvalidInputError otherwise."""
+    if isinstance(geometry, str) and geometry in GEOMETRIES:
+        return geometry == "axisymmetric"
+    raise InvalidInputError(
+        f"geometry must be 'planar' or 'axisymmetric'; got {geometry!r}. A planar flow is "
+        "two-dimensional (per unit depth); an axisymmetric one is round, y the radius.")
 
 
 def check_design_input(value, name, ok, requirement, unit_text=""):
@@ -67,14 +133,15 @@ def check_design_input(value, name, ok, requirement, unit_text=""):
                                 f"{nx.format_value(value, unit_text)}.")
 
 
-def check_line_count(n):
-    """An integer number of fan lines from 2 to 5000."""
+def check_line_count(n, limit=5000):
+    """An integer number of fan lines from 2 to ``limit`` (5000; 400 for the round nets,
+    whose node records, seven per node and marched as a batch, grow as n²)."""
     if isinstance(n, bool) or not isinstance(n, numbers.Integral) or n < 2:
         raise InvalidInputError(
             f"n_characteristics must be an integer >= 2; got {n!r}. Use 20-200 lines: "
             "the area-ratio error falls as n^(-4/3).")
-    if n > 5000:
-        raise InvalidInputError(f"n_characteristics must be <= 5000; got {n}.")
+    if n > limit:
+        raise InvalidInputError(f"n_characteristics must be <= {limit}; got {n}.")
     return int(n)
 
 
@@ -127,7 +194,231 @@ def _intersect(x1, y1, angle1, x2, y2, angle2):
     return x1 + t1 * c1, y1 + t1 * s1, t1, t2
 
 
-def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4):
+# ------------------------------------------------------------ axisymmetric source term
+
+
+def _nu_of_cot_mu(z, gamma):
+    """ν [rad] from z = cot μ = √(M² - 1), arctangent form (NACA Report 1135, eq. 171).
+
+    Near M = 1 the two arctangents cancel to an absolute error of a few ulp times z;
+    the Newton step below only needs the difference to a target, so that is enough.
+    """
+    root_k = np.sqrt((gamma - 1.0) / (gamma + 1.0))
+    return np.arctan(root_k * z) / root_k - np.arctan(z)
+
+
+def cot_mach_angle_step(z, nu, gamma=1.4):
+    """Plain core: one Newton step towards z = cot μ = √(M² - 1) of the flow of ν = ``nu``.
+
+    Newton's method on ln ν(z) = ln ν in ln z, nearly linear from M = 1 (where
+    ν ∝ z³) to M → ∞: from a guess 8 % off one step leaves 2e-3, two 2e-6,
+    three 1e-12, anywhere from z = 0.05 to 10; from a neighbour's value
+    (the usual start) two steps reach rounding. The axisymmetric marchers take
+    one step per corrector pass instead of the full inverse of ν (their state
+    moves a little per pass); the published Mach numbers come from
+    :func:`mach_from_prandtl_meyer_angle` at the end.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.characteristics.unit_processes import cot_mach_angle_step
+    >>> nu = np.radians(26.379760813416457)    # M = 2: z = √3
+    >>> z = 1.6
+    >>> for _ in range(4):
+    ...     z = cot_mach_angle_step(z, nu)
+    >>> round(float(z) ** 2, 12)
+    3.0
+    """
+    z = np.asarray(z, dtype=float)
+    z2 = z * z
+    one_z2 = 1.0 + z2
+    nu_z = _nu_of_cot_mu(z, gamma)
+    # d ln ν / d ln z = z (dν/dz) / ν; the step in ln z is kept within ±1 (a far guess)
+    log_slope = z * z2 / (one_z2 * (1.0 + 0.5 * (gamma - 1.0) * one_z2) * nu_z)
+    return z * np.exp(np.minimum(np.maximum(np.log(nu / nu_z) / log_slope, -1.0), 1.0))
+
+
+#: the fields of an axisymmetric node record, in order
+RECORD_FIELDS = ("x", "y", "theta", "nu", "cot_mu", "mu", "sin_theta_over_y")
+
+
+def node_record(x, y, theta, nu, gamma=1.4, axis_slope=None):
+    """Plain core: the node record (x, y, θ, ν, z, μ, s) of the axisymmetric processes.
+
+    z = cot μ = √(M² - 1), μ the Mach angle [rad], s = sin θ / y [1/m]; on the
+    axis (y = 0) s is the limit ∂θ/∂y, ``axis_slope`` [rad/m] (NaN if not
+    given). Lengths [m], angles [rad].
+    """
+    x, y, theta, nu = (np.asarray(v, dtype=float) for v in (x, y, theta, nu))
+    mach = mach_from_prandtl_meyer_angle(nu, gamma)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        z = np.sqrt((mach - 1.0) * (mach + 1.0))
+        ratio = np.sin(theta) / y
+    ratio = np.where(y == 0.0, np.nan if axis_slope is None else axis_slope, ratio)
+    return x, y, theta, nu, z, mach_angle_of(mach), ratio
+
+
+def _sin_ratio(angle):
+    """sin(a)/a, 1 at a = 0."""
+    sine = np.sin(angle)
+    return np.divide(sine, angle, out=np.ones_like(sine), where=angle != 0.0)
+
+
+_PLUS_MINUS = np.array([1.0, -1.0])  # stacked C+ (row 0) and C- (row 1) quantities
+
+
+def _interior_axisymmetric(p1, p2, gamma, correctors=AXISYMMETRIC_CORRECTORS):
+    """Interior node from records ``p1`` (on its C+) and ``p2`` (on its C-), with the source term.
+
+    Per pass, the segments are straight (directions of the ends averaged) and
+    the state solves the two compatibility relations with the source term of
+    each segment taken at its mean state and radius (the averaged-property
+    rule; ȳ vanishes only if both ends are on the axis, so the rule stays
+    bounded on long segments running towards the axis, where the mean of two
+    end values ∝ 1/y does not) and linear in the unknown θ3:
+
+        θ3 - ν3 = θ1 - ν1 - a+ (θ1 + θ3),   θ3 + ν3 = θ2 + ν2 + a- (θ2 + θ3),
+        a± = ½ t± sin μ̄ sin(θ̄)/(θ̄ ȳ)  (sin θ̄/θ̄ from the previous pass),
+
+    which keeps the pass stable where the source term is stiff (Q ∝ θ/y near
+    the axis). A C+ leaving the axis (y1 = 0) takes instead the trapezoid of
+    sin θ / y, ½(s1 + sin θ3 / y3) with s1 = ∂θ/∂y of the axis node, exact when
+    θ is proportional to y with a slope linear along the segment (near the
+    axis, where θ is odd in y); the mean state there would take ∂θ/∂y at the
+    far end only. Returns the record of the new node and (t_plus, t_minus).
+    """
+    return _interior_stacked(np.stack([np.asarray(p1, dtype=float), np.asarray(p2, dtype=float)],
+                                      axis=1), gamma, correctors)
+
+
+def _interior_stacked(upstream, gamma, correctors=AXISYMMETRIC_CORRECTORS):
+    """:func:`_interior_axisymmetric` on the records of points 1 and 2 stacked, shape (7, 2, ...).
+
+    The C+ quantities are row 0 and the C- ones row 1 of every stacked array,
+    so one numpy call serves both characteristics (the marchers gather both
+    upstream points with one index).
+    """
+    x_up, y_up, th_up, nu_up, z_up, mu_up, s_up = upstream
+    th1, th2 = th_up
+    signs = _PLUS_MINUS.reshape((2,) + (1,) * (th_up.ndim - 1))
+    direction_up = th_up + signs * mu_up
+    k_minus, k_plus = th2 + nu_up[1], th1 - nu_up[0]
+    half_sum, half_difference = 0.5 * (k_minus + k_plus), 0.5 * (k_minus - k_plus)
+    dx, dy = x_up[1] - x_up[0], y_up[1] - y_up[0]
+    from_axis = y_up == 0.0  # a C+ leaving the axis (row 0 only)
+    any_from_axis = bool(from_axis.any())
+    # Euler predictor: upstream directions, source term at the upstream state
+    directions, th3, mu3, z3 = direction_up, th_up, mu_up, 0.5 * (z_up[0] + z_up[1])
+    for step in range(correctors + 1):
+        cosine, sine = np.cos(directions), np.sin(directions)
+        det = sine[0] * cosine[1] - cosine[0] * sine[1]  # sin(angle+ - angle-)
+        t = (cosine[::-1] * dy - sine[::-1] * dx) / det  # (t_plus, t_minus)
+        y3 = y_up[0] + t[0] * sine[0]
+        # source term of each segment, Q̄ t = c + a θ3 (linear in the unknown θ3)
+        t_sin_mu = t * np.sin(0.5 * (mu_up + mu3))
+        a = t_sin_mu * _sin_ratio(0.5 * (th_up + th3)) / (y_up + y3)
+        c = a * th_up
+        if any_from_axis:  # trapezoid of sin θ / y, exact for θ = f(x)·y near the axis
+            a = np.where(from_axis, 0.5 * t_sin_mu * _sin_ratio(th3) / y3, a)
+            c = np.where(from_axis, 0.5 * t_sin_mu * s_up, c)
+        th3 = (half_sum + 0.5 * (c[1] - c[0])) / (1.0 - 0.5 * (a[1] - a[0]))
+        nu3 = half_difference + 0.5 * (c[1] + c[0] + (a[1] + a[0]) * th3)
+        z3 = cot_mach_angle_step(z3, nu3, gamma)
+        mu3 = np.arctan2(1.0, z3)
+        if step == correctors:
+            break
+        directions = 0.5 * (direction_up + (th3 + signs * mu3))
+    x3 = x_up[0] + t[0] * cosine[0]
+    return (x3, y3, th3, nu3, z3, mu3, np.sin(th3) / y3), t[0], t[1]
+
+
+def _axis_axisymmetric(p2, axis_slope, gamma, correctors=AXISYMMETRIC_CORRECTORS):
+    """Node on the axis reached by the C- from record ``p2``; ``axis_slope`` = ∂θ/∂y there.
+
+    θ3 = 0 and ν3 = (θ + ν)2 + ½(sin θ2 / y2 + ∂θ/∂y) sin μ̄ t: the trapezoidal
+    rule on sin θ / y, which is smooth up to the axis (θ is odd in y) and
+    tends to ∂θ/∂y there. Returns the record of the new node and t_minus.
+    """
+    x2, y2, th2, nu2, z2, mu2, s2 = p2
+    minus2 = th2 - mu2
+    k_minus = th2 + nu2
+    slope_mean = 0.5 * (s2 + axis_slope)
+    direction, mu3, z3 = minus2, mu2, z2
+    for step in range(correctors + 1):
+        t_minus = -y2 / np.sin(direction)
+        nu3 = k_minus + slope_mean * np.sin(0.5 * (mu2 + mu3)) * t_minus
+        z3 = cot_mach_angle_step(z3, nu3, gamma)
+        if step == 0:
+            z3 = cot_mach_angle_step(z3, nu3, gamma)
+        mu3 = np.arctan2(1.0, z3)
+        if step == correctors:
+            break
+        direction = 0.5 * (minus2 - mu3)
+    x3 = x2 + t_minus * np.cos(direction)
+    zero = 0.0 * x3
+    return (x3, zero, zero, nu3, z3, mu3, axis_slope + zero), t_minus
+
+
+def _free_boundary_axisymmetric(p1, xb, yb, thetab, nu_boundary, gamma,
+                                correctors=AXISYMMETRIC_CORRECTORS):
+    """Constant-pressure boundary node from the C+ of record ``p1`` and the boundary
+    streamline from (xb, yb) at ``thetab``. Returns the record, t_plus and t_stream."""
+    x1, y1, th1, nu1, z1, mu1, _ = p1
+    plus1, k_plus = th1 + mu1, th1 - nu1
+    nu3 = np.asarray(nu_boundary, dtype=float) + 0.0 * xb
+    mach3 = mach_from_prandtl_meyer_angle(nu3, gamma)
+    z3 = np.sqrt((mach3 - 1.0) * (mach3 + 1.0))
+    mu3 = np.arctan2(1.0, z3)
+    x3, y3, t_plus, t_stream = _intersect(x1, y1, plus1, xb, yb, thetab)
+    th3 = th1
+    for step in range(correctors + 1):
+        mean_th = 0.5 * (th1 + th3)
+        a_plus = (0.5 * t_plus) * np.sin(0.5 * (mu1 + mu3)) * _sin_ratio(mean_th) / (
+            0.5 * (y1 + y3))
+        # ν fixed by the boundary pressure: θ3 = θ1 - ν1 - ½ k+ t+ (θ1 + θ3) + ν3
+        th3 = (k_plus - a_plus * th1 + nu3) / (1.0 + a_plus)
+        if step == correctors:
+            break
+        x3, y3, t_plus, t_stream = _intersect(x1, y1, 0.5 * (plus1 + (th3 + mu3)),
+                                              xb, yb, 0.5 * (thetab + th3))
+    return (x3, y3, th3, nu3, z3, mu3, np.sin(th3) / y3), t_plus, t_stream
+
+
+def _wall_axisymmetric(p2, wall, side, gamma):
+    """Node on a prescribed wall reached by the C- (lower) or C+ (upper) from record ``p2``.
+
+    The planar iteration of :func:`wall_point` with the source term of the
+    arriving segment (averaged property). Returns the record and the signed length.
+    """
+    x2, y2, th2, nu2, z2, mu2, _ = p2
+    sign = -1.0 if side == "lower" else 1.0
+    invariant = th2 - sign * nu2
+    upstream_direction = th2 + sign * mu2
+    direction, mu3, z3 = upstream_direction, mu2, np.asarray(z2, dtype=float)
+    x3 = np.asarray(x2, dtype=float)
+    for step in range(_WALL_ITERATIONS):
+        x_new = _line_meets_wall(x2, y2, direction, wall, x3)
+        y3 = wall.height(x_new)
+        theta3 = np.arctan(wall.slope(x_new))
+        t_char = np.hypot(x_new - x2, y3 - y2) * np.sign(x_new - x2)
+        theta_mean = 0.5 * (th2 + theta3)
+        source = np.sin(theta_mean) * np.sin(0.5 * (mu2 + mu3)) / (0.5 * (y2 + y3))
+        # along a C- (lower) dK-/ds = +Q, along a C+ (upper) dK+/ds = -Q
+        nu3 = sign * (theta3 - (invariant - sign * source * t_char))
+        z3 = cot_mach_angle_step(z3, nu3, gamma)
+        if step == 0:
+            z3 = cot_mach_angle_step(z3, nu3, gamma)
+        mu3 = np.arctan2(1.0, z3)
+        direction = 0.5 * (upstream_direction + (theta3 + sign * mu3))
+        settled = np.all(np.abs(x_new - x3) <= 1e-15 * (1.0 + np.abs(x_new)))
+        x3 = x_new
+        if settled and step >= AXISYMMETRIC_CORRECTORS:
+            break
+    return (x3, y3, theta3, nu3, z3, mu3, np.sin(theta3) / y3), t_char
+
+
+def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4, *, geometry="planar",
+                   axis_slope=None):
     """Plain core: new interior node from point 1 (on its C+) and point 2 (on its C-).
 
     Parameters
@@ -138,6 +429,11 @@ def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4):
         Position [m] and state [rad] of the upstream point on the C- (above).
     gamma : float, optional
         Ratio of specific heats [-].
+    geometry : {"planar", "axisymmetric"}, optional
+        Planar flow, or axisymmetric flow with y the radius.
+    axis_slope : float or ndarray, optional
+        Axisymmetric flow with point 1 on the axis (y1 = 0): ∂θ/∂y there
+        [rad/m], the limit of sin θ / y (see :func:`symmetry_point`).
 
     Returns
     -------
@@ -147,8 +443,14 @@ def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4):
 
     Notes
     -----
-    θ3 - ν3 = θ1 - ν1 and θ3 + ν3 = θ2 + ν2 exactly; the segments are straight
-    with directions ((θ+μ)1 + (θ+μ)3)/2 and ((θ-μ)2 + (θ-μ)3)/2.
+    Planar: θ3 - ν3 = θ1 - ν1 and θ3 + ν3 = θ2 + ν2 exactly; the segments are
+    straight with directions ((θ+μ)1 + (θ+μ)3)/2 and ((θ-μ)2 + (θ-μ)3)/2.
+    Axisymmetric: θ3 - ν3 = θ1 - ν1 - Q̄+ t_plus and
+    θ3 + ν3 = θ2 + ν2 + Q̄- t_minus, with Q̄ = sin θ̄ sin μ̄ / ȳ of each segment
+    (the averaged-property rule: the mean state and radius of its ends),
+    after an Euler predictor (upstream directions and source) and
+    ``AXISYMMETRIC_CORRECTORS`` correctors; each pass solves for θ3 with the
+    source term linear in it (the stiff part near the axis, where Q ∝ θ/y).
 
     References
     ----------
@@ -166,7 +468,20 @@ def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4):
     >>> x3, y3, th3, nu3, tp, tm = interior_point(0.0, 0.0, 0.0, nu, 0.0, 1.0, 0.0, nu)
     >>> round(float(x3), 12), round(float(y3), 12)   # √3/2, 1/2 for μ = 30°
     (0.866025403784, 0.5)
+
+    In a round stream along the axis the same points give the same node
+    (θ = 0 everywhere: no source term):
+
+    >>> x3, y3, *_ = interior_point(0.0, 0.5, 0.0, nu, 0.0, 1.5, 0.0, nu,
+    ...                             geometry="axisymmetric")
+    >>> round(float(x3), 12), round(float(y3), 12)
+    (0.866025403784, 1.0)
     """
+    if check_geometry(geometry):
+        node, t_plus, t_minus = _interior_axisymmetric(
+            node_record(x1, y1, theta1, nu1, gamma, axis_slope=axis_slope),
+            node_record(x2, y2, theta2, nu2, gamma), gamma)
+        return node[0], node[1], node[2], node[3], t_plus, t_minus
     mu1 = mach_angle_from_nu(nu1, gamma)
     mu2 = mach_angle_from_nu(nu2, gamma)
     return _interior(x1, y1, theta1, nu1, mu1, x2, y2, theta2, nu2, mu2, gamma)[:6]
@@ -183,13 +498,22 @@ def _interior(x1, y1, theta1, nu1, mu1, x2, y2, theta2, nu2, mu2, gamma):
     return x3, y3, theta3, nu3, t_plus, t_minus, mu3
 
 
-def symmetry_point(x2, y2, theta2, nu2, gamma=1.4, y_axis=0.0):
+def symmetry_point(x2, y2, theta2, nu2, gamma=1.4, y_axis=0.0, *, geometry="planar",
+                   axis_slope=None):
     """Plain core: node on a symmetry line y = ``y_axis`` below point 2, reached by its C-.
+
+    With ``geometry="axisymmetric"`` the symmetry line is the axis (``y_axis``
+    must be 0) and the C- gathers the source term on its way, by the
+    trapezoidal rule on sin θ / y, whose limit on the axis is ∂θ/∂y; that is
+    ``axis_slope`` [rad/m] (default sin θ2 / y2, first order; the marchers pass
+    θ/y of the node above the new one on its row, second order).
 
     Returns
     -------
     x3, y3, theta3, nu3, t_minus
-        θ3 = 0 and ν3 = θ2 + ν2 exactly; ``t_minus`` is the signed C- length.
+        θ3 = 0; ν3 = θ2 + ν2 exactly in planar flow, plus
+        ½(sin θ2 / y2 + ∂θ/∂y) sin μ̄ t_minus in axisymmetric flow;
+        ``t_minus`` is the signed C- length.
 
     Examples
     --------
@@ -198,7 +522,23 @@ def symmetry_point(x2, y2, theta2, nu2, gamma=1.4, y_axis=0.0):
     >>> x3, y3, th3, nu3, t = symmetry_point(0.0, 1.0, 0.1, 0.3)
     >>> float(th3), round(float(nu3), 15)
     (0.0, 0.4)
+
+    On the axis of a round stream the flow leaving the axis (θ2 > 0) expands
+    further: the source term adds to ν.
+
+    >>> *_, nu3, t = symmetry_point(0.0, 1.0, 0.1, 0.3, geometry="axisymmetric")
+    >>> bool(nu3 > 0.4)
+    True
     """
+    if check_geometry(geometry):
+        if not np.all(np.asarray(y_axis) == 0.0):
+            raise InvalidInputError(
+                f"y_axis must be 0 in axisymmetric flow (the symmetry line is the axis); "
+                f"got {y_axis!r}.")
+        p2 = node_record(x2, y2, theta2, nu2, gamma)
+        slope = np.sin(np.asarray(theta2, dtype=float)) / y2 if axis_slope is None else axis_slope
+        node, t_minus = _axis_axisymmetric(p2, slope, gamma)
+        return node[0], node[1], node[2], node[3], t_minus
     theta3 = np.zeros_like(np.asarray(theta2 + nu2, dtype=float))
     nu3 = theta2 + nu2
     direction = 0.5 * ((theta2 - mach_angle_from_nu(nu2, gamma)) - mach_angle_from_nu(nu3, gamma))
@@ -227,7 +567,8 @@ def cancellation_point(x1, y1, theta1, nu1, xb, yb, thetab, gamma=1.4):
     return x3, y3, theta3, nu3, t_plus, t_stream
 
 
-def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=1.4):
+def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=1.4, *,
+                        geometry="planar"):
     """Plain core: node on an upper constant-pressure boundary, reached by the C+ from point 1.
 
     Parameters
@@ -238,6 +579,7 @@ def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=
         Previous node on the boundary streamline and its flow angle [rad].
     nu_boundary : float or ndarray
         Prandtl–Meyer angle [rad] fixed by the boundary pressure.
+    geometry : {"planar", "axisymmetric"}, optional
 
     Returns
     -------
@@ -245,10 +587,12 @@ def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=
 
     Notes
     -----
-    ν3 = ν_boundary and θ3 = (θ1 - ν1) + ν_boundary exactly. The boundary
-    segment has direction (θb + θ3)/2, the C+ segment ((θ+μ)1 + (θ+μ)3)/2.
-    An expansion arriving at the boundary leaves as a compression of equal
-    strength (the boundary turns the flow by twice the incoming change).
+    ν3 = ν_boundary and θ3 = (θ1 - ν1) + ν_boundary exactly in planar flow
+    (axisymmetric: the C+ invariant first loses Q̄ t_plus). The
+    boundary segment has direction (θb + θ3)/2, the C+ segment
+    ((θ+μ)1 + (θ+μ)3)/2. An expansion arriving at the boundary leaves as a
+    compression of equal strength (the boundary turns the flow by twice the
+    incoming change).
 
     Examples
     --------
@@ -257,6 +601,11 @@ def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=
     >>> round(float(th3), 15), float(nu3)
     (-0.05, 0.45)
     """
+    if check_geometry(geometry):
+        p1 = node_record(x1, y1, theta1, nu1, gamma)
+        node, t_plus, t_stream = _free_boundary_axisymmetric(p1, xb, yb, thetab, nu_boundary,
+                                                             gamma)
+        return node[0], node[1], node[2], node[3], t_plus, t_stream
     nu3 = np.asarray(nu_boundary, dtype=float) + 0.0 * xb
     theta3 = (theta1 - nu1) + nu3
     mu3 = mach_angle_from_nu(nu3, gamma)
@@ -350,7 +699,7 @@ class WallContour:
         return cls(height, lambda xq: derivative(np.clip(np.asarray(xq, dtype=float), x_lo, x_hi)))
 
 
-def wall_point(x2, y2, theta2, nu2, wall, side="lower", gamma=1.4):
+def wall_point(x2, y2, theta2, nu2, wall, side="lower", gamma=1.4, *, geometry="planar"):
     """Plain core: node on a prescribed wall reached by a characteristic from point 2.
 
     Parameters
@@ -362,6 +711,9 @@ def wall_point(x2, y2, theta2, nu2, wall, side="lower", gamma=1.4):
         The wall; its flow angle is atan(dy/dx) at the node.
     side : {"lower", "upper"}
     gamma : float, optional
+    geometry : {"planar", "axisymmetric"}, optional
+        Axisymmetric: y is the radius (a lower wall is an inner body, y > 0)
+        and the arriving invariant gathers the source term.
 
     Returns
     -------
@@ -386,6 +738,10 @@ def wall_point(x2, y2, theta2, nu2, wall, side="lower", gamma=1.4):
     >>> round(float(x3), 12), float(th)
     (1.732050807569, 0.0)
     """
+    if check_geometry(geometry):
+        node, t_char = _wall_axisymmetric(node_record(x2, y2, theta2, nu2, gamma), wall, side,
+                                          gamma)
+        return node[0], node[1], node[2], node[3], t_char
     sign = -1.0 if side == "lower" else 1.0
     invariant = theta2 - sign * nu2  # θ + ν on a C- (lower), θ - ν on a C+ (upper)
     mu2 = mach_angle_from_nu(nu2, gamma)
@@ -445,175 +801,3 @@ class CharacteristicNet(ResultTable):
                    pressure_ratio(mach, gamma),
                    np.asarray(plus_segments, dtype=np.intp).reshape(-1, 2),
                    np.asarray(minus_segments, dtype=np.intp).reshape(-1, 2))
-
-
-
-# ----------------------------------------------------------- nets of a centred fan
-
-
-@dataclasses.dataclass
-class _Band:
-    """Node arrays [b, a] of a net grown from a centred fan (see :func:`march_fan_band`)."""
-
-    x: np.ndarray
-    y: np.ndarray
-    theta: np.ndarray
-    nu: np.ndarray
-    valid: np.ndarray
-    boundary_index: object
-    fold: tuple | None  # (x, y, b, a) of the first folded cell, or None
-
-
-def march_fan_band(fan_theta, fan_nu, corner_x, corner_y, *, boundary, n_plus_lines,
-                   nu_boundary=None, gamma=1.4, x_stop=np.inf):
-    """Plain core: march the net of a centred fan at an upper corner over a symmetry line.
-
-    The n lines of the fan leave the corner as C- characteristics (label a =
-    1..n), reflect from the symmetry line y = 0 as C+ characteristics (label
-    b = 1, 2, ...) and meet the upper boundary. Node (b, a) is where C+ line b
-    crosses C- line a; it lies on the symmetry line when a = b and on the
-    upper boundary when a = boundary_index(b).
-
-    Parameters
-    ----------
-    fan_theta, fan_nu : ndarray, shape (n,)
-        Flow angle and Prandtl–Meyer angle [rad] on each fan line at the corner.
-    corner_x, corner_y : float
-        Position of the corner [m].
-    boundary : {"cancel", "pressure"}
-        ``"cancel"``: a wall that turns each arriving C+ away without
-        reflection (minimum-length nozzle contour); boundary nodes at a = n + 1.
-        ``"pressure"``: a constant-pressure free boundary with Prandtl–Meyer
-        angle ``nu_boundary``; each C+ reflects as a new C- of label b + n.
-    n_plus_lines : int
-        Number of C+ lines to march.
-    gamma : float, optional
-        Ratio of specific heats [-].
-    x_stop : float, optional
-        Stop after the first diagonal lying wholly beyond ``x_stop`` [m].
-
-    Returns
-    -------
-    _Band
-        Arrays indexed [b, a] (``valid`` marks computed nodes) and the first
-        fold (same-family crossing, where a shock forms), or None.
-
-    Notes
-    -----
-    The invariants are labels of the lines: C- line a carries K-_a = θ + ν
-    (the fan's value for a <= n), C+ line b carries K+_b = -K-_b (reflection
-    from the symmetry line, θ = 0), and a C- reflected from the boundary
-    carries K-_(b+n) = K+_b + 2ν_boundary (constant pressure) or, at a
-    cancelling wall, nothing new. So every node state, θ = (K-_a + K+_b)/2 and
-    ν = (K-_a - K+_b)/2, is known before the march, exactly; and with it every
-    Mach angle, in one vectorised call. The march then only places the nodes,
-    exactly as :func:`interior_point`, :func:`symmetry_point`,
-    :func:`cancellation_point` and :func:`free_boundary_point` do (straight
-    segments at the averaged directions), one diagonal a + b = s at a time:
-    nodes of a diagonal depend only on earlier diagonals.
-    """
-    n = len(fan_theta)
-    if boundary == "cancel":
-        def boundary_index(b):
-            return np.full_like(np.asarray(b), n + 1)
-    else:
-        def boundary_index(b):
-            return np.asarray(b) + n
-    shape = (n_plus_lines + 1, int(boundary_index(n_plus_lines)) + 1)
-    theta, nu = _band_states(np.asarray(fan_theta, float), np.asarray(fan_nu, float), shape,
-                             boundary, nu_boundary)
-    with np.errstate(invalid="ignore"):
-        mu = mach_angle_from_nu(nu, gamma)
-    plus_dir, minus_dir = theta + mu, theta - mu
-    x, y = np.full(shape, np.nan), np.full(shape, np.nan)
-    valid = np.zeros(shape, dtype=bool)
-    lip = np.arange(1, n + 1) if boundary != "cancel" else np.arange(1, n + 2)
-    x[0, lip], y[0, lip], valid[0, lip] = corner_x, corner_y, True
-    b_all = np.arange(1, n_plus_lines + 1)
-    top = boundary_index(b_all)
-    fold = None
-    for s in range(2, int(top[-1]) + n_plus_lines + 1):
-        a_all = s - b_all
-        keep = (a_all >= b_all) & (a_all <= top)
-        b, a = b_all[keep], a_all[keep]
-        if b.size == 0:
-            continue
-        x3, y3, ok = _place_diagonal(b, a, top[keep], boundary, x, y, theta, plus_dir, minus_dir)
-        if not np.all(ok):
-            bad = np.flatnonzero(~ok)
-            first = bad[np.argmin(np.where(np.isnan(x3[bad]), np.inf, x3[bad]))]
-            i, j = b[first], a[first]
-            upstream = (i, j - 1) if j > i else (i - 1, j)
-            fold = (float(x[upstream]), float(y[upstream]), int(i), int(j))
-            break
-        x[b, a], y[b, a] = x3, y3
-        valid[b, a] = True
-        if np.min(x3) > x_stop:
-            break
-    return _Band(x, y, theta, nu, valid, boundary_index, fold)
-
-
-def _band_states(fan_theta, fan_nu, shape, boundary, nu_boundary):
-    """θ, ν [rad] of every node (b, a) of the band from the invariants its lines carry."""
-    n = fan_theta.size
-    n_b, n_a = shape
-    minus = np.full(n_a, np.nan)  # K-_a
-    minus[1:n + 1] = fan_theta + fan_nu
-    if boundary == "cancel":
-        minus[n + 1:] = minus[n]  # the cancelling wall reflects nothing
-    else:
-        for start in range(n + 1, n_a, n):  # K-_(b+n) = K+_b + 2ν_b = 2ν_b - K-_b
-            stop = min(start + n, n_a)
-            minus[start:stop] = 2.0 * nu_boundary - minus[start - n:stop - n]
-    plus = -minus[:n_b]  # K+_b = -K-_b (reflection from the symmetry line)
-    plus[0] = fan_theta[0] - fan_nu[0]  # row 0 is the corner: the fan's own K+
-    theta = 0.5 * (minus[None, :] + plus[:, None])
-    nu = 0.5 * (minus[None, :] - plus[:, None])
-    return theta, nu
-
-
-def _place_diagonal(b, a, top, boundary, x, y, theta, plus_dir, minus_dir):
-    """Positions of the nodes (b, a) of one diagonal; ``ok`` is False where the net folds."""
-    x3, y3 = np.empty(b.size), np.empty(b.size)
-    ok = np.ones(b.size, dtype=bool)
-    on_axis, on_top = a == b, a == top
-    inner = ~on_axis & ~on_top
-    i, j = b[inner], a[inner]  # from (b, a-1) along the C+ and (b-1, a) along the C-
-    x3[inner], y3[inner], t_plus, t_minus = _intersect(
-        x[i, j - 1], y[i, j - 1], 0.5 * (plus_dir[i, j - 1] + plus_dir[i, j]),
-        x[i - 1, j], y[i - 1, j], 0.5 * (minus_dir[i - 1, j] + minus_dir[i, j]))
-    ok[inner] = (t_plus > 0) & (t_minus > 0)
-    if np.any(on_axis):
-        i = b[on_axis]
-        direction = 0.5 * (minus_dir[i - 1, i] + minus_dir[i, i])
-        t_minus = -y[i - 1, i] / np.sin(direction)
-        x3[on_axis] = x[i - 1, i] + t_minus * np.cos(direction)
-        y3[on_axis] = 0.0
-        ok[on_axis] = t_minus > 0
-    if np.any(on_top):
-        i, j = b[on_top], a[on_top]
-        previous = top[on_top] if boundary == "cancel" else j - 1
-        x3[on_top], y3[on_top], t_plus, t_stream = _intersect(
-            x[i, j - 1], y[i, j - 1], 0.5 * (plus_dir[i, j - 1] + plus_dir[i, j]),
-            x[i - 1, previous], y[i - 1, previous], 0.5 * (theta[i - 1, previous] + theta[i, j]))
-        ok[on_top] = (t_plus > 0) & (t_stream >= 0)
-    return x3, y3, ok & np.isfinite(x3) & np.isfinite(y3)
-
-
-def band_segments(valid, skip=None):
-    """(C+ pairs, C- pairs) of flat node indices joining valid neighbours of a band.
-
-    Along a C+ line b >= 1 the neighbours are (b, a) → (b, a+1) over valid nodes
-    (nodes marked in ``skip`` are jumped over; row b = 0 is the corner, where the
-    fan lines start, not a C+); along a C- line a they are (b, a) → (b+1, a).
-    """
-    keep = valid & ~(skip if skip is not None else np.zeros_like(valid))
-    index = np.full(valid.shape, -1, dtype=np.intp)
-    index[keep] = np.arange(np.count_nonzero(keep))
-    plus = []
-    for row in index[1:]:
-        row = row[row >= 0]
-        plus.append(np.column_stack([row[:-1], row[1:]]))
-    minus = np.column_stack([index[:-1].ravel(), index[1:].ravel()])
-    minus = minus[(minus >= 0).all(axis=1)]
-    return np.concatenate(plus + [np.empty((0, 2), np.intp)]), minus, keep
