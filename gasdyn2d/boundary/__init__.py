@@ -12,11 +12,11 @@ Nothing here is physics, and no physics module talks to pint, xarray, pandas or 
 directly.
 """
 
-from .call import Call, as_si_scalar, caller_stacklevel, refuse_type
+from .call import SCALAR_CHECKS, Call, as_si_scalar, caller_stacklevel, refuse_type
 from .checks import Check, choice, clamp_to_limit, errors_mode, one_of
 from .results import ResultTable, result_fields, unit_field
 from .units import application_registry, is_quantity
 
-__all__ = ["Call", "Check", "ResultTable", "application_registry", "as_si_scalar",
+__all__ = ["Call", "Check", "SCALAR_CHECKS", "ResultTable", "application_registry", "as_si_scalar",
            "caller_stacklevel", "choice", "clamp_to_limit", "errors_mode", "is_quantity",
            "one_of", "refuse_type", "result_fields", "unit_field"]

@@ -52,10 +52,18 @@ from .checks import Check, errors_mode
 from .results import FieldInfo, pint_unit as _pint_unit, result_fields
 from .units import KINDS, TWO_PI, degrees_hint, is_quantity, to_caller_units, unit_of_quantity
 
-__all__ = ["Call", "as_si_scalar", "caller_stacklevel", "refuse_type"]
+__all__ = ["Call", "SCALAR_CHECKS", "as_si_scalar", "caller_stacklevel", "refuse_type"]
 
 _RAISE = Check(False)
 _NAN = Check(True)
+
+#: The Check of each valid ``errors`` value, for the scalar fast lanes of the relations: a
+#: public function whose arguments are all plain floats calls its checked core directly
+#: with ``SCALAR_CHECKS.get(errors)`` (None for an invalid ``errors``, which then takes
+#: the general path and its message). The core is the one the general path runs, so the
+#: numbers, checks and messages are the same; only the classification of the arguments
+#: is skipped.
+SCALAR_CHECKS = {"raise": _RAISE, "nan": _NAN}
 _REAL_KINDS = "fiu"
 
 

@@ -55,6 +55,21 @@ def pint_unit(unit_text: str) -> str:
 
 
 _FIELDS: dict = {}
+_MAKERS: dict = {}
+
+
+def _maker(cls):
+    """A constructor for ``cls`` that stores the field values straight into the instance
+    dict, one unpacking assignment (generated once per class, like dataclasses' own
+    ``__init__``; about twice as fast as ``dict.update`` over ``zip``, which matters for
+    the scalar calls of design codes)."""
+    names = [f.name for f in result_fields(cls)]
+    targets = ", ".join(f"d[{name!r}]" for name in names) + ("," if len(names) == 1 else "")
+    source = (f"def make(values):\n    result = new(cls)\n    d = result.__dict__\n"
+              f"    {targets} = values\n    return result\n")
+    namespace = {"new": object.__new__, "cls": cls}
+    exec(source, namespace)  # noqa: S102  (a fixed template over the class's field names)
+    return namespace["make"]
 
 
 def result_fields(result_type) -> tuple:
@@ -265,9 +280,10 @@ class ResultTable:
     def from_fields(cls, values):
         """The result with the given field values, in field order (no checks: the boundary's
         constructor, which has prepared every value)."""
-        result = object.__new__(cls)
-        result.__dict__.update(zip([f.name for f in result_fields(cls)], values))
-        return result
+        make = _MAKERS.get(cls)
+        if make is None:
+            make = _MAKERS[cls] = _maker(cls)
+        return make(values)
 
     def _shown(self):
         """(name, unit, value) of everything the displays show, in order: the fields

@@ -19,7 +19,8 @@ import math
 import numpy as np
 
 from .. import numerics as nx
-from ..boundary import Call, ResultTable, one_of, unit_field
+from ..boundary import SCALAR_CHECKS, Call, ResultTable, one_of, unit_field
+from ..boundary.units import TWO_PI
 from ..boundary.types import ArrayInput, FloatArray
 from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
 from .prandtl_meyer_function import (
@@ -171,6 +172,9 @@ def prandtl_meyer(M: ArrayInput, *, gamma: ArrayInput = 1.4, errors: str = "rais
     >>> round(float(np.degrees(prandtl_meyer(2.0))), 4)
     26.3798
     """
+    if (type(M) is float and type(gamma) is float and 1.0 <= M < math.inf
+            and 1.0 < gamma < math.inf and errors in SCALAR_CHECKS):
+        return prandtl_meyer_angle(M, gamma)  # the scalar fast lane
     call = Call(errors)
     call.take("M", M)
     call.take("gamma", gamma, keep_scalar=True)
@@ -223,6 +227,11 @@ def mach_from_prandtl_meyer(nu: ArrayInput, *, gamma: ArrayInput = 1.4,
     >>> round(mach_from_prandtl_meyer(26.3798 * ureg.deg), 4)
     2.0
     """
+    if (type(nu) is float and type(gamma) is float and 0.0 <= nu <= TWO_PI
+            and 1.0 < gamma < math.inf and errors in SCALAR_CHECKS):
+        M = mach_from_prandtl_meyer_angle(nu, gamma)  # the scalar fast lane; NaN beyond
+        if M == M:                                    # ν_max takes the general path
+            return M
     call = Call(errors)
     call.take("nu", nu, "rad", degrees_above=prandtl_meyer_degree_limit(gamma))
     call.take("gamma", gamma, keep_scalar=True)
@@ -329,6 +338,13 @@ def expansion_fan(M1: ArrayInput, *, deflection: ArrayInput = None, p2_p1: Array
     >>> round(fan.M2, 4), round(fan.p2_p1, 4)
     (2.3849, 0.548)
     """
+    check = SCALAR_CHECKS.get(errors)
+    if (type(M1) is float and type(deflection) is float and type(gamma) is float
+            and check is not None and p2_p1 is None and M2 is None
+            and 0.0 <= deflection <= TWO_PI):
+        # the scalar fast lane: the general path's checked core on the floats as given
+        return ExpansionFan.from_fields(_fan_core(M1, deflection, gamma, check,
+                                                  name="deflection"))
     name, value = one_of("expansion_fan", deflection=deflection, p2_p1=p2_p1, M2=M2)
     call = Call(errors)
     call.take("M1", M1)

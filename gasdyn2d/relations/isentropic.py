@@ -19,7 +19,7 @@ import math
 import numpy as np
 
 from .. import numerics as nx
-from ..boundary import Call, ResultTable, choice, clamp_to_limit, one_of, unit_field
+from ..boundary import SCALAR_CHECKS, Call, ResultTable, choice, clamp_to_limit, one_of, unit_field
 from ..boundary.types import ArrayInput, FloatArray
 from ..boundary.units import TWO_PI
 from ..numerics import nan_where_nan
@@ -28,6 +28,7 @@ from .prandtl_meyer_function import (
     mach_from_prandtl_meyer_angle,
     prandtl_meyer_angle,
     prandtl_meyer_degree_limit,
+    prandtl_meyer_of_root,
 )
 
 __all__ = [
@@ -474,6 +475,42 @@ def _area_ratio_fallback(A, gamma, supersonic):
     return nx.safeguarded_newton(residual, start, lower, upper)
 
 
+def isentropic_state(M, gamma=1.4):
+    """Plain core: (T/T0, p/p0, ρ/ρ0, A/A*, μ, ν) at Mach number M >= 0 in one call.
+
+    The array form calls :func:`temperature_ratio`, :func:`pressure_ratio`,
+    :func:`density_ratio`, :func:`area_ratio`, :func:`mach_angle_of` and
+    :func:`~gasdyn2d.relations.prandtl_meyer_function.prandtl_meyer_angle`; the scalar
+    form is the same formulas with the logarithm ln(1 + (γ-1)M²/2) taken once (below
+    ``HUGE_MACH``; above, the functions' own large-M forms). μ and ν are NaN below M = 1.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.isentropic import isentropic_state
+    >>> [round(x, 6) for x in isentropic_state(2.0)]
+    [0.555556, 0.127805, 0.230048, 1.6875, 0.523599, 0.460414]
+    """
+    if type(M) is float and type(gamma) is float and 1.0 <= M < HUGE_MACH and gamma > 1.0:
+        return _isentropic_state_scalar(M, gamma)
+    return (temperature_ratio(M, gamma), pressure_ratio(M, gamma), density_ratio(M, gamma),
+            area_ratio(M, gamma), mach_angle_of(M), prandtl_meyer_angle(M, gamma))
+
+
+def _isentropic_state_scalar(M, gamma):
+    """Scalar form of :func:`isentropic_state` for 1 <= M < HUGE_MACH: the forms of
+    :func:`_log_stagnation_temperature_ratio_scalar`, :func:`_pressure_ratio_scalar`,
+    :func:`_density_ratio_scalar`, :func:`_log_area_ratio_scalar` and
+    :func:`_mach_angle_scalar`, sharing ln T0/T."""
+    gm = gamma - 1.0
+    log_t = math.log1p(0.5 * gm * M * M)  # ln T0/T, as _log_stagnation_temperature_ratio
+    exponent = 0.5 * (gamma + 1.0) / gm
+    a = (M - 1.0) * (M + 1.0)
+    log_area = -math.log(M) + exponent * math.log1p(gm * a / (gamma + 1.0))
+    z = math.sqrt(a)
+    return (math.exp(-log_t), math.exp(-gamma / gm * log_t), math.exp(-log_t / gm),
+            math.exp(log_area), math.atan2(1.0, z), prandtl_meyer_of_root(z, gamma))
+
+
 # ------------------------------------------------------------------ unit boundary
 
 
@@ -528,15 +565,16 @@ def _isentropic_core(value, gamma, check, *, name, supersonic):
     if name != "M":  # an inverse that lands a few ulp below 1 is the sonic point (μ, ν exist)
         M = clamp_to_limit(M, 1.0, "lower")
     M = nan_where_nan(gamma, M)
-    return (
-        M,
-        value if name == "T_T0" else temperature_ratio(M, gamma),
-        value if name == "p_p0" else pressure_ratio(M, gamma),
-        value if name == "rho_rho0" else density_ratio(M, gamma),
-        value if name == "A_Astar" else area_ratio(M, gamma),
-        value if name == "mach_angle" else mach_angle_of(M),
-        value if name == "prandtl_meyer" else prandtl_meyer_angle(M, gamma),
-    )
+    ratios = isentropic_state(M, gamma)
+    if name == "M":
+        return (M, *ratios)
+    given = _GIVEN_FIELD[name]
+    return (M, *(value if i == given else r for i, r in enumerate(ratios)))
+
+
+_BRANCHES = ("supersonic", "subsonic")
+_GIVEN_FIELD = {"T_T0": 0, "p_p0": 1, "rho_rho0": 2, "A_Astar": 3, "mach_angle": 4,
+                "prandtl_meyer": 5}
 
 
 def isentropic_flow(M: ArrayInput = None, *, T_T0: ArrayInput = None, p_p0: ArrayInput = None,
@@ -599,6 +637,13 @@ def isentropic_flow(M: ArrayInput = None, *, T_T0: ArrayInput = None, p_p0: Arra
     >>> round(isentropic_flow(A_Astar=1.6875, branch="subsonic").M, 4)
     0.3722
     """
+    if (type(M) is float and type(gamma) is float and 0.0 <= M < math.inf
+            and 1.0 < gamma < math.inf and T_T0 is None and p_p0 is None and rho_rho0 is None
+            and A_Astar is None and mach_angle is None and prandtl_meyer is None
+            and errors in SCALAR_CHECKS and branch in _BRANCHES):
+        # the scalar fast lane: valid plain floats, for which the general path's checked
+        # core returns (M, *isentropic_state(M, γ)); anything else takes the general path
+        return IsentropicFlow.from_fields((M, *isentropic_state(M, gamma)))
     name, value = one_of("isentropic_flow", M=M, T_T0=T_T0, p_p0=p_p0, rho_rho0=rho_rho0,
                          A_Astar=A_Astar, mach_angle=mach_angle, prandtl_meyer=prandtl_meyer)
     supersonic = choice("branch", branch, {"supersonic": True, "subsonic": False})

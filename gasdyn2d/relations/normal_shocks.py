@@ -20,7 +20,7 @@ from typing import NamedTuple
 import numpy as np
 
 from .. import numerics as nx
-from ..boundary import Call, ResultTable, clamp_to_limit, one_of, unit_field
+from ..boundary import SCALAR_CHECKS, Call, ResultTable, clamp_to_limit, one_of, unit_field
 from ..boundary.checks import ROUNDING_SLACK
 from ..boundary.types import ArrayInput, FloatArray
 from ..numerics import nan_where_nan
@@ -39,6 +39,7 @@ __all__ = [
     "mach_from_pressure_jump",
     "lowest_downstream_mach",
     "mach_squared_minus_one",
+    "normal_shock_state",
 ]
 
 _HUGE_W = 1e300  # above this M1² - 1 the ratios switch to their forms in 1/w (no overflow)
@@ -176,6 +177,38 @@ def _pitot_ratio_scalar(M1, gamma):
     m2 = M1 * M1
     return nx.fexp(nx.fdiv(gamma, gm) * nx.flog(0.5 * gp * m2)
                    + nx.fdiv(1.0, gm) * nx.flog(nx.fdiv(gp, 2.0 * gamma * m2 - gamma + 1.0)))
+
+def normal_shock_state(M1, gamma=1.4):
+    """Plain core: (M2, p2/p1, ρ2/ρ1, T2/T1, p02/p01, p02/p1, strength) behind a normal shock
+    of upstream Mach number M1 >= 1, in one call.
+
+    The array form is :func:`normal_shock_ratios` of w = M1² - 1 and :func:`pitot_ratio`;
+    the scalar form runs the same formulas in the same order (for 1 <= M1 < 1e150, the
+    other cases through those functions), without building intermediate tuples.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.normal_shocks import normal_shock_state
+    >>> [round(x, 6) for x in normal_shock_state(2.0)]
+    [0.57735, 4.5, 2.666667, 1.6875, 0.720874, 5.640441, 3.5]
+    """
+    if type(M1) is float and type(gamma) is float and 1.0 <= M1 < _HUGE_MACH and gamma > 1.0:
+        gp, gm = gamma + 1.0, gamma - 1.0
+        w = (M1 - 1.0) * (M1 + 1.0)  # mach_squared_minus_one
+        p_jump = 2.0 * gamma / gp * w  # _normal_shock_ratios_scalar, eq. 93
+        p2_p1 = 1.0 + p_jump
+        den = gm * w + gp
+        rho_jump = 2.0 * w / den
+        rho2_rho1 = 1.0 + rho_jump
+        m2 = M1 * M1  # _pitot_ratio_scalar, eq. 100
+        pitot = math.exp(gamma / gm * math.log(0.5 * gp * m2)
+                         + 1.0 / gm * math.log(gp / (2.0 * gamma * m2 - gamma + 1.0)))
+        return (math.sqrt(den / (gp * p2_p1)), p2_p1, rho2_rho1, p2_p1 / rho2_rho1,
+                math.exp((gamma * math.log1p(rho_jump) - math.log1p(p_jump)) / gm), pitot,
+                p_jump)
+    r = normal_shock_ratios(mach_squared_minus_one(M1), gamma)
+    return (r.M2, r.p2_p1, r.rho2_rho1, r.T2_T1, r.p02_p01, pitot_ratio(M1, gamma), r.strength)
+
 
 def mach_from_downstream_mach(M2, gamma=1.4):
     """M1 from M2 in (√((γ-1)/(2γ)), 1]: M1² - 1 = (γ+1)(1 - M2²)/(2γM2² - (γ-1)).
@@ -607,12 +640,15 @@ def _normal_shock_core(value, gamma, check, *, name):
     gamma = check.gamma(gamma)
     value, M1 = _checked_upstream_mach(name, value, gamma, check)
     M1 = nan_where_nan(gamma, M1)
-    ratios = normal_shock_ratios(mach_squared_minus_one(M1), gamma)._asdict()
-    if name in ratios:
-        ratios[name] = value  # the caller's exact value, not a round trip
-    return (M1, ratios["M2"], ratios["p2_p1"], ratios["rho2_rho1"], ratios["T2_T1"],
-            ratios["p02_p01"], value if name == "p02_p1" else pitot_ratio(M1, gamma),
-            value - 1.0 if name == "p2_p1" else ratios["strength"])
+    fields = list(normal_shock_state(M1, gamma))
+    if name != "M1":
+        fields[_STATE_INDEX[name]] = value  # the caller's exact value, not a round trip
+        if name == "p2_p1":
+            fields[6] = value - 1.0
+    return (M1, *fields)
+
+
+_STATE_INDEX = {"M2": 0, "p2_p1": 1, "rho2_rho1": 2, "T2_T1": 3, "p02_p01": 4, "p02_p1": 5}
 
 
 def normal_shock(M1: ArrayInput = None, *, M2: ArrayInput = None, p2_p1: ArrayInput = None,
@@ -668,6 +704,13 @@ def normal_shock(M1: ArrayInput = None, *, M2: ArrayInput = None, p2_p1: ArrayIn
     >>> round(normal_shock(p2_p1=4.5).M1, 12)
     2.0
     """
+    if (type(M1) is float and type(gamma) is float and 1.0 <= M1 < math.inf
+            and 1.0 < gamma < math.inf and M2 is None and p2_p1 is None and rho2_rho1 is None
+            and T2_T1 is None and p02_p01 is None and p02_p1 is None
+            and errors in SCALAR_CHECKS):
+        # the scalar fast lane: valid plain floats, for which the general path's checked
+        # core returns exactly these fields; anything else takes the general path
+        return NormalShock.from_fields((M1, *normal_shock_state(M1, gamma)))
     name, value = one_of("normal_shock", M1=M1, M2=M2, p2_p1=p2_p1, rho2_rho1=rho2_rho1,
                          T2_T1=T2_T1, p02_p01=p02_p01, p02_p1=p02_p1)
     call = Call(errors)

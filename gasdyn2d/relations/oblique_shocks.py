@@ -33,7 +33,8 @@ from typing import NamedTuple
 import numpy as np
 
 from .. import numerics as nx
-from ..boundary import Call, ResultTable, choice, clamp_to_limit, one_of, unit_field
+from ..boundary import SCALAR_CHECKS, Call, ResultTable, choice, clamp_to_limit, one_of, unit_field
+from ..boundary.units import TWO_PI
 from ..boundary.results import FieldInfo
 from ..boundary.types import ArrayInput, FloatArray
 from ..errors import DetachedShockError, NoSolutionError
@@ -59,6 +60,7 @@ __all__ = [
     "oblique_shock_ratios",
 ]
 
+_HUGE_W = 1e300  # as in normal_shocks: above, the ratios take their forms in 1/w
 _DETACHMENT_SLACK = 4e-16  # tan θ this close above tan θmax is θmax itself (rounding of atan/tan)
 _NEAR_DETACHMENT = 1e-3  # within this fraction of tan θmax, polish in the square-root variable
 _NEWTON_STEPS = 1  # from the starts below one step reaches rounding (measured vs mpmath)
@@ -921,6 +923,21 @@ def _shock_from_deflection_scalar(M1, theta, gamma, strong):
     if invalid:
         z = math.nan
     w, v = a * z, a * y
+    if 0.0 <= w < _HUGE_W and 0.0 <= v < _HUGE_W and M1 <= _HUGE_MACH:
+        # the usual case, every operation in range: _normal_shock_ratios_scalar's formulas
+        # in its order, inline (no tuples), then M2 from the conserved tangential velocity
+        Mn1 = math.sqrt(1.0 + w)
+        gp, gm = gamma + 1.0, gamma - 1.0
+        p_jump = 2.0 * gamma / gp * w
+        p2_p1 = 1.0 + p_jump
+        den = gm * w + gp
+        rho_jump = 2.0 * w / den
+        rho2_rho1 = 1.0 + rho_jump
+        T2_T1 = p2_p1 / rho2_rho1
+        Mn2 = math.sqrt(den / (gp * p2_p1))
+        p02_p01 = math.exp((gamma * math.log1p(rho_jump) - math.log1p(p_jump)) / gm)
+        return (math.atan2(Mn1, math.sqrt(v)), Mn1, Mn2, math.sqrt(Mn2 * Mn2 + v / T2_T1),
+                p2_p1, rho2_rho1, T2_T1, p02_p01, p_jump)
     Mn1 = nx.fsqrt(1.0 + w)
     beta = math.atan2(Mn1, nx.fsqrt(v))
     if math.isinf(w) or math.isinf(v):
@@ -1169,6 +1186,16 @@ def oblique_shock(M1: ArrayInput, *, deflection: ArrayInput = None, wave_angle: 
     >>> round(oblique_shock(2.0, deflection=10 * ureg.deg, branch="strong").wave_angle.m, 4)
     83.7001
     """
+    if (type(M1) is float and type(deflection) is float and type(gamma) is float
+            and 1.0 <= M1 < math.inf and 0.0 <= deflection <= TWO_PI and 1.0 < gamma < math.inf
+            and wave_angle is None and Mn1 is None and p2_p1 is None
+            and errors in SCALAR_CHECKS and branch in _BRANCHES):
+        # the scalar fast lane: valid plain floats and an attached shock, for which the
+        # general path's checked core returns exactly these fields; anything else (a
+        # detached shock among them) takes the general path and its message
+        beta, *fields = _shock_from_deflection_scalar(M1, deflection, gamma, branch == "strong")
+        if beta == beta:
+            return ObliqueShock.from_fields((M1, deflection, beta, *fields))
     name, value = one_of("oblique_shock", deflection=deflection, wave_angle=wave_angle, Mn1=Mn1,
                          p2_p1=p2_p1)
     strong = choice("branch", branch, {"weak": False, "strong": True})
@@ -1183,7 +1210,13 @@ _ANGLE_PAIR = (FieldInfo("deflection", "rad", np.dtype(float), "flow deflection 
                FieldInfo("wave_angle", "rad", np.dtype(float), "wave angle β", "rad"))
 
 
+_BRANCHES = ("weak", "strong")
+
+
 def _angle_pair(M1, gamma, errors, plain):
+    if (type(M1) is float and type(gamma) is float and 1.0 <= M1 < math.inf
+            and 1.0 < gamma < math.inf and errors in SCALAR_CHECKS):
+        return plain(M1, gamma)  # the scalar fast lane (plain cores dispatch to math forms)
     call = Call(errors)
     call.take("M1", M1)
     call.take("gamma", gamma, keep_scalar=True)

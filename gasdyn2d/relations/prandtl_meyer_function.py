@@ -18,6 +18,7 @@ from ..numerics import HUGE_MACH
 
 __all__ = [
     "prandtl_meyer_angle",
+    "prandtl_meyer_of_root",
     "mach_from_prandtl_meyer_angle",
     "max_prandtl_meyer_angle",
     "check_prandtl_meyer_angle",
@@ -65,6 +66,24 @@ def _nu_of_z(z, gamma):
         zs, sks = z[small], sk[small]
         nu[small] = _atan_minus_x_series(sks * zs) / sks - _atan_minus_x_series(zs)
     return nu
+
+
+def prandtl_meyer_of_root(z, gamma=1.4):
+    """Plain core: ν [rad] as a function of z = √(M² - 1) >= 0 (NACA Report 1135, eq. 171
+    in z; a series near z = 0, where its two arctangents cancel).
+
+    For callers that have z already (the Mach angle is atan2(1, z)); floats take the
+    ``math`` form.
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.prandtl_meyer_function import prandtl_meyer_of_root
+    >>> round(prandtl_meyer_of_root(3.0 ** 0.5), 6)  # M = 2
+    0.460414
+    """
+    if type(z) is float and type(gamma) is float:
+        return _nu_of_z_scalar(z, gamma)
+    return _nu_of_z(z, gamma)
 
 
 def _nu_of_z_scalar(z, gamma):
