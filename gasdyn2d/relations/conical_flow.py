@@ -330,9 +330,47 @@ def _beta_slope_at(M1, beta, gamma, a, scalar):
     return g * 2.0 * np.sqrt((a - w) * (1.0 + w)) / w, log_cone
 
 
+def _regula_falsi(func, lo, hi, f_lo, f_hi, tol, max_iter):
+    """Vectorised Illinois iteration for a root of f in each bracket [lo, hi].
+
+    ``f_lo > 0 > f_hi`` (cases without such a bracket are NaN); ``func(index, x)``
+    returns (f, extra) at x for the flat cases ``index``, so only the cases still
+    moving are evaluated; a NaN f counts as the ``lo`` side (used where the
+    function is undefined below the root). The Illinois rule halves the value kept
+    at an end that survives twice in a row, which makes regula falsi superlinear.
+    Returns the last x and ``extra`` there (NaN where the bracket was invalid).
+    """
+    shape = np.shape(lo)
+    lo, hi, f_lo, f_hi = (np.array(v, dtype=float).reshape(-1) for v in (lo, hi, f_lo, f_hi))
+    ok = (f_lo > 0) & (f_hi < 0)
+    x = np.where(ok, lo, np.nan)
+    extra = np.full(x.shape, np.nan)
+    side = np.zeros(x.shape, dtype=int)
+    active = np.flatnonzero(ok)
+    for _ in range(max_iter):
+        if active.size == 0:
+            break
+        i = active
+        new = (lo[i] * f_hi[i] - hi[i] * f_lo[i]) / (f_hi[i] - f_lo[i])
+        f_new, extra_new = (np.broadcast_to(np.asarray(v, dtype=float), new.shape)
+                            for v in func(i, new))
+        moved = np.abs(new - x[i])
+        x[i], extra[i] = new, extra_new
+        positive = (f_new > 0) | np.isnan(f_new)
+        f_new = np.where(np.isnan(f_new), f_lo[i], f_new)
+        f_hi[i] = np.where(positive & (side[i] == 1), 0.5 * f_hi[i], f_hi[i])
+        f_lo[i] = np.where(~positive & (side[i] == -1), 0.5 * f_lo[i], f_lo[i])
+        lo[i], f_lo[i] = np.where(positive, new, lo[i]), np.where(positive, f_new, f_lo[i])
+        hi[i], f_hi[i] = np.where(positive, hi[i], new), np.where(positive, f_hi[i], f_new)
+        side[i] = np.where(positive, 1, -1)
+        done = (moved <= tol) | (hi[i] - lo[i] <= tol) | (f_new == 0)
+        active = active[~done]
+    return x.reshape(shape), extra.reshape(shape)
+
+
 def _detachment(M1, gamma, scalar=False):
     """(θc,max, ln w there): the zero of the exact slope d ln θc/dβ (tangent marches) by
-    the Illinois variant of regula falsi in β, only the cases still moving marched.
+    the Illinois variant of regula falsi in β (:func:`_regula_falsi`).
 
     Bracket: the cone's β* lies between 1.1° below and 7.4° above the wedge's β*w
     (NACA Report 1135, eq. 168) for M1 1.01-50 and γ 1.05-1.67 (measured), so
@@ -349,44 +387,19 @@ def _detachment(M1, gamma, scalar=False):
     bottom, top = mu + 0.5 * (beta_wedge - mu), math.radians(89.5)
     lo = np.maximum(beta_wedge + _DETACHMENT_OFFSETS[0], bottom)
     hi = np.minimum(beta_wedge + _DETACHMENT_OFFSETS[1], top)
-    g_lo, log_lo = _beta_slope_at(M1, lo, gamma, a, scalar)
+    g_lo, _ = _beta_slope_at(M1, lo, gamma, a, scalar)
     g_hi, _ = _beta_slope_at(M1, hi, gamma, a, scalar)
     retry = ~((g_lo > 0) & (g_hi < 0)) & np.isfinite(beta_wedge)
     if np.any(retry):
         lo = np.where(retry, bottom, lo)
         hi = np.where(retry, top, hi)
-        g_lo, log_lo = _beta_slope_at(M1, lo, gamma, a, scalar)
+        g_lo, _ = _beta_slope_at(M1, lo, gamma, a, scalar)
         g_hi, _ = _beta_slope_at(M1, hi, gamma, a, scalar)
-    ok = (g_lo > 0) & (g_hi < 0)
-    beta, log_cone = np.where(ok, lo, np.nan), np.where(ok, log_lo, np.nan)
-    side = np.zeros(M1.shape, dtype=int)  # which end was kept last (Illinois halving)
-    active = np.flatnonzero(ok.reshape(-1))
-    lo, hi, g_lo, g_hi = (np.array(v, dtype=float).reshape(-1) for v in (lo, hi, g_lo, g_hi))
-    beta, log_cone, side = beta.reshape(-1), log_cone.reshape(-1), side.reshape(-1)
     Mf, gf, af = M1.reshape(-1), gamma.reshape(-1), a.reshape(-1)
-    for _ in range(_DETACHMENT_ITER):
-        if active.size == 0:
-            break
-        i = active
-        new = (lo[i] * g_hi[i] - hi[i] * g_lo[i]) / (g_hi[i] - g_lo[i])
-        g_new, log_new = _beta_slope_at(Mf[i], new, gf[i], af[i], scalar)
-        g_new, log_new = np.broadcast_to(g_new, new.shape), np.broadcast_to(log_new, new.shape)
-        moved = np.abs(new - beta[i])
-        beta[i], log_cone[i] = new, log_new
-        positive = g_new > 0
-        # Illinois: halve the slope kept at the end that stays twice in a row
-        g_hi[i] = np.where(positive & (side[i] == 1), 0.5 * g_hi[i], g_hi[i])
-        g_lo[i] = np.where(~positive & (side[i] == -1), 0.5 * g_lo[i], g_lo[i])
-        lo[i] = np.where(positive, new, lo[i])
-        g_lo[i] = np.where(positive, g_new, g_lo[i])
-        hi[i] = np.where(positive, hi[i], new)
-        g_hi[i] = np.where(positive, g_hi[i], g_new)
-        side[i] = np.where(positive, 1, -1)
-        done = ((moved <= _DETACHMENT_TOL) | (hi[i] - lo[i] <= _DETACHMENT_TOL) | (g_new == 0)
-                | ~np.isfinite(g_new))
-        active = active[~done]
-    beta = beta.reshape(M1.shape)
-    return np.exp(log_cone).reshape(M1.shape), _log_w_of_beta(M1, beta)
+    beta, log_cone = _regula_falsi(
+        lambda i, b: _beta_slope_at(Mf[i], b, gf[i], af[i], scalar), lo, hi, g_lo, g_hi,
+        _DETACHMENT_TOL, _DETACHMENT_ITER)
+    return np.exp(log_cone), _log_w_of_beta(M1, beta)
 
 
 def cone_detachment_angles(M1, gamma=1.4):
@@ -563,3 +576,149 @@ def shock_layer_rays(M1, wave_angle, gamma=1.4, n_rays=None):
         log_p01 = np.log(stag) * gamma / (gamma - 1.0)
         return ShockLayerRays(ray, delta, np.sqrt(M_sq), np.exp(log_p), T, np.exp(log_p) / T,
                               np.exp(log_p - np.expand_dims(log_p01, -1)))
+
+
+# ------------------------------------------------------------------ conical probes
+
+_PROBE_REFERENCES = ("pitot", "stagnation")
+_PROBE_MAX_MACH = 1000.0  # above this the ratio is taken as out of reach
+_PROBE_TOL = 1e-14  # in ln(M1 - 1)
+_PROBE_ITER = 80
+
+
+def _probe_log_ratio(M1, theta, gamma, reference):
+    """ln(p_cone/p_ref) at M1 on the cone θc (NaN where the shock detaches)."""
+    scalar = _all_floats(M1, theta, gamma)
+    flow = cone_flow_from_cone_angle(M1, theta, gamma)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        if reference == "pitot":  # p02 behind a normal shock (NACA Report 1135, eq. 100)
+            log_ref = np.log(pitot_ratio(M1, gamma))
+        else:  # p01/p1 (eq. 44)
+            log_ref = gamma / (gamma - 1.0) * np.log1p(0.5 * (gamma - 1.0) * M1 * M1)
+        out = np.log(flow.p_cone_p1) - log_ref
+    return float(out) if scalar else out
+
+
+def _wedge_attachment_mach(theta, gamma):
+    """Mach number above which a wedge of half-angle θ has an attached shock (inf if
+    none: θ >= asin(1/γ)); bisection in ln(M - 1) on the closed-form θmax (eq. 168)."""
+    theta, gamma = np.broadcast_arrays(np.asarray(theta, float), np.asarray(gamma, float))
+    lo, hi = np.full(theta.shape, -30.0), np.full(theta.shape, 12.0)
+    with np.errstate(invalid="ignore"):
+        for _ in range(60):
+            mid = 0.5 * (lo + hi)
+            attached = detachment_angles(1.0 + np.exp(mid), gamma)[0] >= theta
+            lo, hi = np.where(attached, lo, mid), np.where(attached, mid, hi)
+        return np.where(theta < np.arcsin(1.0 / gamma), 1.0 + np.exp(hi), np.inf)
+
+
+def mach_from_cone_pressure(pressure_ratio, cone_angle, gamma=1.4, reference="pitot"):
+    """Plain core: free-stream Mach number from a cone's surface pressure ratio.
+
+    Parameters
+    ----------
+    pressure_ratio : float or ndarray
+        p_cone/p_pitot (``reference="pitot"``: the pressure a pitot tube reads, behind
+        a normal shock) or p_cone/p01 (``"stagnation"``: free-stream stagnation
+        pressure) [-].
+    cone_angle : float or ndarray
+        Cone half-angle θc [rad], > 0.
+    gamma : float or ndarray, optional
+        Ratio of specific heats [-].
+    reference : {"pitot", "stagnation"}
+
+    Returns
+    -------
+    float or ndarray
+        M1 [-]; NaN where no attached shock gives the ratio (above the ratio at the
+        Mach number where the shock detaches, or below the hypersonic limit).
+
+    Notes
+    -----
+    Both ratios fall monotonically with M1 at a fixed cone angle (checked from
+    detachment to M1 = 30 for θc 5°-40°). The root is bracketed in ln(M1 - 1),
+    starting where a wedge of the same half-angle attaches (the cone's shock is
+    attached there too), stepping by factors e until the residual changes sign
+    (bisecting towards the first attached Mach number when a step lands on a
+    detached shock), and refined by the Illinois iteration; each evaluation is a
+    vectorised :func:`cone_flow_from_cone_angle`. At high Mach numbers the pitot
+    ratio tends to a constant (Mach-number independence), so there M1 is badly
+    conditioned in the ratio: |d ln M1/d ln ratio| grows without bound.
+
+    Examples
+    --------
+    >>> import math
+    >>> from gasdyn2d.relations.conical_flow import cone_flow_from_cone_angle, mach_from_cone_pressure
+    >>> from gasdyn2d.relations.normal_shocks import pitot_ratio
+    >>> flow = cone_flow_from_cone_angle(2.5, math.radians(10.0))
+    >>> ratio = flow.p_cone_p1 / float(pitot_ratio(2.5))
+    >>> round(mach_from_cone_pressure(ratio, math.radians(10.0)), 10)
+    2.5
+    """
+    if reference not in _PROBE_REFERENCES:
+        raise InvalidInputError(f"reference must be 'pitot' or 'stagnation'; got {reference!r}.")
+    scalar = _all_floats(pressure_ratio, cone_angle, gamma)
+    ratio, theta, gamma = nx.broadcast_cases(gamma, pressure_ratio, cone_angle)
+    g = np.broadcast_to(gamma, ratio.shape)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        log_target = np.where((ratio > 0) & (theta > 0), np.log(ratio), np.nan)
+        shape = ratio.shape
+        t_flat, g_flat, goal = theta.reshape(-1), g.reshape(-1), log_target.reshape(-1)
+
+        def residual(index, u):
+            M1 = 1.0 + np.exp(u)
+            if scalar:
+                return _probe_log_ratio(float(M1[0]), float(t_flat[0]), float(g_flat[0]),
+                                        reference) - goal[index], None
+            return _probe_log_ratio(M1, t_flat[index], g_flat[index], reference) - goal[index], None
+
+        lo, hi, f_lo, f_hi = _probe_bracket(residual, t_flat, g_flat, goal)
+        u, _ = _regula_falsi(lambda i, x: (residual(i, x)[0], 0.0 * x), lo, hi, f_lo, f_hi,
+                             _PROBE_TOL, _PROBE_ITER)
+        M1 = (1.0 + np.exp(u)).reshape(shape)
+    return float(M1) if scalar else M1
+
+
+def _probe_bracket(residual, theta, gamma, goal):
+    """[lo, hi] in u = ln(M1 - 1) with residual(lo) > 0 > residual(hi) (see
+    :func:`mach_from_cone_pressure`); NaN residuals where no bracket exists."""
+    u0 = np.log(_wedge_attachment_mach(theta, gamma) - 1.0)
+    u0 = np.where(np.isfinite(u0), u0, np.log(20.0))
+    n = u0.size
+    lo, hi = np.full(n, np.nan), np.full(n, np.nan)
+    f_lo, f_hi = np.full(n, np.nan), np.full(n, np.nan)
+    u, f = u0.copy(), np.full(n, np.nan)
+    todo = np.flatnonzero(np.isfinite(goal))
+    f[todo] = residual(todo, u[todo])[0]
+    # upwards from attached points above the target, downwards from the others
+    for _ in range(int(np.log(_PROBE_MAX_MACH)) + 2):
+        up = todo[f[todo] > 0]
+        lo[up], f_lo[up] = u[up], f[up]
+        down = todo[f[todo] < 0]
+        hi[down], f_hi[down] = u[down], f[down]
+        todo = np.concatenate([up[np.isnan(hi[up])], down[np.isnan(lo[down])]])
+        todo = todo[np.isnan(lo[todo]) | np.isnan(hi[todo])]
+        if todo.size == 0:
+            break
+        step = np.where(np.isnan(hi[todo]), 1.0, -1.0)
+        u[todo] = u[todo] + step
+        beyond = u[todo] > np.log(_PROBE_MAX_MACH)
+        todo = todo[~beyond]
+        f[todo] = residual(todo, u[todo])[0]
+        detached = todo[np.isnan(f[todo])]
+        if detached.size:  # bisect between the detached point and the attached one above it
+            a, b = u[detached], hi[detached]
+            for _ in range(50):
+                mid = 0.5 * (a + b)
+                fm = residual(detached, mid)[0]
+                a = np.where(np.isnan(fm), mid, a)
+                got = ~np.isnan(fm) & (fm > 0)
+                lo[detached] = np.where(got & np.isnan(lo[detached]), mid, lo[detached])
+                f_lo[detached] = np.where(got & np.isnan(f_lo[detached]), fm, f_lo[detached])
+                b = np.where(~np.isnan(fm) & (fm <= 0), mid, b)
+                hi[detached] = np.where(~np.isnan(fm) & (fm <= 0), mid, hi[detached])
+                f_hi[detached] = np.where(~np.isnan(fm) & (fm <= 0), fm, f_hi[detached])
+                if np.all(~np.isnan(lo[detached]) | (b - a < 1e-12)):
+                    break
+            todo = todo[~np.isnan(f[todo])]
+    return lo, hi, f_lo, f_hi
