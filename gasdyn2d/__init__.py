@@ -49,6 +49,9 @@ from .characteristics.jets import SlotJet, underexpanded_slot_jet
 from .design.section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
 from .design.intakes import RampIntake, ramp_intake
 from .design.intake_design import ContractionLimits, OptimalRamps, contraction_limits, optimal_ramps
+from .relations.conical_flow import ConeFlow, cone_flow, max_cone_angle, sonic_cone_angle
+from .relations.cone_shock_layer import ConeShockLayer, cone_shock_layer
+from .relations.cone_probes import cone_probe_flow
 
 #: pint's application registry, for writing ``10 * ureg.deg``.
 from ._numerics import ureg as _ureg
@@ -75,5 +78,7 @@ __all__ = [
     "ContractionLimits",
     "GasDynamicsError", "InvalidInputError", "DetachedShockError", "NoSolutionError",
     "IllPosedProblemError", "ProbablyDegreesWarning",
+    "cone_flow", "ConeFlow", "max_cone_angle", "sonic_cone_angle", "cone_shock_layer",
+    "ConeShockLayer", "cone_probe_flow",
 ]
 __version__ = "0.1.0"
