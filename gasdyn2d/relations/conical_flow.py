@@ -39,7 +39,7 @@ from .._display import ResultTable, unit_field
 from ..errors import DetachedShockError, InvalidInputError, NoSolutionError
 from .normal_shocks import normal_shock_ratios
 from .oblique_shocks import detachment_angles, wv_from_deflection
-from .taylor_maccoll import ARRAY_MATH, march_shock_layer, shock_start
+from .taylor_maccoll import ARRAY_MATH, march_shock_layer, shock_start, step_count
 
 __all__ = [
     "cone_flow",
@@ -57,6 +57,7 @@ _MACH_WAVE_SLACK = 4e-15  # |M1² sin²β - 1| that rounding of sin β alone can
 _BRACKET_WIDTH = 40.0  # the root in ln w lies within this below the explicit start
 _LOG_W_TOL = 1e-14  # absolute tolerance in ln w (relative in w) of the Newton iterations
 _RESIDUAL_TOL = 1e-10  # a converged |ln θc - ln θ| above this marks a failed solve
+_ROOT_ITER = 60
 _DETACHMENT_OFFSETS = (math.radians(-1.5), math.radians(8.0))  # β* bracket about the wedge's
 _DETACHMENT_ITER = 60
 _DETACHMENT_TOL = 1e-13  # in β [rad]; θc,max is second-order insensitive to it
@@ -256,13 +257,8 @@ def _from_cone_angle_block(M1, theta, gamma, scalar):
         valid = (M1 >= 1.0) & (theta >= 0.0) & (gamma > 1.0) & np.isfinite(theta)
         mach_cone = valid & (theta == 0.0)
         solve = valid & ~mach_cone
-        x, a = _solve_log_w(M1, np.where(solve, theta, np.nan), gamma, scalar)
-        w, start = _shock_from_log_w(_as_case(M1, scalar), _as_case(x, scalar),
-                                     _as_case(gamma, scalar), _as_case(a, scalar))
-        beta = np.arctan2(np.sqrt(1.0 + w), np.sqrt(a - w))
-        out = march_shock_layer(start, _as_case(gamma, scalar))
-        fields = _fields(_as_case(M1, scalar), w, _as_case(beta, scalar), _as_case(gamma, scalar),
-                         start, out)
+        x, found, a = _solve_log_w(M1, np.where(solve, theta, np.nan), gamma, scalar)
+        fields = _fields_of(M1, found, a, gamma, scalar)
         # a solve that ended on a bracket end instead of the root is no answer
         missed = solve & ~(np.abs(np.log(fields.cone_angle) - np.log(theta)) <= _RESIDUAL_TOL)
         if scalar:
@@ -273,8 +269,104 @@ def _from_cone_angle_block(M1, theta, gamma, scalar):
         return _put_cases(fields, mach_cone, _mach_cone(M1, np.arcsin(1.0 / M1)))
 
 
+class _Evaluation(NamedTuple):
+    """What one march at ln w leaves behind (the fields need nothing else)."""
+
+    w: object
+    deflection: object
+    M2_sq: object
+    tau: object
+    log_cone: object
+    L: object
+    M_sq: object
+
+
+def _fields_of(M1, found, a, gamma, scalar):
+    """ConeFlowRatios from the last march of a solve (floats for the scalar form)."""
+    beta = np.arctan2(np.sqrt(1.0 + found.w), np.sqrt(a - found.w))
+    if scalar:
+        found = _Evaluation(*(_as_case(v, True) for v in found))
+        M1, beta, gamma = (_as_case(v, True) for v in (M1, beta, gamma))
+    return _fields(M1, found.w, beta, gamma, found, found)
+
+
+def _marcher(M1, gamma, a, scalar, target):
+    """``evaluate(index, x, n, tangent)`` for :func:`_root_in_log_w`: the march at ln w = x
+    for the flat cases ``index`` (n steps, or the march's own count if None), returning
+    target(start, out) (a residual and its x-derivative, None unless ``tangent``), the
+    step counts used and an :class:`_Evaluation`."""
+    Mf, gf, af = (np.broadcast_to(v, np.shape(M1)).reshape(-1) for v in (M1, gamma, a))
+    flat = lambda v: np.atleast_1d(np.asarray(v, dtype=float))  # noqa: E731
+
+    def evaluate(index, x, n, tangent):
+        if scalar:
+            w, start = _shock_from_log_w(float(Mf[0]), float(x[0]), float(gf[0]), float(af[0]),
+                                         tangent=tangent)
+            steps = int(step_count(start.tau)) if n is None else int(n[0])
+            out = march_shock_layer(start, float(gf[0]), n_steps=steps, tangent=tangent)
+        else:
+            w, start = _shock_from_log_w(Mf[index], x, gf[index], af[index], tangent=tangent)
+            steps = step_count(start.tau) if n is None else n
+            out = march_shock_layer(start, gf[index], n_steps=steps, tangent=tangent)
+        f, slope = target(index, start, out)
+        record = _Evaluation(*(flat(v) for v in (w, start.deflection, start.M2_sq, start.tau,
+                                                  out.log_cone, out.L, out.M_sq)))
+        return flat(f), flat(slope) if tangent else None, np.atleast_1d(steps), record
+    return evaluate
+
+
+def _root_in_log_w(evaluate, x0, lo, hi, increasing, n=None):
+    """Root in x = ln w of a smooth residual, for every case at once: one Newton step with
+    the exact slope of a tangent march, then secant steps (plain marches, a third of the
+    cost) inside the bracket [lo, hi], bisection where a step would leave it. The step
+    count of each case is held fixed while it iterates, so the discrete map is smooth;
+    converged cases drop out (only the rest are marched). A case stops when its next step
+    would be below the tolerance: the last march is then the answer, and its
+    :class:`_Evaluation` is returned with x and the step counts."""
+    shape = np.shape(x0)
+    x, lo, hi = (np.array(np.broadcast_to(v, shape), dtype=float).reshape(-1)
+                 for v in (x0, lo, hi))
+    steps = np.zeros(x.size, dtype=int) if n is None else np.array(n).reshape(-1).copy()
+    found = _Evaluation(*(np.full(x.size, np.nan) for _ in _Evaluation._fields))
+    idx = np.flatnonzero(np.isfinite(x) & np.isfinite(lo) & np.isfinite(hi))
+    x[np.setdiff1d(np.arange(x.size), idx)] = np.nan
+    sign = 1.0 if increasing else -1.0
+
+    def keep(index, record):
+        for name, values in zip(_Evaluation._fields, record):
+            getattr(found, name)[index] = values
+
+    if idx.size:
+        f, slope, used, record = evaluate(idx, x[idx], None if n is None else steps[idx], True)
+        steps[idx] = used
+        keep(idx, record)
+    for _ in range(_ROOT_ITER):
+        if idx.size == 0:
+            break
+        below = sign * f < 0  # the root lies above x
+        lo[idx] = np.where(below, x[idx], lo[idx])
+        hi[idx] = np.where(below, hi[idx], x[idx])
+        step = -f / slope
+        # a step below the tolerance is convergence: the march just made is the answer
+        done = (np.abs(step) <= _LOG_W_TOL * np.maximum(1.0, np.abs(x[idx]))) | (f == 0)
+        done |= np.isnan(f)
+        new = x[idx] + step
+        bisect = ~((new > lo[idx]) & (new < hi[idx])) | ~(sign * slope > 0)
+        new = np.where(bisect, 0.5 * (lo[idx] + hi[idx]), new)
+        more = ~done
+        idx, x_old, f_old = idx[more], x[idx][more], f[more]
+        if idx.size == 0:
+            break
+        x[idx] = new[more]
+        f, _, _, record = evaluate(idx, x[idx], steps[idx], False)
+        keep(idx, record)
+        slope = (f - f_old) / (x[idx] - x_old)
+    return x.reshape(shape), steps.reshape(shape), _Evaluation(*(v.reshape(shape) for v in found))
+
+
 def _solve_log_w(M1, theta, gamma, scalar):
-    """x = ln w of the attached conical shock on cones θ (NaN where none); and M1² - 1."""
+    """(x = ln w, the last march's :class:`_Evaluation`, M1² - 1) of the attached conical
+    shock on cones θ (NaN where none). See :func:`cone_flow_from_cone_angle`."""
     a = (M1 - 1.0) * (M1 + 1.0)
     theta_wedge, _ = detachment_angles(M1, gamma)
     M1, theta, a, theta_wedge = np.broadcast_arrays(M1, theta, a, theta_wedge)
@@ -288,17 +380,22 @@ def _solve_log_w(M1, theta, gamma, scalar):
         x_hi[beyond_wedge] = np.where(theta[beyond_wedge] <= theta_max, x_star, np.nan)
     x_hi = np.where(np.isnan(theta), np.nan, x_hi)
     x0 = np.minimum(_explicit_start(M1, theta, g, a), x_hi)
-    log_theta = np.log(theta)
-
-    def residual(x):
-        _, start = _shock_from_log_w(_as_case(M1, scalar), _as_case(x, scalar),
-                                     _as_case(g, scalar), _as_case(a, scalar), tangent=True)
-        out = march_shock_layer(start, _as_case(g, scalar), tangent=True)
-        return np.asarray(out.log_cone) - log_theta, np.asarray(out.d_log_cone)
-
-    x = nx.safeguarded_newton(residual, x0, x0 - _BRACKET_WIDTH, x_hi, atol=_LOG_W_TOL,
-                              increasing=True)
-    return x, a
+    log_theta = np.log(theta).reshape(-1)
+    evaluate = _marcher(M1, g, a, scalar,
+                        lambda i, start, out: (out.log_cone - log_theta[i], out.d_log_cone))
+    x, n, found = _root_in_log_w(evaluate, x0, x0 - _BRACKET_WIDTH, x_hi, True)
+    # the forward march at the root takes step_count(τs) steps; where that differs from
+    # the count held while iterating, polish with it (a secant step or two), so that the
+    # cone angle -> wave angle -> cone angle round trip closes to rounding
+    forward_n = step_count(found.tau)
+    other = (forward_n != n) & np.isfinite(x)
+    if np.any(other):
+        width = 1e-6 * np.maximum(1.0, np.abs(x))
+        x2, _, found2 = _root_in_log_w(evaluate, np.where(other, x, np.nan), x - width,
+                                       x + width, True, n=forward_n)
+        x = np.where(other, x2, x)
+        found = _Evaluation(*(np.where(other, b, a_) for a_, b in zip(found, found2)))
+    return x, found, a
 
 
 # ------------------------------------------------------------------ detachment and sonic points
@@ -439,20 +536,15 @@ def sonic_cone_angles(M1, gamma=1.4):
         a = (M1 - 1.0) * (M1 + 1.0)
         g = np.broadcast_to(gamma, M1.shape)
 
-        def residual(x):
-            _, start = _shock_from_log_w(_as_case(M1, scalar), _as_case(x, scalar),
-                                         _as_case(g, scalar), _as_case(a, scalar), tangent=True)
-            out = march_shock_layer(start, _as_case(g, scalar), tangent=True)
+        def log_mach_sq(index, start, out):
             M_sq, L = np.asarray(out.M_sq), np.asarray(out.L)
             slope = np.exp(-L) * (np.asarray(start.d_M2_sq) - np.asarray(start.k) * out.d_L)
             return np.log(M_sq), slope / M_sq
 
-        x = nx.safeguarded_newton(residual, x_star, x_star - _BRACKET_WIDTH, x_star,
-                                  atol=_LOG_W_TOL, increasing=False)
-        w, start = _shock_from_log_w(_as_case(M1, scalar), _as_case(x, scalar),
-                                     _as_case(g, scalar), _as_case(a, scalar))
-        theta = np.exp(march_shock_layer(start, _as_case(g, scalar)).log_cone)
-        beta = np.arctan2(np.sqrt(1.0 + w), np.sqrt(a - w))
+        x, _, found = _root_in_log_w(_marcher(M1, g, a, scalar, log_mach_sq), x_star,
+                                     x_star - _BRACKET_WIDTH, x_star, False)
+        theta = np.exp(found.log_cone)
+        beta = np.arctan2(np.sqrt(1.0 + found.w), np.sqrt(a - found.w))
     if scalar:
         return float(theta), float(beta)
     return theta, beta

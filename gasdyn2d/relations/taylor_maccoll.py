@@ -370,6 +370,28 @@ def march_shock_layer(start, gamma, n_steps=None, tangent=False, keep_rays=False
     return _march_arrays(start, gamma, n_steps, tangent, keep_rays)
 
 
+def _combine(row, K, y, h):
+    """y + h Σ a_l K_l for the three components (``row`` = ((l, a_l), ...))."""
+    s0 = s1 = s2 = 0.0
+    for l, a in row:
+        k = K[l]
+        s0 += a * k[0]
+        s1 += a * k[1]
+        s2 += a * k[2]
+    return (y[0] + h * s0, y[1] + h * s1, y[2] + h * s2)
+
+
+def _combine_tangent(row, K, dK, dy, h, dh):
+    """The derivative of :func:`_combine`: dy + Σ a_l (dh K_l + h dK_l)."""
+    s0 = s1 = s2 = 0.0
+    for l, a in row:
+        k, dk = K[l], dK[l]
+        s0 += a * (dh * k[0] + h * dk[0])
+        s1 += a * (dh * k[1] + h * dk[1])
+        s2 += a * (dh * k[2] + h * dk[2])
+    return (dy[0] + s0, dy[1] + s1, dy[2] + s2)
+
+
 def _march_scalar(start, gamma, n, tangent, keep_rays):
     """The scalar form: the march on Python floats with the ``math`` module."""
     nan = math.nan
@@ -377,36 +399,31 @@ def _march_scalar(start, gamma, n, tangent, keep_rays):
         rays = [[start.tau], [start.log_ray], [0.0], [start.log_D]] if keep_rays else None
         return MarchResult(nan, nan, nan, nan, nan, rays)
     gm = gamma - 1.0
-    h = -start.tau / n
-    dh = -start.d_tau / n
-    y = [start.log_ray, 0.0, start.log_D]
-    dy = [start.d_log_ray, 0.0, start.d_log_D]
+    tau, d_tau = start.tau, start.d_tau
+    h, dh = -tau / n, -d_tau / n
+    y = (start.log_ray, 0.0, start.log_D)
+    dy = (start.d_log_ray, 0.0, start.d_log_D)
     M2, k, dM2 = start.M2_sq, start.k, start.d_M2_sq
-    rays = [[start.tau], [y[0]], [y[1]], [y[2]]] if keep_rays else None
+    rays = [[tau], [y[0]], [y[1]], [y[2]]] if keep_rays else None
     for j in range(n):
-        K, dK = [], []
+        K, dK = [None] * _N_STAGES, [None] * _N_STAGES
         for i in range(_N_STAGES):
             frac = 1.0 - (j + _NODES[i]) / n
-            z = [y[q] + h * sum(a * K[l][q] for l, a in _STAGES[i]) for q in range(3)]
+            z = _combine(_STAGES[i], K, y, h)
             if tangent:
-                dz = [dy[q] + sum(a * (dh * K[l][q] + h * dK[l][q]) for l, a in _STAGES[i])
-                      for q in range(3)]
-                f, df = _slopes(start.tau * frac, z, M2, k, gm, math,
-                                (start.d_tau * frac, dz, dM2))
-                dK.append(df)
+                dz = _combine_tangent(_STAGES[i], K, dK, dy, h, dh)
+                K[i], dK[i] = _slopes(tau * frac, z, M2, k, gm, math, (d_tau * frac, dz, dM2))
             else:
-                f = _slopes(start.tau * frac, z, M2, k, gm, math)
-            K.append(f)
+                K[i] = _slopes(tau * frac, z, M2, k, gm, math)
         if tangent:
-            dy = [dy[q] + sum(b * (dh * K[l][q] + h * dK[l][q]) for l, b in _WEIGHTS)
-                  for q in range(3)]
-        y = [y[q] + h * sum(b * K[l][q] for l, b in _WEIGHTS) for q in range(3)]
+            dy = _combine_tangent(_WEIGHTS, K, dK, dy, h, dh)
+        y = _combine(_WEIGHTS, K, y, h)
         if keep_rays:
-            for q, values in enumerate(rays):
-                values.append(start.tau * (1.0 - (j + 1) / n) if q == 0 else y[q - 1])
-    M_sq = M2 + start.k * math.expm1(-y[1])
+            for values, value in zip(rays, (tau * (1.0 - (j + 1) / n), *y)):
+                values.append(value)
+    M_sq = M2 + k * math.expm1(-y[1])
     if not tangent:
-        dy = [nan, nan, nan]
+        dy = (nan, nan, nan)
     return MarchResult(y[0], y[1], M_sq, dy[0], dy[1], rays)
 
 
