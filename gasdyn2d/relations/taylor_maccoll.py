@@ -258,19 +258,21 @@ def _slopes(t, y, M2_sq, k, gm, m, tangent=None):
     M_sq = M2_sq + k * eL
     D = m.exp(log_D)
     tp = m.tan(psi)
-    cos2 = 1.0 / (1.0 + tp * tp)
-    cos_psi = m.sqrt(cos2)
-    sin2 = tp * tp * cos2
+    tp2 = tp * tp
+    cos2 = 1.0 / (1.0 + tp2)
+    sin2 = tp2 * cos2
     t_ray = m.tan(ray)
     t_delta = m.tan(delta)
-    ratio = (t_delta / t_ray) * m.sqrt((1.0 + t_ray * t_ray) / (1.0 + t_delta * t_delta))
-    R = ratio * cos_psi / (e * D)
+    tr2, td2 = t_ray * t_ray, t_delta * t_delta
+    # R = θ sin δ cos ψ/(δ sin θ D), with sin δ/sin θ = (tan δ/tan θ) √((1+tan²θ)/(1+tan²δ))
+    R = m.sqrt(td2 * (1.0 + tr2) * cos2 / (tr2 * (1.0 + td2))) / (e * D)
     f1 = 1.0 / (1.0 + R)
-    g = M_sq * tp * delta * R * f1
+    Mtp = M_sq * tp
+    g = Mtp * delta * R * f1
     f2 = -gm * g
     dpsi = ray * (e - f1 * em1)
     k1 = k * (1.0 + eL)  # M² + 2/(γ-1)
-    dD = sin2 * k1 * f2 - 2.0 * M_sq * tp * cos2 * dpsi
+    dD = sin2 * k1 * f2 - 2.0 * Mtp * cos2 * dpsi
     f3 = dD / D
     scale = 1.0 / (1.0 - BLEND * f3)
     out = (f1 * scale, f2 * scale, f3 * scale)
@@ -284,13 +286,11 @@ def _slopes(t, y, M2_sq, k, gm, m, tangent=None):
     d_psi = -(d_ray * em1 + ray * de)
     d_eL = -(1.0 + eL) * dL
     dM = dM2 + dM2 * eL + k * d_eL
-    dD_var = D * d_log_D
-    d_tp = (1.0 + tp * tp) * d_psi
+    d_tp = (1.0 + tp2) * d_psi
     d_cos2 = -2.0 * cos2 * cos2 * tp * d_tp
-    d_cos_psi = d_cos2 / (2.0 * cos_psi)
-    d_sin2 = 2.0 * tp * d_tp * cos2 + tp * tp * d_cos2
-    d_log_ratio = d_delta / t_delta - d_ray / t_ray  # d ln(sin δ/sin θ) = cot δ dδ - cot θ dθ
-    dR = R * (d_log_ratio + d_cos_psi / cos_psi + ds - d_log_D)
+    d_sin2 = 2.0 * tp * d_tp * cos2 + tp2 * d_cos2
+    # d ln R = cot δ dδ - cot θ dθ + ½ d ln cos²ψ + ds - d ln D
+    dR = R * (d_delta / t_delta - d_ray / t_ray + 0.5 * d_cos2 / cos2 + ds - d_log_D)
     df1 = -f1 * f1 * dR
     dg = (dM * tp * delta * R * f1 + M_sq * (d_tp * delta * R * f1 + tp * (
         d_delta * R * f1 + delta * (dR * f1 + R * df1))))
@@ -473,24 +473,26 @@ def _march_arrays(start, gamma, n_steps, tangent, keep_rays):
 def _rk_step_arrays(j, a, y, dy, tau, d_tau, h, dh, n, M2, k, dM2, gm):
     """One Runge–Kutta step, in place, of the first ``a`` (still marching) cases."""
     ya, ha = y[:, :a], h[:a]
-    K = np.empty((_N_STAGES, 3, a))
-    dK = np.empty((_N_STAGES, 3, a)) if dy is not None else None
+    K = np.empty((_N_STAGES, 3 * a))  # stage slopes, flattened so a weighted sum is one gemv
+    dK = np.empty((_N_STAGES, 3 * a)) if dy is not None else None
+    combine = lambda row, stages: (row @ stages).reshape(3, a)  # noqa: E731
     for i in range(_N_STAGES):
         frac = 1.0 - (j + _NODES[i]) / n[:a]
         if i:
-            inc = np.tensordot(_STAGE_ROWS[i], K[:i], axes=1)
+            inc = combine(_STAGE_ROWS[i], K[:i])
             z = ya + ha * inc
         else:
             z = ya
         if dy is None:
-            K[i] = _slopes(tau[:a] * frac, z, M2[:a], k[:a], gm[:a], ARRAY_MATH)
+            K[i].reshape(3, a)[...] = _slopes(tau[:a] * frac, z, M2[:a], k[:a], gm[:a],
+                                               ARRAY_MATH)
             continue
-        dz = dy[:, :a] + (dh[:a] * inc + ha * np.tensordot(_STAGE_ROWS[i], dK[:i], axes=1)
-                          if i else 0.0)
+        dz = dy[:, :a] + (dh[:a] * inc + ha * combine(_STAGE_ROWS[i], dK[:i]) if i else 0.0)
         f, df = _slopes(tau[:a] * frac, z, M2[:a], k[:a], gm[:a], ARRAY_MATH,
                         (d_tau[:a] * frac, dz, dM2[:a]))
-        K[i], dK[i] = f, df
-    inc = np.tensordot(_WEIGHT_ROW, K, axes=1)
+        K[i].reshape(3, a)[...] = f
+        dK[i].reshape(3, a)[...] = df
+    inc = combine(_WEIGHT_ROW, K)
     if dy is not None:
-        dy[:, :a] += dh[:a] * inc + ha * np.tensordot(_WEIGHT_ROW, dK, axes=1)
+        dy[:, :a] += dh[:a] * inc + ha * combine(_WEIGHT_ROW, dK)
     y[:, :a] += ha * inc
