@@ -268,3 +268,56 @@ def sonic_cone(M1, g=1.4, *, guess):
                     ftol=mp.mpf(10) ** -24)
         theta_c, _, beta, _, _ = _surface(M1, mp.exp(x), g)
         return float(theta_c), float(beta)
+
+
+# ----------------------------------------------------------------- slow cases, kept as a table
+
+#: (M1, cone angle [rad], γ, a wave angle near the answer [rad]) too slow to run in the test
+#: suite (slender cones, near detachment, near M1 = 1); tests/test_conical_flow.py keeps
+#: their 30-digit answers in SLOW_REFERENCE, printed by ``python tests/conical_reference.py``.
+SLOW_CONES = [
+    (1.05, 0.0001, 1.4, 1.2609516870532782),
+    (2.0, 0.0001, 1.1, 0.5235987755983009),
+    (20.0, 0.0001, 1.67, 0.05002085680791693),
+    (1.05, 0.17009274588749448, 1.4, 1.3736074592509133),  # 1e-4 below detachment
+    (1.05, 0.17010975516208324, 1.4, 1.3759297439218554),  # 1e-8 below detachment
+    (4.0, 0.8194888013117024, 1.67, 1.2164766054706355),  # 1e-6 below detachment
+    (1.001, 0.012298271673821965, 1.4, 1.5265974628949164),
+    (1.01, 0.0038551852049780763, 1.4, 1.4299606306784165),
+    (1.02, 0.10425247048041779, 1.1, 1.4007424674639932),
+]
+#: (M1, γ, a wave angle near the detachment wave angle [rad])
+SLOW_DETACHMENTS = [
+    (1.05, 1.4, 1.3759532613983732),
+    (3.0, 1.2, 1.2853581713897673),
+    (1.001, 1.4, 1.541166198544173),
+    (20.0, 1.67, 1.234823007025614),
+]
+#: (M1, γ, a wave angle near the sonic-surface wave angle [rad])
+SLOW_SONIC = [
+    (2.0, 1.4, 1.0000235372862012),
+    (5.0, 1.3, 1.169760437445286),
+]
+
+
+def _print_slow_table():
+    print("SLOW_REFERENCE = {  # tests/conical_reference.py at 30 digits (python tests/conical_reference.py)")
+    for M1, theta_c, g, guess in SLOW_CONES:
+        out = cone_from_cone_angle(M1, theta_c, g, guess=guess)
+        print(f"    ({M1!r}, {theta_c!r}, {g!r}): {{")
+        for name, value in out.items():
+            print(f"        {name!r}: {value!r},")
+        print("    },")
+    print("}")
+    print("SLOW_DETACHMENT = {")
+    for M1, g, guess in SLOW_DETACHMENTS:
+        print(f"    ({M1!r}, {g!r}): {detachment(M1, g, guess=guess)!r},")
+    print("}")
+    print("SLOW_SONIC = {")
+    for M1, g, guess in SLOW_SONIC:
+        print(f"    ({M1!r}, {g!r}): {sonic_cone(M1, g, guess=guess)!r},")
+    print("}")
+
+
+if __name__ == "__main__":
+    _print_slow_table()

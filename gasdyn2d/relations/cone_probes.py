@@ -29,6 +29,7 @@ _PROBE_REFERENCES = ("pitot", "stagnation")
 _PROBE_MAX_MACH = 1000.0  # above this the ratio is taken as out of reach
 _PROBE_TOL = 1e-14  # in ln(M1 - 1)
 _PROBE_ITER = 80
+_ATTACHED_SIDE = 1e-9  # in ln(M1 - 1): just above the Mach number where the shock attaches
 
 
 def _probe_log_ratio(M1, theta, gamma, reference):
@@ -125,6 +126,24 @@ def mach_from_cone_pressure(pressure_ratio, cone_angle, gamma=1.4, reference="pi
     return float(M1) if scalar else M1
 
 
+def _attachment_log_mach(theta, gamma, u_attached):
+    """u = ln(M1 - 1) at which cones θ (arrays) have θc,max(M1) = θ: the Illinois
+    iteration on θ - θc,max(1 + e^u) between u_attached (an attached Mach number) and
+    6 below it (a factor 400 in M1 - 1; NaN there counts as detached)."""
+    theta, gamma = np.broadcast_arrays(theta, gamma)
+
+    def excess(index, u):
+        return theta[index] - cone_detachment_angles(1.0 + np.exp(u), gamma[index])[0], None
+
+    index = np.arange(theta.size)
+    lo = u_attached - 6.0
+    f_lo, _ = excess(index, lo)
+    f_hi, _ = excess(index, u_attached)
+    u, _ = nx.regula_falsi(lambda i, u: (excess(i, u)[0], 0.0 * u), lo, u_attached,
+                           np.where(np.isnan(f_lo), theta, f_lo), f_hi, 1e-12, _PROBE_ITER)
+    return u
+
+
 def _probe_bracket(residual, theta, gamma, goal):
     """[lo, hi] in u = ln(M1 - 1) with residual(lo) > 0 > residual(hi) (see
     :func:`mach_from_cone_pressure`); NaN residuals where no bracket exists."""
@@ -152,21 +171,14 @@ def _probe_bracket(residual, theta, gamma, goal):
         todo = todo[~beyond]
         f[todo] = residual(todo, u[todo])[0]
         detached = todo[np.isnan(f[todo])]
-        if detached.size:  # bisect between the detached point and the attached one above it
-            a, b = u[detached], hi[detached]
-            for _ in range(50):
-                mid = 0.5 * (a + b)
-                fm = residual(detached, mid)[0]
-                a = np.where(np.isnan(fm), mid, a)
-                got = ~np.isnan(fm) & (fm > 0)
-                lo[detached] = np.where(got & np.isnan(lo[detached]), mid, lo[detached])
-                f_lo[detached] = np.where(got & np.isnan(f_lo[detached]), fm, f_lo[detached])
-                b = np.where(~np.isnan(fm) & (fm <= 0), mid, b)
-                hi[detached] = np.where(~np.isnan(fm) & (fm <= 0), mid, hi[detached])
-                f_hi[detached] = np.where(~np.isnan(fm) & (fm <= 0), fm, f_hi[detached])
-                if np.all(~np.isnan(lo[detached]) | (b - a < 1e-12)):
-                    break
+        if detached.size:  # the step passed attachment: the bracket's low end is attachment
+            u_attach = _attachment_log_mach(theta[detached], gamma[detached], hi[detached])
+            u[detached] = u_attach + _ATTACHED_SIDE
+            f[detached] = residual(detached, u[detached])[0]
+            found = f[detached] > 0  # else the ratio is above its value at attachment: none
+            lo[detached[found]], f_lo[detached[found]] = u[detached[found]], f[detached[found]]
             todo = todo[~np.isnan(f[todo])]
+            todo = np.setdiff1d(todo, detached)
     return lo, hi, f_lo, f_hi
 
 
@@ -174,16 +186,12 @@ def _probe_bracket(residual, theta, gamma, goal):
 
 
 def _reach(theta, gamma, reference):
-    """(largest, smallest) ratio an attached shock gives on the cone θ: at the Mach
-    number where it attaches (bisection on the detachment angle) and at M1 = 1000."""
-    lo, hi = -30.0, float(np.log(_PROBE_MAX_MACH - 1.0))
-    for _ in range(50):
-        mid = 0.5 * (lo + hi)
-        if cone_detachment_angles(1.0 + float(np.exp(mid)), gamma)[0] >= theta:
-            hi = mid
-        else:
-            lo = mid
-    M_attach = 1.0 + float(np.exp(hi))
+    """(largest, smallest) ratio an attached shock gives on the cone θ and the Mach number
+    where it attaches: at attachment (:func:`_attachment_log_mach`) and at M1 = 1000."""
+    u_wedge = float(np.log(_wedge_attachment_mach(theta, gamma) - 1.0))
+    u_wedge = u_wedge if np.isfinite(u_wedge) else float(np.log(_PROBE_MAX_MACH - 1.0))
+    u = _attachment_log_mach(np.array([theta]), np.array([gamma]), np.array([u_wedge]))[0]
+    M_attach = 1.0 + float(np.exp(u + _ATTACHED_SIDE))
     return (float(np.exp(_probe_log_ratio(M_attach, theta, gamma, reference))),
             float(np.exp(_probe_log_ratio(_PROBE_MAX_MACH, theta, gamma, reference))), M_attach)
 
@@ -254,7 +262,7 @@ def cone_probe_flow(pressure_ratio, *, cone_angle, reference="pitot", gamma=1.4,
                           "use gasdyn2d.relations.normal_shocks.mach_from_pitot_ratio.")
     M1 = np.asarray(mach_from_cone_pressure(ratio, theta, gamma, reference), dtype=float)
     failed = np.isnan(M1) & ~np.isnan(ratio) & ~np.isnan(theta) & ~np.isnan(gamma)
-    if np.any(failed):
+    if np.any(failed) and errors == "raise":
         first = tuple(np.argwhere(failed)[0]) if failed.ndim else ()
         high, low, M_attach = _reach(float(np.broadcast_to(theta, failed.shape)[first]),
                                      float(np.broadcast_to(gamma, failed.shape)[first]),
@@ -265,5 +273,7 @@ def cone_probe_flow(pressure_ratio, *, cone_angle, reference="pitot", gamma=1.4,
             errors, hint=f"On that cone the ratio runs from {high:.10g} where the shock "
             f"attaches (M1 = {M_attach:.6g}) down to {low:.10g} at M1 = {_PROBE_MAX_MACH:g}; "
             "a larger ratio means a detached bow shock.")
+    if np.any(failed):
+        ratio = np.where(failed, np.nan, ratio)
     flow = cone_flow_from_cone_angle(M1, theta, gamma)
     return _cone_result(M1, flow, nx.output_angle_unit(unit_in))

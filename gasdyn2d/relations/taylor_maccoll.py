@@ -349,9 +349,10 @@ def march_shock_layer(start, gamma, n_steps=None, tangent=False, keep_rays=False
     Notes
     -----
     When every field of ``start`` is a Python float the march runs on floats with
-    the ``math`` module (the scalar form); otherwise on arrays, sorted by their step
-    counts so that each step computes only the cases still marching (a prefix of
-    the sorted batch): no Python loop over cases. Cases with a non-finite or
+    the ``math`` module (the scalar form), and so does a batch of one case (its
+    results keep the array shape); otherwise on arrays, sorted by their step counts
+    so that each step computes only the cases still marching (a prefix of the sorted
+    batch): no Python loop over cases. Cases with a non-finite or
     non-positive τs (NaN inputs, the Mach cone w = 0) give NaN.
 
     Examples
@@ -367,7 +368,23 @@ def march_shock_layer(start, gamma, n_steps=None, tangent=False, keep_rays=False
     if all(type(x) is float for x in start) and type(gamma) is float:
         n = int(step_count(start.tau)) if n_steps is None else int(n_steps)
         return _march_scalar(start, gamma, n, tangent, keep_rays)
+    if all(np.size(x) == 1 for x in (*start, gamma, n_steps)):
+        return _march_one_case(start, gamma, n_steps, tangent, keep_rays)
     return _march_arrays(start, gamma, n_steps, tangent, keep_rays)
+
+
+def _march_one_case(start, gamma, n_steps, tangent, keep_rays):
+    """A batch of one case (a solver's last unconverged case, say) runs in the scalar
+    form, ~20 times faster than numpy on 1-element arrays; results keep the array shape."""
+    shape = np.broadcast_shapes(*(np.shape(x) for x in (*start, gamma)))
+    one = lambda x: float(np.asarray(x, dtype=float).reshape(-1)[0])  # noqa: E731
+    start = ShockStart(*(one(x) for x in start))
+    n = int(step_count(start.tau)) if n_steps is None else int(np.asarray(n_steps).reshape(-1)[0])
+    out = _march_scalar(start, one(gamma), n, tangent, keep_rays)
+    rays = None
+    if keep_rays:
+        rays = np.asarray(out.rays, dtype=float).reshape((4,) + shape + (-1,))
+    return MarchResult(*(np.full(shape, v) for v in out[:5]), rays)
 
 
 def _combine(row, K, y, h):
