@@ -301,7 +301,7 @@ SLOW_SONIC = [
 
 
 def _print_slow_table():
-    print("SLOW_REFERENCE = {  # tests/conical_reference.py at 30 digits (python tests/conical_reference.py)")
+    print("SLOW_REFERENCE = {")
     for M1, theta_c, g, guess in SLOW_CONES:
         out = cone_from_cone_angle(M1, theta_c, g, guess=guess)
         print(f"    ({M1!r}, {theta_c!r}, {g!r}): {{")

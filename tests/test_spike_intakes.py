@@ -24,7 +24,7 @@ from gasdyn2d.design.spike_intakes import spike_capture, spike_geometry, spike_i
 
 
 def _taylor_maccoll(theta, y, g):
-    """dV_r/dθ = V_θ; dV_θ/dθ = [V_r V_θ² - a²(2V_r + V_θ cot θ)]/(a² - V_θ²), V/V_max."""
+    """dV_r/dθ = V_θ, dV_θ/dθ = [V_r V_θ² - a²(2V_r + V_θ cot θ)]/(a² - V_θ²); V/V_max."""
     vr, vt = y
     a2 = 0.5 * (g - 1.0) * (1.0 - vr * vr - vt * vt)
     return [vt, (vr * vt * vt - a2 * (2.0 * vr + vt / math.tan(theta))) / (a2 - vt * vt)]
@@ -107,9 +107,10 @@ def test_capture_and_terminal_recovery_match_quadrature(M, cone_deg, design):
     theta_c = math.radians(cone_deg)
     intake = spike_intake(M, theta_c, design_mach=design)
     ratio, terminal = reference_capture(M, theta_c, intake.lip_ray_angle)
-    assert intake.mass_flow_ratio == pytest.approx(ratio, rel=1e-9)
-    assert intake.terminal_recovery == pytest.approx(terminal, rel=2e-6)
-    assert intake.recovery == pytest.approx(intake.conical_shock_recovery * terminal, rel=2e-6)
+    assert intake.mass_flow_ratio == pytest.approx(ratio, rel=1e-9, abs=0)
+    assert intake.terminal_recovery == pytest.approx(terminal, rel=2e-6, abs=0)
+    assert intake.recovery == pytest.approx(intake.conical_shock_recovery * terminal, rel=2e-6,
+                                            abs=0)
 
 
 def test_more_rays_converge_with_second_order():
@@ -149,7 +150,7 @@ def test_a_vanishing_spike_is_a_pitot_intake():
     # the conical shock fades to a Mach wave: one normal shock at M (NACA Report 1135, eq. 99)
     for M in (1.5, 2.0, 3.0):
         intake = spike_intake(M, 1e-4)
-        assert intake.recovery == pytest.approx(normal_shock(M).p02_p01, rel=1e-6)
+        assert intake.recovery == pytest.approx(normal_shock(M).p02_p01, rel=1e-6, abs=0)
 
 
 def test_a_spike_recovers_more_than_a_pitot_intake():
@@ -161,14 +162,14 @@ def test_a_spike_recovers_more_than_a_pitot_intake():
 def test_geometry_of_the_shock_on_lip_layout():
     theta, beta = math.radians(20.0), math.radians(30.0)
     geometry = spike_geometry(theta, beta, 2.0)
-    assert float(geometry.lip_x) == pytest.approx(2.0 / math.tan(beta), rel=1e-15)
+    assert float(geometry.lip_x) == pytest.approx(2.0 / math.tan(beta), rel=1e-15, abs=0)
     # the entrance normal: distance from the lip (lip_x, 2) to the line y = x tan θ
     lip = np.array([2.0 / math.tan(beta), 2.0])
     distance = abs(lip[1] * math.cos(theta) - lip[0] * math.sin(theta))
-    assert float(geometry.entrance_height) == pytest.approx(distance, rel=1e-14)
+    assert float(geometry.entrance_height) == pytest.approx(distance, rel=1e-14, abs=0)
     foot = (lip @ np.array([math.cos(theta), math.sin(theta)]))
-    assert float(geometry.spike_length) == pytest.approx(foot * math.cos(theta), rel=1e-14)
-    assert float(geometry.capture_area) == pytest.approx(4.0 * math.pi, rel=1e-15)
+    assert float(geometry.spike_length) == pytest.approx(foot * math.cos(theta), rel=1e-14, abs=0)
+    assert float(geometry.capture_area) == pytest.approx(4.0 * math.pi, rel=1e-15, abs=0)
 
 
 # ----------------------------------------------------------------- units, shapes, errors
@@ -182,7 +183,7 @@ def test_lengths_follow_the_cowl_radius_unit():
     assert intake.cone_angle.m_as("deg") == pytest.approx(20.0)
     plain = spike_intake(2.4, math.radians(20.0), cowl_radius=0.15)
     assert type(plain.recovery) is float and type(plain.lip_x) is float
-    assert plain.lip_x == pytest.approx(intake.lip_x.m_as("m"), rel=1e-14)
+    assert plain.lip_x == pytest.approx(intake.lip_x.m_as("m"), rel=1e-14, abs=0)
 
 
 def test_arrays_broadcast_and_match_scalar_calls():
@@ -190,8 +191,8 @@ def test_arrays_broadcast_and_match_scalar_calls():
                           design_mach=2.5)
     assert intake.recovery.shape == (2, 3)
     one = spike_intake(3.0, math.radians(18.0), design_mach=2.5)
-    assert intake.recovery[1, 1] == pytest.approx(one.recovery, rel=1e-13)
-    assert intake.mass_flow_ratio[1, 1] == pytest.approx(one.mass_flow_ratio, rel=1e-13)
+    assert intake.recovery[1, 1] == pytest.approx(one.recovery, rel=1e-13, abs=0)
+    assert intake.mass_flow_ratio[1, 1] == pytest.approx(one.mass_flow_ratio, rel=1e-13, abs=0)
 
 
 def test_bad_inputs_raise_with_their_limits():

@@ -234,7 +234,7 @@ class SpikeIntake(ResultTable):
     wave_angle: object = unit_field("rad")  #: half-angle of the spike's conical shock at M
     M2: object = unit_field("")  #: Mach number just behind the conical shock
     M_cone: object = unit_field("")  #: Mach number on the spike surface (conical flow)
-    terminal_mach_lip: object = unit_field("")  #: Mach number ahead of the terminal shock at the lip
+    terminal_mach_lip: object = unit_field("")  #: Mach number ahead of the terminal shock, lip
     terminal_mach_cone: object = unit_field("")  #: ... and at the spike surface
     conical_shock_recovery: object = unit_field("")  #: p0 ratio across the conical shock
     terminal_recovery: object = unit_field("")  #: mass-weighted p0 ratio across the terminal shock
@@ -308,7 +308,8 @@ def spike_intake(M, cone_angle, *, design_mach=None, cowl_radius=1.0, gamma=1.4,
     ...                     cowl_radius=0.15 * ureg.m)
     >>> skua.recovery.round(4), skua.mass_flow_ratio.round(4)
     (array([0.6928, 0.8398]), array([1.    , 0.8919]))
-    >>> round(float(skua.lip_x[0].m_as("mm")), 1), round(float(skua.entrance_height[0].m_as("mm")), 1)
+    >>> lip, height = skua.lip_x[0].m_as("mm"), skua.entrance_height[0].m_as("mm")
+    >>> round(float(lip), 1), round(float(height), 1)
     (224.8, 54.9)
     """
     nx.check_errors_mode(errors)

@@ -14,7 +14,8 @@ import numpy as np
 
 from ..relations.cone_shock_layer import shock_layer_rays
 from ..relations.conical_flow import cone_detachment_angles, cone_flow
-from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios, wave_angle_from_deflection
+from ..relations.oblique_shocks import (detachment_angles, oblique_shock_ratios,
+                                        wave_angle_from_deflection)
 from ._style import (CYCLE, MACH_COLOURMAP, SHOCK_COLOUR, SLIP_COLOUR, WALL_COLOUR, WALL_FILL,
                      angle_unit_factor, axes_or_new, plain, tidy)
 
@@ -199,7 +200,8 @@ def draw_cone_pressures(M1, *, gamma=1.4, quantity="cp", angle_unit="deg", n_poi
                       for kind, x, y in (("cone", cone_max, cone_p), ("wedge", wedge_max, wedge_p)))
         drawn["cones"][M], drawn["wedges"][M], drawn["detachment"][M] = c_line, w_line, marks
     ax.set_xlabel(f"half-angle [{unit}]")
-    ax.set_ylabel("pressure coefficient cp [-]" if quantity == "cp" else "surface pressure p/p1 [-]")
+    ax.set_ylabel("pressure coefficient cp [-]" if quantity == "cp"
+                  else "surface pressure p/p1 [-]")
     ax.set_title("cone (solid) and wedge (dashed) surface pressure; dots: detachment",
                  fontsize="small")
     ax.legend(frameon=False, fontsize="x-small", ncols=2)

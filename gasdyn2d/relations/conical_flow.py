@@ -36,7 +36,7 @@ import numpy as np
 
 from .. import _numerics as nx
 from .._display import ResultTable, unit_field
-from ..errors import DetachedShockError, InvalidInputError, NoSolutionError
+from ..errors import DetachedShockError, NoSolutionError
 from .normal_shocks import normal_shock_ratios
 from .oblique_shocks import detachment_angles, wv_from_deflection
 from .taylor_maccoll import ARRAY_MATH, march_shock_layer, shock_start, step_count

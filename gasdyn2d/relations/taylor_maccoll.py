@@ -228,7 +228,7 @@ def shock_start(M1, w, v, gamma, beta=None, tangent=False):
 
 
 def step_count(tau):
-    """Plain core: steps of the march for a start τs (ndarray of int; 0 where τs is not finite)."""
+    """Plain core: steps of the march from τs (ndarray of int; 0 where τs is not finite)."""
     tau = np.asarray(tau, dtype=float)
     with np.errstate(invalid="ignore"):
         ok = np.isfinite(tau) & (tau > 0)
@@ -242,7 +242,7 @@ def _slopes(t, y, M2_sq, k, gm, m, tangent=None):
     """dy/dτ at τ = t for y = (ln θ, L, ln D); with ``tangent`` = (dt, dy, dM2_sq) also
     the directional derivative. ``m`` is numpy or math: one formula for both forms.
 
-    In s = ln(θ/δ) (with R = θ sin δ cos ψ/(δ sin θ D), the ratio of the two terms of ds/dθ):
+    In s = ln(θ/δ), with R = θ sin δ cos ψ/(δ sin θ D) (the ratio of the terms of ds/dθ):
     d ln θ/ds = 1/(1+R), dL/ds = -(γ-1) M² tan ψ δ R/(1+R),
     dD/ds = -sin²ψ dM²/ds - M² sin 2ψ dψ/ds; then dy/dτ = (dy/ds)/(1 - ½ d ln D/ds).
     Angles enter through tangents only (numpy's tan is vectorised, its sin and cos are not).
@@ -264,7 +264,7 @@ def _slopes(t, y, M2_sq, k, gm, m, tangent=None):
     t_ray = m.tan(ray)
     t_delta = m.tan(delta)
     tr2, td2 = t_ray * t_ray, t_delta * t_delta
-    # R = θ sin δ cos ψ/(δ sin θ D), with sin δ/sin θ = (tan δ/tan θ) √((1+tan²θ)/(1+tan²δ))
+    # R = θ sin δ cos ψ/(δ sin θ D); sin δ/sin θ = (tan δ/tan θ) √((1+tan²θ)/(1+tan²δ))
     R = m.sqrt(td2 * (1.0 + tr2) * cos2 / (tr2 * (1.0 + td2))) / (e * D)
     f1 = 1.0 / (1.0 + R)
     Mtp = M_sq * tp
