@@ -49,10 +49,10 @@ def test_cone_flow_drawing_of_the_sources_md_cone(tmp_path):
 
 
 def test_spike_intake_drawing_marks_the_lip(tmp_path):
-    skua = spike_intake(2.6, 22 * ureg.deg, cowl_radius=0.15)  # an invented intake, on design
+    kelvray = spike_intake(2.6, 22 * ureg.deg, cowl_radius=0.15)  # an invented intake, on design
     fig, ax = plt.subplots()
     drawn = draw_cone_flow(2.6, cone_angle=22 * ureg.deg, length=0.3,
-                           lip=(skua.lip_x, skua.cowl_radius), colourbar=False, ax=ax)
+                           lip=(kelvray.lip_x, kelvray.cowl_radius), colourbar=False, ax=ax)
     lip_x, lip_r = drawn["lip"].get_xdata()[0], drawn["lip"].get_ydata()[0]
     # on design the lip lies on the drawn shock
     shock = drawn["flow"].wave_angle.m_as("rad")

@@ -204,13 +204,13 @@ def cone_wave_drag(M, cone_angle, *, gamma=1.4, errors="raise"):
 
     Examples
     --------
-    The nose of an invented sounding rocket, the *Tern*, a 12° cone at Mach 3 (the
+    The nose of an invented sounding rocket, the *Tesmor*, a 12° cone at Mach 3 (the
     slender-body estimate is poor at M1 θc = 0.63):
 
     >>> from gasdyn2d import ureg
     >>> from gasdyn2d.design.cone_loads import cone_wave_drag
-    >>> tern = cone_wave_drag(3.0, 12 * ureg.deg)
-    >>> round(tern.drag_coefficient, 4), round(tern.slender_body_drag_coefficient, 4)
+    >>> tesmor = cone_wave_drag(3.0, 12 * ureg.deg)
+    >>> round(tesmor.drag_coefficient, 4), round(tesmor.slender_body_drag_coefficient, 4)
     (0.1186, 0.0629)
     """
     M, theta, gamma, _, flow, unit_m, unit_theta = _cone_inputs(M, cone_angle, gamma, errors)
@@ -255,15 +255,15 @@ def cone_cylinder_forebody(M, cone_angle, *, body_diameter=1.0, free_stream_pres
 
     Examples
     --------
-    The *Tern*'s 12° nose on its 0.2 m body at Mach 3, where p1 = 12 kPa:
+    The *Tesmor*'s 12° nose on its 0.2 m body at Mach 3, where p1 = 12 kPa:
 
     >>> from gasdyn2d import ureg
     >>> from gasdyn2d.design.cone_loads import cone_cylinder_forebody
-    >>> tern = cone_cylinder_forebody(3.0, 12 * ureg.deg, body_diameter=0.2 * ureg.m,
+    >>> tesmor = cone_cylinder_forebody(3.0, 12 * ureg.deg, body_diameter=0.2 * ureg.m,
     ...                               free_stream_pressure=12 * ureg.kPa)
-    >>> round(tern.nose_length.m_as("m"), 4), round(tern.drag.m_as("N"), 1)
+    >>> round(tesmor.nose_length.m_as("m"), 4), round(tesmor.drag.m_as("N"), 1)
     (0.4705, 281.7)
-    >>> round(tern.shoulder_mach, 3), round(tern.shoulder_cp, 4)
+    >>> round(tesmor.shoulder_mach, 3), round(tesmor.shoulder_cp, 4)
     (3.236, -0.0473)
     """
     diameter, unit_length = nx.to_si(body_diameter, "body_diameter", "length")

@@ -299,16 +299,16 @@ def spike_intake(M, cone_angle, *, design_mach=None, cowl_radius=1.0, gamma=1.4,
 
     Examples
     --------
-    An invented ramjet demonstrator, the *Skua*: a 22° spike, cowl radius 0.15 m,
+    An invented ramjet demonstrator, the *Kelvray*: a 22° spike, cowl radius 0.15 m,
     shock on the lip at Mach 2.6, flown at 2.6 and at 2.2:
 
     >>> from gasdyn2d import ureg
     >>> from gasdyn2d.design.spike_intakes import spike_intake
-    >>> skua = spike_intake([2.6, 2.2], 22 * ureg.deg, design_mach=2.6,
+    >>> kelvray = spike_intake([2.6, 2.2], 22 * ureg.deg, design_mach=2.6,
     ...                     cowl_radius=0.15 * ureg.m)
-    >>> skua.recovery.round(4), skua.mass_flow_ratio.round(4)
+    >>> kelvray.recovery.round(4), kelvray.mass_flow_ratio.round(4)
     (array([0.6928, 0.8398]), array([1.    , 0.8919]))
-    >>> lip, height = skua.lip_x[0].m_as("mm"), skua.entrance_height[0].m_as("mm")
+    >>> lip, height = kelvray.lip_x[0].m_as("mm"), kelvray.entrance_height[0].m_as("mm")
     >>> round(float(lip), 1), round(float(height), 1)
     (224.8, 54.9)
     """
