@@ -52,6 +52,8 @@ from .design.intake_design import ContractionLimits, OptimalRamps, contraction_l
 from .relations.conical_flow import ConeFlow, cone_flow, max_cone_angle, sonic_cone_angle
 from .relations.cone_shock_layer import ConeShockLayer, cone_shock_layer
 from .relations.cone_probes import cone_probe_flow
+from .design.spike_intakes import SpikeIntake, spike_intake
+from .design.cone_loads import ConeCylinderForebody, ConeWaveDrag, cone_cylinder_forebody, cone_wave_drag
 
 #: pint's application registry, for writing ``10 * ureg.deg``.
 from ._numerics import ureg as _ureg
@@ -79,6 +81,7 @@ __all__ = [
     "GasDynamicsError", "InvalidInputError", "DetachedShockError", "NoSolutionError",
     "IllPosedProblemError", "ProbablyDegreesWarning",
     "cone_flow", "ConeFlow", "max_cone_angle", "sonic_cone_angle", "cone_shock_layer",
-    "ConeShockLayer", "cone_probe_flow",
+    "ConeShockLayer", "cone_probe_flow", "spike_intake", "SpikeIntake", "cone_wave_drag",
+    "ConeWaveDrag", "cone_cylinder_forebody", "ConeCylinderForebody",
 ]
 __version__ = "0.1.0"
