@@ -51,6 +51,11 @@ from .characteristics.performance import NozzlePerformance
 from .design.section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
 from .design.intakes import RampIntake, ramp_intake
 from .design.intake_design import ContractionLimits, OptimalRamps, contraction_limits, optimal_ramps
+from .relations.conical_flow import ConeFlow, cone_flow, max_cone_angle, sonic_cone_angle
+from .relations.cone_shock_layer import ConeShockLayer, cone_shock_layer
+from .relations.cone_probes import cone_probe_flow
+from .design.spike_intakes import SpikeIntake, spike_intake
+from .design.cone_loads import ConeCylinderForebody, ConeWaveDrag, cone_cylinder_forebody, cone_wave_drag
 
 
 def __getattr__(name):
@@ -84,5 +89,8 @@ __all__ = [
     "ContractionLimits",
     "GasDynamicsError", "InvalidInputError", "DetachedShockError", "NoSolutionError",
     "IllPosedProblemError", "ProbablyDegreesWarning",
+    "cone_flow", "ConeFlow", "max_cone_angle", "sonic_cone_angle", "cone_shock_layer",
+    "ConeShockLayer", "cone_probe_flow", "spike_intake", "SpikeIntake", "cone_wave_drag",
+    "ConeWaveDrag", "cone_cylinder_forebody", "ConeCylinderForebody",
 ]
 __version__ = "0.1.0"

@@ -12,7 +12,7 @@ import math
 import numpy as np
 
 __all__ = ["CHUNK_SIZE", "HUGE_MACH", "NEWTON_ULPS", "any_true", "broadcast_cases", "chunked",
-           "safeguarded_newton", "safeguarded_newton_scalar", "plain_scalars", "fsqrt", "flog",
+           "safeguarded_newton", "safeguarded_newton_scalar", "regula_falsi", "plain_scalars", "fsqrt", "flog",
            "flog1p", "fexp", "fexpm1", "fdiv", "fclip", "nan_where_nan", "clip_below"]
 
 
@@ -297,3 +297,41 @@ def safeguarded_newton_scalar(func, x0, lower, upper, *, max_iter=60, rtol=None,
             return x_out
         x = x_new
     return x
+
+
+def regula_falsi(func, lo, hi, f_lo, f_hi, tol, max_iter):
+    """Vectorised Illinois iteration for a root of f in each bracket [lo, hi].
+
+    ``f_lo > 0 > f_hi`` (cases without such a bracket are NaN); ``func(index, x)``
+    returns (f, extra) at x for the flat cases ``index``, so only the cases still
+    moving are evaluated; a NaN f counts as the ``lo`` side (used where the
+    function is undefined below the root). The Illinois rule halves the value kept
+    at an end that survives twice in a row, which makes regula falsi superlinear.
+    Returns the last x and ``extra`` there (NaN where the bracket was invalid).
+    """
+    shape = np.shape(lo)
+    lo, hi, f_lo, f_hi = (np.array(v, dtype=float).reshape(-1) for v in (lo, hi, f_lo, f_hi))
+    ok = (f_lo > 0) & (f_hi < 0)
+    x = np.where(ok, lo, np.nan)
+    extra = np.full(x.shape, np.nan)
+    side = np.zeros(x.shape, dtype=int)
+    active = np.flatnonzero(ok)
+    for _ in range(max_iter):
+        if active.size == 0:
+            break
+        i = active
+        new = (lo[i] * f_hi[i] - hi[i] * f_lo[i]) / (f_hi[i] - f_lo[i])
+        f_new, extra_new = (np.broadcast_to(np.asarray(v, dtype=float), new.shape)
+                            for v in func(i, new))
+        moved = np.abs(new - x[i])
+        x[i], extra[i] = new, extra_new
+        positive = (f_new > 0) | np.isnan(f_new)
+        f_new = np.where(np.isnan(f_new), f_lo[i], f_new)
+        f_hi[i] = np.where(positive & (side[i] == 1), 0.5 * f_hi[i], f_hi[i])
+        f_lo[i] = np.where(~positive & (side[i] == -1), 0.5 * f_lo[i], f_lo[i])
+        lo[i], f_lo[i] = np.where(positive, new, lo[i]), np.where(positive, f_new, f_lo[i])
+        hi[i], f_hi[i] = np.where(positive, hi[i], new), np.where(positive, f_hi[i], f_new)
+        side[i] = np.where(positive, 1, -1)
+        done = (moved <= tol) | (hi[i] - lo[i] <= tol) | (f_new == 0)
+        active = active[~done]
+    return x.reshape(shape), extra.reshape(shape)

@@ -50,7 +50,8 @@ import numpy as np
 from ..errors import InvalidInputError, ProbablyDegreesWarning
 from .checks import Check, errors_mode
 from .results import FieldInfo, pint_unit as _pint_unit, result_fields
-from .units import KINDS, TWO_PI, degrees_hint, is_quantity, to_caller_units, unit_of_quantity
+from .units import (KINDS, TWO_PI, degrees_hint, is_quantity, si_conversion, to_caller_units,
+                    unit_of_quantity)
 
 __all__ = ["Call", "SCALAR_CHECKS", "as_si_scalar", "caller_stacklevel", "refuse_type"]
 
@@ -442,12 +443,17 @@ class Call:
 
     def _like(self, unit_text):
         """The caller's unit for results of kind ``unit_text``: that of the first argument
-        of the same kind given as a Quantity (a dimensionless "angle" does not count)."""
+        of the same kind given as a Quantity (a dimensionless "angle" does not count); an
+        area follows a length given (squared)."""
         for text, unit in zip(self.unit_texts, self.units):
             if text == unit_text and unit is not None:
                 if unit_text == "rad" and str(unit.units) == "dimensionless":
                     continue
                 return unit
+        if unit_text == "m²":
+            length = self._like("m")
+            if length is not None:
+                return si_conversion(length.units ** 2, length.registry, "m²", "area")
         return None
 
 

@@ -23,6 +23,10 @@ Public functions
   of a section by the exact (shock-expansion), linear and second-order theories.
 - :func:`tour_figure` — one summary figure saved to a file (used by
   ``python -m gasdyn2d``).
+- :func:`draw_cone_flow` — a cone, its conical shock and the shock layer's rays
+  coloured by Mach number (optionally a spike intake's cowl lip);
+  :func:`draw_cone_pressures` — cone and wedge surface pressures against
+  half-angle, up to detachment.
 - :class:`Drawing` — what every ``draw_*`` function returns.
 - :data:`PALETTE` — the colour-blind-safe colours used throughout;
   :data:`WAVE_STYLES` — the line style of each kind of line.
@@ -41,8 +45,10 @@ from .wave_pattern_plots import draw_wave_pattern
 from .net_plots import draw_characteristic_net
 from .pressure_plots import draw_surface_pressures
 from .tour import tour_figure
+from .cone_plots import draw_cone_flow, draw_cone_pressures
 
 __all__ = [
     "Drawing", "PALETTE", "WAVE_STYLES", "draw_polars", "draw_pattern_polars", "draw_wave_pattern",
     "draw_characteristic_net", "draw_surface_pressures", "tour_figure",
+    "draw_cone_flow", "draw_cone_pressures",
 ]
