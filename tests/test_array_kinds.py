@@ -53,6 +53,11 @@ RELATIONS = {
                                                      "deflection": ("rad", [0.05, 0.2, 0.4])}, {}),
     "expansion_fan(p2_p1)": (gd.expansion_fan, {"M1": ("", [1.5, 2.0, 3.0]),
                                                 "p2_p1": ("", [0.8, 0.5, 0.1])}, {}),
+    "cone_flow(cone_angle)": (gd.cone_flow, {"M1": ("", [1.8, 2.5, 4.0]),
+                                             "cone_angle": ("rad", [0.1, 0.2, 0.3])}, {}),
+    "cone_flow(wave_angle)": (gd.cone_flow, {"M1": ("", [1.8, 2.5, 4.0]),
+                                             "wave_angle": ("rad", [0.7, 0.75, 0.8])}, {}),
+    "max_cone_angle": (gd.max_cone_angle, {"M1": ("", [1.5, 2.0, 6.0])}, {}),
     "FlowState": (gd.FlowState, {"M": ("", [0.8, 2.0, 3.0]), "p": ("Pa", [5e3, 2e4, 1e5]),
                                  "T": ("K", [210.0, 250.0, 290.0])}, {}),
 }
