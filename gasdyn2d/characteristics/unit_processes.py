@@ -75,11 +75,9 @@ relations; the geometry stays an explicit argument.
 from __future__ import annotations
 
 import dataclasses
-import numbers
 
 import numpy as np
 
-from .. import _numerics as nx
 from ..boundary.results import ResultTable, unit_field
 from ..errors import InvalidInputError
 from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
@@ -121,29 +119,6 @@ def check_geometry(geometry):
     raise InvalidInputError(
         f"geometry must be 'planar' or 'axisymmetric'; got {geometry!r}. A planar flow is "
         "two-dimensional (per unit depth); an axisymmetric one is round, y the radius.")
-
-
-def check_design_input(value, name, ok, requirement, unit_text=""):
-    """Raise InvalidInputError unless the scalar ``value`` is finite and ``ok`` (NaN fails too).
-
-    For the design tools, which compute one case: unlike the vectorised
-    relations they have no ``errors="nan"`` mode.
-    """
-    if not (bool(ok) and np.isfinite(value)):
-        raise InvalidInputError(f"{name} must be {requirement}; got "
-                                f"{nx.format_value(value, unit_text)}.")
-
-
-def check_line_count(n, limit=5000):
-    """An integer number of fan lines from 2 to ``limit`` (5000; 400 for the round nets,
-    whose node records, seven per node and marched as a batch, grow as n²)."""
-    if isinstance(n, bool) or not isinstance(n, numbers.Integral) or n < 2:
-        raise InvalidInputError(
-            f"n_characteristics must be an integer >= 2; got {n!r}. Use 20-200 lines: "
-            "the area-ratio error falls as n^(-4/3).")
-    if n > limit:
-        raise InvalidInputError(f"n_characteristics must be <= {limit}; got {n}.")
-    return int(n)
 
 
 def mach_angle_from_nu(nu, gamma=1.4):
