@@ -254,7 +254,12 @@ def test_quantity_length():
 
 @pytest.mark.parametrize("kwargs, name", [
     (dict(M_inlet=1.0), "M_inlet"),
-    (dict(M_inlet=float("nan")), "M_inlet"),
+    (dict(M_inlet=[2.0, 3.0]), "M_inlet must be a single value"),
+    (dict(lower_wall=WallContour(lambda x: np.nan * x, lambda x: 0.0 * x)), "lower_wall"),
+    (dict(upper_wall=WallContour(lambda x: 0.1 + 0 * x, lambda x: np.nan * x)), "upper_wall"),
+    (dict(length=float("nan")), "length"),
+    (dict(geometry="round"), "geometry"),
+    (dict(lower_wall=STRAIGHT_FLOOR, geometry="axisymmetric"), "axis"),
     (dict(length=-1.0), "length"),
     (dict(n_points=2), "n_points"),
     (dict(n_points=10.5), "n_points"),
@@ -269,6 +274,53 @@ def test_bad_input_errors(kwargs, name):
     args.update(kwargs)
     with pytest.raises(InvalidInputError, match=name):
         channel_flow(args.pop("M_inlet"), **args)
+
+
+def test_walls_are_geometry_and_cannot_be_nan():
+    with pytest.raises(InvalidInputError, match="y0"):
+        WallContour.straight(float("nan"))
+    with pytest.raises(InvalidInputError, match="finite"):
+        WallContour.through_points([0, 1, 2], [0.1, float("nan"), 0.1])
+
+
+def test_nan_flow_input_gives_a_nan_result():
+    # Invented sweep case: NaN in gives NaN out for the flow inputs (not an error)
+    for kwargs in (dict(M_inlet=float("nan")), dict(M_inlet=2.0, gamma=float("nan"))):
+        args = dict(lower_wall=STRAIGHT_FLOOR, upper_wall=WallContour.straight(0.1),
+                    length=1.0)
+        flow = channel_flow(kwargs.pop("M_inlet"), **args, **kwargs)
+        assert flow.stop_reason == "nan"
+        assert math.isnan(flow.shock_x) and flow.lower_wall_p_p0.size == 0
+        assert flow.net.x.size == 0
+
+
+def test_one_length_unit_per_result_and_read_only_fields():
+    # Issue 10: every length of one result, the net's too, in the caller's unit
+    flow = channel_flow(2.0, lower_wall=STRAIGHT_FLOOR,
+                        upper_wall=WallContour.bend(0.1, 0.05, math.radians(4.0), 0.2),
+                        length=40 * ureg.cm, n_points=9)
+    for value in (flow.lower_wall_x, flow.handover_y, flow.net.x, flow.net.y):
+        assert str(value.units) == "centimeter"
+    assert str(flow.net.theta.units) == "radian" and str(flow.handover_theta.units) == "radian"
+    plain = channel_flow(2.0, lower_wall=STRAIGHT_FLOOR,
+                         upper_wall=WallContour.bend(0.1, 0.05, math.radians(4.0), 0.2),
+                         length=0.4, n_points=9)
+    np.testing.assert_allclose(flow.net.x.m_as("m"), plain.net.x, rtol=1e-14)
+    for value in (plain.lower_wall_x, plain.net.x, plain.net.plus_segments,
+                  plain.lower_wall_nodes, plain.handover_mach):
+        assert not value.flags.writeable
+    assert not np.shares_memory(plain.net.x, plain.handover_x)
+    assert not np.shares_memory(plain.lower_wall_x, plain.net.x)
+
+
+def test_axisymmetric_channel_without_a_centre_body_keeps_a_uniform_stream():
+    # A round duct of constant radius (lower_wall=None: the axis) carries the inlet state
+    # unchanged (fact of the trade); the round unit processes march it
+    flow = channel_flow(2.0, lower_wall=None, upper_wall=WallContour.straight(0.05),
+                        length=0.3, n_points=11, geometry="axisymmetric")
+    assert flow.stop_reason == "length"
+    assert flow.net.mach == pytest.approx(2.0, rel=1e-12)
+    assert np.all(flow.net.y >= 0.0)
 
 
 def test_wall_heights_are_the_contours_at_the_wall_nodes():

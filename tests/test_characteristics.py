@@ -231,3 +231,60 @@ def test_wall_contour_bad_input(make, name):
 
     with pytest.raises(InvalidInputError, match=name):
         make()
+
+
+# ---------------------------------------------------------------- wall contours at the boundary
+# Issue 9 items: contours pickle; a plain wall angle that was probably meant in degrees is
+# caught; sizes and angles may be Quantities (facts of the trade for the expected values).
+
+
+@pytest.mark.parametrize("make", [
+    lambda: WallContour.straight(0.1, 0.05),
+    lambda: WallContour.bend(0.2, 0.1, -0.08, 0.5),
+    lambda: WallContour.through_points([0.0, 0.4, 1.0], [0.0, 0.02, 0.05]),
+    lambda: WallContour.polyline([0.0, 0.5, 1.0], [0.0, 0.03, 0.0]),
+])
+def test_wall_contours_pickle_and_compare(make):
+    import pickle
+
+    wall = make()
+    again = pickle.loads(pickle.dumps(wall))
+    assert again == wall == make()
+    x = np.linspace(-0.5, 1.5, 9)
+    np.testing.assert_array_equal(again.height(x), wall.height(x))
+    np.testing.assert_array_equal(again.slope(x), wall.slope(x))
+
+
+def test_wall_angles_probably_in_degrees():
+    from gasdyn2d.errors import InvalidInputError, ProbablyDegreesWarning
+
+    with pytest.warns(ProbablyDegreesWarning), pytest.raises(InvalidInputError, match="degrees"):
+        WallContour.straight(0.0, 10.0)
+    with pytest.raises(InvalidInputError, match="degrees"):
+        WallContour.straight(0.0, 3.0)  # 3 rad is no wall angle: 3° was meant
+    with pytest.raises(InvalidInputError, match="degrees"):
+        WallContour.bend(0.0, 0.0, 5.0, 1.0)
+    with pytest.raises(InvalidInputError, match="angle"):
+        WallContour.straight(0.0, "2 deg")
+
+
+def test_wall_contours_take_quantities():
+    from gasdyn2d import ureg
+
+    wall = WallContour.straight(100 * ureg.mm, 3 * ureg.deg)
+    assert float(wall.height(1.0)) == pytest.approx(0.1 + math.tan(math.radians(3.0)),
+                                                    rel=1e-15)
+    bend = WallContour.bend(10 * ureg.cm, 5 * ureg.cm, -6 * ureg.deg, 20 * ureg.cm)
+    plain = WallContour.bend(0.1, 0.05, math.radians(-6.0), 0.2)
+    x = np.linspace(0.0, 0.5, 11)
+    np.testing.assert_allclose(bend.height(x), plain.height(x), rtol=1e-14)
+    spline = WallContour.through_points([0, 100, 200] * ureg.mm, [0, 1, 4] * ureg.cm)
+    assert float(spline.height(0.2)) == pytest.approx(0.04, rel=1e-14)
+
+
+def test_polyline_contour_has_corners():
+    ridge = WallContour.polyline([0.0, 0.4, 1.0], [0.0, 0.04, 0.0])
+    assert ridge.corners_x == (0.4,)
+    assert float(ridge.slope(0.2)) == pytest.approx(0.1, rel=1e-15)
+    assert float(ridge.slope(0.7)) == pytest.approx(-0.04 / 0.6, rel=1e-15)
+    assert float(ridge.height(1.5)) == pytest.approx(-0.5 * 0.04 / 0.6, rel=1e-14)

@@ -12,6 +12,7 @@ Sources:
   thrust integrated over the flat exit plane of a marched source flow gives λ back.
 """
 
+import functools
 import math
 
 import mpmath as mp
@@ -28,6 +29,10 @@ from gasdyn2d.characteristics.conical_nozzles import (
 )
 from gasdyn2d.characteristics.performance import ExitPlane, exit_plane_integrals
 from gasdyn2d.characteristics.unit_processes import WallContour
+
+# The checks here are written in throat half-heights: these designs take h = 1 m (the
+# default, 0.01 m, is a laboratory size; its scaling is checked on its own).
+conical_nozzle = functools.partial(conical_nozzle, throat_half_height=1.0)
 from gasdyn2d.errors import InvalidInputError
 from gasdyn2d.relations.expansion_fans import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
 from gasdyn2d.relations.isentropic import (

@@ -12,6 +12,7 @@ Sources:
   eqs. 44 and 171).
 """
 
+import functools
 import math
 
 import mpmath as mp
@@ -23,6 +24,10 @@ from hypothesis import strategies as st
 from gasdyn2d import ureg
 from gasdyn2d.errors import InvalidInputError
 from gasdyn2d.characteristics.jets import linear_cell_length, underexpanded_slot_jet
+
+# The checks here are written in slot half-heights: these jets take b = 1 m (the default,
+# 0.01 m, is a laboratory size; its scaling is checked on its own).
+underexpanded_slot_jet = functools.partial(underexpanded_slot_jet, slot_half_height=1.0)
 
 
 def mp_nu(M, g=1.4):
@@ -162,7 +167,9 @@ def test_quantity_half_height_and_scaling():
     ((2.0, 1.0), {}, "p_exit_p_ambient"),
     ((2.0, 0.7), {}, "p_exit_p_ambient"),
     ((0.8, 1.5), {}, "M_exit"),
-    ((2.0, float("nan")), {}, "p_exit_p_ambient"),
+    (([2.0, 3.0], 1.5), {}, "M_exit must be a single value"),
+    ((2.0, 1.5), dict(slot_half_height=float("nan")), "slot_half_height"),
+    ((2.0, 1.5), dict(n_cells=2.0), "n_cells"),
     ((2.0, 1.5), dict(slot_half_height=0.0), "slot_half_height"),
     ((2.0, 1.5), dict(n_characteristics=1), "n_characteristics"),
     ((2.0, 1.5), dict(n_cells=0), "n_cells"),
@@ -171,6 +178,23 @@ def test_quantity_half_height_and_scaling():
 def test_bad_input_errors(args, kwargs, name):
     with pytest.raises(InvalidInputError, match=name):
         underexpanded_slot_jet(*args, **kwargs)
+
+
+def test_nan_flow_input_gives_a_nan_jet():
+    # NaN in gives NaN out for the flow inputs (a sweep survives); sizes are geometry
+    for args in ((float("nan"), 1.5), (2.0, float("nan"))):
+        jet = underexpanded_slot_jet(*args, n_characteristics=10)
+        assert math.isnan(jet.mach_jet) and math.isnan(jet.cell_length)
+        assert jet.boundary_x.size == 0 and jet.net.x.size == 0 and not jet.shock_formed
+
+
+def test_default_slot_is_a_laboratory_size():
+    # Issue 14: the default half-height is 0.01 m (a 20 mm slot), and lengths scale with it
+    default = underexpanded_slot_jet.func(1.6, 1.1, n_characteristics=20)
+    unit = underexpanded_slot_jet(1.6, 1.1, n_characteristics=20)
+    assert default.cell_length_linear == pytest.approx(0.01 * unit.cell_length_linear,
+                                                       rel=1e-14)
+    assert default.boundary_y[0] == pytest.approx(0.01, rel=1e-15)
 
 
 @settings(max_examples=10, deadline=None)

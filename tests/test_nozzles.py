@@ -11,6 +11,7 @@ Sources:
   the throat's, ρV/(ρ*V*) = 1/(A/A*)(M).
 """
 
+import functools
 import math
 
 import mpmath as mp
@@ -22,6 +23,10 @@ from hypothesis import strategies as st
 from gasdyn2d import ureg
 from gasdyn2d.errors import InvalidInputError
 from gasdyn2d.characteristics.nozzles import minimum_length_nozzle
+
+# The checks here are written in throat half-heights: these designs take h = 1 m (the
+# default, 0.01 m, is a laboratory size; its scaling is checked on its own).
+minimum_length_nozzle = functools.partial(minimum_length_nozzle, throat_half_height=1.0)
 
 
 def mp_nu(M, g=1.4):
@@ -177,7 +182,7 @@ def test_quantity_half_height_scales_lengths():
     (dict(M_exit=2.0, gamma=1.0), "gamma"),
     (dict(M_exit=2.0, throat_half_height=-1.0), "throat_half_height"),
     (dict(M_exit=2.0, throat_half_height=3 * ureg.s), "throat_half_height"),
-    (dict(M_exit=[2.0, 3.0]), "scalar"),
+    (dict(M_exit=[2.0, 3.0]), "M_exit must be a single value"),
 ])
 def test_bad_input_errors(kwargs, name):
     with pytest.raises(InvalidInputError, match=name) as info:
@@ -199,6 +204,10 @@ from gasdyn2d.characteristics.nozzles import (  # noqa: E402
     sauer_discharge_coefficient,
     sauer_start_line,
 )
+
+# The checks here are written in throat half-heights: these designs take h = 1 m (the
+# default, 0.01 m, is a laboratory size; its scaling is checked on its own).
+rounded_throat_nozzle = functools.partial(rounded_throat_nozzle, throat_half_height=1.0)
 
 
 @pytest.mark.parametrize("R, tolerance", [(20.0, 0.01), (100.0, 0.002)])
@@ -275,3 +284,55 @@ def test_rounded_throat_quantities_and_errors():
         rounded_throat_nozzle(2.5, n_points=3)
     with pytest.raises(NoSolutionError, match="too low"):
         rounded_throat_nozzle(1.5, throat_radius=2.0)
+
+
+# ---------------------------------------------------------------- the boundary (issues 9, 10, 14)
+
+
+def test_default_throat_is_a_laboratory_size():
+    # Issue 14: the default throat half-height is 0.01 m (a 20 mm throat); lengths scale
+    default = minimum_length_nozzle.func(2.4, n_characteristics=20)
+    unit = minimum_length_nozzle(2.4, n_characteristics=20)
+    assert default.length == pytest.approx(0.01 * unit.length, rel=1e-14)
+    assert default.area_ratio == unit.area_ratio
+    rounded = rounded_throat_nozzle.func(2.4, n_points=11)
+    assert rounded.throat_radius == pytest.approx(0.02, rel=1e-15)  # twice the half-height
+
+
+def test_one_length_unit_per_nozzle_and_read_only_results():
+    # Issue 10: the net comes back in the caller's unit too, not in metres
+    nozzle = minimum_length_nozzle(2.4, n_characteristics=12, throat_half_height=8 * ureg.mm)
+    assert str(nozzle.net.x.units) == str(nozzle.wall_x.units) == "millimeter"
+    assert nozzle.net.y.magnitude.max() == pytest.approx(nozzle.exit_half_height.magnitude,
+                                                         rel=1e-12)
+    assert str(nozzle.net.theta.units) == "radian"
+    plain = minimum_length_nozzle(2.4, n_characteristics=12)
+    for value in (plain.wall_x, plain.net.x, plain.net.mach, plain.net.minus_segments,
+                  plain.exit_plane.y, nozzle.wall_x.magnitude, nozzle.net.y.magnitude):
+        assert not value.flags.writeable
+    assert not np.shares_memory(plain.wall_y, plain.net.y)
+
+
+def test_nan_design_input_is_refused_by_name():
+    # A contour cannot be NaN (nothing to build): the design tools raise, naming the input
+    with pytest.raises(InvalidInputError, match="M_exit.*NaN"):
+        minimum_length_nozzle(float("nan"))
+    with pytest.raises(InvalidInputError, match="gamma.*NaN"):
+        rounded_throat_nozzle(2.0, gamma=float("nan"))
+    with pytest.raises(InvalidInputError, match="throat_radius"):
+        rounded_throat_nozzle(2.0, throat_radius=float("nan"))
+
+
+def test_results_in_the_callers_own_registry():
+    # A Quantity of the caller's own registry comes back in that registry (it adds to the
+    # caller's Quantities), lengths and the performance sweep alike
+    import pint
+
+    own = pint.UnitRegistry()
+    nozzle = minimum_length_nozzle(2.4, n_characteristics=12, throat_half_height=own("5 mm"),
+                                   geometry="axisymmetric")
+    assert isinstance(nozzle.length, own.Quantity) and isinstance(nozzle.net.x, own.Quantity)
+    total = nozzle.length + own("1 cm")  # would raise across registries
+    assert total.units == own.millimeter
+    perf = nozzle.performance(p0=own("2 MPa"), T0=own("300 K"), p_ambient=own("0 Pa"))
+    assert isinstance(perf.thrust, own.Quantity) and str(perf.exit_pressure.units) == "megapascal"

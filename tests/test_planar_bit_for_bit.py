@@ -19,6 +19,7 @@ c1dad73 and compare there.
 from __future__ import annotations
 
 import dataclasses
+import functools
 import hashlib
 import math
 
@@ -36,6 +37,12 @@ from gasdyn2d.characteristics.unit_processes import (
     symmetry_point,
     wall_point,
 )
+
+# The fingerprints were recorded with the throat (slot) half-height 1 m, the default of the
+# time; the default is now 0.01 m, so these designs give h = 1 m explicitly.
+minimum_length_nozzle = functools.partial(minimum_length_nozzle, throat_half_height=1.0)
+rounded_throat_nozzle = functools.partial(rounded_throat_nozzle, throat_half_height=1.0)
+underexpanded_slot_jet = functools.partial(underexpanded_slot_jet, slot_half_height=1.0)
 
 
 # The result fields as they were when the fingerprints were recorded: fields added later

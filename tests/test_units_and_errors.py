@@ -357,7 +357,7 @@ def test_a_users_own_registry_set_as_application_registry_works():
         assert state.p0.m_as("kPa") == pytest.approx(50.0 / 0.127805, rel=5e-6)  # SOURCES.md
         fan = expansion_fan(2.0, deflection=own.Quantity(10.0, "degree"))
         assert fan.nu2.units == own.degree
-        assert gasdyn2d._numerics.ureg() is pint.get_application_registry()
+        assert gasdyn2d.ureg is pint.get_application_registry()
     finally:
         pint.set_application_registry(previous.get() if hasattr(previous, "get") else previous)
     # back to the package's registry

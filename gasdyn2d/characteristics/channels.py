@@ -8,12 +8,11 @@ bends, or splines through points).
 from __future__ import annotations
 
 import dataclasses
-import numbers
 
 import numpy as np
 
-from .. import _numerics as nx
 from ..boundary.results import ResultTable, unit_field
+from .design_calls import DesignCall, frozen_array
 from .unit_processes import (
     CharacteristicNet,
     WallContour,
@@ -21,7 +20,6 @@ from .unit_processes import (
     _interior,
     _interior_stacked,
     _wall_axisymmetric,
-    check_design_input,
     check_geometry,
     mach_angle_from_nu,
     symmetry_point,
@@ -41,15 +39,16 @@ class ChannelFlow(ResultTable):
     """Characteristic net of a channel flow, wall distributions and how the march ended.
 
     ``stop_reason`` is ``"length"`` (the net reached ``length``), ``"shock"``
-    (characteristics of one family crossed at ``shock_x``, ``shock_y``) or
-    ``"sonic"`` (a compression slowed the stream to M = 1). The last complete
+    (characteristics of one family crossed at ``shock_x``, ``shock_y``),
+    ``"sonic"`` (a compression slowed the stream to M = 1) or ``"nan"`` (a
+    flow input was NaN: no nodes, NaN values). The last complete
     row of nodes (``handover_*``), a line across the channel from the lower
     to the upper wall, is where another method (a shock-fitting solver) can
     take over.
     """
 
     mach_inlet: float = unit_field("")  #: uniform Mach number at the inlet x = 0
-    stop_reason: str = unit_field("")  #: "length", "shock" or "sonic"
+    stop_reason: str = unit_field("")  #: "length", "shock", "sonic" or "nan"
     shock_x: float = unit_field("m")  #: where the net folds or the stream reaches M = 1 (else NaN)
     shock_y: float = unit_field("m")
     lower_wall_x: np.ndarray = unit_field("m")  #: lower wall nodes, in streamwise order
@@ -71,26 +70,32 @@ class ChannelFlow(ResultTable):
     upper_wall_y: np.ndarray = unit_field("m", default=None)
 
 
-def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=1.4):
-    """March a uniform supersonic stream down a planar channel with given walls.
+def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=1.4,
+                 geometry="planar"):
+    """March a uniform supersonic stream down a channel with given walls, planar or round.
 
     Parameters
     ----------
     M_inlet : float
         Mach number of the uniform stream crossing x = 0 parallel to the x
-        axis [-], > 1.
+        axis [-], > 1. NaN gives a result of NaN (``stop_reason`` "nan").
     lower_wall, upper_wall : WallContour
         Wall contours y(x) [m]; both must be parallel to the x axis at x = 0
         and the upper above the lower. Give sharp corners as short arcs
         (:meth:`WallContour.bend` with a small radius): a corner is resolved
-        over one mesh spacing.
+        over one mesh spacing. ``lower_wall=None`` is the centreline of a
+        symmetric channel (planar) or the axis of a round duct.
     length : float or Quantity
-        Channel length to march [m].
+        Channel length to march [m]; every length of the result is in its
+        unit (metres for a plain number).
     n_points : int, optional
         Nodes on the inlet line (>= 3); rows alternate n_points and
         n_points - 1 nodes.
     gamma : float, optional
         Ratio of specific heats [-].
+    geometry : {"planar", "axisymmetric"}, optional
+        Planar (per unit depth) or round: y is then the radius, and a lower
+        wall is a centre body (y > 0).
 
     Returns
     -------
@@ -99,8 +104,9 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     Raises
     ------
     InvalidInputError
-        M_inlet not above 1, walls not parallel to the stream at the inlet or
-        crossing there, bad ``length`` or ``n_points``.
+        M_inlet not above 1, walls not parallel to the stream at the inlet,
+        crossing there or NaN (a wall is geometry), bad ``length``,
+        ``n_points`` or ``geometry``, an array where one value is wanted.
 
     Notes
     -----
@@ -135,33 +141,50 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     >>> round(float(flow.lower_wall_mach.max()), 4)   # after the fan has reflected: ν1 + 12°
     2.7051
     """
-    M, _ = nx.to_si(M_inlet, "M_inlet", "dimensionless")
-    g, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    L, length_unit = nx.to_si(length, "length", "length")
-    if M.ndim or g.ndim or L.ndim:
-        raise InvalidInputError("channel_flow computes one channel: give scalar inputs.")
-    check_design_input(g, "gamma", g > 1.0, "a finite ratio of specific heats > 1")
-    check_design_input(M, "M_inlet", M > 1.0, "finite and > 1")
-    check_design_input(L, "length", L > 0.0, "finite and > 0", "m")
-    if isinstance(n_points, bool) or not isinstance(n_points, numbers.Integral) \
-            or not 3 <= n_points <= 20_000:
-        raise InvalidInputError(f"n_points must be an integer from 3 to 20000; got {n_points!r}.")
-    for name, wall in (("lower_wall", lower_wall), ("upper_wall", upper_wall)):
-        if not isinstance(wall, WallContour):
-            raise InvalidInputError(f"{name} must be a WallContour; got {type(wall).__name__}.")
-        inlet_slope = float(wall.slope(0.0))
-        if abs(inlet_slope) > 1e-9:
-            raise InvalidInputError(
-                f"{name} must be parallel to the inflow at x = 0; its slope there is "
-                f"{inlet_slope:.6g} (limit 1e-9). Start the wall straight, or move x = 0.")
-    y_low, y_up = float(lower_wall.height(0.0)), float(upper_wall.height(0.0))
+    call = DesignCall("channel_flow")
+    M = call.scalar("M_inlet", M_inlet, nan="record")
+    g = call.scalar("gamma", gamma, nan="record")
+    L = call.positive("length", length, "m")
+    call.check(1.0 < g < np.inf, "gamma", g, "a finite ratio of specific heats > 1")
+    call.check(1.0 < M < np.inf, "M_inlet", M, "finite and > 1")
+    n = call.count("n_points", n_points, 3, 20_000)
+    axisymmetric = check_geometry(geometry)
+    y_low = _inlet_height("lower_wall", lower_wall, axisymmetric)
+    y_up = _inlet_height("upper_wall", upper_wall, axisymmetric)
     if not y_up > y_low:
         raise InvalidInputError(
             f"upper_wall must lie above lower_wall at x = 0; got heights {y_up:g} m and "
-            f"{y_low:g} m.")
-    march = _march_channel(float(M), float(g), lower_wall, upper_wall, float(L), int(n_points),
-                           y_low, y_up)
-    return _channel_result(march, float(M), float(g), length_unit)
+            f"{y_low:g} m{' (the centreline or axis)' if lower_wall is None else ''}.")
+    if call.nan_inputs:
+        return _nan_channel(call, M)
+    march = _march_channel(M, g, lower_wall, upper_wall, L, n, y_low, y_up,
+                           "axisymmetric" if axisymmetric else "planar")
+    return _channel_result(march, M, g, call)
+
+
+def _inlet_height(name, wall, axisymmetric):
+    """Height [m] of a wall at the inlet x = 0 (0 for the centreline or axis, ``None``)."""
+    if wall is None and name == "lower_wall":
+        return 0.0
+    if not isinstance(wall, WallContour):
+        raise InvalidInputError(f"{name} must be a WallContour"
+                                + (" or None (the centreline or axis)" if name == "lower_wall"
+                                   else "") + f"; got {type(wall).__name__}.")
+    height, slope = float(wall.height(0.0)), float(wall.slope(0.0))
+    if not (np.isfinite(height) and np.isfinite(slope)):
+        raise InvalidInputError(
+            f"{name} must have a finite height and slope at the inlet x = 0; got height "
+            f"{height!r} m and slope {slope!r}. A wall is geometry: it cannot be NaN.")
+    if abs(slope) > 1e-9:
+        raise InvalidInputError(
+            f"{name} must be parallel to the inflow at x = 0; its slope there is "
+            f"{slope:.6g} (limit 1e-9). Start the wall straight, or move x = 0.")
+    if axisymmetric and name == "lower_wall" and not height > 0.0:
+        raise InvalidInputError(
+            f"lower_wall must lie above the axis (y > 0) in an axisymmetric channel; got "
+            f"height {height:g} m at x = 0. Give lower_wall=None for a round duct without "
+            "a centre body.")
+    return height
 
 
 @dataclasses.dataclass
@@ -203,11 +226,11 @@ class _Nodes:
                          for k in range(len(self.parts[0]))])
 
 
-def _march_channel(M, gamma, lower_wall, upper_wall, length, n, y_low, y_up):
+def _march_channel(M, gamma, lower_wall, upper_wall, length, n, y_low, y_up, geometry):
     nu0 = float(prandtl_meyer_angle(M, gamma))
     y = np.linspace(y_low, y_up, n)
     return march_rows(np.zeros(n), y, np.zeros(n), np.full(n, nu0), lower_wall, upper_wall,
-                      gamma, lambda row: np.min(row.x) > length)
+                      gamma, lambda row: np.min(row.x) > length, geometry)
 
 
 def march_rows(x, y, theta, nu, lower_wall, upper_wall, gamma, stop, geometry="planar"):
@@ -350,29 +373,42 @@ def _connect(nodes, row, new):
         nodes.upper.append(new.index[-1])
 
 
-def _channel_result(march, M, gamma, length_unit):
+def _channel_result(march, M, gamma, call):
     nodes, row, reason, fold = march
     x, y, theta, nu = nodes.arrays()
     net = CharacteristicNet.from_nodes(
         x, y, theta, nu, np.concatenate(nodes.plus + [np.empty((0, 2), np.intp)]),
         np.concatenate(nodes.minus + [np.empty((0, 2), np.intp)]), gamma)
     lower, upper = np.array(nodes.lower), np.array(nodes.upper)
-
-    def length(value):
-        return nx.quantity_out(value, "meter", length_unit)
-
     row_mach = mach_from_prandtl_meyer_angle(row.nu, gamma)
     return ChannelFlow(
         mach_inlet=M, stop_reason=reason,
-        shock_x=length(fold[0]), shock_y=length(fold[1]),
-        lower_wall_x=length(x[lower]), lower_wall_mach=net.mach[lower],
-        lower_wall_p_p0=net.p_p0[lower],
-        upper_wall_x=length(x[upper]), upper_wall_mach=net.mach[upper],
-        upper_wall_p_p0=net.p_p0[upper],
-        lower_wall_nodes=lower, upper_wall_nodes=upper,
-        handover_x=length(row.x), handover_y=length(row.y),
-        handover_mach=row_mach, handover_theta=row.theta.copy(),
-        net=net, lower_wall_y=length(y[lower]), upper_wall_y=length(y[upper]),
+        shock_x=call.length(fold[0]), shock_y=call.length(fold[1]),
+        lower_wall_x=call.length(x[lower]), lower_wall_mach=frozen_array(net.mach[lower]),
+        lower_wall_p_p0=frozen_array(net.p_p0[lower]),
+        upper_wall_x=call.length(x[upper]), upper_wall_mach=frozen_array(net.mach[upper]),
+        upper_wall_p_p0=frozen_array(net.p_p0[upper]),
+        lower_wall_nodes=frozen_array(lower, np.intp),
+        upper_wall_nodes=frozen_array(upper, np.intp),
+        handover_x=call.length(row.x), handover_y=call.length(row.y),
+        handover_mach=frozen_array(row_mach), handover_theta=call.angle(row.theta),
+        net=call.net(net), lower_wall_y=call.length(y[lower]),
+        upper_wall_y=call.length(y[upper]),
     )
 
 
+def _nan_channel(call, M):
+    """The result of a channel whose flow input was NaN: NaN values, no nodes."""
+    empty, nowhere = np.empty(0), np.empty(0, dtype=np.intp)
+    net = CharacteristicNet(empty, empty, empty, empty, empty, np.empty((0, 2), np.intp),
+                            np.empty((0, 2), np.intp))
+    return ChannelFlow(
+        mach_inlet=M, stop_reason="nan", shock_x=call.length(np.nan),
+        shock_y=call.length(np.nan), lower_wall_x=call.length(empty),
+        lower_wall_mach=frozen_array(empty), lower_wall_p_p0=frozen_array(empty),
+        upper_wall_x=call.length(empty), upper_wall_mach=frozen_array(empty),
+        upper_wall_p_p0=frozen_array(empty), lower_wall_nodes=frozen_array(nowhere, np.intp),
+        upper_wall_nodes=frozen_array(nowhere, np.intp), handover_x=call.length(empty),
+        handover_y=call.length(empty), handover_mach=frozen_array(empty),
+        handover_theta=call.angle(empty), net=call.net(net), lower_wall_y=call.length(empty),
+        upper_wall_y=call.length(empty))

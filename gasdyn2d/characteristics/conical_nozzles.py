@@ -10,11 +10,9 @@ factor of the straight wall is Malina's closed form.
 from __future__ import annotations
 
 import dataclasses
-import numbers
 
 import numpy as np
 
-from .. import _numerics as nx
 from ..boundary.results import ResultTable, unit_field
 from ..errors import InvalidInputError
 from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
@@ -22,9 +20,10 @@ from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.isentropic import area_ratio as isentropic_area_ratio
 from ..relations.isentropic import mach_from_area_ratio, pressure_ratio
 from .channels import march_rows
+from .design_calls import DesignCall
 from .nozzles import sauer_discharge_coefficient, sauer_start_line
 from .performance import ExitPlane, NozzlePerformanceMixin
-from .unit_processes import CharacteristicNet, WallContour, check_design_input, check_geometry
+from .unit_processes import CharacteristicNet, WallContour, check_geometry
 
 __all__ = [
     "conical_nozzle",
@@ -99,7 +98,7 @@ class ConicalNozzle(NozzlePerformanceMixin, ResultTable):
 
 
 def conical_nozzle(M_exit, half_angle, *, geometry="axisymmetric", throat_radius_of_curvature=None,
-                   throat_half_height=1.0, gamma=1.4, n_points=31):
+                   throat_half_height=0.01, gamma=1.4, n_points=31):
     """A conical nozzle (or planar wedge nozzle): throat arc, straight wall, computed exit flow.
 
     Parameters
@@ -117,6 +116,8 @@ def conical_nozzle(M_exit, half_angle, *, geometry="axisymmetric", throat_radius
         needs a gentle throat); default twice it.
     throat_half_height : float or Quantity, optional
         Throat half-height h, or the throat radius of a round nozzle [m].
+        Default 0.01 m (a 20 mm throat, a laboratory size); every length of the
+        result is in the unit given here (metres for a plain number).
     gamma : float, optional
         Ratio of specific heats [-].
     n_points : int, optional
@@ -180,38 +181,26 @@ def conical_nozzle(M_exit, half_angle, *, geometry="axisymmetric", throat_radius
     >>> tight.shock_formed, round(float(tight.shock_x) * 1e3, 1), tight.exit_flow[:19]
     (True, 41.2, 'conical source flow')
     """
-    M, _ = nx.to_si(M_exit, "M_exit", "dimensionless")
-    alpha, angle_unit = nx.to_si(half_angle, "half_angle", "angle")
-    g, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    h, length_unit = nx.to_si(throat_half_height, "throat_half_height", "length")
+    call = DesignCall("conical_nozzle")
+    M = call.scalar("M_exit", M_exit)
+    alpha = call.scalar("half_angle", half_angle, "rad")
+    g = call.scalar("gamma", gamma)
+    h = call.positive("throat_half_height", throat_half_height, "m")
     if throat_radius_of_curvature is None:
-        throat_radius_of_curvature = 2.0 * throat_half_height
-    R, radius_unit = nx.to_si(throat_radius_of_curvature, "throat_radius_of_curvature", "length")
-    if M.ndim or alpha.ndim or g.ndim or h.ndim or R.ndim:
-        raise InvalidInputError("conical_nozzle designs one nozzle: give scalar inputs.")
+        R_over_h = 2.0
+    else:
+        R_over_h = call.positive("throat_radius_of_curvature", throat_radius_of_curvature,
+                                 "m") / h
     round_ = check_geometry(geometry)
-    check_design_input(g, "gamma", g > 1.0, "a finite ratio of specific heats > 1")
-    check_design_input(M, "M_exit", M > 1.0, "finite and > 1 (a supersonic exit)")
-    check_design_input(alpha, "half_angle", (alpha > 0.0) & (alpha < np.pi / 4), "between 0 "
-                       "and 45° (0.785398 rad)", "rad")
-    check_design_input(h, "throat_half_height", h > 0.0, "finite and > 0", "m")
-    R_over_h = float(R) / float(h)
-    check_design_input(R_over_h, "throat_radius_of_curvature / throat_half_height",
-                       R_over_h >= 2.0, ">= 2 (Sauer's transonic start needs a gentle throat)")
-    if isinstance(n_points, bool) or not isinstance(n_points, numbers.Integral) \
-            or not 5 <= n_points <= 400:
-        raise InvalidInputError(f"n_points must be an integer from 5 to 400; got {n_points!r}.")
-    M, alpha, g, h = float(M), float(alpha), float(g), float(h)
-    design = conical_design(M, alpha, R_over_h, int(n_points), g, round_)
+    call.check(1.0 < g < np.inf, "gamma", g, "a finite ratio of specific heats > 1")
+    call.check(1.0 < M < np.inf, "M_exit", M, "finite and > 1 (a supersonic exit)")
+    call.check(0.0 < alpha < np.pi / 4, "half_angle", alpha,
+               "between 0 and 45° (0.785398 rad)", "rad")
+    call.check(R_over_h >= 2.0, "throat_radius_of_curvature / throat_half_height", R_over_h,
+               ">= 2 (Sauer's transonic start needs a gentle throat)")
+    n_points = call.count("n_points", n_points, 5, 400)
+    design = conical_design(M, alpha, R_over_h, n_points, g, round_)
     fold = design["fold"]
-    unit = length_unit if length_unit is not None else radius_unit
-    angle_out = angle_unit if angle_unit is not None else (
-        None if unit is None else nx.ureg().radian)
-
-    def length(value):
-        return nx.quantity_out(h * np.asarray(value) if np.ndim(value) else h * float(value),
-                               "meter", unit)
-
     wall_x, wall_y = design["wall"]
     x, y, theta, nu, plus, minus = design["net"]
     profile = design["exit"]
@@ -221,18 +210,19 @@ def conical_nozzle(M_exit, half_angle, *, geometry="axisymmetric", throat_radius
     plane = ExitPlane(geometry_name, h, h * profile[0], mach_profile, profile[1],
                       float(pressure_ratio(mach_profile[-1], g)), design["discharge"], g, model)
     return ConicalNozzle(
-        mach_exit=M, half_angle=nx.angle_out(alpha, angle_out),
-        throat_radius_of_curvature=length(R_over_h), wall_x=length(wall_x),
-        wall_y=length(wall_y), tangent_x=length(design["tangent_x"]),
-        length=length(float(wall_x[-1])), exit_half_height=length(float(wall_y[-1])),
+        mach_exit=M, half_angle=call.angle(alpha),
+        throat_radius_of_curvature=call.length(h * R_over_h), wall_x=call.length(h * wall_x),
+        wall_y=call.length(h * wall_y), tangent_x=call.length(h * design["tangent_x"]),
+        length=call.length(h * float(wall_x[-1])),
+        exit_half_height=call.length(h * float(wall_y[-1])),
         area_ratio=design["area_ratio"],
         divergence_factor=float(malina_divergence_factor(alpha, geometry_name)),
         discharge_coefficient=design["discharge"], exit_mach_axis=float(mach_profile[0]),
         exit_mach_wall=float(mach_profile[-1]), geometry=geometry_name,
         shock_formed=fold is not None,
-        shock_x=length(np.nan if fold is None else fold[0]),
-        shock_y=length(np.nan if fold is None else fold[1]), exit_flow=model,
-        net=CharacteristicNet.from_nodes(h * x, h * y, theta, nu, plus, minus, g),
+        shock_x=call.length(h * (np.nan if fold is None else fold[0])),
+        shock_y=call.length(h * (np.nan if fold is None else fold[1])), exit_flow=model,
+        net=call.net(CharacteristicNet.from_nodes(h * x, h * y, theta, nu, plus, minus, g)),
         exit_plane=plane,
     )
 

@@ -12,17 +12,11 @@ import dataclasses
 
 import numpy as np
 
-from .. import _numerics as nx
 from ..boundary.results import ResultTable, unit_field
+from .design_calls import DesignCall, frozen_array
 from .fan_nets import band_segments, march_fan_band
-from .unit_processes import (
-    ROUND_LINE_LIMIT,
-    CharacteristicNet,
-    check_design_input,
-    check_geometry,
-    check_line_count,
-)
-from ..errors import InvalidInputError
+from .nozzles import line_count
+from .unit_processes import ROUND_LINE_LIMIT, CharacteristicNet, check_geometry
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
 
@@ -103,7 +97,7 @@ class SlotJet(ResultTable):
 
 
 def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, gamma=1.4,
-                           slot_half_height=1.0, n_cells=1, geometry="planar"):
+                           slot_half_height=0.01, n_cells=1, geometry="planar"):
     """Characteristic net of a jet leaving a slot (or a round nozzle) above ambient pressure.
 
     The lip fans expand the stream to ambient pressure; their waves reflect
@@ -127,7 +121,9 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
     gamma : float, optional
         Ratio of specific heats [-].
     slot_half_height : float or Quantity, optional
-        Half-height b of the slot [m] (the full width is h = 2b).
+        Half-height b of the slot [m] (the full width is h = 2b); the exit
+        radius of a round jet. Default 0.01 m (a 20 mm slot); every length of
+        the result is in the unit given here (metres for a plain number).
     n_cells : int, optional
         Shock cells to march if no shock forms first (in practice the first
         shock ends the march within the first cell).
@@ -185,29 +181,27 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
     >>> bool(jet.shock_formed), round(float(jet.shock_x) * 1e3, 2)   # near the centreline
     (True, 8.44)
     """
-    M, _ = nx.to_si(M_exit, "M_exit", "dimensionless")
-    ratio, _ = nx.to_si(p_exit_p_ambient, "p_exit_p_ambient", "dimensionless")
-    g, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    b, length_unit = nx.to_si(slot_half_height, "slot_half_height", "length")
-    if M.ndim or ratio.ndim or g.ndim or b.ndim:
-        raise InvalidInputError("underexpanded_slot_jet computes one jet: give scalar inputs.")
-    check_design_input(g, "gamma", g > 1.0, "a finite ratio of specific heats > 1")
-    check_design_input(M, "M_exit", M >= 1.0, "finite and >= 1")
-    check_design_input(ratio, "p_exit_p_ambient", ratio > 1.0,
-                       "finite and > 1 (an under-expanded jet; an over-expanded one starts "
-                       "with lip shocks, outside this method)")
-    check_design_input(b, "slot_half_height", b > 0.0, "finite and > 0", "m")
+    call = DesignCall("underexpanded_slot_jet")
+    M = call.scalar("M_exit", M_exit, nan="record")
+    ratio = call.scalar("p_exit_p_ambient", p_exit_p_ambient, nan="record")
+    g = call.scalar("gamma", gamma, nan="record")
+    b = call.positive("slot_half_height", slot_half_height, "m")
+    call.check(1.0 < g < np.inf, "gamma", g, "a finite ratio of specific heats > 1")
+    call.check(1.0 <= M < np.inf, "M_exit", M, "finite and >= 1")
+    call.check(1.0 < ratio < np.inf, "p_exit_p_ambient", ratio,
+               "finite and > 1 (an under-expanded jet; an over-expanded one starts with lip "
+               "shocks, outside this method)")
     round_ = check_geometry(geometry)
-    n = check_line_count(n_characteristics, ROUND_LINE_LIMIT if round_ else 5000)
+    n = line_count(call, n_characteristics, ROUND_LINE_LIMIT if round_ else 5000)
     geometry_name = "axisymmetric" if round_ else "planar"
-    if not isinstance(n_cells, int) or not 1 <= n_cells <= 20:
-        raise InvalidInputError(f"n_cells must be an integer from 1 to 20; got {n_cells!r}.")
-    M, ratio, g, b = float(M), float(ratio), float(g), float(b)
+    n_cells = call.count("n_cells", n_cells, 1, 20)
+    if call.nan_inputs:
+        return _nan_jet(call, M, ratio, geometry_name)
     M_jet = float(mach_from_pressure_ratio(pressure_ratio(M, g) / ratio, g))
     nu_exit = float(prandtl_meyer_angle(M, g))
     nu_jet = float(prandtl_meyer_angle(M_jet, g))
-    nx.reject(np.asarray(~np.isfinite(nu_jet)), np.asarray(ratio), "p_exit_p_ambient",
-              "small enough that the jet does not expand to vacuum", "raise")
+    call.check(np.isfinite(nu_jet), "p_exit_p_ambient", ratio,
+               "small enough that the jet does not expand to vacuum")
     turn = nu_jet - nu_exit
     fan_theta = turn * np.arange(1, n + 1) / n
     if geometry_name == "planar":
@@ -225,10 +219,10 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
                               geometry="axisymmetric",
                               upstream_lines=(x_start, y_start, 0.0 * y_start,
                                               np.full(n, nu_exit)))
-    return _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, g, geometry_name)
+    return _jet_result(band, n, M, M_jet, ratio, turn, b, call, g, geometry_name)
 
 
-def _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, gamma, geometry="planar"):
+def _jet_result(band, n, M, M_jet, ratio, turn, b, call, gamma, geometry="planar"):
     rows = np.arange(band.x.shape[0])
     cols = band.boundary_index(rows)
     on_boundary = band.valid[rows, cols]
@@ -241,24 +235,37 @@ def _jet_result(band, n, M, M_jet, ratio, turn, b, length_unit, gamma, geometry=
                                        band.nu[keep], plus, minus, gamma)
 
     def length(value):
-        return nx.quantity_out(b * value, "meter", length_unit)
+        return call.length(b * value)
 
     fold = band.fold or (np.nan, np.nan)
     beta_jet = float(np.sqrt((M_jet - 1.0) * (M_jet + 1.0)))
     widest_linear = (ROUND_JET_WIDEST_POINT if geometry != "planar" else 2.0) * beta_jet
     return SlotJet(
-        mach_exit=M, mach_jet=M_jet, p_exit_p_ambient=ratio,
-        lip_turn=nx.angle_out(turn, None if length_unit is None else nx.ureg().radian),
-        boundary_x=length(bx), boundary_y=length(by),
-        boundary_theta=nx.angle_out(bth, None if length_unit is None else nx.ureg().radian),
-        boundary_nodes=flat_index[rows, cols][on_boundary],
+        mach_exit=M, mach_jet=M_jet, p_exit_p_ambient=ratio, lip_turn=call.angle(turn),
+        boundary_x=length(bx), boundary_y=length(by), boundary_theta=call.angle(bth),
+        boundary_nodes=frozen_array(flat_index[rows, cols][on_boundary], np.intp),
         max_half_width=length(widest[1]), max_width_x=length(widest[0]),
         cell_length=length(2.0 * widest[0] if geometry == "planar" else np.nan),
         cell_length_linear=length(float(linear_cell_length(M_jet, 2.0, geometry))),
         shock_formed=band.fold is not None,
         shock_x=length(float(fold[0])), shock_y=length(float(fold[1])),
-        net=net, geometry=geometry, max_width_x_linear=length(widest_linear),
+        net=call.net(net), geometry=geometry, max_width_x_linear=length(widest_linear),
     )
+
+
+def _nan_jet(call, M, ratio, geometry):
+    """The result of a jet whose flow input was NaN: NaN values, no nodes."""
+    empty, nan = np.empty(0), np.nan
+    net = CharacteristicNet(empty, empty, empty, empty, empty, np.empty((0, 2), np.intp),
+                            np.empty((0, 2), np.intp))
+    return SlotJet(
+        mach_exit=M, mach_jet=nan, p_exit_p_ambient=ratio, lip_turn=call.angle(nan),
+        boundary_x=call.length(empty), boundary_y=call.length(empty),
+        boundary_theta=call.angle(empty), boundary_nodes=frozen_array(empty, np.intp),
+        max_half_width=call.length(nan), max_width_x=call.length(nan),
+        cell_length=call.length(nan), cell_length_linear=call.length(nan), shock_formed=False,
+        shock_x=call.length(nan), shock_y=call.length(nan), net=call.net(net),
+        geometry=geometry, max_width_x_linear=call.length(nan))
 
 
 def _first_crossing(x, y, theta):

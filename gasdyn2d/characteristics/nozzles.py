@@ -13,13 +13,12 @@ marched here (the corner fan by
 from __future__ import annotations
 
 import dataclasses
-import numbers
 
 import numpy as np
 
-from .. import _numerics as nx
 from ..boundary.results import ResultTable, unit_field
 from .channels import march_rows
+from .design_calls import DesignCall
 from .fan_nets import band_segments, march_fan_band
 from .performance import ExitPlane, NozzlePerformanceMixin
 from .round_nozzles import (
@@ -31,15 +30,13 @@ from .round_nozzles import (
 from .unit_processes import (
     ROUND_LINE_LIMIT,
     CharacteristicNet,
-    check_design_input,
     check_geometry,
-    check_line_count,
     WallContour,
     cancellation_point,
     mach_angle_from_nu,
     symmetry_point,
 )
-from ..errors import InvalidInputError, NoSolutionError
+from ..errors import NoSolutionError
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.isentropic import area_ratio as isentropic_area_ratio
 
@@ -98,7 +95,7 @@ def minimum_length_contour(M_exit, n_characteristics, gamma=1.4):
     return band.x[:, n + 1], band.y[:, n + 1], band
 
 
-def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_half_height=1.0,
+def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_half_height=0.01,
                           geometry="planar"):
     """Contour of a minimum-length nozzle with a sharp throat corner, planar or round.
 
@@ -118,7 +115,8 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
         Ratio of specific heats [-], > 1.
     throat_half_height : float or Quantity, optional
         Half-height h of the throat [m] (its radius, round); lengths scale
-        with it.
+        with it. Default 0.01 m (a 20 mm throat, a laboratory size); every length of the
+        result is in the unit given here (metres for a plain number).
     geometry : {"planar", "axisymmetric"}, optional
         Planar (default; per unit depth) or round (axisymmetric) nozzle.
 
@@ -130,7 +128,8 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     ------
     InvalidInputError
         M_exit not above 1, a non-integer or too small n, gamma <= 1, a
-        non-positive throat half-height, or an unknown geometry.
+        non-positive throat half-height, an unknown geometry, an array where
+        one value is wanted, or NaN (a contour cannot be NaN).
 
     Notes
     -----
@@ -182,21 +181,12 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     >>> round(round_nozzle.area_ratio, 3), round(float(round_nozzle.length), 4)
     (3.498, 0.0717)
     """
-    M, _ = nx.to_si(M_exit, "M_exit", "dimensionless")
-    g, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    h, length_unit = nx.to_si(throat_half_height, "throat_half_height", "length")
-    if M.ndim or g.ndim or h.ndim:
-        raise InvalidInputError("minimum_length_nozzle designs one nozzle: give scalar "
-                                "M_exit, gamma and throat_half_height.")
-    check_design_input(g, "gamma", g > 1.0, "a finite ratio of specific heats > 1")
-    check_design_input(M, "M_exit", M > 1.0, "finite and > 1 (a supersonic exit)")
-    check_design_input(h, "throat_half_height", h > 0.0, "finite and > 0", "m")
+    call = DesignCall("minimum_length_nozzle")
+    M, g, h = _design_inputs(call, M_exit, gamma, throat_half_height)
     round_ = check_geometry(geometry)
-    n = check_line_count(n_characteristics, ROUND_LINE_LIMIT if round_ else 5000)
-    M, g, h = float(M), float(g), float(h)
-    angle_unit = None if length_unit is None else nx.ureg().radian
+    n = line_count(call, n_characteristics, ROUND_LINE_LIMIT if round_ else 5000)
     if round_:
-        return _round_minimum_length_nozzle(M, n, g, h, length_unit, angle_unit)
+        return _round_minimum_length_nozzle(call, M, n, g, h)
     wall_x, wall_y, band = minimum_length_contour(M, n, g)
     net = _nozzle_net(band, n, h, g)
     exit_y = float(wall_y[-1])
@@ -204,38 +194,51 @@ def minimum_length_nozzle(M_exit, *, n_characteristics=50, gamma=1.4, throat_hal
     return MinimumLengthNozzle(
         mach_exit=M,
         n_characteristics=n,
-        wall_x=nx.quantity_out(h * wall_x, "meter", length_unit),
-        wall_y=nx.quantity_out(h * wall_y, "meter", length_unit),
-        length=nx.quantity_out(h * float(wall_x[-1]), "meter", length_unit),
-        exit_half_height=nx.quantity_out(h * exit_y, "meter", length_unit),
+        wall_x=call.length(h * wall_x),
+        wall_y=call.length(h * wall_y),
+        length=call.length(h * float(wall_x[-1])),
+        exit_half_height=call.length(h * exit_y),
         area_ratio=exit_y,
         area_ratio_isentropic=float(isentropic_area_ratio(M, g)),
-        max_wall_angle=nx.angle_out(0.5 * float(prandtl_meyer_angle(M, g)),
-                                    None if length_unit is None else nx.ureg().radian),
-        net=net,
+        max_wall_angle=call.angle(corner),
+        net=call.net(net),
         geometry="planar",
-        corner_angle=nx.angle_out(corner, angle_unit),
+        corner_angle=call.angle(corner),
         exit_plane=ExitPlane.uniform("planar", h, h * exit_y, M, g),
     )
 
 
-def _round_minimum_length_nozzle(M, n, gamma, h, length_unit, angle_unit):
+def _design_inputs(call, M_exit, gamma, throat_half_height):
+    """M_exit, γ and the throat half-height [m] of a nozzle design, checked."""
+    M = call.scalar("M_exit", M_exit)
+    g = call.scalar("gamma", gamma)
+    h = call.positive("throat_half_height", throat_half_height, "m")
+    call.check(1.0 < g < np.inf, "gamma", g, "a finite ratio of specific heats > 1")
+    call.check(1.0 < M < np.inf, "M_exit", M, "finite and > 1 (a supersonic exit)")
+    return M, g, h
+
+
+def line_count(call, n, limit):
+    """An integer number of fan lines from 2 to ``limit`` (5000; 400 for the round nets,
+    whose node records, seven per node and marched as a batch, grow as n²)."""
+    return call.count("n_characteristics", n, 2, limit,
+                      "Use 20-200 lines: the area-ratio error falls as n^(-4/3).")
+
+
+def _round_minimum_length_nozzle(call, M, n, gamma, h):
     """The round minimum-length nozzle (unit boundary part; design in round_nozzles)."""
     design = round_minimum_length_design(M, n, gamma)
     wall_x, wall_y, wall_theta = design.wall[:3]
     x, y, theta, nu, plus, minus = design.net
     exit_r = float(wall_y[-1])
-
-    def length(value):
-        return nx.quantity_out(h * value, "meter", length_unit)
-
     return MinimumLengthNozzle(
-        mach_exit=M, n_characteristics=n, wall_x=length(wall_x), wall_y=length(wall_y),
-        length=length(float(wall_x[-1])), exit_half_height=length(exit_r),
+        mach_exit=M, n_characteristics=n, wall_x=call.length(h * wall_x),
+        wall_y=call.length(h * wall_y), length=call.length(h * float(wall_x[-1])),
+        exit_half_height=call.length(h * exit_r),
         area_ratio=exit_r * exit_r, area_ratio_isentropic=float(isentropic_area_ratio(M, gamma)),
-        max_wall_angle=nx.angle_out(float(np.max(wall_theta)), angle_unit),
-        net=CharacteristicNet.from_nodes(h * x, h * y, theta, nu, plus, minus, gamma),
-        geometry="axisymmetric", corner_angle=nx.angle_out(design.corner_angle, angle_unit),
+        max_wall_angle=call.angle(float(np.max(wall_theta))),
+        net=call.net(CharacteristicNet.from_nodes(h * x, h * y, theta, nu, plus, minus, gamma)),
+        geometry="axisymmetric", corner_angle=call.angle(design.corner_angle),
         exit_plane=ExitPlane.uniform("axisymmetric", h, h * exit_r, M, gamma),
     )
 
@@ -360,7 +363,7 @@ def sauer_discharge_coefficient(throat_radius, gamma=1.4, n_points=2001, *, geom
 
 
 def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
-                          throat_half_height=1.0, geometry="planar"):
+                          throat_half_height=0.01, geometry="planar"):
     """Contour of a nozzle whose throat wall is a circular arc, by characteristics, planar or round.
 
     The wall leaves the throat on a circular arc of ``throat_radius`` and
@@ -381,6 +384,8 @@ def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
         Ratio of specific heats [-].
     throat_half_height : float or Quantity, optional
         Throat half-height h [m] (the throat radius of a round nozzle).
+        Default 0.01 m (a 20 mm throat, a laboratory size); every length of the
+        result is in the unit given here (metres for a plain number).
     geometry : {"planar", "axisymmetric"}, optional
         Planar (default; per unit depth) or round nozzle.
 
@@ -419,80 +424,58 @@ def rounded_throat_nozzle(M_exit, *, throat_radius=None, n_points=31, gamma=1.4,
 
     Examples
     --------
-    The small Mach 2.8 blowdown tunnel with a rounded throat of radius 2h:
+    The small Mach 2.8 blowdown tunnel (throat 20 mm high, the default) with a
+    rounded throat of radius 2h = 20 mm:
 
     >>> from gasdyn2d.characteristics.nozzles import rounded_throat_nozzle
-    >>> nozzle = rounded_throat_nozzle(2.8, throat_radius=2.0, n_points=31)
+    >>> nozzle = rounded_throat_nozzle(2.8, throat_radius=0.02, n_points=31)
     >>> round(nozzle.area_ratio / nozzle.area_ratio_isentropic, 3)   # the throat's mass deficit
     0.992
     >>> import numpy as np
-    >>> round(float(np.degrees(nozzle.inflection_angle)), 2), round(float(nozzle.length), 2)
-    (22.87, 14.35)
+    >>> round(float(np.degrees(nozzle.inflection_angle)), 2), round(float(nozzle.length), 4)
+    (22.87, 0.1435)
     """
-    M, _ = nx.to_si(M_exit, "M_exit", "dimensionless")
-    g, _ = nx.to_si(gamma, "gamma", "dimensionless")
-    h, length_unit = nx.to_si(throat_half_height, "throat_half_height", "length")
+    call = DesignCall("rounded_throat_nozzle")
+    M, g, h = _design_inputs(call, M_exit, gamma, throat_half_height)
     if throat_radius is None:
-        throat_radius = 2.0 * throat_half_height
-    R, radius_unit = nx.to_si(throat_radius, "throat_radius", "length")
-    if M.ndim or g.ndim or h.ndim or R.ndim:
-        raise InvalidInputError("rounded_throat_nozzle designs one nozzle: give scalar inputs.")
-    check_design_input(g, "gamma", g > 1.0, "a finite ratio of specific heats > 1")
-    check_design_input(M, "M_exit", M > 1.0, "finite and > 1 (a supersonic exit)")
-    check_design_input(h, "throat_half_height", h > 0.0, "finite and > 0", "m")
-    R_over_h = float(R) / float(h)
-    check_design_input(R_over_h, "throat_radius / throat_half_height", R_over_h >= 2.0,
-                       ">= 2 (throat_radius at least twice throat_half_height: Sauer's "
-                       "transonic start line needs a gentle throat; tighter arcs fold the kernel)")
-    if isinstance(n_points, bool) or not isinstance(n_points, numbers.Integral) \
-            or not 5 <= n_points <= 2000:
-        raise InvalidInputError(f"n_points must be an integer from 5 to 2000; got {n_points!r}.")
-    M, g, h = float(M), float(g), float(h)
-    unit = length_unit if length_unit is not None else radius_unit
+        R_over_h = 2.0
+    else:
+        R_over_h = call.positive("throat_radius", throat_radius, "m") / h
+    call.check(R_over_h >= 2.0, "throat_radius / throat_half_height", R_over_h,
+               ">= 2 (throat_radius at least twice throat_half_height: Sauer's transonic start "
+               "line needs a gentle throat; tighter arcs fold the kernel)")
+    n_points = call.count("n_points", n_points, 5, 2000)
     if check_geometry(geometry):
-        return _round_rounded_throat_nozzle(M, R_over_h, int(n_points), g, h, unit)
-    design = _rounded_throat_design(M, R_over_h, int(n_points), g)
-    wall_x, wall_y, x_a, theta_a, cd, net = design
-
-    def length(value):
-        return nx.quantity_out(h * np.asarray(value) if np.ndim(value) else h * float(value),
-                               "meter", unit)
-
+        return _round_rounded_throat_nozzle(call, M, R_over_h, n_points, g, h)
+    wall_x, wall_y, x_a, theta_a, cd, net = _rounded_throat_design(M, R_over_h, n_points, g)
     return RoundedThroatNozzle(
-        mach_exit=M, throat_radius=length(R_over_h), wall_x=length(wall_x), wall_y=length(wall_y),
-        inflection_x=length(x_a),
-        inflection_angle=nx.angle_out(theta_a, None if unit is None else nx.ureg().radian),
-        length=length(wall_x[-1]), exit_half_height=length(wall_y[-1]),
+        mach_exit=M, throat_radius=call.length(h * R_over_h), wall_x=call.length(h * wall_x),
+        wall_y=call.length(h * wall_y), inflection_x=call.length(h * x_a),
+        inflection_angle=call.angle(theta_a), length=call.length(h * wall_x[-1]),
+        exit_half_height=call.length(h * wall_y[-1]),
         area_ratio=float(wall_y[-1]), area_ratio_isentropic=float(isentropic_area_ratio(M, g)),
         discharge_coefficient=cd,
-        net=CharacteristicNet.from_nodes(h * net[0], h * net[1], *net[2:], g),
-        geometry="planar",
-        max_wall_angle=nx.angle_out(theta_a, None if unit is None else nx.ureg().radian),
+        net=call.net(CharacteristicNet.from_nodes(h * net[0], h * net[1], *net[2:], g)),
+        geometry="planar", max_wall_angle=call.angle(theta_a),
         exit_plane=ExitPlane.uniform("planar", h, h * float(wall_y[-1]), M, g, cd),
     )
 
 
-def _round_rounded_throat_nozzle(M, R, n_points, gamma, h, unit):
+def _round_rounded_throat_nozzle(call, M, R, n_points, gamma, h):
     """The round rounded-throat nozzle (unit boundary part; design in round_nozzles)."""
     design, x_a, theta_a, cd = round_rounded_throat_design(M, R, n_points, gamma)
     wall_x, wall_y, wall_theta = design.wall[:3]
     x, y, theta, nu, plus, minus = design.net
     exit_r = float(wall_y[-1])
-    angle_unit = None if unit is None else nx.ureg().radian
-
-    def length(value):
-        return nx.quantity_out(h * np.asarray(value) if np.ndim(value) else h * float(value),
-                               "meter", unit)
-
     return RoundedThroatNozzle(
-        mach_exit=M, throat_radius=length(R), wall_x=length(wall_x), wall_y=length(wall_y),
-        inflection_x=length(x_a), inflection_angle=nx.angle_out(theta_a, angle_unit),
-        length=length(float(wall_x[-1])), exit_half_height=length(exit_r),
+        mach_exit=M, throat_radius=call.length(h * R), wall_x=call.length(h * wall_x),
+        wall_y=call.length(h * wall_y), inflection_x=call.length(h * x_a),
+        inflection_angle=call.angle(theta_a), length=call.length(h * float(wall_x[-1])),
+        exit_half_height=call.length(h * exit_r),
         area_ratio=exit_r * exit_r, area_ratio_isentropic=float(isentropic_area_ratio(M, gamma)),
         discharge_coefficient=cd,
-        net=CharacteristicNet.from_nodes(h * x, h * y, theta, nu, plus, minus, gamma),
-        geometry="axisymmetric",
-        max_wall_angle=nx.angle_out(float(np.max(wall_theta)), angle_unit),
+        net=call.net(CharacteristicNet.from_nodes(h * x, h * y, theta, nu, plus, minus, gamma)),
+        geometry="axisymmetric", max_wall_angle=call.angle(float(np.max(wall_theta))),
         exit_plane=ExitPlane.uniform("axisymmetric", h, h * exit_r, M, gamma, cd),
     )
 

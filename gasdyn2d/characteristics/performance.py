@@ -22,8 +22,8 @@ import dataclasses
 
 import numpy as np
 
-from .. import _numerics as nx
-from ..boundary.results import ResultTable, unit_field
+from ..boundary import Call
+from ..boundary.results import ResultTable, result_fields, unit_field
 from ..errors import InvalidInputError
 from ..relations.gas import AIR, Gas
 from ..relations.isentropic import mach_from_area_ratio, pressure_ratio, temperature_ratio
@@ -121,6 +121,12 @@ class ExitPlane:
     #: where the profile comes from: "characteristics" (the computed net) or a named model
     model: str = "characteristics"
 
+    def __post_init__(self):
+        for name in ("y", "mach", "theta"):  # read-only copies: the plane is immutable
+            array = np.array(getattr(self, name), dtype=float)
+            array.flags.writeable = False
+            object.__setattr__(self, name, array)
+
     @classmethod
     def uniform(cls, geometry, throat_size, exit_size, mach, gamma, discharge_coefficient=1.0):
         """A uniform, parallel exit at ``mach`` from the axis to ``exit_size`` [m]."""
@@ -181,8 +187,10 @@ class NozzlePerformance(ResultTable):
     mass_flow_exit_plane: object = unit_field("kg/s")  #: ∫ρu dA over the computed exit plane
     exit_pressure: object = unit_field("Pa")  #: area-mean static pressure on the exit plane
     exit_wall_pressure: object = unit_field("Pa")  #: static pressure at the lip
-    expansion_state: object = unit_field("")  #: "under-expanded", "over-expanded" or "matched"
-    separation_likely: object = unit_field("")  #: Summerfield estimate: wall p < 0.4 ambient
+    #: "under-expanded", "over-expanded" or "matched"
+    expansion_state: object = unit_field("", dtype=str)
+    #: Summerfield estimate: wall p < 0.4 ambient
+    separation_likely: object = unit_field("", dtype=bool)
     thrust_coefficient_ideal: object = unit_field("")  #: 1-D CF at the same area ratio (Sutton)
     divergence_factor: float = unit_field("")  #: ∫ρu² dA / ∫ρuV dA on the exit plane
     area_ratio: float = unit_field("")  #: exit-to-throat area ratio of the contour
@@ -241,20 +249,43 @@ def nozzle_performance(plane, *, p0, T0, p_ambient, gas=AIR, errors="raise"):
         raise InvalidInputError(
             f"gas.gamma = {gas.gamma:g} differs from the gamma = {plane.gamma:g} the nozzle was "
             f"designed with; pass gas=Gas(gamma={plane.gamma:g}, R=...) or redesign the nozzle.")
-    nx.check_errors_mode(errors)
-    p0_si, p0_unit = nx.to_si(p0, "p0", "pressure")
-    t0_si, t0_unit = nx.to_si(T0, "T0", "temperature")
-    pa_si, pa_unit = nx.to_si(p_ambient, "p_ambient", "pressure")
-    p0_si, t0_si, pa_si = nx.broadcast(p0=p0_si, T0=t0_si, p_ambient=pa_si)
-    with np.errstate(invalid="ignore"):
-        p0_si = nx.reject(~(p0_si > 0) | np.isinf(p0_si), p0_si, "p0", "finite and > 0",
-                          errors, unit_text="Pa")
-        t0_si = nx.reject(~(t0_si > 0) | np.isinf(t0_si), t0_si, "T0", "finite and > 0",
-                          errors, unit_text="K")
-        pa_si = nx.reject(~(pa_si >= 0) | np.isinf(pa_si), pa_si, "p_ambient",
-                          "finite and >= 0 (0 is vacuum)", errors, unit_text="Pa")
-    core = _performance_core(plane, exit_plane_integrals(plane), p0_si, t0_si, pa_si, gas)
-    return _performance_result(core, plane, p0_unit, t0_unit, pa_unit)
+    call = Call(errors)
+    call.take("p0", p0, "Pa")
+    call.take("T0", T0, "K")
+    call.take("p_ambient", p_ambient, "Pa")
+    integrals = exit_plane_integrals(plane)
+    fields = _case_fields(plane.geometry)
+    values = call.evaluate(fields, _checked_performance_core, plane=plane, integrals=integrals,
+                           gas=gas)
+    return NozzlePerformance(
+        *values, divergence_factor=integrals["axial_momentum"] / integrals["momentum"],
+        area_ratio=integrals["area_ratio"], geometry=plane.geometry, exit_flow=plane.model)
+
+
+#: the fields of a NozzlePerformance that broadcast with p0, T0 and p_ambient
+_CASE_FIELD_COUNT = 12
+_PER_DEPTH = {"N": "N/m", "kg/s": "kg/(s·m)"}
+_PER_DEPTH_PINT = {"N": "N/m", "kg/s": "kg/(s*m)"}
+
+
+def _case_fields(geometry):
+    """The case fields of a NozzlePerformance; planar ones per metre of depth."""
+    fields = result_fields(NozzlePerformance)[:_CASE_FIELD_COUNT]
+    if geometry != "planar":
+        return fields
+    return tuple(f._replace(unit=_PER_DEPTH.get(f.unit, f.unit),
+                            pint_unit=_PER_DEPTH_PINT.get(f.unit, f.pint_unit)) for f in fields)
+
+
+
+def _checked_performance_core(p0, T0, pa, check, *, plane, integrals, gas):
+    """Checked core: the case fields for p0 [Pa], T0 [K], pa [Pa] (floats or arrays)."""
+    p0 = check.positive(p0, "p0", "Pa")
+    T0 = check.positive(T0, "T0", "K")
+    pa = check.at_least(pa, "p_ambient", 0.0, what="0 is vacuum", unit_text="Pa")
+    p0, T0, pa = (np.asarray(v, dtype=float) for v in (p0, T0, pa))  # 0-d for one case
+    core = _performance_core(plane, integrals, p0, T0, pa, gas)
+    return tuple(core[f.name] for f in result_fields(NozzlePerformance)[:_CASE_FIELD_COUNT])
 
 
 def _performance_core(plane, integrals, p0, T0, pa, gas):
@@ -284,47 +315,7 @@ def _performance_core(plane, integrals, p0, T0, pa, gas):
         "expansion_state": state, "separation_likely": separated,
         "thrust_coefficient_ideal": ideal_thrust_coefficient(integrals["area_ratio"], pa / p0,
                                                              gamma),
-        "divergence_factor": integrals["axial_momentum"] / integrals["momentum"],
-        "area_ratio": integrals["area_ratio"], "geometry": plane.geometry,
-        "exit_flow": plane.model,
     }
-
-
-def _performance_result(core, plane, p0_unit, t0_unit, pa_unit):
-    planar = plane.geometry == "planar"
-    per_depth = " / meter" if planar else ""
-    pressure_unit = p0_unit if p0_unit is not None else pa_unit
-    any_quantity = any(u is not None for u in (p0_unit, t0_unit, pa_unit))
-    if any_quantity and pressure_unit is None:
-        pressure_unit = nx.ureg().pascal
-    scalar = np.ndim(core["thrust"]) == 0
-
-    def out(name, si_unit):
-        value = core[name]
-        if scalar and not isinstance(value, str):
-            value = value[()] if np.ndim(value) == 0 else value
-            value = value.item() if isinstance(value, np.generic) else value
-        if si_unit is None or not any_quantity:
-            return value
-        unit = pressure_unit if si_unit == "pressure" else si_unit
-        return nx.quantity_out(value, "pascal" if si_unit == "pressure" else si_unit, unit)
-
-    return NozzlePerformance(
-        p_ambient=out("p_ambient", "pressure"),
-        thrust=out("thrust", "newton" + per_depth),
-        thrust_coefficient=out("thrust_coefficient", None),
-        specific_impulse=out("specific_impulse", "second"),
-        effective_exhaust_velocity=out("effective_exhaust_velocity", "meter / second"),
-        mass_flow=out("mass_flow", "kilogram / second" + per_depth),
-        mass_flow_exit_plane=out("mass_flow_exit_plane", "kilogram / second" + per_depth),
-        exit_pressure=out("exit_pressure", "pressure"),
-        exit_wall_pressure=out("exit_wall_pressure", "pressure"),
-        expansion_state=out("expansion_state", None),
-        separation_likely=out("separation_likely", None),
-        thrust_coefficient_ideal=out("thrust_coefficient_ideal", None),
-        divergence_factor=core["divergence_factor"], area_ratio=core["area_ratio"],
-        geometry=core["geometry"], exit_flow=core["exit_flow"],
-    )
 
 
 class NozzlePerformanceMixin:

@@ -75,15 +75,14 @@ relations; the geometry stays an explicit argument.
 from __future__ import annotations
 
 import dataclasses
-import numbers
 
 import numpy as np
 
-from .. import _numerics as nx
 from ..boundary.results import ResultTable, unit_field
 from ..errors import InvalidInputError
 from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
 from ..relations.isentropic import mach_angle_of, pressure_ratio
+from .walls import WallContour
 
 __all__ = [
     "GEOMETRIES",
@@ -120,29 +119,6 @@ def check_geometry(geometry):
     raise InvalidInputError(
         f"geometry must be 'planar' or 'axisymmetric'; got {geometry!r}. A planar flow is "
         "two-dimensional (per unit depth); an axisymmetric one is round, y the radius.")
-
-
-def check_design_input(value, name, ok, requirement, unit_text=""):
-    """Raise InvalidInputError unless the scalar ``value`` is finite and ``ok`` (NaN fails too).
-
-    For the design tools, which compute one case: unlike the vectorised
-    relations they have no ``errors="nan"`` mode.
-    """
-    if not (bool(ok) and np.isfinite(value)):
-        raise InvalidInputError(f"{name} must be {requirement}; got "
-                                f"{nx.format_value(value, unit_text)}.")
-
-
-def check_line_count(n, limit=5000):
-    """An integer number of fan lines from 2 to ``limit`` (5000; 400 for the round nets,
-    whose node records, seven per node and marched as a batch, grow as n²)."""
-    if isinstance(n, bool) or not isinstance(n, numbers.Integral) or n < 2:
-        raise InvalidInputError(
-            f"n_characteristics must be an integer >= 2; got {n!r}. Use 20-200 lines: "
-            "the area-ratio error falls as n^(-4/3).")
-    if n > limit:
-        raise InvalidInputError(f"n_characteristics must be <= {limit}; got {n}.")
-    return int(n)
 
 
 def mach_angle_from_nu(nu, gamma=1.4):
@@ -613,90 +589,6 @@ def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=
     stream_direction = 0.5 * (thetab + theta3)
     x3, y3, t_plus, t_stream = _intersect(x1, y1, plus_direction, xb, yb, stream_direction)
     return x3, y3, theta3, nu3, t_plus, t_stream
-
-
-@dataclasses.dataclass(frozen=True)
-class WallContour:
-    """A wall y(x) with its slope, given as a smooth curve through points or as a bend.
-
-    Build one with :meth:`straight`, :meth:`bend` (straight, circular arc,
-    straight: a smooth turn) or :meth:`through_points` (cubic spline).
-    ``height(x)`` [m] and ``slope(x)`` [-] are vectorised; beyond the last
-    point the wall continues straight.
-    """
-
-    height: object  #: callable x -> y [m]
-    slope: object  #: callable x -> dy/dx [-]
-
-    @classmethod
-    def straight(cls, y0, angle=0.0):
-        """Straight wall through (0, ``y0``) at ``angle`` [rad] to the x axis."""
-        tangent = np.tan(angle)
-        return cls(lambda x: y0 + tangent * np.asarray(x, dtype=float),
-                   lambda x: tangent + 0.0 * np.asarray(x, dtype=float))
-
-    @classmethod
-    def bend(cls, y0, x_start, turn, radius):
-        """Wall at height ``y0`` up to ``x_start``, then a circular arc of ``radius`` [m]
-        turning it by ``turn`` [rad] (> 0 turns the wall towards +y), then straight.
-
-        Examples
-        --------
-        >>> import numpy as np
-        >>> from gasdyn2d.characteristics.unit_processes import WallContour
-        >>> wall = WallContour.bend(1.0, 2.0, np.radians(10.0), 5.0)
-        >>> round(float(np.degrees(np.arctan(wall.slope(100.0)))), 10)
-        10.0
-        """
-        if not (np.isfinite(radius) and radius > 0):
-            raise InvalidInputError(f"radius must be finite and > 0; got {radius!r} m.")
-        if not (np.isfinite(turn) and abs(turn) < 0.5 * np.pi):
-            raise InvalidInputError(
-                f"turn must be finite and smaller than π/2 in size; got {turn!r} rad.")
-        sign = 1.0 if turn >= 0 else -1.0
-        turn = abs(turn)
-        x_end = x_start + radius * np.sin(turn)
-        y_end = y0 + sign * radius * (1.0 - np.cos(turn))
-
-        def height(x):
-            x = np.asarray(x, dtype=float)
-            s = np.clip(x - x_start, 0.0, x_end - x_start)
-            arc = y0 + sign * (radius - np.sqrt(np.maximum(radius**2 - s * s, 0.0)))
-            after = y_end + sign * np.tan(turn) * (x - x_end)
-            return np.where(x <= x_end, arc, after)
-
-        def slope(x):
-            x = np.asarray(x, dtype=float)
-            s = np.clip(x - x_start, 0.0, x_end - x_start)
-            with np.errstate(invalid="ignore", divide="ignore"):
-                arc = sign * s / np.sqrt(np.maximum(radius**2 - s * s, 0.0))
-            return np.where(x <= x_end, arc, sign * np.tan(turn))
-
-        return cls(height, slope)
-
-    @classmethod
-    def through_points(cls, x, y):
-        """Cubic spline through points (``x`` increasing) [m]; straight beyond the ends."""
-        from scipy.interpolate import CubicSpline
-
-        x = np.asarray(x, dtype=float)
-        y = np.asarray(y, dtype=float)
-        if x.ndim != 1 or x.shape != y.shape or x.size < 3 or not np.all(np.diff(x) > 0):
-            raise InvalidInputError(
-                "x and y must be 1-D arrays of the same length (>= 3 points) with x strictly "
-                f"increasing; got shapes {x.shape} and {y.shape}.")
-        if not (np.all(np.isfinite(x)) and np.all(np.isfinite(y))):
-            raise InvalidInputError("x and y of a wall contour must be finite.")
-        spline = CubicSpline(x, y, bc_type="natural")
-        derivative = spline.derivative()
-        x_lo, x_hi = x[0], x[-1]
-
-        def height(xq):
-            xq = np.asarray(xq, dtype=float)
-            xc = np.clip(xq, x_lo, x_hi)
-            return spline(xc) + derivative(xc) * (xq - xc)
-
-        return cls(height, lambda xq: derivative(np.clip(np.asarray(xq, dtype=float), x_lo, x_hi)))
 
 
 def wall_point(x2, y2, theta2, nu2, wall, side="lower", gamma=1.4, *, geometry="planar"):
