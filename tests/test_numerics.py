@@ -1,4 +1,5 @@
-"""Tests of gasdyn2d._numerics: the bracketed Newton solver and the scalar fast paths."""
+"""Tests of gasdyn2d.numerics (the bracketed Newton solver) and of the boundary's checks
+(gasdyn2d.boundary.checks) on floats and arrays."""
 
 import math
 
@@ -8,7 +9,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import reference as ref
-from gasdyn2d import _numerics as nx
+from gasdyn2d import numerics as nx
+from gasdyn2d.boundary import Call
+from gasdyn2d.boundary.checks import Check, clamp_to_limit
 from gasdyn2d.errors import InvalidInputError
 from gasdyn2d.relations.isentropic import _area_root_and_slopes, _area_ratio_start, area_ratio
 
@@ -115,54 +118,56 @@ def test_newton_finds_any_root_in_the_bracket(root, start):
     assert got[0] == pytest.approx(root, rel=1e-14)
 
 
-# ----------------------------------------------------------------- scalar fast paths
+# ----------------------------------------------------------------- the checks on floats
+
+RAISE, NAN = Check(False), Check(True)
 
 
-def test_scalar_checks_pass_in_range_values_through_unchanged():
-    g = np.array(1.4)
-    assert nx.check_gamma(g, "raise") is g
-    M = np.array(2.0)
-    assert nx.check_mach_supersonic(M, "M", "raise") is M
-    assert nx.check_finite_at_least(np.array(0.0), "x", 0.0, "raise") == 0.0
+def test_in_range_floats_pass_the_checks_unchanged():
+    assert RAISE.gamma(1.4) == 1.4
+    assert RAISE.supersonic_mach(2.0, "M") == 2.0
+    assert RAISE.at_least(0.0, "x", 0.0) == 0.0
 
 
 @pytest.mark.parametrize("value", [0.5, math.inf, -1.0])
-def test_scalar_checks_still_reject_out_of_range_values(value):
+def test_out_of_range_floats_are_still_rejected(value):
     with pytest.raises(InvalidInputError, match="M must be"):
-        nx.check_mach_supersonic(np.array(value), "M", "raise")
-    assert np.isnan(nx.check_mach_supersonic(np.array(value), "M", "nan"))
+        RAISE.supersonic_mach(value, "M")
+    assert math.isnan(NAN.supersonic_mach(value, "M"))
 
 
 @pytest.mark.parametrize("gamma", [1.0, 0.5, math.inf])
-def test_scalar_gamma_check_still_rejects(gamma):
+def test_bad_gamma_floats_are_rejected(gamma):
     with pytest.raises(InvalidInputError, match="gamma"):
-        nx.check_gamma(np.array(gamma), "raise")
+        RAISE.gamma(gamma)
 
 
-def test_scalar_nan_passes_every_check_as_nan():
-    nan = np.array(math.nan)
-    assert np.isnan(nx.check_gamma(nan, "raise"))
-    assert np.isnan(nx.check_mach_supersonic(nan, "M", "raise"))
+def test_nan_passes_every_check_as_nan():
+    assert math.isnan(RAISE.gamma(math.nan))
+    assert math.isnan(RAISE.supersonic_mach(math.nan, "M"))
+    assert np.isnan(RAISE.supersonic_mach(np.array([math.nan, 2.0]), "M")[0])
 
 
 def test_clamp_to_limit_scalar_and_array_agree():
     below = 1.0 - 2 * ref.EPS  # invented: a Mach number two ulp below 1
-    assert nx.clamp_to_limit(np.array(below), 1.0, "lower") == 1.0
-    assert nx.clamp_to_limit(np.array(0.9), 1.0, "lower") == 0.9
+    assert clamp_to_limit(below, 1.0, "lower") == 1.0
+    assert clamp_to_limit(0.9, 1.0, "lower") == 0.9
     np.testing.assert_array_equal(
-        nx.clamp_to_limit(np.array([below, 0.9, 2.0]), 1.0, "lower"), [1.0, 0.9, 2.0])
+        clamp_to_limit(np.array([below, 0.9, 2.0]), 1.0, "lower"), [1.0, 0.9, 2.0])
 
 
-def test_broadcast_returns_copies_for_equal_shapes():
-    a = np.array([1.0, 2.0])
-    out, _ = nx.broadcast(a=a, b=np.array([3.0, 4.0]))
-    out[0] = 99.0
-    assert a[0] == 1.0  # the caller's array is never written through
+def test_the_boundary_never_writes_through_to_the_callers_array():
+    a = np.array([2.0, 3.0])
+    shock = __import__("gasdyn2d").oblique_shock(a, deflection=np.array([0.1, 0.1]))
+    assert not np.shares_memory(shock.M1, a) and a[0] == 2.0
 
 
-def test_broadcast_still_names_shapes_that_do_not_fit():
+def test_shapes_that_do_not_fit_are_named():
+    call = Call("raise")
+    call.take("a", np.zeros(2))
+    call.take("b", np.zeros(3))
     with pytest.raises(InvalidInputError, match=r"a \(2,\), b \(3,\)"):
-        nx.broadcast(a=np.zeros(2), b=np.zeros(3))
+        call.prepare()
 
 
 def test_any_true():
