@@ -47,6 +47,7 @@ from ..boundary.units import is_quantity
 from ..boundary.types import ArrayInput
 from ..errors import DetachedShockError, IllPosedProblemError, InvalidInputError, NoSolutionError
 from ..relations.flow_state import FlowState
+from ..relations.gas import refuse_thermally_perfect
 from .solution import PatternSolution, region_name
 from .solver import solve_cases
 
@@ -299,6 +300,7 @@ class WavePattern:
                     f"{given} cannot be given with a FlowState inflow, which carries its own "
                     "direction and gas; set them on the FlowState instead, e.g. "
                     "FlowState(M, p, T, direction=..., gas=Gas(gamma=...)).")
+            refuse_thermally_perfect(inflow.gas, "inflow.gas", "WavePattern")
             self._inflow_state = inflow
             self._take("M", "inflow.M", inflow.M)
             self._take("d", "inflow.direction", inflow.direction, "rad")

@@ -20,6 +20,7 @@ from ..errors import InvalidInputError
 from ..relations.expansion_fans import (fan_pressure_ratio, mach_from_prandtl_meyer_angle,
                                         max_prandtl_meyer_angle, prandtl_meyer_angle)
 from ..relations.flow_state import FlowState
+from ..relations.gas import refuse_thermally_perfect
 from ..relations.isentropic import mach_after_isentropic_pressure_change, mach_angle_of
 from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
 
@@ -95,6 +96,7 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     if isinstance(state, FlowState):
         call.take("state.M", state.M)
         call.take("state.direction", state.direction, "rad")
+        refuse_thermally_perfect(state.gas, "state.gas", "pressure_deflection_polar")
         g = float(state.gas.gamma)
     else:
         call.take("state", state)  # a Mach number: air along x

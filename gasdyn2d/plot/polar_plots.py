@@ -14,7 +14,7 @@ import numpy as np
 from ..patterns.polars import pressure_deflection_polar
 from ..patterns.solution import PatternSolution
 from ..relations.flow_state import FlowState
-from ..relations.gas import Gas
+from ..relations.gas import Gas, refuse_thermally_perfect
 from ._style import (CYCLE, PALETTE, Drawing, angle_unit_factor, apply_properties, axes_or_new,
                      check_axes, check_count, legend_below, plain, reject, tidy)
 
@@ -268,6 +268,9 @@ def draw_pattern_polars(solution, regions, *, marks=(), gamma=None, case=None, a
         regions = [regions]
     if isinstance(marks, str):
         marks = [marks]
+    if solution.inflow_state is not None:
+        refuse_thermally_perfect(solution.inflow_state.gas, "solution.inflow_state.gas",
+                                 "draw_pattern_polars")
     gas = Gas(gamma=_pick(solution.gamma if gamma is None else gamma, case))
     states, labels = [], []
     for name in regions:

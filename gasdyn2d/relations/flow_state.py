@@ -9,7 +9,7 @@ import numpy as np
 from ..boundary import Call, ResultTable, unit_field
 from ..boundary.types import ArrayInput, FloatArray
 from ..errors import InvalidInputError
-from .gas import AIR, Gas
+from .gas import AIR, Gas, refuse_thermally_perfect
 from .prandtl_meyer_function import prandtl_meyer_angle
 from .isentropic import mach_angle_of
 
@@ -60,6 +60,7 @@ class FlowState(ResultTable):
                  direction: ArrayInput = 0.0, gas: Gas = AIR, *, errors: str = "raise"):
         if not isinstance(gas, Gas):
             raise InvalidInputError(f"gas must be a gasdyn2d.Gas; got {gas!r}.")
+        refuse_thermally_perfect(gas, "gas", "FlowState (p0, T0, a, V, q, ν)")
         call = Call(errors)
         call.take("M", M)
         call.take("p", p, "Pa")

@@ -47,6 +47,7 @@ __all__ = [
     "vibrational_energy",
     "vibrational_heat_capacity",
     "vibrational_entropy",
+    "refuse_thermally_perfect",
 ]
 
 
@@ -271,6 +272,26 @@ class Gas(ResultTable):
         """Speed of sound a = √(γ(T) R T) [m/s] at ``T`` [K]."""
         T = np.asarray(T, dtype=float)
         return np.sqrt(self.gamma_at(T) * self.R * T)
+
+
+def refuse_thermally_perfect(gas, name: str, where: str, instead: str = "") -> None:
+    """Raise an :class:`~gasdyn2d.errors.InvalidInputError` when ``gas`` is a thermally
+    perfect :class:`Gas`, for a consumer (``where``) that would otherwise use its frozen γ.
+
+    ``name`` is the argument as the caller wrote it (``"gas"``, ``"inflow.gas"``);
+    ``instead`` says what to do (a sentence).
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR, refuse_thermally_perfect
+    >>> refuse_thermally_perfect(AIR, "gas", "this tool")  # a perfect gas passes
+    """
+    if isinstance(gas, Gas) and gas.is_thermally_perfect:
+        raise InvalidInputError(
+            f"{name} is a thermally perfect Gas (vibrational_temperature = "
+            f"{gas.vibrational_temperature:g} K); {where} does not support a thermally perfect "
+            "gas yet and would use its frozen gamma, which is wrong once vibration is excited. "
+            + (instead or "Give a perfect Gas (vibrational_temperature=None)."))
 
 
 #: Dry air as a perfect gas: γ = 1.4, R = 287.05 J/(kg·K).

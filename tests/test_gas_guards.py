@@ -1,0 +1,28 @@
+"""No silent frozen γ: every consumer of a Gas refuses a thermally perfect gas it cannot handle.
+
+Issue 15: before the thermally perfect gas was wired through the library, FlowState, the
+pressure-deflection polars, the region graph and the polar plots accepted a Gas with a
+vibrational temperature and quietly used its frozen (low-temperature) γ, a wrong number
+once vibration is excited. Each must either handle the gas correctly or refuse it with an
+InvalidInputError that names the argument and says what is not supported.
+"""
+
+import pytest
+
+from gasdyn2d import AIR, FlowState, Gas, InvalidInputError
+from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT, refuse_thermally_perfect
+
+HOT = AIR_THERMALLY_PERFECT
+
+
+def test_refusal_names_the_argument_and_the_tool():
+    refuse_thermally_perfect(AIR, "gas", "a tool")  # a perfect gas passes
+    refuse_thermally_perfect(Gas(5 / 3, 2077.1), "gas", "a tool")
+    with pytest.raises(InvalidInputError, match=r"gas\.x is a thermally perfect Gas .*3055\.6 K.*"
+                                                r"a tool does not support"):
+        refuse_thermally_perfect(HOT, "gas.x", "a tool")
+
+
+def test_flow_state_refuses_a_thermally_perfect_gas():
+    with pytest.raises(InvalidInputError, match="gas is a thermally perfect Gas.*FlowState"):
+        FlowState(6.0, 2e3, 230.0, gas=HOT)
