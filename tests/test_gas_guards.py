@@ -23,6 +23,21 @@ def test_refusal_names_the_argument_and_the_tool():
         refuse_thermally_perfect(HOT, "gas.x", "a tool")
 
 
-def test_flow_state_refuses_a_thermally_perfect_gas():
-    with pytest.raises(InvalidInputError, match="gas is a thermally perfect Gas.*FlowState"):
-        FlowState(6.0, 2e3, 230.0, gas=HOT)
+def test_flow_state_handles_a_thermally_perfect_gas():
+    # FlowState computes T0, p0, a, q and ν with γ(T) (tests/test_thermally_perfect_calls.py);
+    # at 230 K and M 6 the frozen γ would overstate T0 by about 180 K
+    hot = FlowState(6.0, 2e3, 230.0, gas=HOT)
+    assert hot.T0 < FlowState(6.0, 2e3, 230.0).T0 - 150.0
+
+
+def test_consumers_that_do_not_handle_it_yet_refuse_it():
+    from gasdyn2d import WavePattern
+    from gasdyn2d.patterns.polars import pressure_deflection_polar
+
+    hot = FlowState(6.0, 2e3, 230.0, gas=HOT)
+    with pytest.raises(InvalidInputError, match="inflow.gas is a thermally perfect Gas.*"
+                                                "WavePattern does not support"):
+        WavePattern(hot)
+    with pytest.raises(InvalidInputError, match="state.gas is a thermally perfect Gas.*"
+                                                "pressure_deflection_polar"):
+        pressure_deflection_polar(hot)

@@ -103,6 +103,7 @@ __all__ = [
     "fan_from_turn",
     "fan_from_pressure_ratio",
     "fan_from_downstream_mach",
+    "isentropic_compression_from_turn",
 ]
 
 _MACH_STEPS = 4  # Newton steps for d(M): from γ(T0)'s value, 3 reach rounding (measured)
@@ -729,6 +730,9 @@ class FanState(NamedTuple):
     T2_T1: np.ndarray  #: static temperature ratio, <= 1
     rho2_rho1: np.ndarray  #: density ratio, <= 1
     gamma2: np.ndarray  #: ratio of specific heats behind the fan
+    nu1: np.ndarray  #: Prandtl–Meyer angle ahead of the fan [rad] (at the stream's T0)
+    nu2: np.ndarray  #: Prandtl–Meyer angle behind the fan [rad]
+    gamma1: np.ndarray  #: ratio of specific heats ahead of the fan
 
 
 def _upstream(M1, T1, cf, theta):
@@ -740,17 +744,19 @@ def _upstream(M1, T1, cf, theta):
     return T0, d1, ds, _nu_of_excess(d1, T0, ds, cf, theta), (x1, E1, om1)
 
 
-def _fan_state(T0, T1, d2, turn, terms1, cf, theta):
+def _fan_state(T0, T1, d2, turn, terms1, cf, theta, nu1, nu2):
     x1, E1, om1 = terms1
     T2 = T0 / (1.0 + d2)
     x2, E2, om2 = oscillator_terms(T2, theta)
     with np.errstate(all="ignore"):
         log_T = np.log(T2 / T1)
         log_p = cf * log_T + _vibrational_entropy(x2, E2, om2) - _vibrational_entropy(x1, E1, om1)
+        c1 = _heat_capacity(x1, E1, om1, cf)
         c2 = _heat_capacity(x2, E2, om2, cf)
         M2 = _mach_from_excess(d2, T0, cf, theta)
     return FanState(np.where(d2 == np.inf, np.inf, M2), turn, np.exp(log_p), T2 / T1,
-                    np.exp(log_p - log_T), c2 / (c2 - 1.0))
+                    np.exp(log_p - log_T), c2 / (c2 - 1.0), nu1 + np.zeros(np.shape(turn)),
+                    np.where(np.isnan(d2), np.nan, nu2), c1 / (c1 - 1.0) + np.zeros(np.shape(turn)))
 
 
 def fan_from_turn(M1, T1, turn, gas):
@@ -768,12 +774,40 @@ def fan_from_turn(M1, T1, turn, gas):
     >>> round(float(fan.M2), 5), round(float(fan.p2_p1), 5)  # 2.38264, 0.54797 if perfect
     (2.33679, 0.57103)
     """
+    return _simple_wave_from_turn(M1, T1, turn, gas, compression=False)
+
+
+def _simple_wave_from_turn(M1, T1, turn, gas, compression):
+    """ν2 = ν1 + turn at the stream's T0; turn < 0 (an isentropic compression) only when
+    ``compression`` (NaN below ν2 = 0: no simple wave compresses past sonic speed)."""
     cf, theta = gas_constants(gas)
     M1, T1, turn = _prepare(M1, kelvin(T1), turn)
     T0, d1, ds, nu1, terms1 = _upstream(M1, T1, cf, theta)
     with np.errstate(invalid="ignore"):
-        d2 = _excess_from_nu(np.where(turn >= 0.0, nu1 + turn, np.nan), T0, cf, theta)
-    return _fan_state(T0, T1, d2, turn, terms1, cf, theta)
+        nu2 = nu1 + turn if compression else np.where(turn >= 0.0, nu1 + turn, np.nan)
+        d2 = _excess_from_nu(nu2, T0, cf, theta)
+        d2 = np.where(turn == 0.0, d1, d2)  # no turn: the upstream state itself
+    return _fan_state(T0, T1, d2, turn, terms1, cf, theta, nu1, nu2)
+
+
+def isentropic_compression_from_turn(M1, T1, turn, gas):
+    """Plain core: the centred simple wave that turns a stream (M1 >= 1, T1 [K]) by ``turn``
+    [rad] away from itself (turn >= 0, a fan) or into itself (turn < 0, an isentropic
+    compression: ν2 = ν1 + turn >= 0, NaN past the sonic state).
+
+    The fields are those of :class:`FanState` (``turn`` as given, signed).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
+    >>> from gasdyn2d.relations.thermally_perfect import isentropic_compression_from_turn
+    >>> wave = isentropic_compression_from_turn(2.0, 1500.0, np.radians(-10.0),
+    ...                                         AIR_THERMALLY_PERFECT)
+    >>> round(float(wave.M2), 5), round(float(wave.p2_p1), 5)
+    (1.68609, 1.65113)
+    """
+    return _simple_wave_from_turn(M1, T1, turn, gas, compression=True)
 
 
 def fan_from_pressure_ratio(M1, T1, p2_p1, gas):
@@ -798,8 +832,8 @@ def fan_from_pressure_ratio(M1, T1, p2_p1, gas):
         d_rel = _isentropic_log_ratio_excess(np.log(p), T1, cf, theta, False)
         d2 = (1.0 + d1) * (1.0 + d_rel) - 1.0
         d2 = np.where(p <= 1.0, d2, np.nan)
-        turn = _nu_of_excess(d2, T0, ds, cf, theta) - nu1
-    return _fan_state(T0, T1, d2, turn, terms1, cf, theta)
+        nu2 = _nu_of_excess(d2, T0, ds, cf, theta)
+    return _fan_state(T0, T1, d2, nu2 - nu1, terms1, cf, theta, nu1, nu2)
 
 
 def fan_from_downstream_mach(M1, T1, M2, gas):
@@ -819,5 +853,5 @@ def fan_from_downstream_mach(M1, T1, M2, gas):
     T0, d1, ds, nu1, terms1 = _upstream(M1, T1, cf, theta)
     with np.errstate(invalid="ignore"):
         d2 = np.where(M2 >= M1, _excess_from_mach(M2, T0, cf, theta), np.nan)
-        turn = _nu_of_excess(d2, T0, ds, cf, theta) - nu1
-    return _fan_state(T0, T1, d2, turn, terms1, cf, theta)
+        nu2 = _nu_of_excess(d2, T0, ds, cf, theta)
+    return _fan_state(T0, T1, d2, nu2 - nu1, terms1, cf, theta, nu1, nu2)

@@ -50,6 +50,7 @@ from .thermally_perfect import fan_from_turn
 from .thermally_perfect_shocks import (
     UpstreamState,
     entropy_rise,
+    jump_strength,
     mean_heat_capacity,
     normal_jump,
     perfect_gas_jump,
@@ -89,6 +90,8 @@ class ObliqueShockRatios(NamedTuple):
     T2_T1: np.ndarray  #: static temperature ratio
     p02_p01: np.ndarray  #: stagnation pressure ratio
     gamma2: np.ndarray  #: ratio of specific heats behind the shock
+    strength: np.ndarray  #: (p2 - p1)/p1, without cancellation
+    gamma1: np.ndarray  #: ratio of specific heats ahead of the shock
 
 
 def _oblique_ratios(tau, j, up, mu1, vm=None):
@@ -105,7 +108,8 @@ def _oblique_ratios(tau, j, up, mu1, vm=None):
     return ObliqueShockRatios(
         np.arctan2(np.sqrt(j.m), np.sqrt(vm)), theta, np.sqrt(j.m / g1),
         j.eps * np.sqrt(j.m / (g2 * j.t)), np.sqrt((j.eps * j.eps * j.m + vm) / (g2 * j.t)),
-        j.t / j.eps, j.BS / (2.0 * j.t), j.t, np.exp(-entropy_rise(j, tau, up)), g2)
+        j.t / j.eps, j.BS / (2.0 * j.t), j.t, np.exp(-entropy_rise(j, tau, up)), g2,
+        jump_strength(tau, j), g1 + 0.0 * theta)
 
 
 def _stream(M1, T1, gas):
