@@ -30,14 +30,12 @@ def test_flow_state_handles_a_thermally_perfect_gas():
     assert hot.T0 < FlowState(6.0, 2e3, 230.0).T0 - 150.0
 
 
-def test_consumers_that_do_not_handle_it_yet_refuse_it():
+def test_the_region_graph_and_the_polars_take_it():
+    # WavePattern and pressure_deflection_polar work with the gas at each region's
+    # temperature (tests/test_thermally_perfect_patterns.py); they no longer refuse it
     from gasdyn2d import WavePattern
     from gasdyn2d.patterns.polars import pressure_deflection_polar
 
     hot = FlowState(6.0, 2e3, 230.0, gas=HOT)
-    with pytest.raises(InvalidInputError, match="inflow.gas is a thermally perfect Gas.*"
-                                                "WavePattern does not support"):
-        WavePattern(hot)
-    with pytest.raises(InvalidInputError, match="state.gas is a thermally perfect Gas.*"
-                                                "pressure_deflection_polar"):
-        pressure_deflection_polar(hot)
+    WavePattern(hot)
+    assert pressure_deflection_polar(hot).max_deflection > pressure_deflection_polar(6.0).max_deflection
