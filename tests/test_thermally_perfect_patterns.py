@@ -136,3 +136,51 @@ def test_polars_of_a_thermally_perfect_stream():
     assert rel(np.max(polar.shock_pressure_ratio), gd.normal_shock(6.0, T1=230.0, gas=HOT).p2_p1) < 1e-12
     fan = gd.expansion_fan(6.0, p2_p1=polar.expansion_pressure_ratio[-1], T1=230.0, gas=HOT)
     assert rel(polar.expansion_direction_right[-1], fan.deflection) < 1e-11
+
+
+# ================================================================= figures (Agg)
+
+
+def test_gas_model_comparison_figure():
+    matplotlib = pytest.importorskip("matplotlib")
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from gasdyn2d.plot import draw_gas_model_comparison
+
+    machs = np.linspace(1.2, 12.0, 25)
+    drawn = draw_gas_model_comparison(gd.ureg.Quantity(-23.15, "degC"), machs=machs,
+                                      quantities=("T2_T1", "rho2_rho1", "p2_p1"), linewidth=1.1)
+    assert drawn.function == "draw_gas_model_comparison" and len(drawn.axes) == 2
+    assert len(drawn.lines) == 12 and drawn.legend is not None
+    hot = drawn.lines["normal", "T2_T1", "thermally perfect"]
+    np.testing.assert_allclose(hot.get_ydata(), gd.normal_shock(machs, T1=250.0,
+                                                                gas=HOT).T2_T1, rtol=1e-15)
+    assert hot.get_linewidth() == 1.1
+    perfect = drawn.lines["normal", "T2_T1", "perfect"].get_ydata()
+    assert np.all(hot.get_ydata()[machs > 4.0] < perfect[machs > 4.0])
+    oblique = drawn.lines["oblique", "p2_p1", "perfect"].get_ydata()
+    assert np.isnan(oblique[0]) and np.isfinite(oblique[-1])  # detached at M 1.2, 10°
+    assert "T1 = 250 K" in drawn.axes[0].get_title()
+    drawn.figure.canvas.draw()  # renders
+    plt.close(drawn.figure)
+    with pytest.raises(gd.InvalidInputError, match="gas must be a thermally perfect Gas"):
+        draw_gas_model_comparison(250.0, gas=gd.AIR)
+    with pytest.raises(gd.InvalidInputError, match="quantities must be one or more of"):
+        draw_gas_model_comparison(250.0, quantities=("entropy",))
+
+
+def test_pattern_polars_of_a_thermally_perfect_solution_draw():
+    matplotlib = pytest.importorskip("matplotlib")
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from gasdyn2d.plot import draw_pattern_polars
+
+    solution = _duct(FlowState(6.0, 2e3, 230.0, gas=HOT)).solve()
+    drawn = draw_pattern_polars(solution, ["1", "2"], marks=["2", "3"])
+    assert len(drawn.shock_polars) == 2
+    drawn.figure.canvas.draw()
+    plt.close(drawn.figure)
+    with pytest.raises(gd.InvalidInputError, match="gamma must be left out"):
+        draw_pattern_polars(solution, ["1"], gamma=1.4)
