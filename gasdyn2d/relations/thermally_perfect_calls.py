@@ -221,10 +221,7 @@ def hot_normal_shock_core(value, T1, check, *, name, gas):
     M1 = nan_where_nan(T1, M1)
     if name != "M1":
         M1 = clamp_to_limit(M1, 1.0, "lower")
-    shock = tps.normal_shock_ratios(M1, T1, gas)
-    with np.errstate(invalid="ignore", over="ignore"):
-        pitot = shock.p02_p01 * np.exp(tps.log_stagnation_over_static(
-            M1, T1, tps.upstream_state(T1, gas)))
+    shock, pitot = tps.normal_shock_and_pitot(M1, T1, gas)
     fields = [M1, shock.M2, shock.p2_p1, shock.rho2_rho1, shock.T2_T1, shock.p02_p01, pitot,
               shock.strength, shock.gamma1, shock.gamma2]
     if name != "M1":
