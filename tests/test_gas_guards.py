@@ -39,3 +39,18 @@ def test_the_region_graph_and_the_polars_take_it():
     hot = FlowState(6.0, 2e3, 230.0, gas=HOT)
     WavePattern(hot)
     assert pressure_deflection_polar(hot).max_deflection > pressure_deflection_polar(6.0).max_deflection
+
+
+def test_the_tools_that_still_need_a_perfect_gas_refuse_it_by_name():
+    import numpy as np
+
+    from gasdyn2d.design.intakes import ramp_intake
+    from gasdyn2d.design.section_loads import second_order_loads
+    from gasdyn2d.design.sections import Section
+
+    with pytest.raises(InvalidInputError, match="gas is a thermally perfect Gas.*"
+                                                "second_order_loads does not support"):
+        second_order_loads(Section.flat_plate(), 3.0, 0.05, T=1500.0, gas=HOT)
+    with pytest.raises(InvalidInputError, match="'isentropic' stage does not support"):
+        ramp_intake(6.0, np.radians([8.0, 9.0]), T=230.0, gas=HOT,
+                    stages=["shock", "isentropic"])

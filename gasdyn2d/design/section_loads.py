@@ -39,7 +39,7 @@ from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.oblique_shocks import detachment_angles
 from ..relations.simple_waves import turn_state
 from ..relations.flow_state import FlowState
-from ..relations.gas import gas_of_call
+from ..relations.gas import gas_of_call, refuse_thermally_perfect
 from ..relations.thermally_perfect_calls import perfect_with_temperature
 from .sections import Section
 from .thermally_perfect_loads import (hot_match_trailing_edge, hot_raise_for_case,
@@ -684,11 +684,11 @@ def _loads(theory, section, M, alpha, T, gamma, gas, errors):
     function = f"{theory.replace('-', '_')}_loads"
     M, T, gamma, gas = _free_stream(function, M, T, gamma, gas)
     gamma, hot = gas_of_call(function, gamma, gas, T, "T", "free-stream static temperature")
-    if hot is not None and theory == "second-order":
-        raise InvalidInputError(
-            "second_order_loads does not support a thermally perfect gas yet: Busemann's "
-            "coefficient C2 = [(γ+1)M⁴ - 4(M² - 1)]/[2(M² - 1)²] is that of a perfect gas. Use "
-            "shock_expansion_loads (exact for the gas) or linear_loads (which needs no γ).")
+    if theory == "second-order":
+        refuse_thermally_perfect(
+            hot, "gas", "second_order_loads",
+            "Busemann's C2 = [(γ+1)M⁴ - 4(M² - 1)]/[2(M² - 1)²] is a perfect-gas coefficient; "
+            "use shock_expansion_loads (exact for the gas) or linear_loads (which needs no γ).")
     call = Call(errors)
     call.take("M", M)
     call.take("alpha", alpha, "rad")

@@ -97,7 +97,7 @@ def hot_surface_pressure_ratios(M, T, first_turn, corner_turns, gas):
     >>> flow = hot_surface_pressure_ratios(2.0, 1500.0, np.radians(10.0), np.radians([-20.0]),
     ...                                    AIR_THERMALLY_PERFECT)
     >>> np.round(flow.p_ratio, 5)  # [1.70658, 0.55078] for γ = 1.4
-    array([1.65141, 0.57409])
+    array([1.65141, 0.57312])
     """
     M, T, first_turn = np.broadcast_arrays(*(np.asarray(v, dtype=float)
                                              for v in (M, T, first_turn)))
