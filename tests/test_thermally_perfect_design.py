@@ -17,7 +17,6 @@ from gasdyn2d import AIR_THERMALLY_PERFECT, FlowState, Gas, InvalidInputError
 from gasdyn2d.design.intakes import ramp_intake, ramp_shock_train
 from gasdyn2d.design.section_loads import linear_loads, second_order_loads, shock_expansion_loads
 from gasdyn2d.design.sections import Section
-from gasdyn2d.relations import thermally_perfect as tp
 from gasdyn2d.relations import thermally_perfect_oblique as tpo
 
 HOT = AIR_THERMALLY_PERFECT
@@ -153,7 +152,6 @@ def test_off_design_intake_merges_its_shocks_with_the_thermally_perfect_gas():
     turns = np.radians([8.0, 9.0])
     intake = ramp_intake(7.0, turns, T=230.0, gas=HOT, design_mach=6.0)
     assert intake.merges[0]
-    first = gd.oblique_shock(7.0, deflection=turns[0], T1=230.0, gas=HOT)  # noqa: F841
     merged = gd.merging_shocks(7.0, turns[0], turns[1], T1=230.0, gas=HOT)
     assert rel(intake.merged_mach[0], merged.M_above_slip) < RTOL
     assert rel(intake.merged_wave_angle[0], merged.wave_angle) < RTOL
