@@ -113,7 +113,8 @@ def cases():
         ("round jet n=60", lambda: underexpanded_slot_jet(
             2.0, 1.5, n_characteristics=60, geometry="axisymmetric")),
         ("conical_nozzle 15° 41 pts", lambda: conical_nozzle(
-            3.0, math.radians(15.0), throat_radius_of_curvature=4.0, n_points=41)),
+            3.0, math.radians(15.0), throat_radius_of_curvature=4.0, throat_half_height=1.0,
+            n_points=41)),
     ]
 
 

@@ -8,7 +8,7 @@ from .errors import (
     NoSolutionError,
     ProbablyDegreesWarning,
 )
-from .relations.gas import AIR, Gas
+from .relations.gas import AIR, AIR_THERMALLY_PERFECT, Gas
 from .relations.isentropic import IsentropicFlow, isentropic_flow
 from .relations.expansion_fans import ExpansionFan, expansion_fan, mach_from_prandtl_meyer, prandtl_meyer
 from .relations.normal_shocks import NormalShock, normal_shock
@@ -69,7 +69,7 @@ def __getattr__(name):
 
 
 __all__ = [
-    "AIR", "Gas", "FlowState", "ureg",
+    "AIR", "AIR_THERMALLY_PERFECT", "Gas", "FlowState", "ureg",
     "isentropic_flow", "IsentropicFlow",
     "normal_shock", "NormalShock",
     "oblique_shock", "ObliqueShock", "max_deflection", "sonic_deflection",

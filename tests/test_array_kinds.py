@@ -28,6 +28,7 @@ pd = pytest.importorskip("pandas")
 da = pytest.importorskip("dask.array")
 
 UREG = gd.ureg
+HOT = gd.AIR_THERMALLY_PERFECT
 SECOND_REGISTRY = pint.UnitRegistry()
 
 # Each relation: (function, {argument: (unit text, three values in SI)}, options).
@@ -60,6 +61,51 @@ RELATIONS = {
     "max_cone_angle": (gd.max_cone_angle, {"M1": ("", [1.5, 2.0, 6.0])}, {}),
     "FlowState": (gd.FlowState, {"M": ("", [0.8, 2.0, 3.0]), "p": ("Pa", [5e3, 2e4, 1e5]),
                                  "T": ("K", [210.0, 250.0, 290.0])}, {}),
+    # the thermally perfect gas (issue 15): the temperature is one more case argument,
+    # given in °C as a Quantity (an offset unit the boundary converts)
+    "isentropic_flow(M, T0, hot)": (gd.isentropic_flow, {"M": ("", [0.5, 2.0, 3.5]),
+                                                         "T0": ("K", [400.0, 1500.0, 2800.0])},
+                                    {"gas": HOT}),
+    "isentropic_flow(p_p0, T0, hot)": (gd.isentropic_flow, {"p_p0": ("", [0.9, 0.2, 0.01]),
+                                                            "T0": ("K", [400.0, 1500.0, 2800.0])},
+                                       {"gas": HOT}),
+    "normal_shock(M1, T1, hot)": (gd.normal_shock, {"M1": ("", [1.3, 4.0, 9.0]),
+                                                    "T1": ("K", [220.0, 600.0, 1800.0])},
+                                  {"gas": HOT}),
+    "normal_shock(p02_p01, T1, hot)": (gd.normal_shock, {"p02_p01": ("", [0.9, 0.6, 0.3]),
+                                                         "T1": ("K", [220.0, 600.0, 1800.0])},
+                                       {"gas": HOT}),
+    "normal_shock(M1, T1, perfect)": (gd.normal_shock, {"M1": ("", [1.3, 4.0, 9.0]),
+                                                        "T1": ("K", [220.0, 600.0, 1800.0])}, {}),
+    "oblique_shock(deflection, T1, hot)": (gd.oblique_shock,
+                                           {"M1": ("", [2.0, 4.0, 7.0]),
+                                            "deflection": ("rad", [0.05, 0.1, 0.2]),
+                                            "T1": ("K", [220.0, 900.0, 2000.0])}, {"gas": HOT}),
+    "oblique_shock(wave_angle, T1, hot, strong)": (gd.oblique_shock,
+                                                   {"M1": ("", [2.0, 4.0, 7.0]),
+                                                    "wave_angle": ("rad", [0.6, 0.7, 0.8]),
+                                                    "T1": ("K", [220.0, 900.0, 2000.0])},
+                                                   {"gas": HOT}),
+    "max_deflection(T1, hot)": (gd.max_deflection, {"M1": ("", [1.5, 3.0, 8.0]),
+                                                    "T1": ("K", [250.0, 1000.0, 2500.0])},
+                                {"gas": HOT}),
+    "sonic_deflection(T1, hot)": (gd.sonic_deflection, {"M1": ("", [1.5, 3.0, 8.0]),
+                                                        "T1": ("K", [250.0, 1000.0, 2500.0])},
+                                  {"gas": HOT}),
+    "prandtl_meyer(T0, hot)": (gd.prandtl_meyer, {"M": ("", [1.1, 2.0, 5.0]),
+                                                  "T0": ("K", [300.0, 1200.0, 3000.0])},
+                               {"gas": HOT}),
+    "mach_from_prandtl_meyer(T0, hot)": (gd.mach_from_prandtl_meyer,
+                                         {"nu": ("rad", [0.1, 0.5, 1.5]),
+                                          "T0": ("K", [300.0, 1200.0, 3000.0])}, {"gas": HOT}),
+    "expansion_fan(deflection, T1, hot)": (gd.expansion_fan,
+                                           {"M1": ("", [1.5, 2.0, 3.0]),
+                                            "deflection": ("rad", [0.05, 0.2, 0.4]),
+                                            "T1": ("K", [300.0, 1200.0, 2500.0])}, {"gas": HOT}),
+    "expansion_fan(p2_p1, T1, hot)": (gd.expansion_fan, {"M1": ("", [1.5, 2.0, 3.0]),
+                                                         "p2_p1": ("", [0.8, 0.5, 0.1]),
+                                                         "T1": ("K", [300.0, 1200.0, 2500.0])},
+                                      {"gas": HOT}),
 }
 
 #: caller units for each SI unit text in the Quantity kinds

@@ -188,12 +188,13 @@ def _normal_shock(g, M1, T1):
     ds = (g.phi(T2) - g.phi(T1)) - R * mp.log(p2 / p1)  # entropy rise
     return {"M2": u2 / mp.sqrt(g.a2(T2)), "p2_p1": p2 / p1, "rho2_rho1": rho2 / rho1,
             "T2_T1": T2 / T1, "p02_p01": mp.exp(-ds / R), "gamma2": g.gamma(T2),
-            "entropy_rise": ds}
+            "entropy_rise": ds, "strength": (p2 - p1) / p1, "gamma1": g.gamma(T1)}
 
 
 @_run
 def normal_shock(g, M1, T1):
-    """{M2, p2_p1, rho2_rho1, T2_T1, p02_p01, gamma2, entropy_rise} for (M1, T1 [K])."""
+    """{M2, p2_p1, rho2_rho1, T2_T1, p02_p01, gamma2, entropy_rise, strength, gamma1} for
+    (M1, T1 [K]); the strength is (p2 - p1)/p1 at 30 digits."""
     return _normal_shock(g, M1, T1)
 
 

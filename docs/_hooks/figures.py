@@ -18,8 +18,8 @@ import numpy as np  # noqa: E402
 
 import gasdyn2d as gd  # noqa: E402
 from gasdyn2d.relations.oblique_shocks import deflection_from_wave_angle  # noqa: E402
-from gasdyn2d.plot import (PALETTE, draw_characteristic_net, draw_pattern_polars,  # noqa: E402
-                           draw_surface_pressures, draw_wave_pattern)
+from gasdyn2d.plot import (PALETTE, draw_characteristic_net, draw_gas_model_comparison,  # noqa: E402
+                           draw_pattern_polars, draw_surface_pressures, draw_wave_pattern)
 
 CYCLE = [PALETTE[k] for k in ("blue", "vermillion", "bluish green", "reddish purple",
                                "orange", "sky blue", "black")]
@@ -163,6 +163,11 @@ def plotting_pressures():
     return drawn.figure
 
 
+def thermally_perfect_comparison():
+    drawn = draw_gas_model_comparison(250.0, quantities=("T2_T1", "rho2_rho1", "p2_p1"))
+    return drawn.figure
+
+
 FIGURES = {
     "isentropic-ratios.png": isentropic_ratios,
     "normal-shock-chart.png": normal_shock_chart,
@@ -172,6 +177,7 @@ FIGURES = {
     "plotting-polars.png": plotting_polars,
     "plotting-net.png": plotting_net,
     "plotting-pressures.png": plotting_pressures,
+    "thermally-perfect-comparison.png": thermally_perfect_comparison,
 }
 
 

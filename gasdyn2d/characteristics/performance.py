@@ -25,7 +25,7 @@ import numpy as np
 from ..boundary import Call
 from ..boundary.results import ResultTable, result_fields, unit_field
 from ..errors import InvalidInputError
-from ..relations.gas import AIR, Gas
+from ..relations.gas import AIR, Gas, refuse_thermally_perfect
 from ..relations.isentropic import mach_from_area_ratio, pressure_ratio, temperature_ratio
 
 __all__ = [
@@ -245,6 +245,9 @@ def nozzle_performance(plane, *, p0, T0, p_ambient, gas=AIR, errors="raise"):
     """
     if not isinstance(gas, Gas):
         raise InvalidInputError(f"gas must be a gasdyn2d Gas (such as AIR); got {gas!r}.")
+    refuse_thermally_perfect(gas, "gas", "nozzle performance (the method of characteristics)",
+                             "The characteristics tools need a perfect gas: give "
+                             "Gas(gamma=..., R=...).")
     if abs(gas.gamma - plane.gamma) > 1e-12 * plane.gamma:
         raise InvalidInputError(
             f"gas.gamma = {gas.gamma:g} differs from the gamma = {plane.gamma:g} the nozzle was "

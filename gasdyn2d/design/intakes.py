@@ -43,6 +43,11 @@ from ..boundary.units import is_quantity
 from ..errors import DetachedShockError, InvalidInputError
 from ..patterns.interactions import merging_shocks
 from ..relations.expansion_fans import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
+from ..relations import thermally_perfect as tp
+from ..relations import thermally_perfect_oblique as tpo
+from ..relations import thermally_perfect_shocks as tps
+from ..relations.flow_state import FlowState
+from ..relations.gas import gas_of_call
 from ..relations.isentropic import mach_angle_of
 from ..relations.normal_shocks import normal_shock_ratios
 from ..relations.oblique_shocks import (
@@ -95,6 +100,8 @@ class ShockTrain(NamedTuple):
     pressure_ratio: np.ndarray
     stagnation_pressure_ratio: np.ndarray
     detachment_deflection: np.ndarray
+    #: static temperature over the free stream's, n + 1 entries like ``mach``
+    temperature_ratio: np.ndarray = None
 
 
 def _isentropic_flags(isentropic, n):
@@ -103,7 +110,7 @@ def _isentropic_flags(isentropic, n):
     return np.broadcast_to(np.asarray(isentropic, dtype=bool), (n,))
 
 
-def ramp_shock_train(M, deflections, gamma=1.4, isentropic=None):
+def ramp_shock_train(M, deflections, gamma=1.4, isentropic=None, *, T=None, gas=None):
     """Plain core: the waves of a train of compression ramps.
 
     Parameters
@@ -118,6 +125,11 @@ def ramp_shock_train(M, deflections, gamma=1.4, isentropic=None):
     isentropic : sequence of bool, optional
         Per ramp: an isentropic (Prandtl–Meyer) compression instead of an
         oblique shock. Default: every ramp a shock.
+    T : float or ndarray, optional
+        Free-stream static temperature [K], for a thermally perfect ``gas``.
+    gas : Gas, optional
+        A thermally perfect gas (``gamma`` is then not used): every stage is that gas's
+        wave at its own upstream (M, T).
 
     Returns
     -------
@@ -147,6 +159,8 @@ def ramp_shock_train(M, deflections, gamma=1.4, isentropic=None):
     """
     theta = np.atleast_1d(np.asarray(deflections, dtype=float))
     M = np.asarray(M, dtype=float)
+    if gas is not None and gas.is_thermally_perfect:
+        return _hot_ramp_shock_train(M, np.asarray(T, dtype=float), theta, gas, isentropic)
     gamma = np.asarray(gamma, dtype=float)
     shape = np.broadcast_shapes(M.shape, theta.shape[:-1], gamma.shape)
     n = theta.shape[-1]
@@ -154,7 +168,8 @@ def ramp_shock_train(M, deflections, gamma=1.4, isentropic=None):
     theta = np.broadcast_to(theta, shape + (n,))
     gamma = np.broadcast_to(gamma, shape) if gamma.ndim else gamma
     machs = [np.broadcast_to(M, shape).astype(float)]
-    columns = {name: [] for name in ShockTrain._fields[1:]}
+    temperatures = [np.ones(shape)]
+    columns = {name: [] for name in ShockTrain._fields[1:-1]}
     with np.errstate(invalid="ignore", divide="ignore"):
         for k in range(n):
             upstream = machs[-1]
@@ -170,18 +185,66 @@ def ramp_shock_train(M, deflections, gamma=1.4, isentropic=None):
                 columns["pressure_ratio"].append(fan_pressure_ratio(upstream, downstream, gamma))
                 columns["stagnation_pressure_ratio"].append(np.where(nan, np.nan, 1.0))
                 columns["detachment_deflection"].append(nu)
+                h = 0.5 * (gamma - 1.0)
+                temperatures.append(temperatures[-1] * (1.0 + h * upstream**2)
+                                    / (1.0 + h * downstream**2))
                 continue
             theta_max, _ = detachment_angles(upstream, gamma)
             beta = wave_angle_from_deflection(upstream, theta[..., k], gamma)
             ratios = oblique_shock_ratios(upstream, beta, gamma)
             machs.append(ratios.M2)
+            temperatures.append(temperatures[-1] * ratios.T2_T1)
             columns["wave_angle"].append(beta)
             columns["normal_mach"].append(ratios.Mn1)
             columns["pressure_ratio"].append(ratios.p2_p1)
             columns["stagnation_pressure_ratio"].append(ratios.p02_p01)
             columns["detachment_deflection"].append(np.broadcast_to(theta_max, shape))
-    stack = lambda arrays: np.stack(np.broadcast_arrays(*arrays), axis=-1)  # noqa: E731
-    return ShockTrain(stack(machs), *(stack(columns[name]) for name in ShockTrain._fields[1:]))
+    return ShockTrain(_stack(machs), *(_stack(columns[name]) for name in ShockTrain._fields[1:-1]),
+                      _stack(temperatures))
+
+
+def _stack(arrays):
+    return np.stack(np.broadcast_arrays(*arrays), axis=-1)
+
+
+def _hot_ramp_shock_train(M, T, theta, gas, isentropic):
+    """:func:`ramp_shock_train` for a thermally perfect gas: each stage the thermally perfect
+    oblique shock (or isentropic compression) at its upstream (M, T)."""
+    shape = np.broadcast_shapes(M.shape, T.shape, theta.shape[:-1])
+    n = theta.shape[-1]
+    iso = _isentropic_flags(isentropic, n)
+    theta = np.broadcast_to(theta, shape + (n,))
+    machs = [np.broadcast_to(M, shape).astype(float)]
+    temperatures = [np.ones(shape)]
+    T_now = np.broadcast_to(T, shape).astype(float)
+    columns = {name: [] for name in ShockTrain._fields[1:-1]}
+    with np.errstate(invalid="ignore", divide="ignore"):
+        for k in range(n):
+            upstream = machs[-1]
+            if iso[k]:
+                wave = tp.isentropic_compression_from_turn(upstream, T_now, -theta[..., k], gas)
+                downstream = np.where(theta[..., k] == 0.0, upstream, wave.M2)
+                ratio = np.where(theta[..., k] == 0.0, 1.0, wave.T2_T1)
+                nan = np.isnan(downstream)
+                columns["wave_angle"].append(mach_angle_of(upstream))
+                columns["normal_mach"].append(np.where(nan, np.nan, 1.0))
+                columns["pressure_ratio"].append(np.where(theta[..., k] == 0.0, 1.0, wave.p2_p1))
+                columns["stagnation_pressure_ratio"].append(np.where(nan, np.nan, 1.0))
+                columns["detachment_deflection"].append(wave.nu1)
+            else:
+                shock = tpo.oblique_shock_from_deflection(upstream, T_now, theta[..., k], gas)
+                downstream, ratio = shock.M2, shock.T2_T1
+                columns["wave_angle"].append(shock.wave_angle)
+                columns["normal_mach"].append(shock.Mn1)
+                columns["pressure_ratio"].append(shock.p2_p1)
+                columns["stagnation_pressure_ratio"].append(shock.p02_p01)
+                columns["detachment_deflection"].append(
+                    tpo.detachment_angles(upstream, T_now, gas)[0])
+            machs.append(downstream)
+            temperatures.append(temperatures[-1] * ratio)
+            T_now = T_now * ratio
+    return ShockTrain(_stack(machs), *(_stack(columns[name]) for name in ShockTrain._fields[1:-1]),
+                      _stack(temperatures))
 
 
 def _direction(angle):
@@ -603,11 +666,12 @@ def _checked_turns(thetas, check):
     return np.stack(out, axis=-1)
 
 
-def _attached_train(M, theta, gamma, check, mach_name, iso):
+def _attached_train(M, theta, gamma, check, mach_name, iso, hot=None):
     """The wave train, every ramp checked against detachment (or, for an isentropic stage,
     against reaching M = 1) at its stage's Mach number. A failing stage is NaN in the
-    train and so is every later one; under 'raise' the first failing ramp is named."""
-    train = ramp_shock_train(M, theta, gamma, iso)
+    train and so is every later one; under 'raise' the first failing ramp is named.
+    ``hot``: (thermally perfect gas, free-stream T) or None."""
+    train = _train(M, theta, gamma, iso, hot)
     theta = np.array(theta, dtype=float)
     for k in range(theta.shape[-1]):
         upstream, theta_max = train.mach[..., k], train.detachment_deflection[..., k]
@@ -640,14 +704,22 @@ def _attached_train(M, theta, gamma, check, mach_name, iso):
     return theta, train
 
 
-def _ramp_intake_core(*args, n, has_design, terminal, iso):
+def _train(M, theta, gamma, iso, hot):
+    if hot is None:
+        return ramp_shock_train(M, theta, gamma, iso)
+    return ramp_shock_train(M, theta, isentropic=iso, T=hot[1], gas=hot[0])
+
+
+def _ramp_intake_core(*args, n, has_design, terminal, iso, has_T=False, gas=None):
     """Checked core of :func:`ramp_intake` (floats or arrays): the fields in order.
 
-    ``args`` are M, the n ramp turns, design_mach (if given), first_ramp_length, gamma
-    and the Check. A single case (floats) runs as one-element arrays.
+    ``args`` are M, the n ramp turns, design_mach (if given), first_ramp_length, gamma,
+    the free-stream temperature T (if ``has_T``) and the Check. A single case (floats)
+    runs as one-element arrays. ``gas``: a thermally perfect gas (T then given).
     """
     *values, check = args
-    scalar = all(type(v) is float for v in values[:-1])
+    T = values.pop() if has_T else None
+    scalar = all(type(v) is float for v in values[:-1]) and (T is None or type(T) is float)
     gamma = check.gamma(values[-1])
     length = values[-2]
     M, thetas = values[0], values[1:1 + n]
@@ -656,39 +728,56 @@ def _ramp_intake_core(*args, n, has_design, terminal, iso):
         M, length = np.array([M]), np.array([length])
         thetas = [np.array([t]) for t in thetas]
         design = None if design is None else np.array([design])
+        T = None if T is None else np.array([T])
     M = check.at_least(M, "M", 1.0, inclusive=False, what="supersonic flow")
     if design is not None:
         design = check.at_least(design, "design_mach", 1.0, inclusive=False,
                                 what="supersonic flow")
     length = check.positive(length, "first_ramp_length", "m", what="a ramp length")
+    if T is not None:
+        T = check.positive(T, "T", "K", what="the free-stream static temperature")
+        M = np.where(np.isnan(T), np.nan, M)  # NaN in, NaN out (before the trains' checks)
+    hot = None if gas is None else (gas, T)
     theta = _checked_turns(thetas, check)
     gamma_a = np.asarray(gamma, dtype=float)
-    theta, train = _attached_train(M, theta, gamma_a, check, "free-stream M", iso)
+    theta, train = _attached_train(M, theta, gamma_a, check, "free-stream M", iso, hot)
     design_train = train
-    if design is not None:
-        theta, design_train = _attached_train(design, theta, gamma_a, check, "design_mach", iso)
+    if design is not None:  # a thermally perfect design point: the same static temperature
+        theta, design_train = _attached_train(design, theta, gamma_a, check, "design_mach", iso,
+                                              hot)
     else:
         design = M
     case_nan = np.isnan(M) | np.isnan(design) | np.isnan(length) | np.isnan(gamma_a)
     case_nan |= np.isnan(theta).any(axis=-1)
+    if T is not None:
+        case_nan |= np.isnan(T)
     if case_nan.any():  # blank whole cases: every field of a rejected case is NaN
         M, design = np.where(case_nan, np.nan, M), np.where(case_nan, np.nan, design)
         theta = np.where(case_nan[..., None], np.nan, theta)
-        train = ramp_shock_train(M, theta, gamma_a, iso)
-        design_train = ramp_shock_train(design, theta, gamma_a, iso)
-    fields = _assemble(M, design, theta, length, gamma_a, terminal, train, design_train, iso)
+        train = _train(M, theta, gamma_a, iso, hot)
+        design_train = _train(design, theta, gamma_a, iso, hot)
+    fields = _assemble(M, design, theta, length, gamma_a, terminal, train, design_train, iso,
+                       hot)
     if scalar:
         return tuple(f[0] for f in fields)
     return fields
 
 
-def _assemble(M, design, theta, length, gamma, terminal, train, design_train, iso):
+def _terminal_shock(last, gamma, train, hot):
+    """The normal shock at the Mach number (and temperature) behind the last ramp."""
+    if hot is None:
+        return normal_shock_ratios((last - 1.0) * (last + 1.0), gamma)
+    gas, T = hot
+    return tps.normal_shock_ratios(last, T * train.temperature_ratio[..., -1], gas)
+
+
+def _assemble(M, design, theta, length, gamma, terminal, train, design_train, iso, hot=None):
     geometry = shock_on_lip_geometry(theta, design_train.wave_angle, length,
                                      stage_mach=design_train.mach, isentropic=iso, gamma=gamma)
     capture = lip_streamline_capture(geometry, train.wave_angle)
     last = train.mach[..., -1]
     with np.errstate(invalid="ignore"):
-        ns = normal_shock_ratios((last - 1.0) * (last + 1.0), gamma)
+        ns = _terminal_shock(last, gamma, train, hot)
         if not terminal:
             ns = ns._replace(**{k: np.full_like(last, np.nan) for k in ns._fields})
         shock_machs = np.concatenate([train.normal_mach, last[..., None] + 0.0 * ns.M2[..., None]],
@@ -708,7 +797,7 @@ def _assemble(M, design, theta, length, gamma, terminal, train, design_train, is
                            <= _ON_LIP_TOLERANCE * lip_distance[..., None], axis=-1)
         ratio = np.where(on_design, 1.0, capture.captured_height / geometry.lip_y)
     coalescence = _coalescence(geometry, theta, train, design_train, gamma, iso, lip_distance)
-    merging = _merging(geometry, theta, train, gamma, iso, lip_distance)
+    merging = _merging(geometry, theta, train, gamma, iso, lip_distance, hot)
     return (M, design, theta, geometry.ramp_angle, train.mach[..., 1:], train.wave_angle,
             shock_machs, p_ratios, p0_ratios, ns.M2, np.prod(counted, axis=-1),
             np.prod(counted_p, axis=-1), geometry.ramp_lengths, geometry.lip_x, geometry.lip_y,
@@ -735,10 +824,11 @@ def _coalescence(geometry, theta, train, design_train, gamma, iso, lip_distance)
     return flag, x, y
 
 
-def _merging(geometry, theta, train, gamma, iso, lip_distance):
+def _merging(geometry, theta, train, gamma, iso, lip_distance, hot=None):
     """Per pair of successive shock stages: where they meet outside the duct (ahead of the lip
     plane or above the lip), and the merged shock, reflected wave and slip line there
-    (:func:`gasdyn2d.merging_shocks`)."""
+    (:func:`gasdyn2d.merging_shocks`, with the stage temperatures for a thermally perfect
+    gas, ``hot`` = (gas, free-stream T))."""
     shape = theta.shape[:-1] + (theta.shape[-1] - 1,)
     merges = np.zeros(shape, dtype=bool)
     out = {name: np.full(shape, np.nan) for name in (
@@ -766,8 +856,16 @@ def _merging(geometry, theta, train, gamma, iso, lip_distance):
         index = np.nonzero(here)
         g = float(gamma) if np.ndim(gamma) == 0 else gamma[index]
         M_up = train.mach[..., k][index]
-        merged = merging_shocks(M_up, theta[..., k][index], theta[..., k + 1][index], gamma=g,
-                                errors="nan")
+        if hot is None:
+            merged = merging_shocks(M_up, theta[..., k][index], theta[..., k + 1][index],
+                                    gamma=g, errors="nan")
+        else:
+            gas, T_free = hot
+            T_stage = np.broadcast_to(T_free[..., None], train.temperature_ratio.shape) * \
+                train.temperature_ratio
+            T_up, T3 = T_stage[..., k][index], T_stage[..., k + 2][index]
+            merged = merging_shocks(M_up, theta[..., k][index], theta[..., k + 1][index],
+                                    T1=T_up, gas=gas, errors="nan")
         direction = upstream[..., k][index]
         x, y = meet.x[index], meet.y[index]
         lip_x, lip_y = geometry.lip_x[index], geometry.lip_y[index]
@@ -776,12 +874,18 @@ def _merging(geometry, theta, train, gamma, iso, lip_distance):
         behind = geometry.ramp_angle[..., k + 1][index]  # flow direction ahead of the reflection
         M3 = train.mach[..., k + 2][index]
         with np.errstate(invalid="ignore"):
-            reflected_beta = wave_angle_from_deflection(M3, np.abs(turn), g)
+            if hot is None:
+                reflected_beta = wave_angle_from_deflection(M3, np.abs(turn), g)
+                merged_p0 = oblique_shock_ratios(
+                    M_up, np.asarray(merged.wave_angle, dtype=float), g).p02_p01
+            else:
+                reflected_beta = tpo.oblique_shock_from_deflection(M3, T3, np.abs(turn),
+                                                                   gas).wave_angle
+                merged_p0 = tpo.oblique_shock_from_wave_angle(
+                    M_up, T_up, np.asarray(merged.wave_angle, dtype=float), gas).p02_p01
             reflected_angle = behind - np.where(kind == "shock", reflected_beta, mach_angle_of(M3))
             wave_angle = direction + np.asarray(merged.wave_angle, dtype=float)
             slip = direction + np.asarray(merged.slip_direction, dtype=float)
-            merged_p0 = oblique_shock_ratios(M_up, np.asarray(merged.wave_angle, dtype=float),
-                                             g).p02_p01
             run = lip_x - x  # from the merge to the lip plane; none from behind the lip
             slip_in[..., k][index] = (run > 0.0) & (y + run * np.tan(slip) < lip_y)
             reflected_in[..., k][index] = (run > 0.0) & (y + run * np.tan(reflected_angle) < lip_y)
@@ -798,13 +902,15 @@ def _merging(geometry, theta, train, gamma, iso, lip_distance):
             slip_in, reflected_in)
 def ramp_intake(M: ArrayInput, deflections: ArrayInput, *, design_mach: ArrayInput = None,
                 first_ramp_length: ArrayInput = 1.0, terminal: str = "normal", stages=None,
-                gamma: ArrayInput = 1.4, errors: str = "raise") -> RampIntake:
+                T: ArrayInput = None, gamma: ArrayInput = None, gas=None,
+                errors: str = "raise") -> RampIntake:
     """Flow, losses and shock-on-lip geometry of a planar external-compression ramp intake.
 
     Parameters
     ----------
-    M : float, array_like, DataArray, Series or dask array
-        Free-stream Mach number [-], > 1.
+    M : float, array_like, DataArray, Series, dask array or FlowState
+        Free-stream Mach number [-], > 1; or the free stream as a
+        :class:`~gasdyn2d.FlowState` (its M, T and gas; its direction is not used).
     deflections : array_like or Quantity
         Turn of each ramp [rad] (n values, first ramp first, each >= 0); a
         2-D array gives one set of ramps per row, broadcasting with ``M``. A
@@ -824,9 +930,19 @@ def ramp_intake(M: ArrayInput, deflections: ArrayInput, *, design_mach: ArrayInp
     stages : sequence of {"shock", "isentropic"}, optional
         Kind of each ramp stage (default: every one a shock). An isentropic stage
         is a concave ramp whose Prandtl–Meyer compression is focused on the lip at
-        ``design_mach``; the first stage must be a shock.
+        ``design_mach``; the first stage must be a shock. Not yet with a thermally
+        perfect gas (the focused wall is a perfect-gas closed form).
+    T : float, array_like or Quantity, optional
+        Free-stream static temperature [K], > 0: required for a thermally perfect ``gas``
+        (the geometry at ``design_mach`` is then built at the same static temperature, as
+        for a vehicle at one altitude); with a perfect gas it is checked and broadcast,
+        and not used.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``). With a thermally perfect gas every
+        ramp shock, the terminal shock and the merging shocks are that gas's at the local
+        temperature.
     errors : {"raise", "nan"}, optional
         ``"nan"`` returns NaN for cases with invalid inputs instead of raising.
 
@@ -891,8 +1007,8 @@ def ramp_intake(M: ArrayInput, deflections: ArrayInput, *, design_mach: ArrayInp
     incipient-separation estimate for turbulent boundary layers at the Mach
     number ahead of it (:func:`incipient_separation_pressure_ratio`).
 
-    Inviscid, perfect gas: boundary layers, bleed and shock–boundary-layer
-    interaction decide how a real intake performs.
+    Inviscid, perfect or thermally perfect gas (no dissociation): boundary layers, bleed
+    and shock–boundary-layer interaction decide how a real intake performs.
 
     References
     ----------
@@ -912,21 +1028,36 @@ def ramp_intake(M: ArrayInput, deflections: ArrayInput, *, design_mach: ArrayInp
     0.9131
     """
     terminal = choice("terminal", terminal, {"normal": True, "none": False})
+    if isinstance(M, FlowState):
+        given = [k for k, v in (("T", T), ("gamma", gamma), ("gas", gas)) if v is not None]
+        if given:
+            raise InvalidInputError(
+                f"ramp_intake takes the free stream as a FlowState or as M with T, gamma and "
+                f"gas; got a FlowState and {', '.join(given)}. Set them on the FlowState.")
+        M, T, gas = M.M, M.T, M.gas
+    gamma, hot = gas_of_call("ramp_intake", gamma, gas, T, "T", "free-stream static temperature")
     call = Call(errors)
     call.take("M", M)
     n = _take_ramps(call, deflections)
     kinds = _stage_kinds(stages, n)
+    if hot is not None and "isentropic" in kinds:
+        raise InvalidInputError(
+            "stages: an 'isentropic' stage does not support a thermally perfect gas yet (its "
+            "focused wall, arc length and coalescence point are perfect-gas closed forms); "
+            "give shock stages, or a perfect gas.")
     has_design = design_mach is not None
     if has_design:
         call.take("design_mach", design_mach)
     call.take("first_ramp_length", first_ramp_length, "m")
-    call.take("gamma", gamma, keep_scalar=True)
+    call.take("gamma", gamma if hot is None else hot.gamma, keep_scalar=True)
+    if T is not None:
+        call.take("T", T, "K")
     for name, size in (("ramp", n), ("shock", n + 1), ("ramp_pair", n - 1)):
         call.trailing(name, size)
     iso = np.array([kind == "isentropic" for kind in kinds])
     values = dict(zip((f.name for f in _CASE_FIELDS), call.evaluate(
         _CASE_FIELDS, _ramp_intake_core, n=n, has_design=has_design, terminal=terminal,
-        iso=iso)))
+        iso=iso, has_T=T is not None, gas=hot)))
     values["stages"] = np.array(kinds)
     values["stages"].flags.writeable = False
     return RampIntake.from_fields([values[f.name] for f in result_fields(RampIntake)])

@@ -15,8 +15,9 @@ surface of panels for many cases at once. The loop runs over panels (and over
 runs of consecutive expansion corners, which are evaluated in one step); it
 never runs over cases.
 
-These are inviscid, perfect-gas results for preliminary design: no boundary
-layer, skin friction, separation or real-gas effects.
+These are inviscid results for preliminary design: no boundary layer, skin
+friction or separation; a perfect gas, or with ``gas=`` a thermally perfect one
+(vibration in equilibrium, no dissociation: see :mod:`gasdyn2d.relations.gas`).
 """
 
 from __future__ import annotations
@@ -37,7 +38,12 @@ from ..relations.expansion_fans import fan_pressure_ratio, mach_from_prandtl_mey
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.oblique_shocks import detachment_angles
 from ..relations.simple_waves import turn_state
+from ..relations.flow_state import FlowState
+from ..relations.gas import gas_of_call, refuse_thermally_perfect
+from ..relations.thermally_perfect_calls import perfect_with_temperature
 from .sections import Section
+from .thermally_perfect_loads import (hot_match_trailing_edge, hot_raise_for_case,
+                                      hot_surface_pressure_ratios)
 
 __all__ = [
     "SectionLoads",
@@ -450,6 +456,56 @@ def _loads_core(M, alpha, gamma, check, *, theory, section, geometry):
     return (M, alpha, *fields)
 
 
+def _hot_shock_expansion_block(M, alpha, T, section, geometry, check, gas):
+    """:func:`_shock_expansion_block` for a thermally perfect gas (free-stream T [K]): the
+    march and the wake match of :mod:`gasdyn2d.design.thermally_perfect_loads`."""
+    (le_u, corners_u), (le_l, corners_l) = _surface_turns(section, alpha)
+    upper = hot_surface_pressure_ratios(M, T, le_u, corners_u, gas)
+    lower = hot_surface_pressure_ratios(M, T, le_l, corners_l, gas)
+    detached = upper.detached | lower.detached
+    subsonic = upper.subsonic | lower.subsonic
+    vacuum = upper.vacuum | lower.vacuum
+    if not check.nan and (detached.any() or subsonic.any() or vacuum.any()):
+        hot_raise_for_case(section, M, T, alpha, detached | subsonic | vacuum, check, gas)
+    dir_u = section.upper_angles[-1] + 0.0 * alpha
+    dir_l = section.lower_angles[-1] + 0.0 * alpha
+    phi, ln_p, matched = hot_match_trailing_edge(
+        (upper.M[..., -1], upper.T[..., -1], np.log(upper.p_ratio[..., -1]), dir_u),
+        (lower.M[..., -1], lower.T[..., -1], np.log(lower.p_ratio[..., -1]), dir_l), gas)
+    unmatched = np.isfinite(upper.M[..., -1]) & np.isfinite(lower.M[..., -1]) & ~matched
+    q = (0.5 * gas.gamma_at(T) * M * M)[..., None]  # ρV²/2 with γ at the free-stream T
+    cp_u = (upper.p_ratio - 1.0) / q
+    cp_l = (lower.p_ratio - 1.0) / q
+    cl, cd, cm_le, x_cp = _coefficients(geometry, cp_u, cp_l, alpha, True)
+    return (cl, cd, cm_le, x_cp, phi - alpha, np.exp(ln_p), cp_u, cp_l, detached, subsonic,
+            vacuum, unmatched)
+
+
+def _hot_loads_core(M, alpha, T, check, *, section, geometry, gas):
+    """Checked core of :func:`shock_expansion_loads` for a thermally perfect gas."""
+    M = check.supersonic_mach(M, "M")
+    alpha = check.finite(alpha, "alpha", "rad")
+    T = check.positive(T, "T", "K", "the free-stream static temperature")
+    scalar = type(M) is float and type(alpha) is float and type(T) is float
+    M_a, alpha_a, T_a = np.broadcast_arrays(*(np.atleast_1d(np.asarray(v, dtype=float))
+                                              for v in (M, alpha, T)))
+
+    def block(m, a, t):
+        with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+            out = _hot_shock_expansion_block(m, a, t, section, geometry, check, gas)
+            nan_case = np.isnan(t)  # NaN in, NaN out (the march sees only M and the turns)
+            if nan_case.any():
+                out = tuple(np.where(nan_case.reshape(nan_case.shape + (1,) * (np.ndim(f) -
+                                     nan_case.ndim)), np.nan if f.dtype.kind == "f" else False,
+                                     f) for f in map(np.asarray, out))
+            return out
+
+    fields = nx.chunked(block, M_a, alpha_a, T_a)
+    if scalar:
+        return (M, alpha, *(f[0] for f in fields))
+    return (M_a, alpha_a, *fields)
+
+
 #: Panels (both surfaces) up to which a single case is marched on floats, one wave per
 #: corner; longer surfaces go through the array march, which takes a run of fans at once.
 _SCALAR_PANELS = 8
@@ -604,23 +660,54 @@ def _raise_for_case(section, M, alpha, gamma, bad, check):
 # ------------------------------------------------------------------ unit boundary
 
 
-def _loads(theory, section, M, alpha, gamma, errors):
-    """Cross the boundary once: take (M, α, γ), run the checked core, package SectionLoads."""
+def _free_stream(function, M, T, gamma, gas):
+    """(M, T, gamma, gas) of a loads call whose ``M`` may be a FlowState (then it carries
+    the free-stream temperature and gas, and none of them may be given besides)."""
+    if not isinstance(M, FlowState):
+        return M, T, gamma, gas
+    given = [name for name, value in (("T", T), ("gamma", gamma), ("gas", gas))
+             if value is not None]
+    if given:
+        raise InvalidInputError(
+            f"{function} takes the free stream as a FlowState or as M with T, gamma and gas; "
+            f"got a FlowState and {', '.join(given)}. Set them on the FlowState instead.")
+    return M.M, M.T, None, M.gas
+
+
+def _loads(theory, section, M, alpha, T, gamma, gas, errors):
+    """Cross the boundary once: take (M, α, γ or T), run the checked core, package
+    SectionLoads."""
     if not isinstance(section, Section):
         raise InvalidInputError(
             f"section must be a gasdyn2d Section (see Section.from_points); got "
             f"{type(section).__name__}.")
+    function = f"{theory.replace('-', '_')}_loads"
+    M, T, gamma, gas = _free_stream(function, M, T, gamma, gas)
+    gamma, hot = gas_of_call(function, gamma, gas, T, "T", "free-stream static temperature")
+    if theory == "second-order":
+        refuse_thermally_perfect(
+            hot, "gas", "second_order_loads",
+            "Busemann's C2 = [(γ+1)M⁴ - 4(M² - 1)]/[2(M² - 1)²] is a perfect-gas coefficient; "
+            "use shock_expansion_loads (exact for the gas) or linear_loads (which needs no γ).")
     call = Call(errors)
     call.take("M", M)
     call.take("alpha", alpha, "rad")
-    call.take("gamma", gamma, keep_scalar=True)
     n_upper, n_lower = section.n_panels
     call.trailing("panel_upper", n_upper)
     call.trailing("panel_lower", n_lower)
     geometry = _panel_geometry(section)
+    if hot is not None and theory == "shock-expansion":
+        call.take("T", T, "K")
+        core, options = _hot_loads_core, {"gas": hot}
+    else:  # a perfect gas, or linear theory (cp = 2θ/√(M² - 1) needs no γ)
+        call.take("gamma", hot.gamma if hot is not None else gamma, keep_scalar=True)
+        core, options = _loads_core, {"theory": theory}
+        if T is not None:
+            call.take("T", T, "K")
+            core = perfect_with_temperature(core, "T")
     values = dict(zip((f.name for f in _CASE_FIELDS),
-                      call.evaluate(_CASE_FIELDS, _loads_core, theory=theory, section=section,
-                                    geometry=geometry)))
+                      call.evaluate(_CASE_FIELDS, core, section=section, geometry=geometry,
+                                    **options)))
     values["x_upper"] = _read_only(geometry.x_upper)
     values["x_lower"] = _read_only(geometry.x_lower)
     values["theory"] = theory
@@ -634,19 +721,28 @@ def _read_only(array):
 
 
 def shock_expansion_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
-                          gamma: ArrayInput = 1.4, errors: str = "raise") -> SectionLoads:
+                          T: ArrayInput = None, gamma: ArrayInput = None, gas=None,
+                          errors: str = "raise") -> SectionLoads:
     """Loads on a section by exact shock-expansion theory, for many (M, α) cases at once.
 
     Parameters
     ----------
     section : Section
         The section, in chord units.
-    M : float, array_like, DataArray, Series or dask array
-        Free-stream Mach number [-], >= 1.
+    M : float, array_like, DataArray, Series, dask array or FlowState
+        Free-stream Mach number [-], >= 1; or the free stream as a
+        :class:`~gasdyn2d.FlowState` (its M, T and gas; its direction is not used, the
+        incidence is ``alpha``).
     alpha : float, array_like or Quantity (or a labelled or lazy array of them)
         Incidence [rad], > 0 nose up (the free stream meets the lower surface).
+    T : float, array_like or Quantity, optional
+        Free-stream static temperature [K], > 0: required for a thermally perfect ``gas``
+        (each wave is then that gas's at its local temperature); with a perfect gas it is
+        checked and broadcast, and not used.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``); a thermally perfect one needs ``T``.
     errors : {"raise", "nan"}, optional
         ``"nan"`` returns NaN (with the case's flag set) for cases where a shock
         detaches, the flow behind a shock is subsonic or a surface expands to
@@ -694,6 +790,10 @@ def shock_expansion_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
     order in the turn angles. Cp loses relative precision ~1e-16/|p/p∞ - 1|
     for very small turns.
 
+    For a thermally perfect gas every wave is that gas's at the local panel temperature
+    (a run of fans at the stagnation temperature, which no wave changes), and
+    q = γ(T∞) p∞ M²/2 = ρ∞V∞²/2 (:mod:`gasdyn2d.design.thermally_perfect_loads`).
+
     References
     ----------
     Liepmann, H. W. and Roshko, A. (1957), Elements of Gasdynamics, Wiley,
@@ -708,17 +808,22 @@ def shock_expansion_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
     >>> loads = shock_expansion_loads(Section.double_wedge(0.05), 2.5, np.radians([0.0, 4.0]))
     >>> np.round(loads.cl, 5), np.round(loads.cd, 5)
     (array([0.     , 0.12291]), array([0.00437, 0.01304]))
+    >>> from gasdyn2d import AIR_THERMALLY_PERFECT, FlowState
+    >>> hot = FlowState(7.0, 1.2e3, 230.0, gas=AIR_THERMALLY_PERFECT)  # an invented glider
+    >>> round(shock_expansion_loads(Section.double_wedge(0.05), hot, np.radians(6.0)).cl, 5)
+    0.06831
     """
-    return _loads("shock-expansion", section, M, alpha, gamma, errors)
+    return _loads("shock-expansion", section, M, alpha, T, gamma, gas, errors)
 
 
-def linear_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
-                 gamma: ArrayInput = 1.4, errors: str = "raise") -> SectionLoads:
+def linear_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *, T: ArrayInput = None,
+                 gamma: ArrayInput = None, gas=None, errors: str = "raise") -> SectionLoads:
     """Loads on a section by linearised supersonic theory (Ackeret).
 
     Same parameters and result as :func:`shock_expansion_loads`, but M > 1
     strictly. ``gamma`` does not enter the linear pressure; it is accepted (and
-    checked) for a uniform call.
+    checked) for a uniform call, and so is a thermally perfect ``gas`` with its ``T``
+    (the linear cp is the same for every gas).
 
     Notes
     -----
@@ -742,14 +847,16 @@ def linear_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
     >>> round(loads.cl, 6), round(float(4 * np.radians(3.0) / np.sqrt(3.0)), 6)
     (0.12092, 0.12092)
     """
-    return _loads("linear", section, M, alpha, gamma, errors)
+    return _loads("linear", section, M, alpha, T, gamma, gas, errors)
 
 
 def second_order_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
-                       gamma: ArrayInput = 1.4, errors: str = "raise") -> SectionLoads:
+                       T: ArrayInput = None, gamma: ArrayInput = None, gas=None,
+                       errors: str = "raise") -> SectionLoads:
     """Loads on a section by second-order (Busemann) theory.
 
-    Same parameters and result as :func:`linear_loads`.
+    Same parameters and result as :func:`linear_loads`; a thermally perfect ``gas`` is
+    refused (C2 below is the perfect gas's).
 
     Notes
     -----
@@ -778,7 +885,7 @@ def second_order_loads(section: Section, M: ArrayInput, alpha: ArrayInput, *,
     >>> round(float((loads.cp_lower[0] - c1 * 0.05) / 0.05**2), 5)
     1.26875
     """
-    return _loads("second-order", section, M, alpha, gamma, errors)
+    return _loads("second-order", section, M, alpha, T, gamma, gas, errors)
 
 
 #: The section-load theories by name.

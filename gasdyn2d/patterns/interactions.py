@@ -25,6 +25,8 @@ from ..boundary.types import ArrayInput, FloatArray
 from ..errors import NoSolutionError
 from ..relations.isentropic import mach_angle_of
 from ..relations.normal_shocks import normal_shock_ratios
+from ..relations import thermally_perfect_oblique as tpo
+from ..relations.gas import gas_of_call
 from ..relations.oblique_shocks import detachment_angles
 from ..relations.simple_waves import turn_state
 from .graph import ConditionLink, WaveLink, plan_pattern
@@ -193,7 +195,8 @@ _MERGING = plan_pattern("1", (
 
 
 def merging_shocks(M1: ArrayInput, deflection_first: ArrayInput, deflection_second: ArrayInput,
-                   *, gamma: ArrayInput = 1.4, errors: str = "raise") -> MergingShocks:
+                   *, T1: ArrayInput = None, gamma: ArrayInput = None, gas=None,
+                   errors: str = "raise") -> MergingShocks:
     """Two shocks of the same family meet and merge; a reflected wave and a slip line leave.
 
     Parameters
@@ -203,7 +206,13 @@ def merging_shocks(M1: ArrayInput, deflection_first: ArrayInput, deflection_seco
     deflection_first, deflection_second : float, array_like or Quantity
         Turns of the first corner (within θmax(M1)) and of the second
         corner (within θmax(M2)) [rad].
+    T1 : float, array_like or Quantity, optional
+        Free-stream static temperature [K]: required for a thermally perfect ``gas``
+        (every wave is then that gas's at its region's temperature).
     gamma : float or array_like, optional
+        Ratio of specific heats of a perfect gas (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``); a thermally perfect one needs ``T1``.
     errors : {"raise", "nan"}
         A case without solution: raise (naming the case, its inputs and the wave
         or condition that fails), or NaN with the reason in ``failure``.
@@ -229,28 +238,56 @@ def merging_shocks(M1: ArrayInput, deflection_first: ArrayInput, deflection_seco
     >>> m.reflected_kind, round(float(np.degrees(m.slip_direction)), 4)
     ('fan', 13.0091)
     """
+    gamma, hot = gas_of_call("merging_shocks", gamma, gas, T1, "T1",
+                             "free-stream static temperature")
     call = Call(errors)
     call.take("M1", M1)
     call.take("deflection_first", deflection_first, "rad")
     call.take("deflection_second", deflection_second, "rad")
-    call.take("gamma", gamma, keep_scalar=True)
-    return call.run(MergingShocks, _merging_core)
+    call.take("gamma", gamma if hot is None else hot.gamma, keep_scalar=True)
+    if hot is None:
+        return call.run(MergingShocks, _merging_core)
+    call.take("T1", T1, "K")
+    return call.run(MergingShocks, _merging_core, gas=hot)
 
 
-def _merging_core(M, d1, d2, g, check):
-    """Checked core of :func:`merging_shocks` (floats or case-shaped arrays)."""
+def _merging_core(M, d1, d2, g, *rest, gas=None):
+    """Checked core of :func:`merging_shocks` (floats or case-shaped arrays); with a
+    thermally perfect ``gas`` the free-stream temperature comes before the check."""
+    *T1, check = rest
     reasons = CaseReasons(M)
     M, g = check_mach_and_gamma(M, g, check, reasons)
     inputs = {"M1": M, "deflection_first": d1, "deflection_second": d2}
-    d1 = check_shock_turn(d1, M, g, "deflection_first", check, reasons, wave="first shock")
-    M2 = scalar_of(turn_state(M, d1, g).M2)
+    extra = {}
+    if gas is None:
+        limit1, limit2 = None, None
+        M2 = None
+    else:  # the limits of the thermally perfect gas at each region's temperature
+        T1 = T1[0]
+        with np.errstate(invalid="ignore"):
+            bad = (T1 <= 0.0) | (T1 == np.inf)  # NaN is not bad: NaN in, NaN out
+        reasons.note(bad if not reasons.scalar else bool(bad),
+                     "T1 = {} K is not a finite temperature > 0.", T1)
+        T1 = check.positive(T1, "T1", "K", "the free-stream static temperature")
+        limit1 = scalar_of(tpo.detachment_angles(M, T1, gas)[0])
+        extra = {"T_in": T1}
+    d1 = check_shock_turn(d1, M, g, "deflection_first", check, reasons, wave="first shock",
+                          theta_max=limit1)
+    if gas is None:
+        M2 = scalar_of(turn_state(M, d1, g).M2)
+        theta_max = scalar_of(detachment_angles(M, g)[0])
+    else:
+        first = tpo.turn_state(M, T1, d1, gas)
+        M2, T2 = scalar_of(first.M2), T1 * scalar_of(first.T2_T1)
+        limit2 = scalar_of(tpo.detachment_angles(M2, T2, gas)[0])
+        theta_max = limit1
     d2 = check_shock_turn(d2, M2, g, "deflection_second", check, reasons, upstream="M2",
-                          wave="second shock", free_stream=M)
-    theta_max = scalar_of(detachment_angles(M, g)[0])
+                          wave="second shock", free_stream=M, theta_max=limit2)
     shape = np.shape(M)
-    raw = solve_ready(_MERGING, {"M": M, "d": 0.0, "g": g, "w:first": d1, "w:second": d2,
-                                 "guess:merged": np.minimum(d1 + d2, 0.999 * theta_max),
-                                 "guess:reflected": 0.0, "c:0": 0.0}, shape)
+    plan = _MERGING if gas is None else _MERGING._replace(gas=gas)
+    raw = solve_ready(plan, {"M": M, "d": 0.0, "g": g, "w:first": d1, "w:second": d2,
+                             "guess:merged": np.minimum(d1 + d2, 0.999 * theta_max),
+                             "guess:reflected": 0.0, "c:0": 0.0, **extra}, shape)
     reasons.add(raw.failure)
     failure = reasons.finish(check, "merging_shocks", inputs)
     keep = _keeper(raw, shape)

@@ -20,6 +20,8 @@ from ..errors import InvalidInputError
 from ..relations.expansion_fans import (fan_pressure_ratio, mach_from_prandtl_meyer_angle,
                                         max_prandtl_meyer_angle, prandtl_meyer_angle)
 from ..relations.flow_state import FlowState
+from ..relations import thermally_perfect as tp
+from ..relations import thermally_perfect_oblique as tpo
 from ..relations.isentropic import mach_after_isentropic_pressure_change, mach_angle_of
 from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
 
@@ -57,7 +59,8 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     ----------
     state : FlowState or float
         The upstream stream (a Mach number is taken as air flowing along x).
-        A batch of states gives arrays of shape ``state.shape + (n,)``.
+        A batch of states gives arrays of shape ``state.shape + (n,)``. A state of
+        a thermally perfect gas gives its polar at the state's temperature.
     n : int, optional
         Points along each branch: the weak and the strong part of each half
         of the shock polar (so the shock arrays have 4n - 3 points) and each
@@ -92,10 +95,14 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     4.5
     """
     call = Call()
+    hot = None
     if isinstance(state, FlowState):
         call.take("state.M", state.M)
         call.take("state.direction", state.direction, "rad")
         g = float(state.gas.gamma)
+        if state.gas.is_thermally_perfect:
+            hot = state.gas
+            call.take("state.T", state.T, "K")
     else:
         call.take("state", state)  # a Mach number: air along x
         call.take("direction", 0.0, "rad")
@@ -112,17 +119,22 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     if not 0.0 < min_pressure_ratio < 1.0:
         raise InvalidInputError(
             f"min_pressure_ratio must be between 0 and 1; got {min_pressure_ratio!r}.")
-    M, d = (np.asarray(v, dtype=float) for v in call.prepare())
+    M, d, *T = (np.asarray(v, dtype=float) for v in call.prepare())
     M = np.asarray(call.check.supersonic_mach(M if M.ndim else float(M), "state.M"))
     M = M[..., None]
     d = d[..., None]
+    T = T[0][..., None] if T else None
     mu = mach_angle_of(M)
-    theta_max, beta_star = detachment_angles(M, g)
+    theta_max, beta_star = (detachment_angles(M, g) if hot is None else
+                            tpo.detachment_angles(M, T, hot))
     # cluster points near both ends and near detachment with a cosine spacing in β
     s = 0.5 * (1.0 - np.cos(np.linspace(0.0, np.pi, n)))
     beta = np.concatenate([mu + (beta_star - mu) * s[:-1],
                            beta_star + (0.5 * np.pi - beta_star) * s], axis=-1)
-    shock = oblique_shock_ratios(M, beta, g)
+    if hot is None:
+        shock = oblique_shock_ratios(M, beta, g)
+    else:
+        shock = tpo.oblique_shock_from_wave_angle(M, T, beta, hot)
     theta = np.nan_to_num(shock.deflection, nan=0.0)
     half_direction = np.concatenate([-theta, theta[..., ::-1][..., 1:]], axis=-1)
     direction = d + half_direction
@@ -130,14 +142,24 @@ def pressure_deflection_polar(state, *, n=201, min_pressure_ratio=0.05):
     wave_angle = np.concatenate([beta, beta[..., ::-1][..., 1:]], axis=-1)
     strong = wave_angle > beta_star
 
-    nu1 = prandtl_meyer_angle(M, g)
-    nu_max = max_prandtl_meyer_angle(g)
-    # fan to the lowest pressure: isentropic M from p/p0, then its ν
-    M_low = mach_after_isentropic_pressure_change(M, min_pressure_ratio, g)
-    nu_low = np.minimum(prandtl_meyer_angle(M_low, g), nu_max)
-    turn = (nu_low - nu1) * np.linspace(0.0, 1.0, n)
-    M_fan = mach_from_prandtl_meyer_angle(nu1 + turn, g)
-    p_fan = fan_pressure_ratio(M, M_fan, g)
+    if hot is None:
+        nu1 = prandtl_meyer_angle(M, g)
+        nu_max = max_prandtl_meyer_angle(g)
+        # fan to the lowest pressure: isentropic M from p/p0, then its ν
+        M_low = mach_after_isentropic_pressure_change(M, min_pressure_ratio, g)
+        nu_low = np.minimum(prandtl_meyer_angle(M_low, g), nu_max)
+        turn = (nu_low - nu1) * np.linspace(0.0, 1.0, n)
+        M_fan = mach_from_prandtl_meyer_angle(nu1 + turn, g)
+        p_fan = fan_pressure_ratio(M, M_fan, g)
+    else:  # the same at the stream's stagnation temperature, T0 held through the fan
+        T0 = tp.stagnation_temperature(M, T, hot)
+        nu1 = tp.prandtl_meyer_angle(M, T0, hot)
+        p1_p0 = tp.isentropic_ratios(M, T0, hot).p_p0
+        M_low = tp.mach_from_pressure_ratio(min_pressure_ratio * p1_p0, T0, hot)
+        turn = (tp.prandtl_meyer_angle(M_low, T0, hot) - nu1) * np.linspace(0.0, 1.0, n)
+        M_fan = tp.mach_from_prandtl_meyer_angle(nu1 + turn, T0, hot)
+        p_fan = tp.isentropic_ratios(M_fan, T0, hot).p_p0 / p1_p0
+        p_fan[..., 0] = 1.0
     angle = _angle_packer(call)
     theta_max = theta_max[..., 0]
     fields = (angle(direction), pressure, angle(wave_angle), strong, angle(d - turn),

@@ -147,13 +147,16 @@ def check_mach_and_gamma(M, gamma, check, reasons, name="M1"):
 
 
 def check_shock_turn(theta, M, gamma, name, check, reasons, *, upstream="M1",
-                     wave="incident shock", free_stream=None):
+                     wave="incident shock", free_stream=None, theta_max=None):
     """Reject negative and detached turns of a given shock (DetachedShockError beyond θmax).
 
     The message of a detached case names the wave and the stream it detaches in
     (``free_stream`` is the free-stream Mach number when ``M`` is another region's).
+    ``theta_max`` may be given (a thermally perfect gas's, at the stream's temperature);
+    by default it is the perfect gas's of ``gamma``.
     """
-    theta_max = scalar_of(detachment_angles(M, gamma)[0])
+    if theta_max is None:
+        theta_max = scalar_of(detachment_angles(M, gamma)[0])
     if type(theta) is float and 0.0 <= theta <= theta_max:
         return theta  # one valid case: nothing to note
     with np.errstate(invalid="ignore"):

@@ -52,7 +52,8 @@ class PatternSolution:
     iterations : int
         Newton iterations used (the largest over the batch).
     gamma : float or ndarray
-        Ratio of specific heats of the gas, per case.
+        Ratio of specific heats of the gas, per case; for a thermally perfect inflow gas,
+        γ at the inflow temperature (each region's own is ``state(name).gamma``).
 
     Notes
     -----
@@ -602,7 +603,15 @@ def _si_fields(raw, plan, ok, shape, case):
     conditions = [np.nan if c.kind == "slip line" else shaped(case[f"c:{i}"], shape)
                   for i, c in enumerate(plan.conditions)]
     return {"regions": regions, "waves": waves, "conditions": conditions,
-            "gamma": shaped(case["g"], shape)}
+            "gamma": shaped(_inflow_gamma(plan, case), shape)}
+
+
+def _inflow_gamma(plan, case):
+    """γ of the inflow: the gas's constant value, or γ(T_in) for a thermally perfect gas."""
+    if plan.gas is None:
+        return case["g"]
+    value = plan.gas.gamma_at(case["T_in"])
+    return float(value) if type(case["T_in"]) is float else value
 
 
 def _si_fields_one(raw, plan, ok, case):
@@ -637,7 +646,7 @@ def _si_fields_one(raw, plan, ok, case):
     conditions = [nan if c.kind == "slip line" else float(case[f"c:{i}"])
                   for i, c in enumerate(plan.conditions)]
     return {"regions": regions, "waves": waves, "conditions": conditions,
-            "gamma": float(case["g"])}
+            "gamma": float(_inflow_gamma(plan, case))}
 
 
 # --------------------------------------------------------------------- small helpers

@@ -29,6 +29,8 @@ from typing import NamedTuple
 import numpy as np
 
 from ..errors import InvalidInputError
+from ..relations import thermally_perfect as tp
+from ..relations import thermally_perfect_oblique as tpo
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.oblique_shocks import detachment_angles
 from .wave_steps import (RegionState, RegionValues, log_of, scalar_state, structural_zero,
@@ -76,7 +78,7 @@ def _evaluate(plan, x, case, constant=None):
             waves[link.name] = constant[1][link.name]
             continue
         turn, state, region = through_wave(link, regions[link.upstream], x, case,
-                                       plan.index.get(link.name))
+                                           plan.index.get(link.name), plan.gas)
         regions[link.downstream] = region
         waves[link.name] = (turn, state)
     return regions, waves
@@ -94,7 +96,8 @@ def _constant_part(plan, case):
     for link in plan.order:
         if plan.deps[link.downstream]:
             continue
-        turn, state, region = through_wave(link, regions[link.upstream], None, case, None)
+        turn, state, region = through_wave(link, regions[link.upstream], None, case, None,
+                                           plan.gas)
         regions[link.downstream] = region
         waves[link.name] = (turn, state)
     del regions[plan.inflow]
@@ -107,6 +110,66 @@ def _take_constant(constant, idx):
                            r.dd) for name, r in regions.items()},
             {name: (take_cases(turn, idx), take_state(s, idx))
              for name, (turn, s) in waves.items()})
+
+
+def _system(plan, x, case, constant):
+    """(regions, waves, residuals, Jacobian rows) at the unknown turns ``x``.
+
+    For a perfect gas the Jacobian comes exact from the forward differentiation through
+    the waves; for a thermally perfect gas (``plan.gas``), whose waves carry no
+    derivatives, from forward differences of the residuals (:func:`_difference_jacobian`).
+    """
+    regions, waves = _evaluate(plan, x, case, constant)
+    r, J = _residuals(plan, regions, case)
+    if plan.gas is not None and len(x):
+        J = _difference_jacobian(plan, x, case, constant, r)
+    return regions, waves, r, J
+
+
+#: Relative step of the difference Jacobian (about √eps: the Jacobian is then good to about
+#: 1e-8, so Newton converges to rounding in one or two more steps than with the exact one).
+_DIFFERENCE_STEP = 1e-8
+_SMALLEST_TURN = 1e-3  # [rad]: the scale of the step where a turn is near zero
+
+
+def _difference_jacobian(plan, x, case, constant, r):
+    """Jacobian rows by forward differences, one evaluation per unknown (floats or arrays).
+
+    Each turn is stepped towards zero (away from detachment and vacuum); where that
+    evaluation fails (a wave lost), the other way.
+    """
+    k = len(x)
+    columns = []
+    for j in range(k):
+        xj = x[j]
+        if type(xj) is float:
+            h = _DIFFERENCE_STEP * max(abs(xj), _SMALLEST_TURN) * (-1.0 if xj > 0.0 else 1.0)
+        else:
+            h = (_DIFFERENCE_STEP * np.maximum(np.abs(xj), _SMALLEST_TURN)
+                 * np.where(xj > 0.0, -1.0, 1.0))
+        column = _difference_column(plan, x, case, constant, r, j, h)
+        lost = [v != v for v in column] if type(xj) is float else None
+        if type(xj) is float:
+            if any(lost):
+                column = _difference_column(plan, x, case, constant, r, j, -h)
+        else:
+            bad = np.zeros(np.shape(xj), dtype=bool)
+            for v in column:
+                bad |= ~np.isfinite(v)
+            if bad.any():
+                other = _difference_column(plan, x, case, constant, r, j, np.where(bad, -h, h))
+                column = [np.where(bad, o, c) for o, c in zip(other, column)]
+        columns.append(column)
+    return [[columns[j][i] for j in range(k)] for i in range(len(r))]
+
+
+def _difference_column(plan, x, case, constant, r, j, h):
+    stepped = list(x)
+    stepped[j] = x[j] + h
+    h = stepped[j] - x[j]  # the step actually taken, in floating point
+    regions, _ = _evaluate(plan, stepped, case, constant)
+    r_h, _ = _residuals(plan, regions, case)
+    return [(a - b) / h for a, b in zip(r_h, r)]
 
 
 def _residuals(plan, regions, case):
@@ -263,14 +326,12 @@ def _solve_scalar(plan, case, max_iterations):
     k = len(plan.unknowns)
     x = [float(case.get("guess:" + name, 0.0)) for name in plan.unknowns]
     constant = _constant_part(plan, case)
-    regions, waves = _evaluate(plan, x, case, constant)
-    r, J = _residuals(plan, regions, case)
+    regions, waves, r, J = _system(plan, x, case, constant)
     for _ in range(_MAX_HALVINGS):  # a detached start: pull back towards Mach waves
         if all(v == v and abs(v) != math.inf for v in r):
             break
         x = [0.5 * v for v in x]
-        regions, waves = _evaluate(plan, x, case, constant)
-        r, J = _residuals(plan, regions, case)
+        regions, waves, r, J = _system(plan, x, case, constant)
     else:
         return _unsolved(regions, waves, 0)
     norm = _norm(r)
@@ -286,8 +347,7 @@ def _solve_scalar(plan, case, max_iterations):
         lam = 1.0
         for _ in range(_MAX_HALVINGS):
             trial = [a + lam * b for a, b in zip(x, dx)]
-            t_regions, t_waves = _evaluate(plan, trial, case, constant)
-            t_r, t_J = _residuals(plan, t_regions, case)
+            t_regions, t_waves, t_r, t_J = _system(plan, trial, case, constant)
             t_norm = _norm(t_r)
             decrease = t_norm <= norm * (1.0 - 1e-4 * lam)
             if t_norm == t_norm and (decrease or near):
@@ -383,14 +443,14 @@ def _newton(plan, x, case, constant, live, max_iterations):
     idx = np.flatnonzero(live & np.all(np.isfinite(x), axis=0))
     sub, sub_constant = _sub_case(case, idx), _take_constant(constant, idx)
     xs = x[:, idx]
-    r, J = _residuals(plan, _evaluate(plan, list(xs), sub, sub_constant)[0], sub)
+    r, J = _system(plan, list(xs), sub, sub_constant)[2:]
     # a detached or vacuous start is pulled back towards Mach waves (always defined)
     for _ in range(_MAX_HALVINGS):
         bad = ~np.all(np.isfinite(_stack(r, idx.size)), axis=0)
         if not bad.any():
             break
         xs[:, bad] *= 0.5
-        r, J = _residuals(plan, _evaluate(plan, list(xs), sub, sub_constant)[0], sub)
+        r, J = _system(plan, list(xs), sub, sub_constant)[2:]
     x[:, idx] = xs
     iterations = 0
     for iterations in range(1, max_iterations + 1):
@@ -403,7 +463,7 @@ def _newton(plan, x, case, constant, live, max_iterations):
         finite_step = np.all(np.isfinite(dx), axis=0)
         lam = np.ones(idx.size)
         trial = xs + np.where(finite_step, dx, 0.0)
-        t_r, t_J = _residuals(plan, _evaluate(plan, list(trial), sub, sub_constant)[0], sub)
+        t_r, t_J = _system(plan, list(trial), sub, sub_constant)[2:]
         t_rs = _stack(t_r, idx.size)
         t_norm = np.max(np.abs(t_rs), axis=0)
         # in the quadratic basin (a step of 1e-6 of the turns or less) the full step is
@@ -418,9 +478,8 @@ def _newton(plan, x, case, constant, live, max_iterations):
             lam[j] *= 0.5
             trial[:, j] = xs[:, j] + lam[j] * dx[:, j]
             part = _sub_case(sub, j)
-            p_r, p_J = _residuals(
-                plan, _evaluate(plan, list(trial[:, j]), part,
-                                _take_constant(sub_constant, j))[0], part)
+            p_r, p_J = _system(plan, list(trial[:, j]), part,
+                               _take_constant(sub_constant, j))[2:]
             t_rs[:, j] = _stack(p_r, j.size)
             t_norm[j] = np.max(np.abs(t_rs[:, j]), axis=0)
             t_J = _merge_rows(t_J, p_J, j, idx.size)
@@ -546,12 +605,19 @@ def _given_detached(plan, regions, waves, case, bad, failure, detached_given):
             continue
         M_up = regions[link.upstream].values.M
         g = take_cases(case["g"], hit)
+        if plan.gas is not None:  # the limits of a thermally perfect gas at the region's T
+            T_up = take_cases(case["T_in"], hit) * np.exp(regions[link.upstream].values.lnT[hit])
         if link.compression == "isentropic":
-            limit = prandtl_meyer_angle(M_up[hit], g)
+            if plan.gas is None:
+                limit = prandtl_meyer_angle(M_up[hit], g)
+            else:
+                T0 = tp.stagnation_temperature(M_up[hit], T_up, plan.gas)
+                limit = tp.prandtl_meyer_angle(M_up[hit], T0, plan.gas)
             what = ("the Prandtl–Meyer angle ν of its upstream region, the largest turn an "
                     "isentropic compression can make (to sonic flow)")
         else:
-            limit = detachment_angles(M_up[hit], g)[0]
+            limit = (detachment_angles(M_up[hit], g)[0] if plan.gas is None
+                     else tpo.detachment_angles(M_up[hit], T_up, plan.gas)[0])
             what = "the detachment deflection θmax"
         for j, i in enumerate(np.flatnonzero(hit)):
             failure[i] = (f"wave {link.name!r} detached: its turn "

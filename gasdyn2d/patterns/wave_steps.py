@@ -15,15 +15,19 @@ from typing import NamedTuple
 
 import numpy as np
 
+from ..relations import thermally_perfect as tp
+from ..relations import thermally_perfect_oblique as tpo
+from ..relations import thermally_perfect_shocks as tps
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.isentropic import mach_after_isentropic_pressure_change
-from ..relations.oblique_shocks import detachment_angles, oblique_shock_ratios
+from ..relations.oblique_shocks import (detachment_angles, oblique_shock_ratios,
+                                        wave_angle_from_normal_excess)
 from ..relations.simple_waves import (WaveState, isentropic_turn_state,
                                       turn_for_pressure_ratio, turn_state)
 
 __all__ = ["RegionValues", "RegionState", "through_wave", "wave_partials", "wave_state",
            "pressure_wave", "log_of", "exp_of", "sqrt_of", "structural_zero", "scalar_state",
-           "take_cases", "take_state"]
+           "take_cases", "take_state", "hot_wave_state", "hot_pressure_wave"]
 
 _NAN = math.nan
 
@@ -202,13 +206,101 @@ def pressure_wave(M1, log_ratio, gamma, link):
     return t, WaveState(*fields)
 
 
-def through_wave(link, up, x, case, j):
-    """The region behind wave ``link`` from region ``up``: (turn, state, _Region)."""
+# ------------------------------------------------------------------ thermally perfect gas
+# A region's state is (M, T); T = T_in·exp(lnT). No derivatives are carried: the solver
+# differences the residuals instead (the waves' partial derivatives in T have no closed form).
+
+
+def _hot_simple_wave(M1, T1, t, gas):
+    """WaveState of the centred simple wave of compression-positive turn t (ν2 = ν1 - t)."""
+    wave = tp.isentropic_compression_from_turn(M1, T1, -t, gas)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        M2 = np.where(t == 0.0, M1, wave.M2)
+        lost = np.isnan(M2) & np.isfinite(t) & np.isfinite(M1) & np.isfinite(T1) & (M1 >= 1.0)
+        slope = wave.gamma2 * M2 * M2 / np.sqrt((M2 - 1.0) * (M2 + 1.0))
+        shape = np.shape(M2)
+        state = WaveState(M2, np.where(t == 0.0, 1.0, wave.p2_p1),
+                          np.where(t == 0.0, 1.0, wave.T2_T1),
+                          np.where(np.isnan(M2), np.nan, np.ones(shape)), np.full(shape, np.nan),
+                          np.zeros(shape, dtype=bool), slope, lost & (t > 0.0),
+                          lost & (t < 0.0))
+    return scalar_state(state) if type(M1) is float else state
+
+
+def hot_wave_state(M1, T1, t, gas, link):
+    """:func:`wave_state` for a thermally perfect gas: the wave from a region (M1, T1 [K])."""
+    if link.compression == "isentropic":
+        return _hot_simple_wave(M1, T1, t, gas)
+    state = tpo.turn_state(M1, T1, t, gas, strong=link.strong)
+    return scalar_state(state) if type(M1) is float else state
+
+
+def hot_pressure_wave(M1, T1, log_ratio, gas, link):
+    """:func:`pressure_wave` for a thermally perfect gas: (compression-positive turn, state).
+
+    A shock: the pressure fixes its normal Mach number (the thermally perfect normal-shock
+    inverse at T1), hence β and θ, on the strong branch above the detachment pressure.
+    A fan or isentropic compression: p2/p0 = (p2/p1)(p1/p0) at the stream's T0 gives M2
+    (the isentropic inverse), the turn is ν(M1) - ν(M2).
+    """
+    ratio = exp_of(log_ratio)
+    M1a, T1a, ratio_a = np.broadcast_arrays(*(np.asarray(v, dtype=float)
+                                               for v in (M1, T1, ratio)))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        if link.compression == "isentropic":
+            shock = np.zeros(M1a.shape, dtype=bool)
+        else:
+            shock = ratio_a >= 1.0
+        t = np.full(M1a.shape, np.nan)
+        strong = np.zeros(M1a.shape, dtype=bool)
+        if shock.any():
+            m, T, P = M1a[shock], T1a[shock], ratio_a[shock]
+            Mn1 = np.minimum(tps.mach_from_pressure_jump(P, T, gas), m)
+            beta = wave_angle_from_normal_excess(m, (Mn1 - 1.0) * (Mn1 + 1.0))
+            t[shock] = tpo.oblique_shock_from_wave_angle(m, T, beta, gas).deflection
+            strong[shock] = beta > tpo.detachment_angles(m, T, gas)[1]
+        simple = ~shock
+        if simple.any():
+            m, T = M1a[simple], T1a[simple]
+            T0 = tp.stagnation_temperature(m, T, gas)
+            p1_p0 = tp.isentropic_ratios(m, T0, gas).p_p0
+            M2 = tp.mach_from_pressure_ratio(ratio_a[simple] * p1_p0, T0, gas)
+            M2 = np.where(ratio_a[simple] == 1.0, m, M2)
+            t[simple] = tp.prandtl_meyer_angle(m, T0, gas) - tp.prandtl_meyer_angle(M2, T0, gas)
+    if type(M1) is float:
+        return float(t[()]), hot_wave_state(M1, T1, float(t[()]), gas,
+                                           _Branch(link.compression, bool(strong[()])))
+    state = hot_wave_state(M1a, T1a, t, gas, link)
+    if strong.any():
+        fields = [np.array(f, copy=True) for f in state]
+        hard = hot_wave_state(M1a[strong], T1a[strong], t[strong], gas,
+                              _Branch(link.compression, True))
+        for f, h in zip(fields, hard):
+            f[strong] = h
+        state = WaveState(*fields)
+    return t, state
+
+
+class _Branch(NamedTuple):
+    """The two attributes of a wave link that :func:`hot_wave_state` reads."""
+
+    compression: str
+    strong: bool
+
+
+def through_wave(link, up, x, case, j, gas=None):
+    """The region behind wave ``link`` from region ``up``: (turn, state, _Region).
+
+    ``gas``: a thermally perfect :class:`~gasdyn2d.Gas` (the region temperature is then
+    T_in·exp(lnT), ``case["T_in"]`` the inflow's), for which no derivatives are carried.
+    """
     M1, lnp1, d1 = up.values.M, up.values.lnp, up.values.direction
     gamma = case["g"]
     sign = link.sign
     k = len(up.dM)
     scalar = type(M1) is float
+    if gas is not None:
+        return _hot_through_wave(link, up, x, case, j, gas)
     if link.given == "pressure":
         target = log_of(case["w:" + link.name])
         t, state = pressure_wave(M1, target - lnp1, gamma, link)
@@ -256,6 +348,34 @@ def through_wave(link, up, x, case, j):
     dM = [_sum3(0.0, FM, dm, Ft, dti) for dm, dti in zip(up.dM, dt)]
     dd = [dd_ if structural_zero(dti) else dd_ + sign * dti for dd_, dti in zip(up.dd, dt)]
     return turn, state, RegionState(values, dM, dlnp, dd)
+
+
+def _hot_through_wave(link, up, x, case, j, gas):
+    """:func:`through_wave` for a thermally perfect gas (values only; zero derivatives)."""
+    M1, lnp1, d1 = up.values.M, up.values.lnp, up.values.direction
+    T1 = case["T_in"] * exp_of(up.values.lnT)
+    scalar = type(M1) is float
+    if link.given == "pressure":
+        target = log_of(case["w:" + link.name])
+        t, state = hot_pressure_wave(M1, T1, target - lnp1, gas, link)
+        turn = link.sign * t
+        if scalar:
+            lnp2 = target if state.p2_p1 == state.p2_p1 else _NAN
+        else:
+            lnp2 = np.where(np.isnan(state.p2_p1), np.nan, target)
+    else:
+        if link.given == "turn":
+            turn = case["w:" + link.name]
+        elif link.given == "direction":
+            turn = case["w:" + link.name] - d1
+        else:
+            turn = x[j]
+        state = hot_wave_state(M1, T1, link.sign * turn, gas, link)
+        lnp2 = lnp1 + log_of(state.p2_p1)
+    values = RegionValues(state.M2, lnp2, d1 + turn, up.values.lnT + log_of(state.T2_T1),
+                          up.values.lnp0 + log_of(state.p02_p01))
+    zeros = [0.0] * len(up.dM)
+    return turn, state, RegionState(values, zeros, list(zeros), list(zeros))
 
 
 def _sum3(a, L, dm, Lt, dt):

@@ -21,6 +21,8 @@ Public functions
   channel or jet, coloured by Mach number, with the walls or jet boundary.
 - :func:`draw_surface_pressures` — pressure coefficient along both surfaces
   of a section by the exact (shock-expansion), linear and second-order theories.
+- :func:`draw_gas_model_comparison` — normal- and oblique-shock ratios of a perfect and
+  a thermally perfect gas against the Mach number, at one upstream temperature.
 - :func:`tour_figure` — one summary figure saved to a file (used by
   ``python -m gasdyn2d``).
 - :func:`draw_cone_flow` — a cone, its conical shock and the shock layer's rays
@@ -44,11 +46,12 @@ from .polar_plots import draw_pattern_polars, draw_polars
 from .wave_pattern_plots import draw_wave_pattern
 from .net_plots import draw_characteristic_net
 from .pressure_plots import draw_surface_pressures
+from .gas_model_plots import draw_gas_model_comparison
 from .tour import tour_figure
 from .cone_plots import draw_cone_flow, draw_cone_pressures
 
 __all__ = [
     "Drawing", "PALETTE", "WAVE_STYLES", "draw_polars", "draw_pattern_polars", "draw_wave_pattern",
-    "draw_characteristic_net", "draw_surface_pressures", "tour_figure",
-    "draw_cone_flow", "draw_cone_pressures",
+    "draw_characteristic_net", "draw_surface_pressures", "draw_gas_model_comparison",
+    "tour_figure", "draw_cone_flow", "draw_cone_pressures",
 ]

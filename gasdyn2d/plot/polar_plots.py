@@ -229,7 +229,9 @@ def draw_pattern_polars(solution, regions, *, marks=(), gamma=None, case=None, a
         Regions whose states to mark (e.g. the pair joined by the slip line).
     gamma : float, optional
         Ratio of specific heats [-] overriding the solution's own
-        (:attr:`PatternSolution.gamma`, the default; kept for old calls).
+        (:attr:`PatternSolution.gamma`, the default; kept for old calls). Not for a
+        thermally perfect inflow gas, whose polars are drawn with the gas at each
+        region's temperature.
     case : tuple of int, optional
         Which case of a batch solution to draw (default: the first).
     ax, angle_unit, n, min_pressure_ratio, **line_properties
@@ -268,12 +270,19 @@ def draw_pattern_polars(solution, regions, *, marks=(), gamma=None, case=None, a
         regions = [regions]
     if isinstance(marks, str):
         marks = [marks]
-    gas = Gas(gamma=_pick(solution.gamma if gamma is None else gamma, case))
+    inflow = solution.inflow_state
+    hot = inflow is not None and inflow.gas.is_thermally_perfect
+    if hot and gamma is not None:
+        raise reject("gamma", "left out for a thermally perfect inflow gas (its γ varies with "
+                     "temperature; the polars use the gas itself)", gamma)
+    gas = inflow.gas if hot else Gas(gamma=_pick(solution.gamma if gamma is None else gamma,
+                                                 case))
+    T_in = _pick(inflow.T_si, case) if hot else 1.0  # a thermally perfect gas needs T itself
     states, labels = [], []
     for name in regions:
         r = solution.region(name)
         M, p, T, d = (_pick(v, case) for v in (r.M, r.p_ratio, r.T_ratio, r.direction))
-        states.append(FlowState(M, p, T, d, gas))
+        states.append(FlowState(M, p, T * T_in, d, gas))
         labels.append(f"region {name}: M = {M:.3f}")
     # draw_polars scales to the first stream: express marks relative to it too
     first_p = states[0].p_si if states else 1.0

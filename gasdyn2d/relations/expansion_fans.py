@@ -22,6 +22,7 @@ from .. import numerics as nx
 from ..boundary import SCALAR_CHECKS, Call, ResultTable, one_of, unit_field
 from ..boundary.units import TWO_PI
 from ..boundary.types import ArrayInput, FloatArray
+from .gas import gas_of_call
 from .isentropic import mach_after_isentropic_pressure_change, mach_angle_of
 from .prandtl_meyer_function import (
     check_prandtl_meyer_angle,
@@ -134,15 +135,37 @@ def _prandtl_meyer_core(M, gamma, check):
     return prandtl_meyer_angle(check.supersonic_mach(M, "M"), gamma)
 
 
-def prandtl_meyer(M: ArrayInput, *, gamma: ArrayInput = 1.4, errors: str = "raise") -> FloatArray:
+def _run_value(function, call, T, T_name, gamma, hot, core, hot_core, unit_text, name, doc):
+    """Run a one-value relation: perfect gas (T absent or only checked) or thermally perfect."""
+    if hot is None:
+        call.take("gamma", gamma, keep_scalar=True)
+        if T is None:
+            return call.run_value(core, unit_text, name, doc)
+    from .thermally_perfect_calls import perfect_with_temperature
+
+    call.take(T_name, T, "K")
+    if hot is None:  # a perfect gas: the temperature checked and broadcast, not used
+        return call.run_value(perfect_with_temperature(core, T_name), unit_text, name, doc)
+    return call.run_value(hot_core, unit_text, name, doc, gas=hot)
+
+
+def prandtl_meyer(M: ArrayInput, *, T0: ArrayInput = None, gamma: ArrayInput = None, gas=None,
+                  errors: str = "raise") -> FloatArray:
     """Prandtl–Meyer function ν(M): the turn that expands a sonic stream to Mach M.
 
     Parameters
     ----------
     M : float or array_like
         Mach number [-], >= 1.
+    T0 : float, array_like or Quantity, optional
+        Stagnation temperature [K], > 0: required for a thermally perfect ``gas`` (ν is
+        then measured from the sonic state of that T0); with a perfect gas it is checked
+        and broadcast, and not used.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``). A thermally perfect gas
+        (:data:`~gasdyn2d.AIR_THERMALLY_PERFECT`) needs ``T0`` and no ``gamma``.
     errors : {"raise", "nan"}, optional
         What to do with invalid elements.
 
@@ -154,31 +177,45 @@ def prandtl_meyer(M: ArrayInput, *, gamma: ArrayInput = 1.4, errors: str = "rais
     Raises
     ------
     InvalidInputError
-        M below 1 or not finite; gamma <= 1.
+        M below 1 or not finite; gamma <= 1; a thermally perfect gas without ``T0``
+        (or with ``gamma``); a non-positive ``T0``.
 
     Notes
     -----
     ν = √((γ+1)/(γ-1)) atan √((γ-1)(M²-1)/(γ+1)) - atan √(M²-1), evaluated
-    through a series near M = 1 where the two terms cancel.
+    through a series near M = 1 where the two terms cancel. For a thermally perfect
+    gas ν = ∫ √(M² - 1) dV/V along the isentrope of T0 has no closed form: two 24-point
+    Gauss–Legendre panels and a frozen-gas tail (:func:`~gasdyn2d.relations.
+    thermally_perfect.prandtl_meyer_angle`, <= 2e-14 relative against mpmath).
 
     References
     ----------
-    Ames Research Staff (1953), NACA Report 1135, eq. 171.
+    Ames Research Staff (1953), NACA Report 1135, eq. 171 (and its imperfect-gas
+    section for the thermally perfect gas, from memory).
 
     Examples
     --------
-    >>> from gasdyn2d import prandtl_meyer
+    >>> from gasdyn2d import AIR_THERMALLY_PERFECT, prandtl_meyer
     >>> import numpy as np
     >>> round(float(np.degrees(prandtl_meyer(2.0))), 4)
     26.3798
+    >>> round(float(np.degrees(prandtl_meyer(2.0, T0=300.0, gas=AIR_THERMALLY_PERFECT))), 4)
+    26.3813
     """
+    if gas is None and gamma is None:
+        gamma = 1.4
     if (type(M) is float and type(gamma) is float and 1.0 <= M < math.inf
-            and 1.0 < gamma < math.inf and errors in SCALAR_CHECKS):
+            and 1.0 < gamma < math.inf and T0 is None and gas is None
+            and errors in SCALAR_CHECKS):
         return prandtl_meyer_angle(M, gamma)  # the scalar fast lane
+    gamma, hot = gas_of_call("prandtl_meyer", gamma, gas, T0, "T0", "stagnation temperature")
     call = Call(errors)
     call.take("M", M)
-    call.take("gamma", gamma, keep_scalar=True)
-    return call.run_value(_prandtl_meyer_core, "rad", "prandtl_meyer", "Prandtl–Meyer angle ν")
+    from_hot = None
+    if hot is not None:
+        from .thermally_perfect_calls import hot_prandtl_meyer_core as from_hot
+    return _run_value("prandtl_meyer", call, T0, "T0", gamma, hot, _prandtl_meyer_core,
+                      from_hot, "rad", "prandtl_meyer", "Prandtl–Meyer angle ν")
 
 
 def _mach_from_prandtl_meyer_core(nu, gamma, check):
@@ -186,16 +223,24 @@ def _mach_from_prandtl_meyer_core(nu, gamma, check):
     return mach_from_prandtl_meyer_angle(check_prandtl_meyer_angle(nu, gamma, "nu", check), gamma)
 
 
-def mach_from_prandtl_meyer(nu: ArrayInput, *, gamma: ArrayInput = 1.4,
+def mach_from_prandtl_meyer(nu: ArrayInput, *, T0: ArrayInput = None,
+                            gamma: ArrayInput = None, gas=None,
                             errors: str = "raise") -> FloatArray:
     """Mach number whose Prandtl–Meyer function is ``nu``.
 
     Parameters
     ----------
     nu : float, array_like or Quantity
-        Prandtl–Meyer angle [rad], 0 <= ν <= ν_max (ν_max = 130.454° for γ = 1.4).
+        Prandtl–Meyer angle [rad], 0 <= ν <= ν_max (ν_max = 130.454° for γ = 1.4; for a
+        thermally perfect gas ν_max(T0), 130.46° at 300 K and 141.60° at 3000 K for air).
+    T0 : float, array_like or Quantity, optional
+        Stagnation temperature [K], > 0: required for a thermally perfect ``gas``; with a
+        perfect gas it is checked and broadcast, and not used.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``). A thermally perfect gas
+        (:data:`~gasdyn2d.AIR_THERMALLY_PERFECT`) needs ``T0`` and no ``gamma``.
     errors : {"raise", "nan"}, optional
         What to do with invalid elements.
 
@@ -207,7 +252,8 @@ def mach_from_prandtl_meyer(nu: ArrayInput, *, gamma: ArrayInput = 1.4,
     Raises
     ------
     InvalidInputError
-        ν negative or above ν_max; gamma <= 1.
+        ν negative or above ν_max; gamma <= 1; a thermally perfect gas without ``T0``
+        (or with ``gamma``); a non-positive ``T0``.
 
     Notes
     -----
@@ -227,15 +273,24 @@ def mach_from_prandtl_meyer(nu: ArrayInput, *, gamma: ArrayInput = 1.4,
     >>> round(mach_from_prandtl_meyer(26.3798 * ureg.deg), 4)
     2.0
     """
+    if gas is None and gamma is None:
+        gamma = 1.4
     if (type(nu) is float and type(gamma) is float and 0.0 <= nu <= TWO_PI
-            and 1.0 < gamma < math.inf and errors in SCALAR_CHECKS):
+            and 1.0 < gamma < math.inf and T0 is None and gas is None
+            and errors in SCALAR_CHECKS):
         M = mach_from_prandtl_meyer_angle(nu, gamma)  # the scalar fast lane; NaN beyond
         if M == M:                                    # ν_max takes the general path
             return M
+    gamma, hot = gas_of_call("mach_from_prandtl_meyer", gamma, gas, T0, "T0",
+                             "stagnation temperature")
     call = Call(errors)
-    call.take("nu", nu, "rad", degrees_above=prandtl_meyer_degree_limit(gamma))
-    call.take("gamma", gamma, keep_scalar=True)
-    return call.run_value(_mach_from_prandtl_meyer_core, "", "M", "Mach number")
+    call.take("nu", nu, "rad",
+              degrees_above=prandtl_meyer_degree_limit(gamma) if hot is None else TWO_PI)
+    from_hot = None
+    if hot is not None:
+        from .thermally_perfect_calls import hot_mach_from_prandtl_meyer_core as from_hot
+    return _run_value("mach_from_prandtl_meyer", call, T0, "T0", gamma, hot,
+                      _mach_from_prandtl_meyer_core, from_hot, "", "M", "Mach number")
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
@@ -257,6 +312,8 @@ class ExpansionFan(ResultTable):
     rho2_rho1: FloatArray = unit_field("", "density ratio")
     mu1: FloatArray = unit_field("rad", "Mach angle upstream (head of the fan)")
     mu2: FloatArray = unit_field("rad", "Mach angle downstream (tail of the fan)")
+    gamma1: FloatArray = unit_field("", "ratio of specific heats upstream")
+    gamma2: FloatArray = unit_field("", "ratio of specific heats downstream")
 
 
 
@@ -290,12 +347,12 @@ def _fan_core(M1, given, gamma, check, *, name):
     T2_T1 = fan_temperature_ratio(M1, M2, gamma)
     return (M1, M2, given if name == "deflection" else nu2 - nu1, nu1, nu2, p2_p1, T2_T1,
             p2_p1 ** (1.0 / gamma),  # isentropic: ρ ∝ p^(1/γ)
-            mach_angle_of(M1), mach_angle_of(M2))
+            mach_angle_of(M1), mach_angle_of(M2), gamma, gamma)
 
 
 def expansion_fan(M1: ArrayInput, *, deflection: ArrayInput = None, p2_p1: ArrayInput = None,
-                  M2: ArrayInput = None, gamma: ArrayInput = 1.4,
-                  errors: str = "raise") -> ExpansionFan:
+                  M2: ArrayInput = None, T1: ArrayInput = None, gamma: ArrayInput = None,
+                  gas=None, errors: str = "raise") -> ExpansionFan:
     """Centred expansion fan from its upstream Mach number and one of turn, p2/p1 or M2.
 
     Parameters
@@ -308,28 +365,43 @@ def expansion_fan(M1: ArrayInput, *, deflection: ArrayInput = None, p2_p1: Array
         Static pressure ratio [-], 0 <= p2/p1 <= 1.
     M2 : float or array_like, optional
         Downstream Mach number [-], >= M1.
+    T1 : float, array_like or Quantity, optional
+        Static temperature ahead of the fan [K], > 0: required for a thermally perfect
+        ``gas``; with a perfect gas it is checked and broadcast, and not used.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``). A thermally perfect gas
+        (:data:`~gasdyn2d.AIR_THERMALLY_PERFECT`) needs ``T1`` and no ``gamma``.
     errors : {"raise", "nan"}, optional
         What to do with invalid elements.
 
     Returns
     -------
     ExpansionFan
+        ``gamma1``, ``gamma2``: γ at the temperatures ahead of and behind the fan (both
+        ``gamma`` for a perfect gas). For a thermally perfect gas ``nu1`` and ``nu2`` are
+        measured at the stream's stagnation temperature.
 
     Raises
     ------
     InvalidInputError
         An input outside the ranges above, for example a turn that would
-        expand the stream past vacuum.
+        expand the stream past vacuum; a thermally perfect gas without ``T1``
+        (or with ``gamma``); a non-positive ``T1``.
 
     Notes
     -----
     ν2 = ν1 + θ; M2 = ν⁻¹(ν2); the ratios follow from the isentropic relations.
+    For a thermally perfect gas the same holds at the stream's stagnation temperature
+    (from h(T0) = h(T1) + V1²/2), with ν from the quadrature of
+    :func:`~gasdyn2d.relations.thermally_perfect.prandtl_meyer_angle` and the ratios
+    from the entropy function (:func:`~gasdyn2d.relations.thermally_perfect.fan_from_turn`).
 
     References
     ----------
-    Ames Research Staff (1953), NACA Report 1135, eqs. 43-45 and 171.
+    Ames Research Staff (1953), NACA Report 1135, eqs. 43-45 and 171 (and its
+    imperfect-gas section for the thermally perfect gas, from memory).
 
     Examples
     --------
@@ -337,20 +409,37 @@ def expansion_fan(M1: ArrayInput, *, deflection: ArrayInput = None, p2_p1: Array
     >>> fan = expansion_fan(2.0, deflection=10 * ureg.deg)
     >>> round(fan.M2, 4), round(fan.p2_p1, 4)
     (2.3849, 0.548)
+    >>> from gasdyn2d import AIR_THERMALLY_PERFECT
+    >>> hot = expansion_fan(2.0, deflection=10 * ureg.deg, T1=1500.0, gas=AIR_THERMALLY_PERFECT)
+    >>> round(hot.M2, 4), round(hot.p2_p1, 4)
+    (2.3368, 0.571)
     """
+    if gas is None and gamma is None:
+        gamma = 1.4
     check = SCALAR_CHECKS.get(errors)
     if (type(M1) is float and type(deflection) is float and type(gamma) is float
-            and check is not None and p2_p1 is None and M2 is None
-            and 0.0 <= deflection <= TWO_PI):
+            and check is not None and p2_p1 is None and M2 is None and T1 is None
+            and gas is None and 0.0 <= deflection <= TWO_PI):
         # the scalar fast lane: the general path's checked core on the floats as given
         return ExpansionFan.from_fields(_fan_core(M1, deflection, gamma, check,
                                                   name="deflection"))
     name, value = one_of("expansion_fan", deflection=deflection, p2_p1=p2_p1, M2=M2)
+    gamma, hot = gas_of_call("expansion_fan", gamma, gas, T1, "T1",
+                             "upstream static temperature")
     call = Call(errors)
     call.take("M1", M1)
     if name == "deflection":
-        call.take(name, value, "rad", degrees_above=prandtl_meyer_degree_limit(gamma))
+        call.take(name, value, "rad", degrees_above=prandtl_meyer_degree_limit(gamma)
+                  if hot is None else TWO_PI)
     else:
         call.take(name, value)
-    call.take("gamma", gamma, keep_scalar=True)
-    return call.run(ExpansionFan, _fan_core, name=name)
+    if hot is None:
+        call.take("gamma", gamma, keep_scalar=True)
+        if T1 is None:
+            return call.run(ExpansionFan, _fan_core, name=name)
+    from .thermally_perfect_calls import hot_fan_core, perfect_with_temperature
+
+    call.take("T1", T1, "K")
+    if hot is None:  # a perfect gas: T1 checked and broadcast, the ratios do not depend on it
+        return call.run(ExpansionFan, perfect_with_temperature(_fan_core, "T1"), name=name)
+    return call.run(ExpansionFan, hot_fan_core, name=name, gas=hot)

@@ -18,7 +18,7 @@ __all__ = ["FlowState"]
 
 @dataclasses.dataclass(frozen=True, repr=False, init=False, eq=False)
 class FlowState(ResultTable):
-    """Uniform flow of a perfect gas: the state of one region of a wave pattern.
+    """Uniform flow of a perfect or thermally perfect gas: the state of one region.
 
     Parameters
     ----------
@@ -31,7 +31,11 @@ class FlowState(ResultTable):
     direction : float, array_like or Quantity, optional
         Flow direction [rad], counterclockwise from the x axis.
     gas : Gas, optional
-        The perfect gas (default :data:`~gasdyn2d.AIR`).
+        The gas (default :data:`~gasdyn2d.AIR`, a perfect gas). With a thermally perfect
+        gas (:data:`~gasdyn2d.AIR_THERMALLY_PERFECT`) the derived quantities use its
+        temperature-dependent properties at ``T``: a² = γ(T) R T, h(T0) = h(T) + V²/2,
+        p0/p = exp((φ(T0) - φ(T))/R), q = γ(T) p M²/2 and ν at the stagnation
+        temperature T0.
 
     Notes
     -----
@@ -107,11 +111,21 @@ class FlowState(ResultTable):
     @property
     def T0_si(self):
         """Stagnation temperature [K], plain."""
+        if self.gas.is_thermally_perfect:  # h(T0) = h(T) + V²/2, inverted
+            from .thermally_perfect import stagnation_temperature
+
+            return stagnation_temperature(self.M_si, self.T_si, self.gas)
         return self.T_si * (1.0 + 0.5 * (self.gas.gamma - 1.0) * self.M_si**2)
 
     @property
     def p0_si(self):
         """Stagnation pressure [Pa], plain."""
+        if self.gas.is_thermally_perfect:  # ln(p0/p) = (φ(T0) - φ(T))/R
+            from .thermally_perfect_shocks import log_stagnation_over_static, upstream_state
+
+            with np.errstate(invalid="ignore"):
+                return self.p_si * np.exp(log_stagnation_over_static(
+                    self.M_si, self.T_si, upstream_state(self.T_si, self.gas)))
         g = self.gas.gamma
         return self.p_si * np.exp(g / (g - 1.0) * np.log1p(0.5 * (g - 1.0) * self.M_si**2))
 
@@ -121,9 +135,17 @@ class FlowState(ResultTable):
         return self.p_si / (self.gas.R * self.T_si)
 
     @property
+    def gamma_si(self):
+        """Ratio of specific heats at the static temperature [-], plain (``gas.gamma`` for a
+        perfect gas)."""
+        if self.gas.is_thermally_perfect:
+            return self.gas.gamma_at(self.T_si)
+        return np.full(np.shape(self.T_si), self.gas.gamma)
+
+    @property
     def a_si(self):
         """Speed of sound [m/s], plain."""
-        return np.sqrt(self.gas.gamma * self.gas.R * self.T_si)
+        return np.sqrt(self.gamma_si * self.gas.R * self.T_si)
 
     # -- public derived fields, in the caller's units
     @property
@@ -154,11 +176,24 @@ class FlowState(ResultTable):
     @property
     def q(self):
         """Dynamic pressure ρV²/2 = γpM²/2 [Pa] (unit of ``p`` when it was a Quantity)."""
-        return self._out(0.5 * self.gas.gamma * self.p_si * self.M_si**2, "Pa", "q")
+        return self._out(0.5 * self.gamma_si * self.p_si * self.M_si**2, "Pa", "q")
+
+    @property
+    def gamma(self):
+        """Ratio of specific heats at the static temperature [-] (``gas.gamma`` for a
+        perfect gas, γ(T) for a thermally perfect one)."""
+        return self._out(self.gamma_si, "", "gamma")
 
     @property
     def nu(self):
-        """Prandtl–Meyer angle [rad] (NaN for subsonic flow)."""
+        """Prandtl–Meyer angle [rad] (NaN for subsonic flow); for a thermally perfect gas
+        measured from the sonic state of the stagnation temperature T0."""
+        if self.gas.is_thermally_perfect:
+            from .thermally_perfect import prandtl_meyer_angle as hot_prandtl_meyer_angle
+
+            with np.errstate(invalid="ignore"):
+                nu = hot_prandtl_meyer_angle(self.M_si, self.T0_si, self.gas)
+            return self._angle(nu, "nu")
         return self._angle(prandtl_meyer_angle(self.M_si, self.gas.gamma), "nu")
 
     @property
@@ -172,11 +207,11 @@ class FlowState(ResultTable):
         return np.shape(self.M_si)
 
     def _extra_columns(self):
-        for name in ("rho", "a", "V", "p0", "T0", "q", "nu", "mu"):
+        for name in ("rho", "a", "V", "p0", "T0", "q", "nu", "mu", "gamma"):
             value = getattr(self, name)
             unit = f"{value.units:~P}" if hasattr(value, "units") else {
                 "rho": "kg/m³", "a": "m/s", "V": "m/s", "p0": "Pa", "T0": "K", "q": "Pa",
-                "nu": "rad", "mu": "rad"}[name]
+                "nu": "rad", "mu": "rad", "gamma": ""}[name]
             yield name, unit, value
 
     def __eq__(self, other):

@@ -47,6 +47,8 @@ __all__ = [
     "vibrational_energy",
     "vibrational_heat_capacity",
     "vibrational_entropy",
+    "refuse_thermally_perfect",
+    "gas_of_call",
 ]
 
 
@@ -271,6 +273,78 @@ class Gas(ResultTable):
         """Speed of sound a = √(γ(T) R T) [m/s] at ``T`` [K]."""
         T = np.asarray(T, dtype=float)
         return np.sqrt(self.gamma_at(T) * self.R * T)
+
+
+def refuse_thermally_perfect(gas, name: str, where: str, instead: str = "") -> None:
+    """Raise an :class:`~gasdyn2d.errors.InvalidInputError` when ``gas`` is a thermally
+    perfect :class:`Gas`, for a consumer (``where``) that would otherwise use its frozen γ.
+
+    ``name`` is the argument as the caller wrote it (``"gas"``, ``"inflow.gas"``);
+    ``instead`` says what to do (a sentence).
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR, refuse_thermally_perfect
+    >>> refuse_thermally_perfect(AIR, "gas", "this tool")  # a perfect gas passes
+    """
+    if isinstance(gas, Gas) and gas.is_thermally_perfect:
+        raise InvalidInputError(
+            f"{name} is a thermally perfect Gas (vibrational_temperature = "
+            f"{gas.vibrational_temperature:g} K); {where} does not support a thermally perfect "
+            "gas yet and would use its frozen gamma, which is wrong once vibration is excited. "
+            + (instead or "Give a perfect Gas (vibrational_temperature=None)."))
+
+
+def gas_of_call(function: str, gamma, gas, temperature, temperature_name: str,
+                temperature_what: str):
+    """The gas model of a public relation called with ``gamma=``, ``gas=`` and a temperature.
+
+    Returns ``(gamma, hot_gas)``: the ratio of specific heats to use (the caller's
+    ``gamma`` argument unchanged, 1.4 by default, or a perfect gas's ``gas.gamma``) and
+    None; or None and the thermally perfect :class:`Gas`.
+
+    The rules, the same for every relation:
+
+    - ``gas`` None: a perfect gas of ``gamma`` (default 1.4, air);
+    - a perfect ``gas``: its ``gamma``; ``gamma`` given as well must be one number equal
+      to it (to 1e-12), else an error (two different gases were asked for);
+    - a thermally perfect ``gas``: ``gamma`` must not be given (γ varies with temperature),
+      and the temperature that fixes the state (``temperature_name``) is required;
+    - anything else as ``gas`` is refused.
+
+    The temperature itself is checked by the relation (it may be an array or a Quantity).
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR, AIR_THERMALLY_PERFECT, gas_of_call
+    >>> gas_of_call("f", None, None, None, "T1", "upstream static temperature")
+    (1.4, None)
+    >>> gas_of_call("f", None, AIR_THERMALLY_PERFECT, 300.0, "T1", "upstream temperature")[0]
+    """
+    if gas is None:
+        return (1.4 if gamma is None else gamma), None
+    if not isinstance(gas, Gas):
+        raise InvalidInputError(
+            f"gas must be a gasdyn2d.Gas (such as AIR or AIR_THERMALLY_PERFECT); got {gas!r}.")
+    if gas.is_thermally_perfect:
+        if gamma is not None:
+            raise InvalidInputError(
+                f"{function} takes gamma or a thermally perfect gas, not both: the gas's ratio "
+                "of specific heats varies with temperature, γ(T) = cp(T)/(cp(T) - R). Leave "
+                "gamma out (the gas's frozen value is gas.gamma).")
+        if temperature is None:
+            raise InvalidInputError(
+                f"{function} needs the {temperature_what} {temperature_name}=... for a thermally "
+                f"perfect gas (its specific heats depend on temperature): give {temperature_name} "
+                "in K or as a temperature Quantity.")
+        return None, gas
+    if gamma is not None:
+        value = as_si_scalar("gamma", gamma, what="one ratio of specific heats when gas is given")
+        if not abs(value - gas.gamma) <= 1e-12 * gas.gamma:
+            raise InvalidInputError(
+                f"gamma = {value!r} and gas.gamma = {gas.gamma!r} disagree; give one of them "
+                "(gas=Gas(gamma=...) or gamma=...).")
+    return gas.gamma, None
 
 
 #: Dry air as a perfect gas: γ = 1.4, R = 287.05 J/(kg·K).

@@ -23,6 +23,7 @@ from ..boundary import SCALAR_CHECKS, Call, ResultTable, choice, clamp_to_limit,
 from ..boundary.types import ArrayInput, FloatArray
 from ..boundary.units import TWO_PI
 from ..numerics import nan_where_nan
+from .gas import gas_of_call
 from .prandtl_meyer_function import (
     check_prandtl_meyer_angle,
     mach_from_prandtl_meyer_angle,
@@ -516,11 +517,12 @@ def _isentropic_state_scalar(M, gamma):
 
 @dataclasses.dataclass(frozen=True, repr=False)
 class IsentropicFlow(ResultTable):
-    """Isentropic state of a perfect gas at one Mach number.
+    """Isentropic state of a perfect or thermally perfect gas at one Mach number.
 
     Angles are in radians (Quantities when the input was a Quantity); the Mach
     angle and Prandtl–Meyer angle are NaN for subsonic flow, where they do not
-    exist.
+    exist. For a thermally perfect gas the ratios are those at the stagnation
+    temperature T0 of the call (ν is measured from the sonic state of that T0).
     """
 
     M: FloatArray = unit_field("", "Mach number")
@@ -580,7 +582,8 @@ _GIVEN_FIELD = {"T_T0": 0, "p_p0": 1, "rho_rho0": 2, "A_Astar": 3, "mach_angle":
 def isentropic_flow(M: ArrayInput = None, *, T_T0: ArrayInput = None, p_p0: ArrayInput = None,
                     rho_rho0: ArrayInput = None, A_Astar: ArrayInput = None,
                     mach_angle: ArrayInput = None, prandtl_meyer: ArrayInput = None,
-                    branch: str = "supersonic", gamma: ArrayInput = 1.4,
+                    branch: str = "supersonic", T0: ArrayInput = None,
+                    gamma: ArrayInput = None, gas=None,
                     errors: str = "raise") -> IsentropicFlow:
     """Isentropic ratios at a Mach number, or the Mach number from any one of them.
 
@@ -598,8 +601,16 @@ def isentropic_flow(M: ArrayInput = None, *, T_T0: ArrayInput = None, p_p0: Arra
         Prandtl–Meyer angle ν [rad], in [0, ν_max].
     branch : {"supersonic", "subsonic"}, optional
         Root of the area-ratio inverse (ignored for other inputs).
+    T0 : float, array_like or Quantity, optional
+        Stagnation temperature [K], > 0: required for a thermally perfect ``gas``
+        (offset units such as °C are converted); with a perfect gas it is checked and
+        broadcast but does not change the ratios.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``). A thermally perfect gas
+        (:data:`~gasdyn2d.AIR_THERMALLY_PERFECT`) needs ``T0`` and no ``gamma``; its
+        ν_max, and so the range of ``prandtl_meyer``, depends on T0.
     errors : {"raise", "nan"}, optional
         ``"nan"`` returns NaN for invalid elements instead of raising.
 
@@ -611,7 +622,8 @@ def isentropic_flow(M: ArrayInput = None, *, T_T0: ArrayInput = None, p_p0: Arra
     ------
     InvalidInputError
         No or several inputs, a value outside the range above, gamma <= 1,
-        a wrong unit or type, or shapes that do not broadcast.
+        a wrong unit or type, shapes that do not broadcast, a thermally perfect gas
+        without ``T0`` (or with ``gamma``), a non-positive ``T0``.
 
     Notes
     -----
@@ -621,10 +633,17 @@ def isentropic_flow(M: ArrayInput = None, *, T_T0: ArrayInput = None, p_p0: Arra
     from an explicit start (:func:`mach_from_area_ratio`) and ν by
     :func:`~gasdyn2d.mach_from_prandtl_meyer`.
 
+    For a thermally perfect gas (:mod:`~gasdyn2d.relations.thermally_perfect`) the
+    energy equation h(T0) = h(T) + M² γ(T) R T/2 is solved for T by Newton steps from
+    the perfect gas at γ(T0); p/p0 = exp((φ(T) - φ(T0))/R) (the entropy integral) and
+    A/A* = ρ*V*/(ρV). The inverses from p/p0, ρ/ρ0, A/A* and ν are bracketed Newton
+    iterations in ln(T0/T); from T/T0 and μ they are closed forms.
+
     References
     ----------
     Ames Research Staff (1953), *Equations, Tables, and Charts for
-    Compressible Flow*, NACA Report 1135, eqs. 43-45 and 80.
+    Compressible Flow*, NACA Report 1135, eqs. 43-45 and 80 (and its imperfect-gas
+    section for the thermally perfect gas, from memory).
 
     Examples
     --------
@@ -636,22 +655,40 @@ def isentropic_flow(M: ArrayInput = None, *, T_T0: ArrayInput = None, p_p0: Arra
     2.0
     >>> round(isentropic_flow(A_Astar=1.6875, branch="subsonic").M, 4)
     0.3722
+    >>> from gasdyn2d import AIR_THERMALLY_PERFECT
+    >>> hot = isentropic_flow(5.0, T0=2500.0, gas=AIR_THERMALLY_PERFECT)
+    >>> round(hot.T_T0, 6), round(hot.p_p0, 8)  # 0.166667, 0.00189004 for γ = 1.4
+    (0.192117, 0.00133294)
     """
+    if gas is None and gamma is None:
+        gamma = 1.4
     if (type(M) is float and type(gamma) is float and 0.0 <= M < math.inf
             and 1.0 < gamma < math.inf and T_T0 is None and p_p0 is None and rho_rho0 is None
             and A_Astar is None and mach_angle is None and prandtl_meyer is None
-            and errors in SCALAR_CHECKS and branch in _BRANCHES):
+            and T0 is None and gas is None and errors in SCALAR_CHECKS and branch in _BRANCHES):
         # the scalar fast lane: valid plain floats, for which the general path's checked
         # core returns (M, *isentropic_state(M, γ)); anything else takes the general path
         return IsentropicFlow.from_fields((M, *isentropic_state(M, gamma)))
     name, value = one_of("isentropic_flow", M=M, T_T0=T_T0, p_p0=p_p0, rho_rho0=rho_rho0,
                          A_Astar=A_Astar, mach_angle=mach_angle, prandtl_meyer=prandtl_meyer)
     supersonic = choice("branch", branch, {"supersonic": True, "subsonic": False})
+    gamma, hot = gas_of_call("isentropic_flow", gamma, gas, T0, "T0", "stagnation temperature")
     call = Call(errors)
     if name in ("mach_angle", "prandtl_meyer"):
-        limit = prandtl_meyer_degree_limit(gamma) if name == "prandtl_meyer" else TWO_PI
+        limit = (prandtl_meyer_degree_limit(gamma) if name == "prandtl_meyer" and hot is None
+                 else TWO_PI)
         call.take(name, value, "rad", degrees_above=limit)
     else:
         call.take(name, value)
-    call.take("gamma", gamma, keep_scalar=True)
-    return call.run(IsentropicFlow, _isentropic_core, name=name, supersonic=supersonic)
+    if hot is None:
+        call.take("gamma", gamma, keep_scalar=True)
+        if T0 is None:
+            return call.run(IsentropicFlow, _isentropic_core, name=name, supersonic=supersonic)
+    from .thermally_perfect_calls import hot_isentropic_core, perfect_with_temperature
+
+    call.take("T0", T0, "K")
+    if hot is None:  # a perfect gas: T0 checked and broadcast, the ratios do not depend on it
+        return call.run(IsentropicFlow, perfect_with_temperature(_isentropic_core, "T0"),
+                        name=name, supersonic=supersonic)
+    return call.run(IsentropicFlow, hot_isentropic_core, name=name, supersonic=supersonic,
+                    gas=hot)

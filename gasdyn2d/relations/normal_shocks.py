@@ -24,6 +24,7 @@ from ..boundary import SCALAR_CHECKS, Call, ResultTable, clamp_to_limit, one_of,
 from ..boundary.checks import ROUNDING_SLACK
 from ..boundary.types import ArrayInput, FloatArray
 from ..numerics import nan_where_nan
+from .gas import Gas, gas_of_call
 
 __all__ = [
     "normal_shock",
@@ -586,6 +587,8 @@ class NormalShock(ResultTable):
         "", "pitot ratio: stagnation pressure behind over static pressure ahead")
     strength: FloatArray = unit_field(
         "", "(p2 - p1)/p1, the shock strength, computed without cancellation")
+    gamma1: FloatArray = unit_field("", "ratio of specific heats ahead of the shock")
+    gamma2: FloatArray = unit_field("", "ratio of specific heats behind the shock")
 
 
 def _checked_upstream_mach(name, value, gamma, check):
@@ -645,7 +648,7 @@ def _normal_shock_core(value, gamma, check, *, name):
         fields[_STATE_INDEX[name]] = value  # the caller's exact value, not a round trip
         if name == "p2_p1":
             fields[6] = value - 1.0
-    return (M1, *fields)
+    return (M1, *fields, gamma, gamma)
 
 
 _STATE_INDEX = {"M2": 0, "p2_p1": 1, "rho2_rho1": 2, "T2_T1": 3, "p02_p01": 4, "p02_p1": 5}
@@ -653,7 +656,8 @@ _STATE_INDEX = {"M2": 0, "p2_p1": 1, "rho2_rho1": 2, "T2_T1": 3, "p02_p01": 4, "
 
 def normal_shock(M1: ArrayInput = None, *, M2: ArrayInput = None, p2_p1: ArrayInput = None,
                  rho2_rho1: ArrayInput = None, T2_T1: ArrayInput = None,
-                 p02_p01: ArrayInput = None, p02_p1: ArrayInput = None, gamma: ArrayInput = 1.4,
+                 p02_p01: ArrayInput = None, p02_p1: ArrayInput = None, T1: ArrayInput = None,
+                 gamma: ArrayInput = None, gas: Gas = None,
                  errors: str = "raise") -> NormalShock:
     """Normal shock from its upstream Mach number or from any one downstream ratio.
 
@@ -670,19 +674,29 @@ def normal_shock(M1: ArrayInput = None, *, M2: ArrayInput = None, p2_p1: ArrayIn
         Stagnation-pressure ratio [-], in (0, 1].
     p02_p1 : float or array_like, optional
         Pitot ratio [-]: stagnation pressure behind over static pressure ahead.
+    T1 : float, array_like or Quantity, optional
+        Static temperature ahead of the shock [K], > 0: required for a thermally perfect
+        ``gas`` (offset units such as °C are converted); with a perfect gas it is checked
+        and broadcast but does not change the ratios.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``). A thermally perfect gas
+        (:data:`~gasdyn2d.AIR_THERMALLY_PERFECT`) needs ``T1`` and no ``gamma``.
     errors : {"raise", "nan"}, optional
         ``"nan"`` returns NaN for invalid elements instead of raising.
 
     Returns
     -------
     NormalShock
+        ``gamma1`` and ``gamma2`` are γ at the temperatures ahead of and behind the
+        shock (both ``gamma`` for a perfect gas).
 
     Raises
     ------
     InvalidInputError
-        No or several inputs, a value outside its range, gamma <= 1.
+        No or several inputs, a value outside its range, gamma <= 1, a thermally perfect
+        gas without ``T1`` (or with ``gamma``), a non-positive ``T1``.
 
     Notes
     -----
@@ -691,29 +705,51 @@ def normal_shock(M1: ArrayInput = None, *, M2: ArrayInput = None, p2_p1: ArrayIn
     p02/p01 and p02/p1, which use four Halley steps from explicit starts
     (:func:`mach_from_stagnation_pressure_ratio`, :func:`mach_from_pitot_ratio`).
 
+    For a thermally perfect gas (:mod:`~gasdyn2d.relations.thermally_perfect_shocks`) the
+    same three laws hold with h(T) of the gas: they are solved for τ = T2/T1 - 1 by
+    fixed-point and Newton steps from the perfect gas at γ(T1), and the inverses by
+    bracketed Newton iterations in τ (the inverse from T2/T1 is closed form).
+
     References
     ----------
-    Ames Research Staff (1953), NACA Report 1135, eqs. 93-100.
+    Ames Research Staff (1953), NACA Report 1135, eqs. 93-100 (and its imperfect-gas
+    section for the thermally perfect gas, from memory).
 
     Examples
     --------
-    >>> from gasdyn2d import normal_shock
+    >>> from gasdyn2d import AIR_THERMALLY_PERFECT, normal_shock
     >>> shock = normal_shock(2.0)
     >>> round(shock.M2, 6), round(shock.p02_p01, 6)
     (0.57735, 0.720874)
     >>> round(normal_shock(p2_p1=4.5).M1, 12)
     2.0
+    >>> hot = normal_shock(10.0, T1=250.0, gas=AIR_THERMALLY_PERFECT)
+    >>> round(hot.T2_T1, 4), round(hot.gamma2, 4)  # 20.3875 and 1.4 for γ = 1.4
+    (17.2163, 1.2891)
     """
+    if gas is None and gamma is None:
+        gamma = 1.4
     if (type(M1) is float and type(gamma) is float and 1.0 <= M1 < math.inf
             and 1.0 < gamma < math.inf and M2 is None and p2_p1 is None and rho2_rho1 is None
-            and T2_T1 is None and p02_p01 is None and p02_p1 is None
-            and errors in SCALAR_CHECKS):
+            and T2_T1 is None and p02_p01 is None and p02_p1 is None and T1 is None
+            and gas is None and errors in SCALAR_CHECKS):
         # the scalar fast lane: valid plain floats, for which the general path's checked
         # core returns exactly these fields; anything else takes the general path
-        return NormalShock.from_fields((M1, *normal_shock_state(M1, gamma)))
+        return NormalShock.from_fields((M1, *normal_shock_state(M1, gamma), gamma, gamma))
     name, value = one_of("normal_shock", M1=M1, M2=M2, p2_p1=p2_p1, rho2_rho1=rho2_rho1,
                          T2_T1=T2_T1, p02_p01=p02_p01, p02_p1=p02_p1)
+    gamma, hot = gas_of_call("normal_shock", gamma, gas, T1, "T1",
+                             "upstream static temperature")
     call = Call(errors)
     call.take(name, value)
-    call.take("gamma", gamma, keep_scalar=True)
-    return call.run(NormalShock, _normal_shock_core, name=name)
+    if hot is None:
+        call.take("gamma", gamma, keep_scalar=True)
+        if T1 is None:
+            return call.run(NormalShock, _normal_shock_core, name=name)
+    from .thermally_perfect_calls import hot_normal_shock_core, perfect_with_temperature
+
+    call.take("T1", T1, "K")
+    if hot is None:  # a perfect gas: T1 checked and broadcast, the ratios do not depend on it
+        return call.run(NormalShock, perfect_with_temperature(_normal_shock_core, "T1"),
+                        name=name)
+    return call.run(NormalShock, hot_normal_shock_core, name=name, gas=hot)

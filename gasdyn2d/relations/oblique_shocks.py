@@ -39,6 +39,7 @@ from ..boundary.results import FieldInfo
 from ..boundary.types import ArrayInput, FloatArray
 from ..errors import DetachedShockError, NoSolutionError
 from .isentropic import mach_angle_of
+from .gas import gas_of_call
 from .normal_shocks import normal_shock_ratios
 
 __all__ = [
@@ -1013,7 +1014,7 @@ def _oblique_shock_ratios_scalar(M1, beta, gamma):
 
 @dataclasses.dataclass(frozen=True, repr=False)
 class ObliqueShock(ResultTable):
-    """Flow on both sides of a straight oblique shock.
+    """Flow on both sides of a straight oblique shock (perfect or thermally perfect gas).
 
     Angles are in radians (Quantities in the caller's angle unit when any input
     was a Quantity); ``deflection`` is the flow turn, ``wave_angle`` the angle
@@ -1032,6 +1033,8 @@ class ObliqueShock(ResultTable):
     p02_p01: FloatArray = unit_field("", "stagnation pressure ratio, <= 1")
     strength: FloatArray = unit_field(
         "", "(p2 - p1)/p1, the shock strength, computed without cancellation")
+    gamma1: FloatArray = unit_field("", "ratio of specific heats ahead of the shock")
+    gamma2: FloatArray = unit_field("", "ratio of specific heats behind the shock")
 
 
 def _check_deflection(theta, M1, gamma, check):
@@ -1115,7 +1118,7 @@ def _oblique_core(M1, value, gamma, check, *, name, strong):
     gamma = check.gamma(gamma)
     M1 = check.supersonic_mach(M1, "M1")
     if name == "deflection":
-        return (M1, *_from_deflection(M1, value, gamma, check, strong))
+        return (M1, *_from_deflection(M1, value, gamma, check, strong), gamma, gamma)
     value, beta = _checked_wave_angle(name, value, M1, gamma, check)
     if type(M1) is float and type(beta) is float:
         ratios = oblique_shock_ratios(M1, beta, gamma)
@@ -1124,12 +1127,14 @@ def _oblique_core(M1, value, gamma, check, *, name, strong):
         ratios = nx.chunked(oblique_shock_ratios, M1, beta, gamma)
     return (M1, ratios.deflection, beta, value if name == "Mn1" else ratios.Mn1, ratios.Mn2,
             ratios.M2, value if name == "p2_p1" else ratios.p2_p1, ratios.rho2_rho1,
-            ratios.T2_T1, ratios.p02_p01, value - 1.0 if name == "p2_p1" else ratios.strength)
+            ratios.T2_T1, ratios.p02_p01, value - 1.0 if name == "p2_p1" else ratios.strength,
+            gamma, gamma)
 
 
 def oblique_shock(M1: ArrayInput, *, deflection: ArrayInput = None, wave_angle: ArrayInput = None,
                   Mn1: ArrayInput = None, p2_p1: ArrayInput = None, branch: str = "weak",
-                  gamma: ArrayInput = 1.4, errors: str = "raise") -> ObliqueShock:
+                  T1: ArrayInput = None, gamma: ArrayInput = None, gas=None,
+                  errors: str = "raise") -> ObliqueShock:
     """Oblique shock from the upstream Mach number and one of θ, β, Mn1 or p2/p1.
 
     Parameters
@@ -1146,21 +1151,32 @@ def oblique_shock(M1: ArrayInput, *, deflection: ArrayInput = None, wave_angle: 
         Static pressure ratio [-], between 1 and the normal-shock value.
     branch : {"weak", "strong"}, optional
         Root of the θ-β-M relation when ``deflection`` is given.
+    T1 : float, array_like or Quantity, optional
+        Static temperature ahead of the shock [K], > 0: required for a thermally perfect
+        ``gas`` (offset units such as °C are converted); with a perfect gas it is checked
+        and broadcast but does not change the ratios.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``). A thermally perfect gas
+        (:data:`~gasdyn2d.AIR_THERMALLY_PERFECT`) needs ``T1`` and no ``gamma``.
     errors : {"raise", "nan"}, optional
         ``"nan"`` returns NaN for invalid elements instead of raising.
 
     Returns
     -------
     ObliqueShock
+        ``gamma1`` and ``gamma2`` are γ at the temperatures ahead of and behind the
+        shock (both ``gamma`` for a perfect gas).
 
     Raises
     ------
     DetachedShockError
-        ``deflection`` above θmax(M1, γ); the message gives θmax.
+        ``deflection`` above θmax(M1, γ) (θmax(M1, T1) for a thermally perfect gas);
+        the message gives θmax.
     InvalidInputError
-        Any other input outside its range, gamma <= 1, several inputs.
+        Any other input outside its range, gamma <= 1, several inputs, a thermally
+        perfect gas without ``T1`` (or with ``gamma``), a non-positive ``T1``.
 
     Notes
     -----
@@ -1169,9 +1185,16 @@ def oblique_shock(M1: ArrayInput, *, deflection: ArrayInput = None, wave_angle: 
     cancellation-free variable: exact to rounding from the Mach wave (θ → 0)
     to close to detachment, with no iteration to convergence.
 
+    For a thermally perfect gas (:mod:`~gasdyn2d.relations.thermally_perfect_oblique`)
+    the normal component obeys the thermally perfect normal shock at the same T1 and the
+    tangential velocity is conserved; from ``deflection`` the jump τ = T2/T1 - 1 starts
+    from the perfect-gas solution and takes three Newton steps on tan θ(τ) (a bracketed
+    iteration for the few cases near detachment).
+
     References
     ----------
-    Ames Research Staff (1953), NACA Report 1135, eqs. 138-150.
+    Ames Research Staff (1953), NACA Report 1135, eqs. 138-150 (and its imperfect-gas
+    section for the thermally perfect gas, from memory).
     Thompson, M. J. (1950), "A note on the calculation of oblique shock-wave
     characteristics", J. Aeronaut. Sci. 17(11), 744.
     Wolf, T. (1993), "Comment on approximate formula of weak oblique shock
@@ -1185,25 +1208,42 @@ def oblique_shock(M1: ArrayInput, *, deflection: ArrayInput = None, wave_angle: 
     (39.3139, 1.70658)
     >>> round(oblique_shock(2.0, deflection=10 * ureg.deg, branch="strong").wave_angle.m, 4)
     83.7001
+    >>> from gasdyn2d import AIR_THERMALLY_PERFECT
+    >>> hot = oblique_shock(5.0, deflection=0.5, T1=300.0, gas=AIR_THERMALLY_PERFECT)
+    >>> round(float(np.degrees(hot.wave_angle)), 4), round(hot.p2_p1, 4)
+    (39.9462, 11.9818)
     """
+    if gas is None and gamma is None:
+        gamma = 1.4
     if (type(M1) is float and type(deflection) is float and type(gamma) is float
             and 1.0 <= M1 < math.inf and 0.0 <= deflection <= TWO_PI and 1.0 < gamma < math.inf
-            and wave_angle is None and Mn1 is None and p2_p1 is None
-            and errors in SCALAR_CHECKS and branch in _BRANCHES):
+            and wave_angle is None and Mn1 is None and p2_p1 is None and T1 is None
+            and gas is None and errors in SCALAR_CHECKS and branch in _BRANCHES):
         # the scalar fast lane: valid plain floats and an attached shock, for which the
         # general path's checked core returns exactly these fields; anything else (a
         # detached shock among them) takes the general path and its message
         beta, *fields = _shock_from_deflection_scalar(M1, deflection, gamma, branch == "strong")
         if beta == beta:
-            return ObliqueShock.from_fields((M1, deflection, beta, *fields))
+            return ObliqueShock.from_fields((M1, deflection, beta, *fields, gamma, gamma))
     name, value = one_of("oblique_shock", deflection=deflection, wave_angle=wave_angle, Mn1=Mn1,
                          p2_p1=p2_p1)
     strong = choice("branch", branch, {"weak": False, "strong": True})
+    gamma, hot = gas_of_call("oblique_shock", gamma, gas, T1, "T1",
+                             "upstream static temperature")
     call = Call(errors)
     call.take("M1", M1)
     call.take(name, value, "rad" if name in ("deflection", "wave_angle") else "")
-    call.take("gamma", gamma, keep_scalar=True)
-    return call.run(ObliqueShock, _oblique_core, name=name, strong=strong)
+    if hot is None:
+        call.take("gamma", gamma, keep_scalar=True)
+        if T1 is None:
+            return call.run(ObliqueShock, _oblique_core, name=name, strong=strong)
+    from .thermally_perfect_calls import hot_oblique_core, perfect_with_temperature
+
+    call.take("T1", T1, "K")
+    if hot is None:  # a perfect gas: T1 checked and broadcast, the ratios do not depend on it
+        return call.run(ObliqueShock, perfect_with_temperature(_oblique_core, "T1"), name=name,
+                        strong=strong)
+    return call.run(ObliqueShock, hot_oblique_core, name=name, strong=strong, gas=hot)
 
 
 _ANGLE_PAIR = (FieldInfo("deflection", "rad", np.dtype(float), "flow deflection θ", "rad"),
@@ -1213,32 +1253,49 @@ _ANGLE_PAIR = (FieldInfo("deflection", "rad", np.dtype(float), "flow deflection 
 _BRANCHES = ("weak", "strong")
 
 
-def _angle_pair(M1, gamma, errors, plain):
+def _angle_pair(function, M1, T1, gamma, gas, errors, plain):
+    if gas is None and gamma is None:
+        gamma = 1.4
     if (type(M1) is float and type(gamma) is float and 1.0 <= M1 < math.inf
-            and 1.0 < gamma < math.inf and errors in SCALAR_CHECKS):
+            and 1.0 < gamma < math.inf and T1 is None and gas is None
+            and errors in SCALAR_CHECKS):
         return plain(M1, gamma)  # the scalar fast lane (plain cores dispatch to math forms)
+    gamma, hot = gas_of_call(function, gamma, gas, T1, "T1", "upstream static temperature")
     call = Call(errors)
     call.take("M1", M1)
-    call.take("gamma", gamma, keep_scalar=True)
 
     def core(M1, gamma, check):
         gamma = check.gamma(gamma)
         return plain(check.supersonic_mach(M1, "M1"), gamma)
 
-    theta, beta = call.evaluate(_ANGLE_PAIR, core)
-    return theta, beta
+    if hot is None:
+        call.take("gamma", gamma, keep_scalar=True)
+        if T1 is None:
+            return tuple(call.evaluate(_ANGLE_PAIR, core))
+    from . import thermally_perfect_calls as calls
+
+    call.take("T1", T1, "K")
+    if hot is None:  # a perfect gas: T1 checked and broadcast, the angles do not depend on it
+        return tuple(call.evaluate(_ANGLE_PAIR, calls.perfect_with_temperature(core, "T1")))
+    hot_core = calls.hot_detachment_core if plain is detachment_angles else calls.hot_sonic_core
+    return tuple(call.evaluate(_ANGLE_PAIR, hot_core, gas=hot))
 
 
-def max_deflection(M1: ArrayInput, *, gamma: ArrayInput = 1.4,
-                   errors: str = "raise") -> tuple[FloatArray, FloatArray]:
+def max_deflection(M1: ArrayInput, *, T1: ArrayInput = None, gamma: ArrayInput = None,
+                   gas=None, errors: str = "raise") -> tuple[FloatArray, FloatArray]:
     """Detachment point: the largest deflection an attached shock can give, and its wave angle.
 
     Parameters
     ----------
     M1 : float or array_like
         Upstream Mach number [-], >= 1.
+    T1 : float, array_like or Quantity, optional
+        Static temperature ahead of the shock [K], > 0: required for a thermally perfect
+        ``gas``; with a perfect gas it is checked and broadcast, and not used.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``); a thermally perfect one needs ``T1``.
     errors : {"raise", "nan"}, optional
         What to do with invalid elements.
 
@@ -1249,7 +1306,9 @@ def max_deflection(M1: ArrayInput, *, gamma: ArrayInput = 1.4,
 
     Notes
     -----
-    Closed form (NACA Report 1135, eq. 168); θmax → asin(1/γ) as M1 → ∞.
+    Closed form (NACA Report 1135, eq. 168); θmax → asin(1/γ) as M1 → ∞. For a
+    thermally perfect gas, a bracketed Newton iteration on d tan θ/dτ = 0 along the
+    shock polar in τ = T2/T1 - 1 (:func:`~gasdyn2d.relations.thermally_perfect_oblique.detachment_angles`).
 
     References
     ----------
@@ -1263,19 +1322,24 @@ def max_deflection(M1: ArrayInput, *, gamma: ArrayInput = 1.4,
     >>> round(float(np.degrees(theta)), 4), round(float(np.degrees(beta)), 3)
     (22.9735, 64.669)
     """
-    return _angle_pair(M1, gamma, errors, detachment_angles)
+    return _angle_pair("max_deflection", M1, T1, gamma, gas, errors, detachment_angles)
 
 
-def sonic_deflection(M1: ArrayInput, *, gamma: ArrayInput = 1.4,
-                     errors: str = "raise") -> tuple[FloatArray, FloatArray]:
+def sonic_deflection(M1: ArrayInput, *, T1: ArrayInput = None, gamma: ArrayInput = None,
+                     gas=None, errors: str = "raise") -> tuple[FloatArray, FloatArray]:
     """Deflection and wave angle at which the flow behind the shock is exactly sonic.
 
     Parameters
     ----------
     M1 : float or array_like
         Upstream Mach number [-], >= 1.
+    T1 : float, array_like or Quantity, optional
+        Static temperature ahead of the shock [K], > 0: required for a thermally perfect
+        ``gas``; with a perfect gas it is checked and broadcast, and not used.
     gamma : float or array_like, optional
-        Ratio of specific heats [-], > 1.
+        Ratio of specific heats of a perfect gas [-], > 1 (default 1.4, or ``gas.gamma``).
+    gas : Gas, optional
+        The gas (default: a perfect gas of ``gamma``); a thermally perfect one needs ``T1``.
     errors : {"raise", "nan"}, optional
         What to do with invalid elements.
 
@@ -1295,4 +1359,4 @@ def sonic_deflection(M1: ArrayInput, *, gamma: ArrayInput = 1.4,
     >>> round(oblique_shock(3.0, wave_angle=beta).M2, 12)
     1.0
     """
-    return _angle_pair(M1, gamma, errors, sonic_angles)
+    return _angle_pair("sonic_deflection", M1, T1, gamma, gas, errors, sonic_angles)

@@ -103,6 +103,7 @@ __all__ = [
     "fan_from_turn",
     "fan_from_pressure_ratio",
     "fan_from_downstream_mach",
+    "isentropic_compression_from_turn",
 ]
 
 _MACH_STEPS = 4  # Newton steps for d(M): from γ(T0)'s value, 3 reach rounding (measured)
@@ -272,20 +273,26 @@ def sonic_temperature(T0, gas):
     return static_temperature(1.0, T0, gas)
 
 
-def _temperature_from_enthalpy_per_R(H, cf, theta):
+def _temperature_from_enthalpy_per_R(H, cf, theta, below=None, steps=_ENTHALPY_STEPS,
+                                     accept=_ACCEPT_STEP):
     """T [K] from h/R [K]: Newton from an upper bound, monotone since h is convex in T.
 
     h >= c_f T and, because 1/(e^x - 1) >= 1/x - 1/2, h >= (c_f + 1) T - R θ/2: both
     T <= H/c_f and T <= (H + θ/2)/(c_f + 1); the smaller is the start, and Newton on a
-    convex increasing function from above never overshoots the root.
+    convex increasing function from above never overshoots the root. ``below``: a known
+    state (T1, h1/R, c1) below the root gives a third, much closer bound
+    T <= T1 + (H - h1)/c1 (the tangent at T1 lies below the convex h).
     """
     T = np.minimum(H / cf, (H + 0.5 * theta) / (cf + 1.0))
+    if below is not None:
+        T1, H1, c1 = below
+        T = np.minimum(T, T1 + (H - H1) / c1)
     with np.errstate(all="ignore"):
-        for _ in range(_ENTHALPY_STEPS):
+        for _ in range(steps):
             x, E, om = oscillator_terms(T, theta)
             step = (_enthalpy(T, E, om, cf, theta) - H) / _heat_capacity(x, E, om, cf)
             T = T - step
-        retry = ~(np.abs(step) <= _ACCEPT_STEP * T) & np.isfinite(H) & (H > 0)
+        retry = ~(np.abs(step) <= accept * T) & np.isfinite(H) & (H > 0)
         if nx.any_true(retry):
             H_r = np.broadcast_to(H, T.shape)[retry]
 
@@ -316,12 +323,22 @@ def temperature_from_enthalpy(h, gas):
     return _temperature_from_enthalpy_per_R(h / gas.R, cf, theta)
 
 
+#: Newton steps for T0 from the stream's own tangent bound, and the last step accepted
+#: (relative): from above the error after a step s is at most (T c'/2c) s² <= 0.15 s² (h
+#: convex), so a last step of 2e-8 leaves < 1e-16; from a start within 4 % (the tangent
+#: bound at M <= 20, T <= 6000 K, measured) three steps reach it
+_STAGNATION_STEPS = 3
+_STAGNATION_ACCEPT = 2e-8
+
+
 def _stagnation_per_R(M, T, cf, theta):
     """(h0/R [K], T0 [K], state terms at T) for a stream (M, T)."""
     x, E, om = oscillator_terms(T, theta)
     c = _heat_capacity(x, E, om, cf)
-    H0 = _enthalpy(T, E, om, cf, theta) + 0.5 * M * M * c / (c - 1.0) * T  # + V²/(2R)
-    return H0, _temperature_from_enthalpy_per_R(H0, cf, theta), (x, E, om, c)
+    H = _enthalpy(T, E, om, cf, theta)
+    H0 = H + 0.5 * M * M * c / (c - 1.0) * T  # + V²/(2R)
+    return H0, _temperature_from_enthalpy_per_R(H0, cf, theta, (T, H, c), _STAGNATION_STEPS,
+                                                _STAGNATION_ACCEPT), (x, E, om, c)
 
 
 def stagnation_temperature(M, T, gas):
@@ -729,6 +746,9 @@ class FanState(NamedTuple):
     T2_T1: np.ndarray  #: static temperature ratio, <= 1
     rho2_rho1: np.ndarray  #: density ratio, <= 1
     gamma2: np.ndarray  #: ratio of specific heats behind the fan
+    nu1: np.ndarray  #: Prandtl–Meyer angle ahead of the fan [rad] (at the stream's T0)
+    nu2: np.ndarray  #: Prandtl–Meyer angle behind the fan [rad]
+    gamma1: np.ndarray  #: ratio of specific heats ahead of the fan
 
 
 def _upstream(M1, T1, cf, theta):
@@ -740,17 +760,19 @@ def _upstream(M1, T1, cf, theta):
     return T0, d1, ds, _nu_of_excess(d1, T0, ds, cf, theta), (x1, E1, om1)
 
 
-def _fan_state(T0, T1, d2, turn, terms1, cf, theta):
+def _fan_state(T0, T1, d2, turn, terms1, cf, theta, nu1, nu2):
     x1, E1, om1 = terms1
     T2 = T0 / (1.0 + d2)
     x2, E2, om2 = oscillator_terms(T2, theta)
     with np.errstate(all="ignore"):
         log_T = np.log(T2 / T1)
         log_p = cf * log_T + _vibrational_entropy(x2, E2, om2) - _vibrational_entropy(x1, E1, om1)
+        c1 = _heat_capacity(x1, E1, om1, cf)
         c2 = _heat_capacity(x2, E2, om2, cf)
         M2 = _mach_from_excess(d2, T0, cf, theta)
     return FanState(np.where(d2 == np.inf, np.inf, M2), turn, np.exp(log_p), T2 / T1,
-                    np.exp(log_p - log_T), c2 / (c2 - 1.0))
+                    np.exp(log_p - log_T), c2 / (c2 - 1.0), nu1 + np.zeros(np.shape(turn)),
+                    np.where(np.isnan(d2), np.nan, nu2), c1 / (c1 - 1.0) + np.zeros(np.shape(turn)))
 
 
 def fan_from_turn(M1, T1, turn, gas):
@@ -768,12 +790,40 @@ def fan_from_turn(M1, T1, turn, gas):
     >>> round(float(fan.M2), 5), round(float(fan.p2_p1), 5)  # 2.38264, 0.54797 if perfect
     (2.33679, 0.57103)
     """
+    return _simple_wave_from_turn(M1, T1, turn, gas, compression=False)
+
+
+def _simple_wave_from_turn(M1, T1, turn, gas, compression):
+    """ν2 = ν1 + turn at the stream's T0; turn < 0 (an isentropic compression) only when
+    ``compression`` (NaN below ν2 = 0: no simple wave compresses past sonic speed)."""
     cf, theta = gas_constants(gas)
     M1, T1, turn = _prepare(M1, kelvin(T1), turn)
     T0, d1, ds, nu1, terms1 = _upstream(M1, T1, cf, theta)
     with np.errstate(invalid="ignore"):
-        d2 = _excess_from_nu(np.where(turn >= 0.0, nu1 + turn, np.nan), T0, cf, theta)
-    return _fan_state(T0, T1, d2, turn, terms1, cf, theta)
+        nu2 = nu1 + turn if compression else np.where(turn >= 0.0, nu1 + turn, np.nan)
+        d2 = _excess_from_nu(nu2, T0, cf, theta)
+        d2 = np.where(turn == 0.0, d1, d2)  # no turn: the upstream state itself
+    return _fan_state(T0, T1, d2, turn, terms1, cf, theta, nu1, nu2)
+
+
+def isentropic_compression_from_turn(M1, T1, turn, gas):
+    """Plain core: the centred simple wave that turns a stream (M1 >= 1, T1 [K]) by ``turn``
+    [rad] away from itself (turn >= 0, a fan) or into itself (turn < 0, an isentropic
+    compression: ν2 = ν1 + turn >= 0, NaN past the sonic state).
+
+    The fields are those of :class:`FanState` (``turn`` as given, signed).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
+    >>> from gasdyn2d.relations.thermally_perfect import isentropic_compression_from_turn
+    >>> wave = isentropic_compression_from_turn(2.0, 1500.0, np.radians(-10.0),
+    ...                                         AIR_THERMALLY_PERFECT)
+    >>> round(float(wave.M2), 5), round(float(wave.p2_p1), 5)
+    (1.68609, 1.65113)
+    """
+    return _simple_wave_from_turn(M1, T1, turn, gas, compression=True)
 
 
 def fan_from_pressure_ratio(M1, T1, p2_p1, gas):
@@ -798,8 +848,8 @@ def fan_from_pressure_ratio(M1, T1, p2_p1, gas):
         d_rel = _isentropic_log_ratio_excess(np.log(p), T1, cf, theta, False)
         d2 = (1.0 + d1) * (1.0 + d_rel) - 1.0
         d2 = np.where(p <= 1.0, d2, np.nan)
-        turn = _nu_of_excess(d2, T0, ds, cf, theta) - nu1
-    return _fan_state(T0, T1, d2, turn, terms1, cf, theta)
+        nu2 = _nu_of_excess(d2, T0, ds, cf, theta)
+    return _fan_state(T0, T1, d2, nu2 - nu1, terms1, cf, theta, nu1, nu2)
 
 
 def fan_from_downstream_mach(M1, T1, M2, gas):
@@ -819,5 +869,5 @@ def fan_from_downstream_mach(M1, T1, M2, gas):
     T0, d1, ds, nu1, terms1 = _upstream(M1, T1, cf, theta)
     with np.errstate(invalid="ignore"):
         d2 = np.where(M2 >= M1, _excess_from_mach(M2, T0, cf, theta), np.nan)
-        turn = _nu_of_excess(d2, T0, ds, cf, theta) - nu1
-    return _fan_state(T0, T1, d2, turn, terms1, cf, theta)
+        nu2 = _nu_of_excess(d2, T0, ds, cf, theta)
+    return _fan_state(T0, T1, d2, nu2 - nu1, terms1, cf, theta, nu1, nu2)

@@ -81,6 +81,9 @@ __all__ = [
     "normal_jump",
     "entropy_rise",
     "upstream_mach",
+    "jump_strength",
+    "log_stagnation_over_static",
+    "normal_shock_and_pitot",
 ]
 
 _FIXED_STEPS = 2  # fixed-point steps τ ← P(c̄(τ)) - 1 before Newton (contraction <= 0.06)
@@ -319,6 +322,17 @@ class NormalShockRatios(NamedTuple):
     T2_T1: np.ndarray  #: static temperature ratio
     p02_p01: np.ndarray  #: stagnation pressure ratio, exp(-(s2 - s1)/R)
     gamma2: np.ndarray  #: ratio of specific heats behind the shock
+    strength: np.ndarray  #: (p2 - p1)/p1 = (τ + 1 - ε)/ε, without cancellation
+    gamma1: np.ndarray  #: ratio of specific heats ahead of the shock
+
+
+def jump_strength(tau, jump):
+    """Plain core: the shock strength (p2 - p1)/p1 [-] of a jump, without cancellation.
+
+    p2/p1 = t/ε with t = 1 + τ, so p2/p1 - 1 = (τ + (1 - ε))/ε: a sum of the two
+    small quantities that the jump carries to full precision.
+    """
+    return (tau + jump.delta) / jump.eps
 
 
 def _normal_block(M1, T1, gas):
@@ -328,14 +342,41 @@ def _normal_block(M1, T1, gas):
         tau = normal_jump(w, up)
         j = shock_jump(tau, up, derivatives=False)
         gamma2 = j.c2 / (j.c2 - 1.0)
-        mu = up.c1 / (up.c1 - 1.0) * (1.0 + w)
+        gamma1 = up.c1 / (up.c1 - 1.0)
+        mu = gamma1 * (1.0 + w)
         M2 = j.eps * np.sqrt(mu / (gamma2 * j.t))
         invalid = ~(M1 >= 1.0)
         out = NormalShockRatios(M2, j.t / j.eps, j.BS / (2.0 * j.t), j.t,
-                                np.exp(-entropy_rise(j, tau, up)), gamma2)
+                                np.exp(-entropy_rise(j, tau, up)), gamma2,
+                                jump_strength(tau, j), np.broadcast_to(gamma1, M2.shape))
     if nx.any_true(invalid):
         out = NormalShockRatios(*(np.where(invalid, np.nan, v) for v in out))
     return out
+
+
+def _normal_block_with_pitot(M1, T1, gas):
+    ratios = _normal_block(M1, T1, gas)
+    with np.errstate(all="ignore"):
+        pitot = ratios.p02_p01 * np.exp(log_stagnation_over_static(M1, T1,
+                                                                  upstream_state(T1, gas)))
+    return (*ratios, pitot)
+
+
+def normal_shock_and_pitot(M1, T1, gas):
+    """Plain core: (:class:`NormalShockRatios`, pitot ratio p02/p1) in one pass over cache-sized
+    blocks (what :func:`~gasdyn2d.normal_shock` needs; cheaper than the two calls apart).
+
+    Examples
+    --------
+    >>> from gasdyn2d.relations.gas import AIR_THERMALLY_PERFECT
+    >>> from gasdyn2d.relations.thermally_perfect_shocks import normal_shock_and_pitot
+    >>> shock, pitot = normal_shock_and_pitot(3.0, 300.0, AIR_THERMALLY_PERFECT)
+    >>> round(float(pitot), 5)
+    12.10044
+    """
+    M1, T1 = np.broadcast_arrays(np.asarray(M1, dtype=float), np.asarray(T1, dtype=float))
+    *fields, pitot = nx.chunked(lambda m, t: _normal_block_with_pitot(m, t, gas), M1, T1)
+    return NormalShockRatios(*fields), pitot
 
 
 def normal_shock_ratios(M1, T1, gas):
@@ -353,7 +394,8 @@ def normal_shock_ratios(M1, T1, gas):
     Returns
     -------
     NormalShockRatios
-        M2, p2/p1, ρ2/ρ1, T2/T1, p02/p01 and γ behind the shock.
+        M2, p2/p1, ρ2/ρ1, T2/T1, p02/p01, γ behind the shock, the strength
+        (p2 - p1)/p1 and γ ahead of it.
 
     Notes
     -----
@@ -373,8 +415,9 @@ def normal_shock_ratios(M1, T1, gas):
     return nx.chunked(lambda m, t: _normal_block(m, t, gas), M1, T1)
 
 
-def _log_stagnation_over_static(M1, T1, up):
-    """ln(p01/p1) = (φ(T01) - φ(T1))/R."""
+def log_stagnation_over_static(M1, T1, up):
+    """Plain core: ln(p01/p1) = (φ(T01) - φ(T1))/R [-] of a stream (M1, T1 [K]) whose gas
+    terms at T1 are ``up`` (:func:`upstream_state`); T01 from the energy equation."""
     T0 = stagnation_temperature(M1, T1, up.gas)
     x0, E0, om0 = oscillator_terms(T0, up.theta)
     return up.cf * np.log(T0 / T1) + x0 * E0 / om0 - np.log(om0) - up.sv1
@@ -397,7 +440,7 @@ def pitot_ratio(M1, T1, gas):
     up = upstream_state(T1, gas)
     shock = normal_shock_ratios(M1, T1, gas)
     with np.errstate(all="ignore"):
-        return shock.p02_p01 * np.exp(_log_stagnation_over_static(M1, T1, up))
+        return shock.p02_p01 * np.exp(log_stagnation_over_static(M1, T1, up))
 
 
 # ------------------------------------------------------------------ normal-shock inverses
@@ -601,7 +644,7 @@ def mach_from_pitot_ratio(p02_p1, T1, gas):
         j = shock_jump(tau, up)
         M1 = upstream_mach(j, up)
         T0 = stagnation_temperature(M1, T1, up.gas)
-        value = _log_stagnation_over_static(M1, T1, up) - entropy_rise(j, tau, up)
+        value = log_stagnation_over_static(M1, T1, up) - entropy_rise(j, tau, up)
         slope = -((j.c2 - 1.0) / j.t + j.deps / j.eps) + T1 * j.dm / (2.0 * T0)
         return value - target, slope
 
@@ -615,7 +658,7 @@ def mach_from_pitot_ratio(p02_p1, T1, gas):
     up = upstream_state(T1, gas)
     with np.errstate(all="ignore"):
         target = np.log(value)
-        low = _log_stagnation_over_static(np.ones_like(T1), T1, up)  # M1 = 1: p0/p
+        low = log_stagnation_over_static(np.ones_like(T1), T1, up)  # M1 = 1: p0/p
         tau = _bracketed_tau(lambda x: residual(x, target, up), start(target, up),
                              np.zeros_like(target), np.full(target.shape, _TAU_MAX), True)
         M1 = upstream_mach(shock_jump(tau, up, derivatives=False), up)
