@@ -224,7 +224,9 @@ def _text_table(table: _RowTable) -> str:
              for h, c in zip(table.headers, table.columns)]
     index_width = max(len(t) for t in index)
     widths = [max(len(t) for t in column) for column in cells]
-    blocks, block, used = [], [], index_width
+    blocks: list = []
+    block: list = []
+    used = index_width
     for k, width in enumerate(widths):  # columns into blocks that fit the line width
         if block and used + 2 + width > TEXT_WIDTH:
             blocks.append(block)

@@ -55,7 +55,7 @@ class DesignCall:
     def __init__(self, function: str):
         self.function = function
         self.call = Call()
-        self.nan_inputs = []  # names of flow inputs given as NaN
+        self.nan_inputs: list = []  # names of flow inputs given as NaN
 
     # ------------------------------------------------------------------ inputs
     def scalar(self, name, value, unit_text="", *, nan="raise"):

@@ -101,7 +101,7 @@ class ShockTrain(NamedTuple):
     stagnation_pressure_ratio: np.ndarray
     detachment_deflection: np.ndarray
     #: static temperature over the free stream's, n + 1 entries like ``mach``
-    temperature_ratio: np.ndarray = None
+    temperature_ratio: np.ndarray | None = None
 
 
 def _isentropic_flags(isentropic, n):
@@ -1034,7 +1034,8 @@ def ramp_intake(M: ArrayInput, deflections: ArrayInput, *, design_mach: ArrayInp
             raise InvalidInputError(
                 f"ramp_intake takes the free stream as a FlowState or as M with T, gamma and "
                 f"gas; got a FlowState and {', '.join(given)}. Set them on the FlowState.")
-        M, T, gas = M.M, M.T, M.gas
+        state: FlowState = M
+        M, T, gas = state.M, state.T, state.gas
     gamma, hot = gas_of_call("ramp_intake", gamma, gas, T, "T", "free-stream static temperature")
     call = Call(errors)
     call.take("M", M)

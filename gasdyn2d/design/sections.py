@@ -8,6 +8,7 @@ between two points as a flat panel and every interior point as a corner.
 
 from __future__ import annotations
 
+import math
 import dataclasses
 
 import numbers
@@ -278,11 +279,13 @@ def _panel_count(n) -> int:
     """The biconvex panel count as an int; bools, text, fractions and too few refused."""
     if isinstance(n, (bool, np.bool_)) or not isinstance(n, numbers.Real):
         raise refuse_type("n", n, f"a whole number of panels >= {BICONVEX_MIN_PANELS}")
-    if not (np.isfinite(n) and int(n) == n and n >= BICONVEX_MIN_PANELS):
+    n_float = float(n)
+    if not (math.isfinite(n_float) and int(n_float) == n_float
+            and n_float >= BICONVEX_MIN_PANELS):
         raise InvalidInputError(
             f"n must be a whole number of panels >= {BICONVEX_MIN_PANELS} (one panel is the "
             f"chord itself: a flat plate of zero thickness); got {n!r}.")
-    return int(n)
+    return int(n_float)
 
 
 def _panel_angles(points: np.ndarray) -> np.ndarray:

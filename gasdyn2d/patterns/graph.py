@@ -112,7 +112,7 @@ class SolvePlan(NamedTuple):
     order: tuple
     deps: dict
     unknowns: tuple
-    index: dict
+    index: dict  # type: ignore[assignment]  # a field named like tuple.index, on purpose
     conditions: tuple
     gas: object = None  #: a thermally perfect Gas (regions then carry T), None for a perfect gas
 
@@ -145,7 +145,7 @@ def plan_pattern(inflow: str, waves, conditions) -> SolvePlan:
         raise IllPosedProblemError(
             f"the pattern has {len(unknowns)} unknown wave turn(s) ({listed}) but {n_eq} "
             f"condition(s) ({conds}): {advice}.")
-    deps = {inflow: frozenset()}
+    deps: dict = {inflow: frozenset()}
     for w in order:
         own = {w.name} if w.given == "unknown" else set()
         deps[w.downstream] = deps[w.upstream] | own
@@ -309,7 +309,7 @@ class WavePattern:
             self._take("T_in", "inflow.T", inflow.T, "K")
             self._take("g", "gamma", float(inflow.gas.gamma), keep_scalar=True)
         else:
-            self._inflow_state = None
+            self._inflow_state = None  # type: ignore[assignment]  # a Mach-number inflow
             self._take("M", "inflow", inflow)
             self._take("d", "direction", 0.0 if direction is None else direction, "rad")
             self._take("g", "gamma", 1.4 if gamma is None else gamma, keep_scalar=True)

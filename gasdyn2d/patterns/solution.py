@@ -19,6 +19,8 @@ import html
 import math
 from types import MappingProxyType
 
+from typing import Any
+
 import numpy as np
 
 from ..boundary import Call, result_fields
@@ -81,6 +83,24 @@ class PatternSolution:
     flow downstream. :attr:`meeting_points` lists every point so found.
     """
 
+    # set once by the constructor (the instance refuses every later assignment)
+    ok: Any
+    failure: Any
+    iterations: int
+    gamma: Any
+    _plan: Any
+    _shape: tuple
+    _si: Any
+    _call: Any
+    _inflow_si: Any
+    _inflow_state: Any
+    _regions: Any
+    _waves: Any
+    _starts: Any
+    _connections: Any
+    _conditions: tuple
+    _meetings: Any
+
     __slots__ = ("_plan", "_call", "_shape", "_regions", "_waves", "_connections",
                  "_conditions", "_meetings", "_si", "_starts", "_inflow_state",
                  "_inflow_si", "ok", "failure", "iterations", "gamma")
@@ -130,7 +150,7 @@ class PatternSolution:
         for link in plan.order:
             x, y = starts.get(link.name, (np.nan, np.nan))
             fields = pack.many((("start_x", "m"), ("start_y", "m")), (x, y))
-            connections[link.name] = WaveConnection(
+            connections[link.name] = WaveConnection(  # type: ignore[call-arg]  # *fields: 2
                 link.upstream, link.downstream, link.family, link.branch, link.compression,
                 link.given, *fields, sources.get(link.name, ""))
         put(self, "_connections", MappingProxyType(connections))
@@ -157,7 +177,7 @@ class PatternSolution:
         raise AttributeError(f"a PatternSolution is a snapshot of one solve and cannot be "
                              f"changed (tried to set {name!r}); solve the pattern again.")
 
-    __delattr__ = __setattr__
+    __delattr__ = __setattr__  # type: ignore[assignment]  # refuses deletions the same way
 
     # -- how the pattern is connected
     @property

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
+from typing import Any
 
 import numpy as np
 
@@ -211,7 +212,7 @@ def prandtl_meyer(M: ArrayInput, *, T0: ArrayInput = None, gamma: ArrayInput = N
     gamma, hot = gas_of_call("prandtl_meyer", gamma, gas, T0, "T0", "stagnation temperature")
     call = Call(errors)
     call.take("M", M)
-    from_hot = None
+    from_hot: Any = None
     if hot is not None:
         from .thermally_perfect_calls import hot_prandtl_meyer_core as from_hot
     return _run_value("prandtl_meyer", call, T0, "T0", gamma, hot, _prandtl_meyer_core,
@@ -286,7 +287,7 @@ def mach_from_prandtl_meyer(nu: ArrayInput, *, T0: ArrayInput = None,
     call = Call(errors)
     call.take("nu", nu, "rad",
               degrees_above=prandtl_meyer_degree_limit(gamma) if hot is None else TWO_PI)
-    from_hot = None
+    from_hot: Any = None
     if hot is not None:
         from .thermally_perfect_calls import hot_mach_from_prandtl_meyer_core as from_hot
     return _run_value("mach_from_prandtl_meyer", call, T0, "T0", gamma, hot,
