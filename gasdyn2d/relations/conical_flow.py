@@ -42,7 +42,7 @@ from ..boundary.types import ArrayInput, FloatArray
 from ..boundary.units import TWO_PI
 from ..errors import DetachedShockError, NoSolutionError
 from ..numerics import nan_where_nan
-from .isentropic import mach_angle_of
+from .prandtl_meyer_function import mach_angle_of
 from .normal_shocks import normal_shock_ratios
 from .oblique_shocks import detachment_angles, wv_from_deflection
 from .taylor_maccoll import ARRAY_MATH, march_shock_layer, shock_start, step_count

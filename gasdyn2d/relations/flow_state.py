@@ -11,7 +11,7 @@ from ..boundary.types import ArrayInput, FloatArray
 from ..errors import InvalidInputError
 from .gas import AIR, Gas
 from .prandtl_meyer_function import prandtl_meyer_angle
-from .isentropic import mach_angle_of
+from .prandtl_meyer_function import mach_angle_of
 
 __all__ = ["FlowState"]
 

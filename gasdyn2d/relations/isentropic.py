@@ -31,6 +31,7 @@ from .prandtl_meyer_function import (
     prandtl_meyer_degree_limit,
     prandtl_meyer_of_root,
 )
+from .prandtl_meyer_function import mach_angle_of, mach_from_mach_angle  # re-exported here
 
 __all__ = [
     "isentropic_flow",
@@ -160,31 +161,6 @@ def area_ratio(M, gamma=1.4):
 
 def _area_ratio_scalar(M, gamma):
     return nx.fexp(_log_area_ratio_scalar(M, gamma))
-
-def mach_angle_of(M):
-    """μ = asin(1/M) [rad] for M >= 1 (NaN below), as atan2(1, √(M²-1)) for accuracy near M = 1."""
-    if nx.plain_scalars(M):
-        return _mach_angle_scalar(M)
-    M = np.asarray(M, dtype=float)
-    if nx.any_true(M > HUGE_MACH):  # √(M² - 1) = M to rounding there (and M² may overflow)
-        with np.errstate(invalid="ignore", over="ignore"):
-            return np.arctan2(1.0, np.where(M > HUGE_MACH, M, np.sqrt((M - 1.0) * (M + 1.0))))
-    with np.errstate(invalid="ignore"):
-        return np.arctan2(1.0, np.sqrt((M - 1.0) * (M + 1.0)))
-
-
-def _mach_angle_scalar(M):
-    if M > HUGE_MACH:
-        return math.atan2(1.0, M)
-    return math.atan2(1.0, nx.fsqrt((M - 1.0) * (M + 1.0)))
-
-
-def mach_from_mach_angle(mu):
-    """M = 1/sin μ for 0 < μ <= π/2."""
-    if type(mu) is float:
-        return 1.0 / math.sin(mu)
-    return 1.0 / np.sin(np.asarray(mu, dtype=float))
-
 
 def mach_from_temperature_ratio(T_T0, gamma=1.4):
     """M = √(2(1 - T/T0)/((γ-1) T/T0)) for 0 < T/T0 <= 1."""

@@ -38,7 +38,7 @@ from ..boundary.units import TWO_PI
 from ..boundary.results import FieldInfo
 from ..boundary.types import ArrayInput, FloatArray
 from ..errors import DetachedShockError, NoSolutionError
-from .isentropic import mach_angle_of
+from .prandtl_meyer_function import mach_angle_of
 from .gas import gas_of_call
 from .normal_shocks import normal_shock_ratios
 

@@ -1,4 +1,5 @@
-"""The Prandtl–Meyer function and its inverse (plain core, the floor's lowest module).
+"""The Mach-wave functions: the Mach angle, the Prandtl–Meyer function and their inverses
+(plain core, the floor's lowest module).
 
 ν(M) is the turn that expands a sonic stream isentropically to Mach M; it is used
 by the isentropic relations (the ν field and input of ``isentropic_flow``), the
@@ -17,6 +18,8 @@ from .. import numerics as nx
 from ..numerics import HUGE_MACH
 
 __all__ = [
+    "mach_angle_of",
+    "mach_from_mach_angle",
     "prandtl_meyer_angle",
     "prandtl_meyer_of_root",
     "mach_from_prandtl_meyer_angle",
@@ -201,6 +204,31 @@ def _mach_from_prandtl_meyer_angle_scalar(nu, gamma):
         newton = nx.fdiv(_nu_of_z_scalar(z, gamma) - nu, slope)
         log_z = log_z - nx.fdiv(newton, 1.0 - 0.5 * newton * curvature)
     return math.hypot(1.0, nx.fexp(log_z))
+
+
+def mach_angle_of(M):
+    """μ = asin(1/M) [rad] for M >= 1 (NaN below), as atan2(1, √(M²-1)) for accuracy near M = 1."""
+    if nx.plain_scalars(M):
+        return _mach_angle_scalar(M)
+    M = np.asarray(M, dtype=float)
+    if nx.any_true(M > HUGE_MACH):  # √(M² - 1) = M to rounding there (and M² may overflow)
+        with np.errstate(invalid="ignore", over="ignore"):
+            return np.arctan2(1.0, np.where(M > HUGE_MACH, M, np.sqrt((M - 1.0) * (M + 1.0))))
+    with np.errstate(invalid="ignore"):
+        return np.arctan2(1.0, np.sqrt((M - 1.0) * (M + 1.0)))
+
+
+def _mach_angle_scalar(M):
+    if M > HUGE_MACH:
+        return math.atan2(1.0, M)
+    return math.atan2(1.0, nx.fsqrt((M - 1.0) * (M + 1.0)))
+
+
+def mach_from_mach_angle(mu):
+    """M = 1/sin μ for 0 < μ <= π/2."""
+    if type(mu) is float:
+        return 1.0 / math.sin(mu)
+    return 1.0 / np.sin(np.asarray(mu, dtype=float))
 
 
 def check_prandtl_meyer_angle(nu, gamma, name, check):

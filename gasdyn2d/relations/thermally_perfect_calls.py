@@ -44,7 +44,7 @@ from ..boundary.checks import clamp_to_limit
 from . import thermally_perfect as tp
 from . import thermally_perfect_oblique as tpo
 from . import thermally_perfect_shocks as tps
-from .isentropic import mach_angle_of, mach_from_mach_angle
+from .prandtl_meyer_function import mach_angle_of, mach_from_mach_angle
 from .oblique_shocks import wave_angle_from_normal_excess
 
 __all__ = [
