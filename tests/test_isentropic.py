@@ -321,7 +321,7 @@ def test_subsonic_flow_has_no_mach_or_prandtl_meyer_angle():
 
 # ----------------------------------------------------------------- fixed-step inverse
 
-from gasdyn2d.relations.isentropic import _area_ratio_fallback, _area_ratio_halley  # noqa: E402
+from gasdyn2d.relations.area_ratio import _area_ratio_fallback, _area_ratio_halley  # noqa: E402
 
 
 @pytest.mark.parametrize("supersonic", [True, False])

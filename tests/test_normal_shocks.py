@@ -258,7 +258,7 @@ def test_pitot_ratio_at_the_sonic_limit_is_accepted():
 
 # ----------------------------------------------------------------- fixed-step inverses
 
-from gasdyn2d.relations.normal_shocks import (  # noqa: E402
+from gasdyn2d.relations.normal_shock_inverses import (  # noqa: E402
     _pitot_halley,
     _stagnation_ratio_halley,
     mach_from_pitot_ratio,

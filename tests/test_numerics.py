@@ -13,7 +13,7 @@ from gasdyn2d import numerics as nx
 from gasdyn2d.boundary import Call
 from gasdyn2d.boundary.checks import Check, clamp_to_limit
 from gasdyn2d.errors import InvalidInputError
-from gasdyn2d.relations.isentropic import _area_root_and_slopes, _area_ratio_start, area_ratio
+from gasdyn2d.relations.area_ratio import _area_root_and_slopes, _area_ratio_start, area_ratio
 
 
 class CountingResidual:
