@@ -229,3 +229,22 @@ def test_oblique_limits_at_infinite_mach():
     assert theta_max == pytest.approx(math.asin(1 / 1.4), rel=4 * ref.EPS)
     ratios = obl.oblique_shock_ratios(np.inf, 0.4, 1.4)
     assert not np.isnan(ratios.deflection) and float(ratios.rho2_rho1) == pytest.approx(6.0)
+
+
+@pytest.mark.parametrize("M1", [1e155, 1e200, np.inf])
+@pytest.mark.parametrize("fraction", [0.99999, 0.9999999, 1.0 - 1e-9])
+def test_near_detachment_where_the_mach_number_squared_overflows(M1, fraction):
+    # found by the scalar-form property test: with 1/(M1² - 1) = 0 the near-detachment
+    # polish met 0·∞ at its bracket's end and returned β ~ 1e-6 rad (a silent wrong number);
+    # there the relation is the M1 → ∞ one, so β must equal that at M1 = 1e150 and θ(β)
+    # must give θ back (NACA Report 1135, eq. 138, invented edge case)
+    from gasdyn2d.relations.oblique_shocks import (deflection_from_wave_angle,
+                                                   detachment_angles, wave_angle_from_deflection)
+    gamma = 1.1875
+    theta = float(detachment_angles(M1, gamma)[0]) * fraction
+    for beta in (wave_angle_from_deflection(M1, theta, gamma),
+                 float(wave_angle_from_deflection(np.array([M1]), np.array([theta]), gamma)[0])):
+        limit = float(wave_angle_from_deflection(1e150, theta, gamma))
+        assert beta == pytest.approx(limit, rel=1e-9)
+        back = float(deflection_from_wave_angle(np.array([M1]), np.array([beta]), gamma)[0])
+        assert back == pytest.approx(theta, rel=1e-9)

@@ -512,7 +512,7 @@ def test_scaled_cubic_roots_solve_the_published_cubic():
     # must be roots of eq. 150 (evaluated at 40 digits; residual relative to its terms)
     import mpmath as mp
 
-    from gasdyn2d.relations.oblique_shocks import _cubic_root
+    from gasdyn2d.relations.theta_beta_mach import _cubic_root
 
     for M1, g, fraction in [(1.0 + 1e-6, 1.4, 0.3), (1.3, 1.1, 0.8), (4.0, 1.67, 0.5),
                             (40.0, 1.4, 0.01)]:

@@ -9,20 +9,27 @@ ramp wave on the lip at the design Mach number, the spillage of that fixed
 geometry off design, the ramp shocks that merge ahead of the cowl off design,
 and a flag for shocks strong enough to separate a turbulent boundary layer.
 
-Plain core (floats and ndarrays, radians, no pint):
+Unit boundary: :func:`ramp_intake` (result :class:`RampIntake`), in this module. Its
+plain core lives beside it, and the first four modules' plain cores are re-exported here
+under the paths they always had (``gasdyn2d.design.intakes.<name>``):
 
-- :func:`ramp_shock_train` — Mach number, wave angle, normal Mach number and
-  pressure ratios behind each ramp stage;
-- :func:`shock_on_lip_geometry` — ramp corners, ramp lengths and the lip;
-- :func:`lip_streamline_capture` — where each wave crosses the lip height and
-  the captured free-stream height, for any Mach number with the geometry fixed;
-- :func:`incipient_separation_pressure_ratio` — Korkegi's estimate of the
-  pressure rise that starts turbulent separation;
+- :mod:`gasdyn2d.design.ramp_trains` —
+  :func:`~gasdyn2d.design.ramp_trains.ramp_shock_train`, the Mach number, wave angle,
+  normal Mach number and pressure ratios behind each ramp stage, and
+  :func:`~gasdyn2d.design.ramp_trains.incipient_separation_pressure_ratio`, Korkegi's
+  estimate of the pressure rise that starts turbulent separation;
+- :mod:`gasdyn2d.design.intake_geometry` —
+  :func:`~gasdyn2d.design.intake_geometry.shock_on_lip_geometry`, the ramp corners, ramp
+  lengths and the lip, and :func:`~gasdyn2d.design.intake_geometry.lip_streamline_capture`,
+  where each wave crosses the lip height and the captured free-stream height, for any
+  Mach number with the geometry fixed;
+- :mod:`gasdyn2d.design.intake_off_design` — ramp shocks that merge ahead of the cowl,
+  and isentropic compressions whose characteristics cross ahead of it;
 - :mod:`gasdyn2d.design.intake_waves` — the isentropic stage's wall and where its
   characteristics cross, and where two ramp waves meet.
 
-Unit boundary: :func:`ramp_intake`. The optimum ramps and the starting limits
-of internal contraction live in :mod:`gasdyn2d.design.intake_design`.
+The optimum ramps and the starting limits of internal contraction live in
+:mod:`gasdyn2d.design.intake_design`.
 
 Coordinates: the first ramp's leading edge is the origin, the free stream runs
 along +x, and the ramps turn the flow towards +y (the cowl side). Ramp k's
@@ -32,7 +39,6 @@ surface is inclined at the ramp angle δk = θ1 + ... + θk to the free stream.
 from __future__ import annotations
 
 import dataclasses
-from typing import NamedTuple
 
 import numpy as np
 
@@ -41,26 +47,18 @@ from ..boundary.results import result_fields
 from ..boundary.types import ArrayInput, FloatArray
 from ..boundary.units import is_quantity
 from ..errors import DetachedShockError, InvalidInputError
-from ..patterns.interactions import merging_shocks
-from ..relations.expansion_fans import fan_pressure_ratio, mach_from_prandtl_meyer_angle, prandtl_meyer_angle
-from ..relations import thermally_perfect as tp
-from ..relations import thermally_perfect_oblique as tpo
 from ..relations import thermally_perfect_shocks as tps
 from ..relations.flow_state import FlowState
 from ..relations.gas import gas_of_call
-from ..relations.isentropic import mach_angle_of
 from ..relations.normal_shocks import normal_shock_ratios
-from ..relations.oblique_shocks import (
-    detachment_angles,
-    oblique_shock_ratios,
-    wave_angle_from_deflection,
+from .intake_geometry import (
+    IntakeGeometry,
+    LipCapture,
+    lip_streamline_capture,
+    shock_on_lip_geometry,
 )
-from .intake_waves import (
-    first_coalescence,
-    isentropic_arc_length,
-    isentropic_radius_ratio,
-    wave_meeting_points,
-)
+from .intake_off_design import compression_coalescence, ramp_shock_mergers
+from .ramp_trains import ShockTrain, incipient_separation_pressure_ratio, ramp_shock_train
 
 __all__ = [
     "ramp_intake",
@@ -75,416 +73,9 @@ __all__ = [
     "incipient_separation_pressure_ratio",
 ]
 
-_KORKEGI_SWITCH_MACH = 4.5  # Korkegi (1975): the two fits meet near M = 4.5 (from memory)
 _ON_LIP_TOLERANCE = 1e-9  # relative to the lip's distance: "shock on the lip" below this
 #: The kinds of ramp stage: an oblique shock, or an isentropic (Prandtl–Meyer) compression.
 STAGE_KINDS = ("shock", "isentropic")
-
-
-# ------------------------------------------------------------------ plain core
-
-
-class ShockTrain(NamedTuple):
-    """Plain-core result of :func:`ramp_shock_train` (ndarrays; angles in radians).
-
-    Per-ramp arrays have the ramps on the last axis (length n); ``mach`` has
-    n + 1 entries: the free stream first, then the flow behind each ramp stage.
-    For an isentropic stage ``wave_angle`` is the Mach angle of its first
-    characteristic, ``normal_mach`` is 1 and ``detachment_deflection`` the turn
-    that would bring the flow to M = 1.
-    """
-
-    mach: np.ndarray
-    wave_angle: np.ndarray
-    normal_mach: np.ndarray
-    pressure_ratio: np.ndarray
-    stagnation_pressure_ratio: np.ndarray
-    detachment_deflection: np.ndarray
-    #: static temperature over the free stream's, n + 1 entries like ``mach``
-    temperature_ratio: np.ndarray | None = None
-
-
-def _isentropic_flags(isentropic, n):
-    if isentropic is None:
-        return np.zeros(n, dtype=bool)
-    return np.broadcast_to(np.asarray(isentropic, dtype=bool), (n,))
-
-
-def ramp_shock_train(M, deflections, gamma=1.4, isentropic=None, *, T=None, gas=None):
-    """Plain core: the waves of a train of compression ramps.
-
-    Parameters
-    ----------
-    M : float or ndarray
-        Free-stream Mach number [-].
-    deflections : ndarray
-        Turn of each ramp [rad], ramps on the last axis; the batch axes
-        broadcast with ``M`` and ``gamma``.
-    gamma : float or ndarray
-        Ratio of specific heats [-].
-    isentropic : sequence of bool, optional
-        Per ramp: an isentropic (Prandtl–Meyer) compression instead of an
-        oblique shock. Default: every ramp a shock.
-    T : float or ndarray, optional
-        Free-stream static temperature [K], for a thermally perfect ``gas``.
-    gas : Gas, optional
-        A thermally perfect gas (``gamma`` is then not used): every stage is that gas's
-        wave at its own upstream (M, T).
-
-    Returns
-    -------
-    ShockTrain
-        NaN from the first ramp whose turn exceeds the detachment deflection at
-        its upstream Mach number (``detachment_deflection`` says which), or, for an
-        isentropic stage, the turn that brings the flow to M = 1.
-
-    Notes
-    -----
-    Shock k sees the flow behind stage k - 1 (Mach M(k-1), already parallel to
-    ramp k - 1) and turns it by θk: β(k) from the θ-β-M relation on the weak
-    branch, M(k) = Mn2/sin(β - θ) (NACA Report 1135, eqs. 128-150). A zero turn
-    gives a Mach wave with no loss. An isentropic stage keeps p0 and lowers the
-    Prandtl–Meyer function by θk: ν(M(k)) = ν(M(k-1)) - θk (eq. 171).
-
-    Examples
-    --------
-    >>> import numpy as np
-    >>> from gasdyn2d.design.intakes import ramp_shock_train
-    >>> train = ramp_shock_train(2.0, np.radians([10.0]))
-    >>> round(float(np.degrees(train.wave_angle[0])), 4), round(float(train.mach[1]), 5)
-    (39.3139, 1.64052)
-    >>> iso = ramp_shock_train(2.0, np.radians([10.0]), isentropic=[True])
-    >>> round(float(iso.stagnation_pressure_ratio[0]), 12), round(float(iso.mach[1]), 5)
-    (1.0, 1.65142)
-    """
-    theta = np.atleast_1d(np.asarray(deflections, dtype=float))
-    M = np.asarray(M, dtype=float)
-    if gas is not None and gas.is_thermally_perfect:
-        return _hot_ramp_shock_train(M, np.asarray(T, dtype=float), theta, gas, isentropic)
-    gamma = np.asarray(gamma, dtype=float)
-    shape = np.broadcast_shapes(M.shape, theta.shape[:-1], gamma.shape)
-    n = theta.shape[-1]
-    iso = _isentropic_flags(isentropic, n)
-    theta = np.broadcast_to(theta, shape + (n,))
-    gamma = np.broadcast_to(gamma, shape) if gamma.ndim else gamma
-    machs = [np.broadcast_to(M, shape).astype(float)]
-    temperatures = [np.ones(shape)]
-    columns = {name: [] for name in ShockTrain._fields[1:-1]}
-    with np.errstate(invalid="ignore", divide="ignore"):
-        for k in range(n):
-            upstream = machs[-1]
-            if iso[k]:
-                nu = prandtl_meyer_angle(upstream, gamma)
-                downstream = mach_from_prandtl_meyer_angle(nu - theta[..., k], gamma)
-                beyond = np.isnan(downstream) | (theta[..., k] > nu)
-                downstream = np.where(beyond, np.nan, downstream)
-                nan = np.isnan(downstream)
-                machs.append(downstream)
-                columns["wave_angle"].append(mach_angle_of(upstream))
-                columns["normal_mach"].append(np.where(nan, np.nan, 1.0))
-                columns["pressure_ratio"].append(fan_pressure_ratio(upstream, downstream, gamma))
-                columns["stagnation_pressure_ratio"].append(np.where(nan, np.nan, 1.0))
-                columns["detachment_deflection"].append(nu)
-                h = 0.5 * (gamma - 1.0)
-                temperatures.append(temperatures[-1] * (1.0 + h * upstream**2)
-                                    / (1.0 + h * downstream**2))
-                continue
-            theta_max, _ = detachment_angles(upstream, gamma)
-            beta = wave_angle_from_deflection(upstream, theta[..., k], gamma)
-            ratios = oblique_shock_ratios(upstream, beta, gamma)
-            machs.append(ratios.M2)
-            temperatures.append(temperatures[-1] * ratios.T2_T1)
-            columns["wave_angle"].append(beta)
-            columns["normal_mach"].append(ratios.Mn1)
-            columns["pressure_ratio"].append(ratios.p2_p1)
-            columns["stagnation_pressure_ratio"].append(ratios.p02_p01)
-            columns["detachment_deflection"].append(np.broadcast_to(theta_max, shape))
-    return ShockTrain(_stack(machs), *(_stack(columns[name]) for name in ShockTrain._fields[1:-1]),
-                      _stack(temperatures))
-
-
-def _stack(arrays):
-    return np.stack(np.broadcast_arrays(*arrays), axis=-1)
-
-
-def _hot_ramp_shock_train(M, T, theta, gas, isentropic):
-    """:func:`ramp_shock_train` for a thermally perfect gas: each stage the thermally perfect
-    oblique shock (or isentropic compression) at its upstream (M, T)."""
-    shape = np.broadcast_shapes(M.shape, T.shape, theta.shape[:-1])
-    n = theta.shape[-1]
-    iso = _isentropic_flags(isentropic, n)
-    theta = np.broadcast_to(theta, shape + (n,))
-    machs = [np.broadcast_to(M, shape).astype(float)]
-    temperatures = [np.ones(shape)]
-    T_now = np.broadcast_to(T, shape).astype(float)
-    columns = {name: [] for name in ShockTrain._fields[1:-1]}
-    with np.errstate(invalid="ignore", divide="ignore"):
-        for k in range(n):
-            upstream = machs[-1]
-            if iso[k]:
-                wave = tp.isentropic_compression_from_turn(upstream, T_now, -theta[..., k], gas)
-                downstream = np.where(theta[..., k] == 0.0, upstream, wave.M2)
-                ratio = np.where(theta[..., k] == 0.0, 1.0, wave.T2_T1)
-                nan = np.isnan(downstream)
-                columns["wave_angle"].append(mach_angle_of(upstream))
-                columns["normal_mach"].append(np.where(nan, np.nan, 1.0))
-                columns["pressure_ratio"].append(np.where(theta[..., k] == 0.0, 1.0, wave.p2_p1))
-                columns["stagnation_pressure_ratio"].append(np.where(nan, np.nan, 1.0))
-                columns["detachment_deflection"].append(wave.nu1)
-            else:
-                shock = tpo.oblique_shock_from_deflection(upstream, T_now, theta[..., k], gas)
-                downstream, ratio = shock.M2, shock.T2_T1
-                columns["wave_angle"].append(shock.wave_angle)
-                columns["normal_mach"].append(shock.Mn1)
-                columns["pressure_ratio"].append(shock.p2_p1)
-                columns["stagnation_pressure_ratio"].append(shock.p02_p01)
-                columns["detachment_deflection"].append(
-                    tpo.detachment_angles(upstream, T_now, gas)[0])
-            machs.append(downstream)
-            temperatures.append(temperatures[-1] * ratio)
-            T_now = T_now * ratio
-    return ShockTrain(_stack(machs), *(_stack(columns[name]) for name in ShockTrain._fields[1:-1]),
-                      _stack(temperatures))
-
-
-def _direction(angle):
-    return np.cos(angle), np.sin(angle)
-
-
-def _line_parameter(px, py, ux, uy, qx, qy, vx, vy):
-    """t such that P + t·u lies on the line through Q with direction v."""
-    return ((qx - px) * vy - (qy - py) * vx) / (ux * vy - uy * vx)
-
-
-class IntakeGeometry(NamedTuple):
-    """Plain-core result of :func:`shock_on_lip_geometry` (lengths in the unit of
-    ``first_ramp_length``; per-ramp arrays on the last axis).
-
-    ``corner_x``, ``corner_y`` are the n ramp starts (the leading edge first);
-    ``ramp_lengths`` run along each ramp surface (an isentropic stage's curved
-    wall included), the last one to the entrance plane (the normal dropped from
-    the lip onto the last ramp); ``entrance_height`` is the length of that
-    normal. ``compression_end_x``, ``compression_end_y`` are where each stage's
-    compression ends on the wall: its start for a shock stage, the end of the
-    curved wall for an isentropic one (from there the ramp is straight).
-    """
-
-    ramp_angle: np.ndarray
-    corner_x: np.ndarray
-    corner_y: np.ndarray
-    ramp_lengths: np.ndarray
-    lip_x: np.ndarray
-    lip_y: np.ndarray
-    entrance_height: np.ndarray
-    compression_end_x: np.ndarray
-    compression_end_y: np.ndarray
-
-
-def shock_on_lip_geometry(deflections, wave_angles, first_ramp_length=1.0, *, stage_mach=None,
-                          isentropic=None, gamma=1.4):
-    """Plain core: ramp lengths and lip position at which every ramp wave meets the lip.
-
-    Parameters
-    ----------
-    deflections, wave_angles : ndarray
-        Turn of each ramp and wave angle of its shock (for an isentropic stage, the
-        Mach angle of its first characteristic) relative to its upstream flow [rad]
-        at the design Mach number, ramps on the last axis.
-    first_ramp_length : float or ndarray
-        Length of the first ramp along its surface [any length unit].
-    stage_mach : ndarray, optional
-        Mach numbers of the train at design (n + 1 entries, free stream first;
-        :attr:`ShockTrain.mach`): needed for isentropic stages only.
-    isentropic : sequence of bool, optional
-        Per ramp: an isentropic compression focused on the lip. The first stage must
-        be a shock (it sizes the intake from the leading edge); NaN otherwise.
-    gamma : float or ndarray, optional
-        Ratio of specific heats [-] (isentropic stages only).
-
-    Returns
-    -------
-    IntakeGeometry
-
-    Notes
-    -----
-    Wave k starts at the corner C(k-1) at the angle σk = δ(k-1) + βk to the
-    free stream. The lip is where waves 1 and 2 cross; each later corner C(k)
-    is where ramp k's surface meets the line drawn back from the lip at σ(k+1).
-    The last ramp ends at the entrance plane, the normal from the lip to its
-    surface (where the terminal shock stands); that also places the lip of a
-    single-ramp intake, on the shock above the ramp's end. Because σ(k+1) > σk always (a shock is
-    slower than the Mach waves behind it), every length comes out positive,
-    unless two ramps in a row have zero turn (parallel Mach waves: NaN).
-
-    An isentropic stage k is a centred compression centred on the lip: its wall
-    runs from C(k-1) (on its first characteristic through the lip) to the point
-    at distance r(M(k)) = |lip - C(k-1)| · [(1 + hM(k)²)/(1 + hM(k-1)²)]^((γ+1)/(2(γ-1)))
-    from the lip on the last characteristic, σ = δk + μ(M(k))
-    (:mod:`gasdyn2d.design.intake_waves`); then the ramp is straight at δk.
-
-    Examples
-    --------
-    >>> import numpy as np
-    >>> from gasdyn2d.design.intakes import shock_on_lip_geometry
-    >>> geometry = shock_on_lip_geometry(np.radians([10.0]), np.radians([39.3139]))
-    >>> round(float(geometry.lip_x), 6), round(float(geometry.lip_y), 6)
-    (0.887306, 0.726611)
-    """
-    theta = np.atleast_1d(np.asarray(deflections, dtype=float))
-    beta = np.atleast_1d(np.asarray(wave_angles, dtype=float))
-    theta, beta = np.broadcast_arrays(theta, beta)
-    length = np.asarray(first_ramp_length, dtype=float)
-    shape = np.broadcast_shapes(theta.shape[:-1], length.shape)
-    n = theta.shape[-1]
-    iso = _isentropic_flags(isentropic, n)
-    theta = np.broadcast_to(theta, shape + (n,))
-    beta = np.broadcast_to(beta, shape + (n,))
-    length = np.broadcast_to(length, shape)
-    delta = np.cumsum(theta, axis=-1)
-    upstream_delta = delta - theta
-    sigma = upstream_delta + beta
-    if iso.any():
-        mach = np.broadcast_to(np.asarray(stage_mach, dtype=float), shape + (n + 1,))
-    with np.errstate(invalid="ignore", divide="ignore"):
-        cx1, cy1 = length * np.cos(delta[..., 0]), length * np.sin(delta[..., 0])
-        if n == 1:  # the lip stands on the shock, normal to the ramp at its end
-            height = length * np.tan(beta[..., 0] - theta[..., 0])
-            lip_x = cx1 - height * np.sin(delta[..., 0])
-            lip_y = cy1 + height * np.cos(delta[..., 0])
-        else:
-            ux, uy = _direction(sigma[..., 0])
-            vx, vy = _direction(sigma[..., 1])
-            t = _line_parameter(0.0, 0.0, ux, uy, cx1, cy1, vx, vy)
-            lip_x, lip_y = t * ux, t * uy
-        if iso[0]:  # a first isentropic stage cannot be sized from the leading edge
-            lip_x, lip_y = lip_x * np.nan, lip_y * np.nan
-        zero = np.zeros(shape)
-        starts_x, starts_y, ends_x, ends_y, lengths = [zero], [zero], [zero], [zero], [length]
-        straight = length  # the straight part of the ramp before the next corner
-        for k in range(1, n):
-            px = ends_x[-1] + straight * np.cos(delta[..., k - 1])
-            py = ends_y[-1] + straight * np.sin(delta[..., k - 1])
-            starts_x.append(px)
-            starts_y.append(py)
-            arc = 0.0
-            if iso[k]:
-                r0 = np.hypot(lip_x - px, lip_y - py)
-                r_end = r0 * isentropic_radius_ratio(mach[..., k], mach[..., k + 1], gamma)
-                tail = delta[..., k] + mach_angle_of(mach[..., k + 1])
-                px, py = lip_x - r_end * np.cos(tail), lip_y - r_end * np.sin(tail)
-                arc = isentropic_arc_length(r0, mach[..., k], mach[..., k + 1], gamma)
-            ends_x.append(px)
-            ends_y.append(py)
-            rx, ry = _direction(delta[..., k])
-            if k < n - 1:
-                vx, vy = _direction(sigma[..., k + 1])
-                straight = _line_parameter(px, py, rx, ry, lip_x, lip_y, vx, vy)
-            else:  # to the foot of the normal from the lip: the entrance plane
-                straight = (lip_x - px) * rx + (lip_y - py) * ry
-            lengths.append(arc + straight)
-        last = delta[..., -1]
-        entrance = (lip_y - ends_y[-1]) * np.cos(last) - (lip_x - ends_x[-1]) * np.sin(last)
-    stack = lambda arrays: np.stack(np.broadcast_arrays(*arrays), axis=-1)  # noqa: E731
-    return IntakeGeometry(delta, stack(starts_x), stack(starts_y), stack(lengths), lip_x, lip_y,
-                          entrance, stack(ends_x), stack(ends_y))
-
-
-class LipCapture(NamedTuple):
-    """Plain-core result of :func:`lip_streamline_capture`.
-
-    ``shock_lead`` is, per ramp shock, how far ahead of the lip (along x) the
-    shock crosses the lip's height: > 0 ahead of the lip (spilling), < 0
-    inside the cowl. ``captured_height`` is the free-stream height of the
-    streamline that reaches the lip.
-    """
-
-    shock_lead: np.ndarray
-    captured_height: np.ndarray
-
-
-def lip_streamline_capture(geometry, wave_angles):
-    """Plain core: shock positions relative to the lip and the captured stream tube.
-
-    Parameters
-    ----------
-    geometry : IntakeGeometry
-        Fixed geometry (from :func:`shock_on_lip_geometry` at the design Mach number).
-    wave_angles : ndarray
-        Wave angles of the ramp shocks [rad] at the Mach number of interest,
-        ramps on the last axis, broadcasting with the geometry's batch axes.
-
-    Returns
-    -------
-    LipCapture
-
-    Notes
-    -----
-    The shocks are straight lines from the fixed corners at σk = δ(k-1) + βk.
-    The streamline that reaches the lip is traced upstream: behind shock k the
-    flow is uniform and parallel to ramp k, so the trace is straight until it
-    meets shock k, where it turns to the direction of ramp k - 1; ahead of
-    shock 1 it is horizontal at the captured height. A shock that lies behind
-    the lip (inside the cowl) is not crossed. Below design, neighbouring
-    shocks cross each other above the lip streamline (the tests check this for
-    typical layouts), so the streamline meets each shock on its own; the merged
-    shock above it and the weak wave the merger sends back are neglected
-    (common practice for preliminary spillage estimates).
-    """
-    beta = np.asarray(wave_angles, dtype=float)
-    n = beta.shape[-1]
-    sigma = geometry.ramp_angle - np.diff(geometry.ramp_angle, axis=-1, prepend=0.0) + beta
-    shape = np.broadcast_shapes(sigma.shape[:-1], geometry.lip_x.shape)
-    lip_x = np.broadcast_to(geometry.lip_x, shape)
-    lip_y = np.broadcast_to(geometry.lip_y, shape)
-    sigma = np.broadcast_to(sigma, shape + (n,))
-    delta = np.broadcast_to(geometry.ramp_angle, shape + (n,))
-    cx = np.broadcast_to(geometry.corner_x, shape + (n,))
-    cy = np.broadcast_to(geometry.corner_y, shape + (n,))
-    with np.errstate(invalid="ignore", divide="ignore"):
-        lead = lip_x[..., None] - (cx + (lip_y[..., None] - cy) / np.tan(sigma))
-        px, py = lip_x, lip_y
-        for k in range(n - 1, -1, -1):
-            ux, uy = _direction(delta[..., k])
-            vx, vy = _direction(sigma[..., k])
-            back = -_line_parameter(px, py, ux, uy, cx[..., k], cy[..., k], vx, vy)
-            back = np.maximum(back, 0.0)  # a shock inside the cowl is not crossed
-            px, py = px - back * ux, py - back * uy
-    return LipCapture(lead, py)
-
-
-def incipient_separation_pressure_ratio(M):
-    """Plain core: Korkegi's estimate of the shock pressure ratio that separates a
-    turbulent boundary layer in two-dimensional flow.
-
-    p2/p1 = 1 + 0.3 M² for M < 4.5, and 0.17 M^2.5 above (coefficients from memory).
-
-    Parameters
-    ----------
-    M : float or ndarray
-        Mach number ahead of the shock [-].
-
-    Returns
-    -------
-    float or ndarray
-        Pressure ratio [-] at incipient separation: an estimate for an adiabatic
-        wall in air at high Reynolds number, a fit through scattered experiments,
-        so a flag for a closer look rather than a prediction.
-
-    References
-    ----------
-    Korkegi, R. H. (1975), "Comparison of shock-induced two- and
-    three-dimensional incipient turbulent separation", AIAA J. 13(4), 534-535
-    (the correlation for ramps and incident shocks; details from memory).
-
-    Examples
-    --------
-    >>> from gasdyn2d.design.intakes import incipient_separation_pressure_ratio
-    >>> round(float(incipient_separation_pressure_ratio(2.0)), 3)
-    2.2
-    """
-    M = np.asarray(M, dtype=float)
-    with np.errstate(invalid="ignore"):
-        return np.where(M < _KORKEGI_SWITCH_MACH, 1.0 + 0.3 * M * M, 0.17 * M**2.5)
 
 
 # ------------------------------------------------------------------ unit boundary
@@ -796,8 +387,10 @@ def _assemble(M, design, theta, length, gamma, terminal, train, design_train, is
         on_design = np.all(np.abs(capture.shock_lead)
                            <= _ON_LIP_TOLERANCE * lip_distance[..., None], axis=-1)
         ratio = np.where(on_design, 1.0, capture.captured_height / geometry.lip_y)
-    coalescence = _coalescence(geometry, theta, train, design_train, gamma, iso, lip_distance)
-    merging = _merging(geometry, theta, train, gamma, iso, lip_distance, hot)
+    lip_slack = _ON_LIP_TOLERANCE * lip_distance
+    coalescence = compression_coalescence(geometry, theta, train, design_train, gamma, iso,
+                                          lip_slack)
+    merging = ramp_shock_mergers(geometry, theta, train, gamma, iso, lip_slack, hot)
     return (M, design, theta, geometry.ramp_angle, train.mach[..., 1:], train.wave_angle,
             shock_machs, p_ratios, p0_ratios, ns.M2, np.prod(counted, axis=-1),
             np.prod(counted_p, axis=-1), geometry.ramp_lengths, geometry.lip_x, geometry.lip_y,
@@ -806,100 +399,6 @@ def _assemble(M, design, theta, length, gamma, terminal, train, design_train, is
             geometry.compression_end_y, *coalescence, *merging)
 
 
-def _coalescence(geometry, theta, train, design_train, gamma, iso, lip_distance):
-    """Per stage: do an isentropic stage's characteristics cross ahead of the cowl, and where."""
-    shape = theta.shape
-    flag = np.zeros(shape, dtype=bool)
-    x, y = np.full(shape, np.nan), np.full(shape, np.nan)
-    upstream = geometry.ramp_angle - theta
-    for k in np.flatnonzero(iso):
-        point = first_coalescence(
-            geometry.corner_x[..., k], geometry.corner_y[..., k], geometry.lip_x, geometry.lip_y,
-            upstream[..., k], design_train.mach[..., k], train.mach[..., k], theta[..., k], gamma)
-        with np.errstate(invalid="ignore"):
-            ahead = point.x < geometry.lip_x - _ON_LIP_TOLERANCE * lip_distance
-        flag[..., k] = ahead
-        x[..., k] = np.where(ahead, point.x, np.nan)
-        y[..., k] = np.where(ahead, point.y, np.nan)
-    return flag, x, y
-
-
-def _merging(geometry, theta, train, gamma, iso, lip_distance, hot=None):
-    """Per pair of successive shock stages: where they meet outside the duct (ahead of the lip
-    plane or above the lip), and the merged shock, reflected wave and slip line there
-    (:func:`gasdyn2d.merging_shocks`, with the stage temperatures for a thermally perfect
-    gas, ``hot`` = (gas, free-stream T))."""
-    shape = theta.shape[:-1] + (theta.shape[-1] - 1,)
-    merges = np.zeros(shape, dtype=bool)
-    out = {name: np.full(shape, np.nan) for name in (
-        "x", "y", "wave_angle", "turn", "mach", "p", "p0", "reflected_turn", "reflected_angle",
-        "slip")}
-    kinds = np.full(shape, "", dtype="<U5")
-    slip_in, reflected_in = np.zeros(shape, dtype=bool), np.zeros(shape, dtype=bool)
-    upstream = geometry.ramp_angle - theta
-    sigma = upstream + train.wave_angle
-    p_ahead = np.cumprod(train.pressure_ratio, axis=-1) / train.pressure_ratio
-    p0_ahead = np.cumprod(train.stagnation_pressure_ratio, axis=-1) / train.stagnation_pressure_ratio
-    for k in range(shape[-1]):
-        if iso[k] or iso[k + 1]:
-            continue  # a compression fan beside a shock is not a shock merger
-        meet = wave_meeting_points(geometry.corner_x[..., k], geometry.corner_y[..., k],
-                                   sigma[..., k], geometry.corner_x[..., k + 1],
-                                   geometry.corner_y[..., k + 1], sigma[..., k + 1])
-        slack = _ON_LIP_TOLERANCE * lip_distance
-        with np.errstate(invalid="ignore"):
-            outside_duct = (meet.x < geometry.lip_x - slack) | (meet.y > geometry.lip_y + slack)
-            here = (meet.along_first > 0.0) & (meet.along_second > 0.0) & outside_duct
-        if not here.any():
-            continue
-        merges[..., k] = here
-        index = np.nonzero(here)
-        g = float(gamma) if np.ndim(gamma) == 0 else gamma[index]
-        M_up = train.mach[..., k][index]
-        if hot is None:
-            merged = merging_shocks(M_up, theta[..., k][index], theta[..., k + 1][index],
-                                    gamma=g, errors="nan")
-        else:
-            gas, T_free = hot
-            T_stage = np.broadcast_to(T_free[..., None], train.temperature_ratio.shape) * \
-                train.temperature_ratio
-            T_up, T3 = T_stage[..., k][index], T_stage[..., k + 2][index]
-            merged = merging_shocks(M_up, theta[..., k][index], theta[..., k + 1][index],
-                                    T1=T_up, gas=gas, errors="nan")
-        direction = upstream[..., k][index]
-        x, y = meet.x[index], meet.y[index]
-        lip_x, lip_y = geometry.lip_x[index], geometry.lip_y[index]
-        kind = np.asarray(merged.reflected_kind, dtype="<U5")
-        turn = np.asarray(merged.reflected_turn, dtype=float)
-        behind = geometry.ramp_angle[..., k + 1][index]  # flow direction ahead of the reflection
-        M3 = train.mach[..., k + 2][index]
-        with np.errstate(invalid="ignore"):
-            if hot is None:
-                reflected_beta = wave_angle_from_deflection(M3, np.abs(turn), g)
-                merged_p0 = oblique_shock_ratios(
-                    M_up, np.asarray(merged.wave_angle, dtype=float), g).p02_p01
-            else:
-                reflected_beta = tpo.oblique_shock_from_deflection(M3, T3, np.abs(turn),
-                                                                   gas).wave_angle
-                merged_p0 = tpo.oblique_shock_from_wave_angle(
-                    M_up, T_up, np.asarray(merged.wave_angle, dtype=float), gas).p02_p01
-            reflected_angle = behind - np.where(kind == "shock", reflected_beta, mach_angle_of(M3))
-            wave_angle = direction + np.asarray(merged.wave_angle, dtype=float)
-            slip = direction + np.asarray(merged.slip_direction, dtype=float)
-            run = lip_x - x  # from the merge to the lip plane; none from behind the lip
-            slip_in[..., k][index] = (run > 0.0) & (y + run * np.tan(slip) < lip_y)
-            reflected_in[..., k][index] = (run > 0.0) & (y + run * np.tan(reflected_angle) < lip_y)
-        kinds[..., k][index] = kind
-        for name, value in (("x", x), ("y", y), ("wave_angle", wave_angle),
-                            ("turn", merged.merged_turn), ("mach", merged.M_above_slip),
-                            ("p", p_ahead[..., k][index] * np.asarray(merged.p_p1, dtype=float)),
-                            ("p0", p0_ahead[..., k][index] * merged_p0),
-                            ("reflected_turn", turn), ("reflected_angle", reflected_angle),
-                            ("slip", slip)):
-            out[name][..., k][index] = value
-    return (merges, out["x"], out["y"], out["wave_angle"], out["turn"], out["mach"], out["p"],
-            out["p0"], kinds, out["reflected_turn"], out["reflected_angle"], out["slip"],
-            slip_in, reflected_in)
 def ramp_intake(M: ArrayInput, deflections: ArrayInput, *, design_mach: ArrayInput = None,
                 first_ramp_length: ArrayInput = 1.0, terminal: str = "normal", stages=None,
                 T: ArrayInput = None, gamma: ArrayInput = None, gas=None,

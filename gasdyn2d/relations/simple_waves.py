@@ -29,27 +29,9 @@ from .oblique_shocks import (
     wave_angle_from_wv,
 )
 
+from .wave_state import WaveState  # re-exported here
+
 __all__ = ["WaveState", "turn_state", "isentropic_turn_state", "turn_for_pressure_ratio"]
-
-
-class WaveState(NamedTuple):
-    """State behind one simple wave (plain ndarrays; angles in radians).
-
-    ``wave_angle`` is the shock angle β from the upstream flow (NaN for a fan);
-    ``dlnp_dturn`` is d ln(p2/p1)/d(turn), continuous through turn = 0 where
-    both sides equal γM1²/√(M1² - 1); ``detached`` marks compressions beyond
-    θmax and ``vacuum`` expansions beyond ν_max.
-    """
-
-    M2: np.ndarray
-    p2_p1: np.ndarray
-    T2_T1: np.ndarray
-    p02_p01: np.ndarray
-    wave_angle: np.ndarray
-    is_shock: np.ndarray
-    dlnp_dturn: np.ndarray
-    detached: np.ndarray
-    vacuum: np.ndarray
 
 
 def _shock_log_pressure_slope(M1, w, v, gamma, strong=False):

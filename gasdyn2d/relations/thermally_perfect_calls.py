@@ -45,7 +45,7 @@ from . import thermally_perfect as tp
 from . import thermally_perfect_oblique as tpo
 from . import thermally_perfect_shocks as tps
 from .prandtl_meyer_function import mach_angle_of, mach_from_mach_angle
-from .oblique_shocks import wave_angle_from_normal_excess
+from .shock_angles import wave_angle_from_normal_excess
 
 __all__ = [
     "perfect_with_temperature",

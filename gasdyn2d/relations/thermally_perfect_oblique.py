@@ -42,11 +42,11 @@ from typing import NamedTuple
 import numpy as np
 
 from .. import numerics as nx
-from .oblique_shocks import deflection_slope_wv as _perfect_gas_slope
-from .oblique_shocks import detachment_angles as _perfect_gas_detachment
-from .oblique_shocks import sonic_angles as _perfect_gas_sonic
-from .oblique_shocks import wv_from_deflection as _perfect_gas_wv
-from .simple_waves import WaveState
+from .shock_angles import deflection_slope_wv as _perfect_gas_slope
+from .theta_beta_mach import detachment_angles as _perfect_gas_detachment
+from .theta_beta_mach import sonic_angles as _perfect_gas_sonic
+from .theta_beta_mach import wv_from_deflection as _perfect_gas_wv
+from .wave_state import WaveState
 from .thermally_perfect import fan_from_turn
 from .thermally_perfect_shocks import (
     UpstreamState,

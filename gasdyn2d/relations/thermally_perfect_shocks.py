@@ -57,9 +57,9 @@ import numpy as np
 
 from .. import numerics as nx
 from .gas import oscillator_terms
-from .normal_shocks import mach_from_downstream_mach as _perfect_gas_from_downstream_mach
-from .normal_shocks import mach_from_pitot_ratio as _perfect_gas_from_pitot_ratio
-from .normal_shocks import mach_from_stagnation_pressure_ratio as _perfect_gas_from_recovery
+from .normal_shock_inverses import mach_from_downstream_mach as _perfect_gas_from_downstream_mach
+from .normal_shock_inverses import mach_from_pitot_ratio as _perfect_gas_from_pitot_ratio
+from .normal_shock_inverses import mach_from_stagnation_pressure_ratio as _perfect_gas_from_recovery
 from .thermally_perfect import gas_constants, kelvin, stagnation_temperature
 
 __all__ = [
