@@ -16,10 +16,10 @@ from .design_calls import DesignCall, frozen_array
 from .unit_processes import (
     CharacteristicNet,
     WallContour,
-    _axis_axisymmetric,
-    _interior,
-    _interior_stacked,
-    _wall_axisymmetric,
+    axis_node_axisymmetric,
+    interior_point_given_mach_angles,
+    interior_nodes_stacked,
+    wall_node_axisymmetric,
     check_geometry,
     mach_angle_from_nu,
     symmetry_point,
@@ -63,7 +63,7 @@ class ChannelFlow(ResultTable):
     handover_y: np.ndarray = unit_field("m")
     handover_mach: np.ndarray = unit_field("")
     handover_theta: np.ndarray = unit_field("rad")
-    net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    net: CharacteristicNet | None = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
     #: lower wall height at ``lower_wall_x`` (the wall nodes; the contour, not a fit)
     lower_wall_y: np.ndarray = unit_field("m", default=None)
     #: upper wall height at ``upper_wall_x``
@@ -282,7 +282,7 @@ def march_rows(x, y, theta, nu, lower_wall, upper_wall, gamma, stop, geometry="p
 
 def _next_row(row, lower_wall, upper_wall, gamma):
     """Interior nodes from neighbouring pairs, plus wall nodes on alternate rows."""
-    x3, y3, th3, nu3, tp, tm, mu3 = _interior(
+    x3, y3, th3, nu3, tp, tm, mu3 = interior_point_given_mach_angles(
         row.x[:-1], row.y[:-1], row.theta[:-1], row.nu[:-1], row.mu[:-1],
         row.x[1:], row.y[1:], row.theta[1:], row.nu[1:], row.mu[1:], gamma)
     parts = [(x3, y3, th3, nu3)]
@@ -316,19 +316,19 @@ def _next_row_axisymmetric(row, lower_wall, upper_wall, gamma):
     """:func:`_next_row` with the axisymmetric unit processes (node records carry cot μ)."""
     records = np.array([row.x, row.y, row.theta, row.nu, row.z, row.mu, row.s])
     upstream = np.stack([records[:, :-1], records[:, 1:]], axis=1)  # (7, 2, m): C+ row 0
-    interior, t_plus, t_minus = _interior_stacked(upstream, gamma)
+    interior, t_plus, t_minus = interior_nodes_stacked(upstream, gamma)
     parts = [interior]
     checks = [t_plus, t_minus]
     if not row.lower_on_wall:
         if lower_wall is None:  # the axis: ∂θ/∂y from the first interior node of this row
             slope = interior[6][:1]
-            node, t_char = _axis_axisymmetric(records[:, :1], slope, gamma)
+            node, t_char = axis_node_axisymmetric(records[:, :1], slope, gamma)
         else:
-            node, t_char = _wall_axisymmetric(records[:, :1], lower_wall, "lower", gamma)
+            node, t_char = wall_node_axisymmetric(records[:, :1], lower_wall, "lower", gamma)
         parts.insert(0, node)
         checks.append(np.atleast_1d(t_char))
     if not row.upper_on_wall:
-        node, t_char = _wall_axisymmetric(records[:, -1:], upper_wall, "upper", gamma)
+        node, t_char = wall_node_axisymmetric(records[:, -1:], upper_wall, "upper", gamma)
         parts.append(node)
         checks.append(np.atleast_1d(t_char))
     x, y, theta, nu, z, mu, ratio = (np.concatenate([np.atleast_1d(p[k]) for p in parts])

@@ -93,8 +93,8 @@ class ConicalNozzle(NozzlePerformanceMixin, ResultTable):
     shock_x: object = unit_field("m")  #: where they first folded (NaN if not)
     shock_y: object = unit_field("m")
     exit_flow: str = unit_field("")  #: "characteristics", or the source-flow model after a fold
-    net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
-    exit_plane: ExitPlane = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    net: CharacteristicNet | None = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    exit_plane: ExitPlane | None = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
 
 
 def conical_nozzle(M_exit, half_angle, *, geometry="axisymmetric", throat_radius_of_curvature=None,

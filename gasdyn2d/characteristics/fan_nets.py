@@ -19,10 +19,10 @@ import numpy as np
 
 from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
 from .unit_processes import (
-    _axis_axisymmetric,
-    _free_boundary_axisymmetric,
-    _interior_stacked,
-    _intersect,
+    axis_node_axisymmetric,
+    free_boundary_node_axisymmetric,
+    interior_nodes_stacked,
+    ray_line_intersection,
     check_geometry,
     mach_angle_from_nu,
 )
@@ -183,7 +183,7 @@ def _place_diagonal(b, a, top, boundary, x, y, theta, plus_dir, minus_dir):
     on_axis, on_top = a == b, a == top
     inner = ~on_axis & ~on_top
     i, j = b[inner], a[inner]  # from (b, a-1) along the C+ and (b-1, a) along the C-
-    x3[inner], y3[inner], t_plus, t_minus = _intersect(
+    x3[inner], y3[inner], t_plus, t_minus = ray_line_intersection(
         x[i, j - 1], y[i, j - 1], 0.5 * (plus_dir[i, j - 1] + plus_dir[i, j]),
         x[i - 1, j], y[i - 1, j], 0.5 * (minus_dir[i - 1, j] + minus_dir[i, j]))
     ok[inner] = (t_plus > 0) & (t_minus > 0)
@@ -197,7 +197,7 @@ def _place_diagonal(b, a, top, boundary, x, y, theta, plus_dir, minus_dir):
     if np.any(on_top):
         i, j = b[on_top], a[on_top]
         previous = top[on_top] if boundary == "cancel" else j - 1
-        x3[on_top], y3[on_top], t_plus, t_stream = _intersect(
+        x3[on_top], y3[on_top], t_plus, t_stream = ray_line_intersection(
             x[i, j - 1], y[i, j - 1], 0.5 * (plus_dir[i, j - 1] + plus_dir[i, j]),
             x[i - 1, previous], y[i - 1, previous], 0.5 * (theta[i - 1, previous] + theta[i, j]))
         ok[on_top] = (t_plus > 0) & (t_stream >= 0)
@@ -358,12 +358,12 @@ def _advance_diagonal(records, plan, nu_boundary, gamma):
     checks = []
     gather, own = plan.inner
     if own[0].size:
-        node, t_plus, t_minus = _interior_stacked(records[:, gather[0], gather[1]], gamma)
+        node, t_plus, t_minus = interior_nodes_stacked(records[:, gather[0], gather[1]], gamma)
         records[:, own[0], own[1]] = node
         checks.append((t_plus > 0) & (t_minus > 0))
     if plan.top is not None:
         upstream, previous, own = plan.top
-        node, t_plus, t_stream = _free_boundary_axisymmetric(
+        node, t_plus, t_stream = free_boundary_node_axisymmetric(
             records[:, upstream[0], upstream[1]], records[0][previous], records[1][previous],
             records[2][previous], nu_boundary, gamma)
         records[:, own[0], own[1]] = node
@@ -373,7 +373,7 @@ def _advance_diagonal(records, plan, nu_boundary, gamma):
         arriving = records[:, upstream[0], upstream[1]]
         has_above = has_above.reshape(has_above.shape + (1,) * len(batch))
         slope = np.where(has_above, records[6][above], arriving[6])
-        node, t_minus = _axis_axisymmetric(arriving, slope, gamma)
+        node, t_minus = axis_node_axisymmetric(arriving, slope, gamma)
         records[:, own[0], own[1]] = node
         checks.append(t_minus > 0)
     ok = np.concatenate(checks) if len(checks) > 1 else checks[0]

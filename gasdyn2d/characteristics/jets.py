@@ -90,7 +90,7 @@ class SlotJet(ResultTable):
     shock_formed: bool = unit_field("")  #: compressions coalesced within the marched length
     shock_x: object = unit_field("m")  #: where the net first folds (NaN if not)
     shock_y: object = unit_field("m")
-    net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    net: CharacteristicNet | None = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
     geometry: str = unit_field("", default="planar")  #: "planar" (a slot) or "axisymmetric"
     #: linear theory's widest point: 2b√(Mj² - 1) planar, 1.43634 R√(Mj² - 1) round
     max_width_x_linear: object = unit_field("m", default=None)

@@ -70,12 +70,12 @@ class MinimumLengthNozzle(NozzlePerformanceMixin, ResultTable):
     area_ratio: float = unit_field("")  #: exit-to-throat area ratio of the contour
     area_ratio_isentropic: float = unit_field("")  #: A/A* of the design Mach number
     max_wall_angle: object = unit_field("rad")  #: largest wall angle (planar: the corner's, ν/2)
-    net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    net: CharacteristicNet | None = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
     geometry: str = unit_field("", default="planar")  #: "planar" or "axisymmetric"
     #: wall angle at the throat corner: the turn of the corner fan (round: below max_wall_angle)
     corner_angle: object = unit_field("rad", default=None)
     #: the computed exit plane, for ``performance`` (SI)
-    exit_plane: ExitPlane = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    exit_plane: ExitPlane | None = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
 
 
 def minimum_length_contour(M_exit, n_characteristics, gamma=1.4):
@@ -278,12 +278,12 @@ class RoundedThroatNozzle(NozzlePerformanceMixin, ResultTable):
     area_ratio: float = unit_field("")  #: exit-to-throat area ratio of the contour
     area_ratio_isentropic: float = unit_field("")  #: A/A* of the design Mach number
     discharge_coefficient: float = unit_field("")  #: Sauer's throat mass flow over ρ*a*·A*
-    net: CharacteristicNet = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    net: CharacteristicNet | None = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
     geometry: str = unit_field("", default="planar")  #: "planar" or "axisymmetric"
     #: largest wall angle (planar: at the arc's end; round: further on, the wall bends out)
     max_wall_angle: object = unit_field("rad", default=None)
     #: the computed exit plane, for ``performance`` (SI)
-    exit_plane: ExitPlane = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
+    exit_plane: ExitPlane | None = dataclasses.field(default=None, metadata={"unit": ""}, repr=False)
 
 
 _START_PERTURBATION = 0.02  # Sauer's axial velocity excess u/a* on the axis at the start line

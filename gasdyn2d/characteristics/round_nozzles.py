@@ -51,7 +51,7 @@ from .fan_nets import band_segments, march_fan_band
 from .turning_regions import march_turning_region, trace_wall
 from .unit_processes import (
     AXISYMMETRIC_CORRECTORS,
-    _axis_axisymmetric,
+    axis_node_axisymmetric,
     cot_mach_angle_step,
     node_record,
 )
@@ -522,7 +522,7 @@ class _RoundKernel:
         """The axis node of the C- from ``point`` (∂θ/∂y interpolated from the kernel's axis)."""
         x_guess = point[0] + point[1] / np.tan(point[5] - point[2])
         slope = float(np.interp(x_guess, self.axis_x, self.axis_slope))
-        node, _ = _axis_axisymmetric(tuple(point), slope, gamma)
+        node, _ = axis_node_axisymmetric(tuple(point), slope, gamma)
         return np.array(node, dtype=float)
 
     def net_with(self, line, region, wall, crossing):

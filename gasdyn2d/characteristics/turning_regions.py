@@ -28,7 +28,11 @@ import dataclasses
 
 import numpy as np
 
-from .unit_processes import _interior, _interior_stacked, _intersect
+from .unit_processes import (
+    interior_nodes_stacked,
+    interior_point_given_mach_angles,
+    ray_line_intersection,
+)
 from ..relations.isentropic import mach_angle_of
 from ..relations.expansion_fans import mach_from_prandtl_meyer_angle
 
@@ -113,12 +117,12 @@ def march_turning_region(line_records, nu_exit, gamma, *, exit_length, n_minus_l
                 continue
             k, j = k[usable], j[usable]
             if axisymmetric:  # C+ neighbour (k, j-1) upstream, C- neighbour (k+1, j) downstream
-                node, t_plus, t_minus = _interior_stacked(records[:, (k, k + 1), (j - 1, j)],
+                node, t_plus, t_minus = interior_nodes_stacked(records[:, (k, k + 1), (j - 1, j)],
                                                           gamma)
                 node = np.array(node)
             else:
                 p1, p2 = records[:, k, j - 1], records[:, k + 1, j]
-                x3, y3, th3, nu3, t_plus, t_minus, mu3 = _interior(
+                x3, y3, th3, nu3, t_plus, t_minus, mu3 = interior_point_given_mach_angles(
                     p1[0], p1[1], p1[2], p1[3], p1[5], p2[0], p2[1], p2[2], p2[3], p2[5], gamma)
                 node = np.array([x3, y3, th3, nu3, 1.0 / np.tan(mu3), mu3, np.sin(th3) / y3])
             ok = (t_plus > 0) & (t_minus < 0) & (node[1] > 0) & (node[3] > 0) \
@@ -162,7 +166,7 @@ def trace_wall(region, start):
     # the lip: the straight exit characteristic from E, θ = 0
     x_w, y_w, th_w, _ = wall[:, m - 1]
     x_e, y_e, _, nu_exit = records[:4, m, 0]
-    x, y, _, _ = _intersect(x_w, y_w, 0.5 * th_w, x_e, y_e, region.exit_angle)
+    x, y, _, _ = ray_line_intersection(x_w, y_w, 0.5 * th_w, x_e, y_e, region.exit_angle)
     wall[:, m] = (x, y, 0.0, nu_exit)
     exit_nodes = records[0, m] < x
     crossing[m] = int(np.count_nonzero(exit_nodes & valid[m])) - 1

@@ -157,7 +157,7 @@ def _plain(value):
     return float(value) if value.ndim == 0 else value
 
 
-def _intersect(x1, y1, angle1, x2, y2, angle2):
+def ray_line_intersection(x1, y1, angle1, x2, y2, angle2):
     """Intersection of the ray from (x1, y1) at ``angle1`` with the line through
     (x2, y2) at ``angle2``; returns (x, y, t1, t2), the signed lengths along each."""
     c1, s1 = np.cos(angle1), np.sin(angle1)
@@ -263,11 +263,11 @@ def _interior_axisymmetric(p1, p2, gamma, correctors=AXISYMMETRIC_CORRECTORS):
     axis, where θ is odd in y); the mean state there would take ∂θ/∂y at the
     far end only. Returns the record of the new node and (t_plus, t_minus).
     """
-    return _interior_stacked(np.stack([np.asarray(p1, dtype=float), np.asarray(p2, dtype=float)],
+    return interior_nodes_stacked(np.stack([np.asarray(p1, dtype=float), np.asarray(p2, dtype=float)],
                                       axis=1), gamma, correctors)
 
 
-def _interior_stacked(upstream, gamma, correctors=AXISYMMETRIC_CORRECTORS):
+def interior_nodes_stacked(upstream, gamma, correctors=AXISYMMETRIC_CORRECTORS):
     """:func:`_interior_axisymmetric` on the records of points 1 and 2 stacked, shape (7, 2, ...).
 
     The C+ quantities are row 0 and the C- ones row 1 of every stacked array,
@@ -308,7 +308,7 @@ def _interior_stacked(upstream, gamma, correctors=AXISYMMETRIC_CORRECTORS):
     return (x3, y3, th3, nu3, z3, mu3, np.sin(th3) / y3), t[0], t[1]
 
 
-def _axis_axisymmetric(p2, axis_slope, gamma, correctors=AXISYMMETRIC_CORRECTORS):
+def axis_node_axisymmetric(p2, axis_slope, gamma, correctors=AXISYMMETRIC_CORRECTORS):
     """Node on the axis reached by the C- from record ``p2``; ``axis_slope`` = ∂θ/∂y there.
 
     θ3 = 0 and ν3 = (θ + ν)2 + ½(sin θ2 / y2 + ∂θ/∂y) sin μ̄ t: the trapezoidal
@@ -335,7 +335,7 @@ def _axis_axisymmetric(p2, axis_slope, gamma, correctors=AXISYMMETRIC_CORRECTORS
     return (x3, zero, zero, nu3, z3, mu3, axis_slope + zero), t_minus
 
 
-def _free_boundary_axisymmetric(p1, xb, yb, thetab, nu_boundary, gamma,
+def free_boundary_node_axisymmetric(p1, xb, yb, thetab, nu_boundary, gamma,
                                 correctors=AXISYMMETRIC_CORRECTORS):
     """Constant-pressure boundary node from the C+ of record ``p1`` and the boundary
     streamline from (xb, yb) at ``thetab``. Returns the record, t_plus and t_stream."""
@@ -345,7 +345,7 @@ def _free_boundary_axisymmetric(p1, xb, yb, thetab, nu_boundary, gamma,
     mach3 = mach_from_prandtl_meyer_angle(nu3, gamma)
     z3 = np.sqrt((mach3 - 1.0) * (mach3 + 1.0))
     mu3 = np.arctan2(1.0, z3)
-    x3, y3, t_plus, t_stream = _intersect(x1, y1, plus1, xb, yb, thetab)
+    x3, y3, t_plus, t_stream = ray_line_intersection(x1, y1, plus1, xb, yb, thetab)
     th3 = th1
     for step in range(correctors + 1):
         mean_th = 0.5 * (th1 + th3)
@@ -355,12 +355,12 @@ def _free_boundary_axisymmetric(p1, xb, yb, thetab, nu_boundary, gamma,
         th3 = (k_plus - a_plus * th1 + nu3) / (1.0 + a_plus)
         if step == correctors:
             break
-        x3, y3, t_plus, t_stream = _intersect(x1, y1, 0.5 * (plus1 + (th3 + mu3)),
+        x3, y3, t_plus, t_stream = ray_line_intersection(x1, y1, 0.5 * (plus1 + (th3 + mu3)),
                                               xb, yb, 0.5 * (thetab + th3))
     return (x3, y3, th3, nu3, z3, mu3, np.sin(th3) / y3), t_plus, t_stream
 
 
-def _wall_axisymmetric(p2, wall, side, gamma):
+def wall_node_axisymmetric(p2, wall, side, gamma):
     """Node on a prescribed wall reached by the C- (lower) or C+ (upper) from record ``p2``.
 
     The planar iteration of :func:`wall_point` with the source term of the
@@ -460,17 +460,17 @@ def interior_point(x1, y1, theta1, nu1, x2, y2, theta2, nu2, gamma=1.4, *, geome
         return node[0], node[1], node[2], node[3], t_plus, t_minus
     mu1 = mach_angle_from_nu(nu1, gamma)
     mu2 = mach_angle_from_nu(nu2, gamma)
-    return _interior(x1, y1, theta1, nu1, mu1, x2, y2, theta2, nu2, mu2, gamma)[:6]
+    return interior_point_given_mach_angles(x1, y1, theta1, nu1, mu1, x2, y2, theta2, nu2, mu2, gamma)[:6]
 
 
-def _interior(x1, y1, theta1, nu1, mu1, x2, y2, theta2, nu2, mu2, gamma):
+def interior_point_given_mach_angles(x1, y1, theta1, nu1, mu1, x2, y2, theta2, nu2, mu2, gamma):
     """:func:`interior_point` given the upstream Mach angles; also returns μ3."""
     theta3 = 0.5 * ((theta2 + nu2) + (theta1 - nu1))
     nu3 = 0.5 * ((theta2 + nu2) - (theta1 - nu1))
     mu3 = mach_angle_from_nu(nu3, gamma)
     plus_direction = 0.5 * ((theta1 + mu1) + (theta3 + mu3))
     minus_direction = 0.5 * ((theta2 - mu2) + (theta3 - mu3))
-    x3, y3, t_plus, t_minus = _intersect(x1, y1, plus_direction, x2, y2, minus_direction)
+    x3, y3, t_plus, t_minus = ray_line_intersection(x1, y1, plus_direction, x2, y2, minus_direction)
     return x3, y3, theta3, nu3, t_plus, t_minus, mu3
 
 
@@ -513,7 +513,7 @@ def symmetry_point(x2, y2, theta2, nu2, gamma=1.4, y_axis=0.0, *, geometry="plan
                 f"got {y_axis!r}.")
         p2 = node_record(x2, y2, theta2, nu2, gamma)
         slope = np.sin(np.asarray(theta2, dtype=float)) / y2 if axis_slope is None else axis_slope
-        node, t_minus = _axis_axisymmetric(p2, slope, gamma)
+        node, t_minus = axis_node_axisymmetric(p2, slope, gamma)
         return node[0], node[1], node[2], node[3], t_minus
     theta3 = np.zeros_like(np.asarray(theta2 + nu2, dtype=float))
     nu3 = theta2 + nu2
@@ -539,7 +539,7 @@ def cancellation_point(x1, y1, theta1, nu1, xb, yb, thetab, gamma=1.4):
     nu3 = np.asarray(nu1, dtype=float) + 0.0 * xb
     plus_direction = theta1 + mach_angle_from_nu(nu1, gamma)
     stream_direction = 0.5 * (thetab + theta3)
-    x3, y3, t_plus, t_stream = _intersect(x1, y1, plus_direction, xb, yb, stream_direction)
+    x3, y3, t_plus, t_stream = ray_line_intersection(x1, y1, plus_direction, xb, yb, stream_direction)
     return x3, y3, theta3, nu3, t_plus, t_stream
 
 
@@ -579,7 +579,7 @@ def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=
     """
     if check_geometry(geometry):
         p1 = node_record(x1, y1, theta1, nu1, gamma)
-        node, t_plus, t_stream = _free_boundary_axisymmetric(p1, xb, yb, thetab, nu_boundary,
+        node, t_plus, t_stream = free_boundary_node_axisymmetric(p1, xb, yb, thetab, nu_boundary,
                                                              gamma)
         return node[0], node[1], node[2], node[3], t_plus, t_stream
     nu3 = np.asarray(nu_boundary, dtype=float) + 0.0 * xb
@@ -587,7 +587,7 @@ def free_boundary_point(x1, y1, theta1, nu1, xb, yb, thetab, nu_boundary, gamma=
     mu3 = mach_angle_from_nu(nu3, gamma)
     plus_direction = 0.5 * ((theta1 + mach_angle_from_nu(nu1, gamma)) + (theta3 + mu3))
     stream_direction = 0.5 * (thetab + theta3)
-    x3, y3, t_plus, t_stream = _intersect(x1, y1, plus_direction, xb, yb, stream_direction)
+    x3, y3, t_plus, t_stream = ray_line_intersection(x1, y1, plus_direction, xb, yb, stream_direction)
     return x3, y3, theta3, nu3, t_plus, t_stream
 
 
@@ -631,7 +631,7 @@ def wall_point(x2, y2, theta2, nu2, wall, side="lower", gamma=1.4, *, geometry="
     (1.732050807569, 0.0)
     """
     if check_geometry(geometry):
-        node, t_char = _wall_axisymmetric(node_record(x2, y2, theta2, nu2, gamma), wall, side,
+        node, t_char = wall_node_axisymmetric(node_record(x2, y2, theta2, nu2, gamma), wall, side,
                                           gamma)
         return node[0], node[1], node[2], node[3], t_char
     sign = -1.0 if side == "lower" else 1.0

