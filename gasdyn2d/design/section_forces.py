@@ -5,7 +5,9 @@
   and moment arms;
 - :func:`panel_coefficients` — cl, cd, cm_le and x_cp from the pressure coefficient on
   every panel, by the exact projection (shock-expansion theory) or the thin-section forms
-  (linear and second-order theories).
+  (linear and second-order theories);
+- :func:`corner_runs` and the tolerances of the trailing-edge (wake) match, shared by the
+  perfect-gas and thermally perfect surface marches of shock-expansion theory.
 
 Shared by the theories of :mod:`gasdyn2d.design.section_loads` and
 :mod:`gasdyn2d.design.shock_expansion`.
@@ -19,7 +21,37 @@ import numpy as np
 
 from .sections import Section
 
-__all__ = ["PanelGeometry", "panel_geometry", "panel_coefficients"]
+__all__ = ["PanelGeometry", "panel_geometry", "panel_coefficients", "corner_runs",
+           "WAKE_MATCH_ITERATIONS", "WAKE_MATCH_TOLERANCE", "WAKE_MATCHED"]
+
+#: most bracketed Newton steps of the trailing-edge match of shock-expansion theory
+WAKE_MATCH_ITERATIONS = 40
+#: absolute tolerance [rad] on the wake slip-line direction
+WAKE_MATCH_TOLERANCE = 1e-15
+#: |ln p_upper - ln p_lower| below which the two streams count as matched
+WAKE_MATCHED = 1e-10
+
+
+def corner_runs(corner_turns):
+    """Split a surface's corners into the waves that march it.
+
+    ``corner_turns`` are the turns at the corners in order (positive: into the flow, a
+    shock). Returns a list of ``("shock", i, i + 1)`` for each compression corner and
+    ``("fan", i, j)`` for each run of consecutive expansion corners i..j-1, which one
+    centred simple wave covers.
+    """
+    runs, i, n = [], 0, len(corner_turns)
+    while i < n:
+        if corner_turns[i] > 0.0:
+            runs.append(("shock", i, i + 1))
+            i += 1
+        else:
+            j = i
+            while j < n and corner_turns[j] <= 0.0:
+                j += 1
+            runs.append(("fan", i, j))
+            i = j
+    return runs
 
 
 class PanelGeometry(NamedTuple):

@@ -41,7 +41,8 @@ from ..relations.expansion_fans import fan_pressure_ratio, mach_from_prandtl_mey
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.simple_waves import turn_state
 from ..relations.theta_beta_mach import detachment_angles
-from .section_forces import panel_coefficients
+from .section_forces import (WAKE_MATCH_ITERATIONS, WAKE_MATCH_TOLERANCE, WAKE_MATCHED,
+                             corner_runs, panel_coefficients)
 from .thermally_perfect_loads import (hot_match_trailing_edge, hot_raise_for_case,
                                       hot_surface_pressure_ratios)
 
@@ -53,10 +54,6 @@ __all__ = [
     "shock_expansion_one_case",
     "SCALAR_PANELS",
 ]
-
-_TE_MAX_ITER = 40
-_TE_TOLERANCE = 1e-15  # [rad], absolute, on the slip direction
-_TE_MATCHED = 1e-10  # |ln p_upper - ln p_lower| below which the two streams are matched
 
 
 # --------------------------------------------------------------------- the surface march
@@ -71,22 +68,6 @@ class SurfaceFlow(NamedTuple):
     detached: np.ndarray
     subsonic: np.ndarray
     vacuum: np.ndarray
-
-
-def _runs(corner_turns):
-    """Split corner indices into runs: ('shock', i, i+1) or ('fan', i, j)."""
-    runs, i, n = [], 0, len(corner_turns)
-    while i < n:
-        if corner_turns[i] > 0.0:
-            runs.append(("shock", i, i + 1))
-            i += 1
-        else:
-            j = i
-            while j < n and corner_turns[j] <= 0.0:
-                j += 1
-            runs.append(("fan", i, j))
-            i = j
-    return runs
 
 
 def surface_pressure_ratios(M, first_turn, corner_turns, gamma=1.4):
@@ -132,7 +113,7 @@ def surface_pressure_ratios(M, first_turn, corner_turns, gamma=1.4):
         vacuum = np.array(first.vacuum)
         p_panels, M_panels = [first.p2_p1], [first.M2]
         nu_max = max_prandtl_meyer_angle(gamma)
-        for kind, i, j in _runs(corner_turns):
+        for kind, i, j in corner_runs(corner_turns):
             M_now, p_now = M_panels[-1], p_panels[-1]
             if kind == "shock":
                 wave = turn_state(M_now, corner_turns[i], gamma)
@@ -210,11 +191,11 @@ def _match_trailing_edge(upper, lower, gamma):
         solvable = (lo < hi) & np.isfinite(lnp_u) & np.isfinite(lnp_l)
         phi = nx.safeguarded_newton(  # cases with no bracket (NaN start) are not iterated
             lambda x: _trailing_edge_residual(x, upper, lower, gamma)[:2],
-            np.where(solvable, phi, np.nan), lo, hi, max_iter=_TE_MAX_ITER, atol=_TE_TOLERANCE,
+            np.where(solvable, phi, np.nan), lo, hi, max_iter=WAKE_MATCH_ITERATIONS, atol=WAKE_MATCH_TOLERANCE,
             increasing=True)
         residual, _, ln_p = _trailing_edge_residual(phi, upper, lower, gamma)
         # without a root in the bracket the iteration ends on a bracket end, short of zero
-        matched = np.abs(residual) <= _TE_MATCHED
+        matched = np.abs(residual) <= WAKE_MATCHED
     return np.where(matched, phi, np.nan), np.where(matched, ln_p, np.nan), matched
 
 
@@ -334,7 +315,7 @@ def _match_trailing_edge_scalar(upper, lower, gamma):
     phi = (s_u * dir_u + s_l * dir_l - lnp_u + lnp_l) / (s_u + s_l)
     phi = min(max(phi, lo), hi) if math.isfinite(phi) else 0.5 * (lo + hi)
     best = (math.inf, phi)
-    for _ in range(_TE_MAX_ITER):
+    for _ in range(WAKE_MATCH_ITERATIONS):
         f, df, _ = residual(phi)
         if abs(f) < best[0]:
             best = (abs(f), phi)
@@ -346,7 +327,7 @@ def _match_trailing_edge_scalar(upper, lower, gamma):
             hi = phi
         step = f / df
         new = phi - step
-        if abs(step) <= max(4.0 * 2.2e-16 * abs(phi), _TE_TOLERANCE):
+        if abs(step) <= max(4.0 * 2.2e-16 * abs(phi), WAKE_MATCH_TOLERANCE):
             phi = new if lo <= new <= hi else phi
             break
         if not lo < new < hi:
@@ -358,7 +339,7 @@ def _match_trailing_edge_scalar(upper, lower, gamma):
     if not abs(f) <= abs(best[0]):
         phi = best[1]
         f, _, ln_p = residual(phi)
-    if abs(f) <= _TE_MATCHED:
+    if abs(f) <= WAKE_MATCHED:
         return phi, ln_p, True
     return math.nan, math.nan, False
 

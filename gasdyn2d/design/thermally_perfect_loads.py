@@ -33,13 +33,11 @@ from ..boundary.checks import format_value
 from ..errors import DetachedShockError, NoSolutionError
 from ..relations import thermally_perfect as tp
 from ..relations import thermally_perfect_oblique as tpo
+from .section_forces import (WAKE_MATCH_ITERATIONS, WAKE_MATCH_TOLERANCE, WAKE_MATCHED,
+                             corner_runs)
 
 __all__ = ["HotSurfaceFlow", "hot_surface_pressure_ratios", "hot_match_trailing_edge",
            "hot_raise_for_case"]
-
-_TE_MAX_ITER = 40
-_TE_TOLERANCE = 1e-15  # [rad], absolute, on the slip direction
-_TE_MATCHED = 1e-10  # |ln p_upper - ln p_lower| below which the two streams are matched
 
 
 class HotSurfaceFlow(NamedTuple):
@@ -52,22 +50,6 @@ class HotSurfaceFlow(NamedTuple):
     detached: np.ndarray
     subsonic: np.ndarray
     vacuum: np.ndarray
-
-
-def _runs(corner_turns):
-    """Split corner indices into runs: ('shock', i, i+1) or ('fan', i, j)."""
-    runs, i, n = [], 0, len(corner_turns)
-    while i < n:
-        if corner_turns[i] > 0.0:
-            runs.append(("shock", i, i + 1))
-            i += 1
-        else:
-            j = i
-            while j < n and corner_turns[j] <= 0.0:
-                j += 1
-            runs.append(("fan", i, j))
-            i = j
-    return runs
 
 
 def hot_surface_pressure_ratios(M, T, first_turn, corner_turns, gas):
@@ -110,7 +92,7 @@ def hot_surface_pressure_ratios(M, T, first_turn, corner_turns, gas):
         vacuum = np.array(first.vacuum)
         p_panels, M_panels, T_panels = [first.p2_p1], [first.M2], [T * first.T2_T1]
         nu_max = tp.max_prandtl_meyer_angle(T0, gas)
-        for kind, i, j in _runs(corner_turns):
+        for kind, i, j in corner_runs(corner_turns):
             M_now, p_now, T_now = M_panels[-1], p_panels[-1], T_panels[-1]
             if kind == "shock":
                 wave = tpo.turn_state(M_now, T_now, corner_turns[i], gas)
@@ -181,9 +163,9 @@ def hot_match_trailing_edge(upper, lower, gas):
         solvable = (lo < hi) & np.isfinite(lnp_u) & np.isfinite(lnp_l)
         phi = nx.safeguarded_newton(
             lambda x: _residual(x, upper, lower, gas)[:2], np.where(solvable, phi, np.nan),
-            lo, hi, max_iter=_TE_MAX_ITER, atol=_TE_TOLERANCE, increasing=True)
+            lo, hi, max_iter=WAKE_MATCH_ITERATIONS, atol=WAKE_MATCH_TOLERANCE, increasing=True)
         residual, _, ln_p = _residual(phi, upper, lower, gas)
-        matched = np.abs(residual) <= _TE_MATCHED
+        matched = np.abs(residual) <= WAKE_MATCHED
     return np.where(matched, phi, np.nan), np.where(matched, ln_p, np.nan), matched
 
 
