@@ -15,11 +15,25 @@ PAGES = [ROOT / "README.md", *sorted((ROOT / "docs").rglob("*.md"))]
 
 @pytest.mark.parametrize("page", PAGES, ids=lambda p: str(p.relative_to(ROOT)))
 def test_examples_in_page_run(page):
+    _registry_as_in_a_fresh_process(page)
     result = doctest.testfile(
         str(page), module_relative=False,
         optionflags=doctest.ELLIPSIS | doctest.NORMALIZE_WHITESPACE,
     )
     assert result.failed == 0, f"{result.failed} of {result.attempted} examples failed in {page.name}"
+
+
+def _registry_as_in_a_fresh_process(page):
+    """Each page runs as if in a new Python process: importing pint_xarray sets
+    ``force_ndarray_like`` on pint's application registry, but only the first time, so a
+    page that imports it gets the flag set and the others start without it (tests/conftest.py
+    puts it back after the page either way)."""
+    import sys
+
+    pint = sys.modules.get("pint")
+    if pint is not None:
+        uses_pint_xarray = "import pint_xarray" in page.read_text(encoding="utf-8")
+        pint.get_application_registry().force_ndarray_like = uses_pint_xarray
 
 
 # Names of real aerospace vehicles, engines, tunnels or companies that earlier demo
