@@ -245,8 +245,18 @@ def _assemble_net(records, valid, n, region, wall, crossing):
     count = parts[0].shape[1]
     plus, minus = [plus_k], [minus_k]
     m = region.records.shape[1] - 1
+    # j = 0 of the region: the kernel's last fan line, already in the net
+    return _with_turning_region(parts, plus, minus, count, index[np.arange(m + 1), n],
+                                region, wall, crossing)
+
+
+def _with_turning_region(parts, plus, minus, count, first_column, region, wall, crossing):
+    """A net's node parts and segment lists completed with the turning region's nodes inside
+    the nozzle and the wall nodes; ``first_column`` indexes the region's j = 0 nodes, which
+    the net already holds. Returns (x, y, theta, nu, plus, minus)."""
+    m = region.records.shape[1] - 1
     region_index = np.full(region.valid.shape, -1, dtype=np.intp)
-    region_index[:, 0] = index[np.arange(m + 1), n]  # j = 0: the kernel's last fan line
+    region_index[:, 0] = first_column
     for k in range(1, m + 1):
         j = np.arange(1, crossing[k] + 1)
         if j.size:
@@ -542,26 +552,7 @@ class _RoundKernel:
         parts.append(line[:4])
         count += m + 1
         minus.append(np.column_stack([line_index[:-1], line_index[1:]]))
-        region_index = np.full(region.valid.shape, -1, dtype=np.intp)
-        region_index[:, 0] = line_index
-        for k in range(1, m + 1):
-            j = np.arange(1, crossing[k] + 1)
-            if j.size:
-                region_index[k, j] = count + np.arange(j.size)
-                parts.append(region.records[:4, k, j])
-                count += j.size
-        wall_index = count + np.arange(m)
-        parts.append(wall[:, 1:])
-        for k in range(1, m + 1):
-            line_k = region_index[k, :crossing[k] + 1]
-            line_k = line_k[line_k >= 0]
-            plus.append(np.column_stack([line_k[:-1], line_k[1:]]))
-            plus.append(np.array([[line_k[-1], wall_index[k - 1]]]))
-        upper, lower = region_index[:-1, 1:], region_index[1:, 1:]
-        pairs = (upper >= 0) & (lower >= 0)
-        minus.append(np.column_stack([upper[pairs], lower[pairs]]))
-        x, y, theta, nu = np.concatenate(parts, axis=1)
-        return x, y, theta, nu, np.concatenate(plus), np.concatenate(minus)
+        return _with_turning_region(parts, plus, minus, count, line_index, region, wall, crossing)
 
 
 def _ray_meets_segments(x0, y0, direction, xa, ya, xb, yb):
