@@ -741,8 +741,11 @@ def test_dataarrays_broadcast_by_name_and_keep_coordinates():
 def test_pint_xarray_degrees_are_honoured_not_stripped():
     xr = pytest.importorskip("xarray")
     pytest.importorskip("pint_xarray")
+    # a registry of the test's own, as pint-xarray wants it (force_ndarray_like): the flag
+    # importing pint-xarray sets on the application registry is put back after each test
+    registry = pint.UnitRegistry(force_ndarray_like=True)
     section = Section.double_wedge(0.05)
-    alpha = xr.DataArray([1.0, 3.0], dims="incidence").pint.quantify("deg")
+    alpha = xr.DataArray([1.0, 3.0], dims="incidence").pint.quantify("deg", unit_registry=registry)
     loads = shock_expansion_loads(section, 2.5, alpha)
     plain = shock_expansion_loads(section, 2.5, np.radians([1.0, 3.0]))
     np.testing.assert_array_equal(loads.cl.values, plain.cl)
