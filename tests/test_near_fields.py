@@ -228,3 +228,27 @@ def test_result_is_read_only_and_displays():
         field.overpressure_below[0, 0] = 1.0
     text = repr(field)
     assert "overpressure_below" in text and "cl" in text
+
+
+def test_pressure_signature_draws_one_line_per_distance_and_side():
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from gasdyn2d.plot import draw_pressure_signature
+
+    field = section_near_field(Section.biconvex(0.05, n=16), 2.0, 0.02, [1.0, 3.0],
+                               chord=0.4 * ureg.m)
+    drawn = draw_pressure_signature(field, sides=("below", "above"), linewidth=2.5)
+    assert len(drawn.lines) == 4 and drawn.lines[("below", 1)].get_linewidth() == 2.5
+    x_drawn, p_drawn = drawn.lines[("below", 0)].get_data()
+    row = np.isfinite(field.overpressure_below[0])
+    assert np.allclose(p_drawn, field.overpressure_below[0][row])
+    assert np.allclose(x_drawn, field.x_below.m_as("m")[0][row])
+    assert "[m]" in drawn.ax.get_xlabel()
+    plt.close(drawn.figure)
+    with pytest.raises(InvalidInputError, match="sides"):
+        draw_pressure_signature(field, sides="left")
+    with pytest.raises(InvalidInputError, match="field"):
+        draw_pressure_signature(42)

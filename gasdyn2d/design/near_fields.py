@@ -109,6 +109,8 @@ class SectionNearField(ResultTable):
     overpressure_above: np.ndarray = unit_field("", "p/p∞ - 1 above, one row per distance")
     x_below: object = unit_field("", "[length] signature abscissae below, one row per distance")
     overpressure_below: np.ndarray = unit_field("", "p/p∞ - 1 below, one row per distance")
+    length_unit: str = unit_field("", "unit of the plain-number lengths: 'chord' or 'm'",
+                                  dtype=str)
 
 
 # ------------------------------------------------------------------ one side's simple wave
@@ -462,7 +464,7 @@ def section_near_field(section, M1, alpha, distances, *, chord=None, gamma=1.4,
                "from 1e-5 to 0.1 rad (about 0.0006° to 5.7°)", "rad")
     _check_convex(section)
     if call.nan_inputs:
-        return _nan_result(section, M, a, g, heights, scale, call, length)
+        return _nan_result(section, M, a, g, heights, scale, call, length, chord is not None)
     cos_a, sin_a = math.cos(a), math.sin(a)
     rotate = np.array([[cos_a, -sin_a], [sin_a, cos_a]])  # body -> wind axes, (x, y) rows
     upper = section.upper @ rotate
@@ -492,7 +494,7 @@ def section_near_field(section, M1, alpha, distances, *, chord=None, gamma=1.4,
         traces, alive_from = _march_shocks(side, M, g, (points[-1, 0], points[-1, 1]))
         sides[name] = (side, traces, alive_from)
     return _package(section, M, a, g, heights, scale, call, length, sides, slip,
-                    float(loads.wake_pressure_ratio))
+                    float(loads.wake_pressure_ratio), chord is not None)
 
 
 def _chord_units(value):
@@ -516,7 +518,7 @@ def _shock_result(trace, mirror, scale, call, length):
                        frozen_array(trace["neglected_wave"]))
 
 
-def _package(section, M, a, g, heights, scale, call, length, sides, slip, p_wake):
+def _package(section, M, a, g, heights, scale, call, length, sides, slip, p_wake, chord_given):
     geometry = panel_geometry(section)
     p_up, p_lo = sides["above"][0]["p"], sides["below"][0]["p"]
     q = 0.5 * g * M * M
@@ -542,10 +544,11 @@ def _package(section, M, a, g, heights, scale, call, length, sides, slip, p_wake
         x_above=length(signatures["above"][0]),
         overpressure_above=frozen_array(signatures["above"][1]),
         x_below=length(signatures["below"][0]),
-        overpressure_below=frozen_array(signatures["below"][1]))
+        overpressure_below=frozen_array(signatures["below"][1]),
+        length_unit="m" if chord_given else "chord")
 
 
-def _nan_result(section, M, a, g, heights, scale, call, length):
+def _nan_result(section, M, a, g, heights, scale, call, length, chord_given):
     nan_shock = _shock_result(None, False, scale, call, length)
     rows = np.full((heights.size, 2), np.nan)
     n_up, n_lo = section.n_panels
@@ -559,4 +562,4 @@ def _nan_result(section, M, a, g, heights, scale, call, length):
         trailing_shock_above=nan_shock, leading_shock_below=nan_shock,
         trailing_shock_below=nan_shock, x_above=length(rows),
         overpressure_above=frozen_array(rows), x_below=length(rows),
-        overpressure_below=frozen_array(rows))
+        overpressure_below=frozen_array(rows), length_unit="m" if chord_given else "chord")
