@@ -151,6 +151,43 @@ def test_thin_section_signature_matches_linear_theory_to_second_order():
     assert 3.0 < gaps[0] / gaps[1] < 5.0  # second order: halving t quarters the gap
 
 
+@pytest.mark.parametrize("M, first_deg, second_deg", [
+    (1.8, 5.0, 3.0), (2.0, 8.0, 4.0), (2.5, 10.0, 7.0), (3.0, 14.0, 6.0)])
+def test_shock_after_a_whole_corner_fan_matches_the_region_graph_interaction(M, first_deg,
+                                                                              second_deg):
+    # a wedge shock overtaken by the fan of one corner (invented three-panel surface): once
+    # the shock has absorbed the whole fan it must carry the state of the region graph's
+    # exact wave-by-wave interaction (transmitted shock, reflected wave, slip line; the
+    # oblique-shock and Prandtl-Meyer relations of NACA Report 1135, eqs. 138 and 171), and
+    # the wave the method neglects is the graph's reflected wave
+    from gasdyn2d import WavePattern
+
+    x1, x2 = 0.3, 0.55
+    y1 = x1 * math.tan(math.radians(first_deg))
+    y2 = y1 + (x2 - x1) * math.tan(math.radians(second_deg))
+    section = Section.from_points([(0, 0), (x1, y1), (x2, y2), (1, 0)], [(0, 0), (1, 0)])
+    shock = section_near_field(section, M, 0.0, [1.0],
+                               max_line_turn=math.radians(0.05)).leading_shock_above
+    turn0, corner = section.upper_angles[0], np.diff(section.upper_angles)[0]
+    pattern = WavePattern(M)
+    pattern.add_wave("leading edge", upstream="1", downstream="2", family="left", turn=turn0)
+    pattern.add_wave("corner fan", upstream="2", downstream="3", family="left", turn=corner)
+    pattern.add_wave("transmitted", upstream="1", downstream="4", family="left",
+                     guess=turn0 + corner)
+    pattern.add_wave("reflected", upstream="3", downstream="5", family="right")
+    pattern.add_slip_line("4", "5")
+    exact = pattern.solve()
+    p4 = float(exact.region("4").p_ratio)
+    k = int(np.argmin(np.abs(shock.pressure_ratio - p4)))
+    assert shock.pressure_ratio[k] == pytest.approx(p4, rel=1e-5)
+    assert shock.wave_angle[k] == pytest.approx(float(exact.wave("transmitted").wave_angle),
+                                                abs=2e-6)
+    reflected = math.log(float(exact.region("5").p_ratio) / float(exact.region("3").p_ratio))
+    incident = math.log(float(exact.region("3").p_ratio) / float(exact.region("2").p_ratio))
+    assert shock.neglected_wave[k] == pytest.approx(reflected, rel=0.01)
+    assert abs(reflected) < 0.005 * abs(incident)  # the neglected wave is small
+
+
 def test_neglected_reflected_wave_is_a_small_second_order_fraction():
     # the reflected wave the method drops, measured at each shock point, against the
     # incident wave absorbed so far; it scales as the square of the strength
