@@ -321,3 +321,14 @@ def test_pressure_signature_draws_one_line_per_distance_and_side():
         draw_pressure_signature(field, sides="left")
     with pytest.raises(InvalidInputError, match="field"):
         draw_pressure_signature(42)
+
+
+def test_tables_and_datasets_name_their_axes():
+    field = section_near_field(Section.biconvex(0.05, n=16), 2.0, 0.02, [1.0, 2.0, 4.0])
+    dataset = field.to_xarray()
+    assert dataset["overpressure_below"].dims == ("distance", "sample_below")
+    assert dataset["p_upper"].dims == ("panel_upper",)
+    assert dataset["x_above"].attrs["units"] == "chord"
+    assert dataset["leading_shock_below.pressure_ratio"].size == field.leading_shock_below.x.size
+    frame = field.leading_shock_below.to_dataframe()
+    assert len(frame) == field.leading_shock_below.x.size

@@ -40,7 +40,7 @@ import math
 import numpy as np
 
 from ..boundary import is_quantity
-from ..boundary.results import ResultTable, unit_field
+from ..boundary.results import ResultTable, result_fields, unit_field
 from ..characteristics.design_calls import DesignCall, frozen_array
 from ..characteristics.shock_points import shock_point
 from ..errors import DetachedShockError, InvalidInputError, NoSolutionError
@@ -111,6 +111,49 @@ class SectionNearField(ResultTable):
     overpressure_below: np.ndarray = unit_field("", "p/p∞ - 1 below, one row per distance")
     length_unit: str = unit_field("", "unit of the plain-number lengths: 'chord' or 'm'",
                                   dtype=str)
+
+    def to_xarray(self):
+        """An ``xarray.Dataset`` with named dimensions: ``distance``, ``sample_below``,
+        ``sample_above``, ``panel_upper``, ``panel_lower``, and one ``<shock>_point`` per
+        shock (its fields as ``<shock>.<field>``); each variable's unit in its ``units``
+        attribute ("chord" for lengths in chords). Needs xarray."""
+        try:
+            import xarray as xr
+        except ImportError as exc:  # pragma: no cover - depends on the environment
+            raise ImportError("to_xarray needs xarray: pip install xarray") from exc
+        variables = {}
+        for info in result_fields(type(self)):
+            value = getattr(self, info.name)
+            if isinstance(value, FittedShock):
+                for inner in result_fields(FittedShock):
+                    variables[f"{info.name}.{inner.name}"] = _data_array(
+                        xr, getattr(value, inner.name), (f"{info.name}_point",), inner,
+                        self.length_unit)
+                continue
+            variables[info.name] = _data_array(xr, value, _DIMENSIONS.get(info.name, ()), info,
+                                               self.length_unit)
+        return xr.Dataset(variables)
+
+
+_DIMENSIONS = {"distances": ("distance",), "x_upper": ("panel_upper",),
+               "p_upper": ("panel_upper",), "x_lower": ("panel_lower",),
+               "p_lower": ("panel_lower",), "x_above": ("distance", "sample_above"),
+               "overpressure_above": ("distance", "sample_above"),
+               "x_below": ("distance", "sample_below"),
+               "overpressure_below": ("distance", "sample_below")}
+
+
+def _data_array(xr, value, dims, info, length_unit):
+    """One field as a DataArray with its description (and unit, for plain numbers)."""
+    attrs = {"long_name": info.description}
+    if hasattr(value, "units"):  # a Quantity: its magnitude, its unit as pint spells it
+        attrs["units"] = str(value.units)
+        value = np.asarray(value.magnitude)
+    elif info.description.startswith("[length]"):
+        attrs["units"] = "m" if length_unit == "m" else "chord"
+    elif info.pint_unit:
+        attrs["units"] = info.pint_unit
+    return xr.DataArray(value, dims=dims if np.ndim(value) else (), attrs=attrs)
 
 
 # ------------------------------------------------------------------ one side's simple wave
