@@ -332,3 +332,23 @@ def test_tables_and_datasets_name_their_axes():
     assert dataset["leading_shock_below.pressure_ratio"].size == field.leading_shock_below.x.size
     frame = field.leading_shock_below.to_dataframe()
     assert len(frame) == field.leading_shock_below.x.size
+
+
+@pytest.mark.parametrize("alpha_deg", [-2.0, 0.5, 3.0])
+def test_mirrored_section_at_opposite_incidence_swaps_the_sides(alpha_deg):
+    # an invented cambered fin: reflecting the section in its chord and the incidence in the
+    # flight direction reflects the whole field (a symmetry of the planar equations)
+    fin = Section.from_points([(0, 0), (0.3, 0.035), (0.7, 0.03), (1, 0)],
+                              [(0, 0), (0.4, -0.015), (1, 0)])
+    alpha = math.radians(alpha_deg)
+    field = section_near_field(fin, 2.3, alpha, [1.5, 6.0])
+    mirror = section_near_field(fin.mirrored(), 2.3, -alpha, [1.5, 6.0])
+    assert mirror.cl == pytest.approx(-field.cl, abs=1e-13)
+    assert mirror.cd == pytest.approx(field.cd, rel=1e-12)
+    assert np.allclose(mirror.overpressure_above, field.overpressure_below, equal_nan=True,
+                       rtol=1e-12, atol=1e-14)
+    assert np.allclose(mirror.x_below, field.x_above, equal_nan=True, rtol=1e-12)
+    for ours, theirs in ((mirror.leading_shock_above, field.leading_shock_below),
+                         (mirror.trailing_shock_below, field.trailing_shock_above)):
+        assert np.allclose(ours.y, -theirs.y, rtol=1e-12, atol=1e-14)
+        assert np.allclose(ours.pressure_ratio, theirs.pressure_ratio, rtol=1e-12)
