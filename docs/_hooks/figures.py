@@ -19,7 +19,8 @@ import numpy as np  # noqa: E402
 import gasdyn2d as gd  # noqa: E402
 from gasdyn2d.relations.oblique_shocks import deflection_from_wave_angle  # noqa: E402
 from gasdyn2d.plot import (PALETTE, draw_characteristic_net, draw_gas_model_comparison,  # noqa: E402
-                           draw_pattern_polars, draw_surface_pressures, draw_wave_pattern)
+                           draw_pattern_polars, draw_pressure_signature, draw_surface_pressures,
+                           draw_wave_pattern)
 
 CYCLE = [PALETTE[k] for k in ("blue", "vermillion", "bluish green", "reddish purple",
                                "orange", "sky blue", "black")]
@@ -163,6 +164,38 @@ def plotting_pressures():
     return drawn.figure
 
 
+def near_field_signature():
+    # the invented survey-drone fin of docs/near-fields.md
+    field = gd.section_near_field(gd.Section.biconvex(0.04, n=48), 1.7, np.radians(1.5),
+                                  [0.8, 3.2], chord=0.32)
+    drawn = draw_pressure_signature(field, sides=("below", "above"))
+    drawn.ax.set_title("draw_pressure_signature: a 4 % biconvex fin, chord 0.32 m, "
+                       "M 1.7, α 1.5°", fontsize="medium")
+    return drawn.figure
+
+
+def near_field_decay():
+    # leading- and trailing-shock strength of two invented biconvex fins against distance
+    figure, ax = _axes()
+    for colour, (t, n) in zip(CYCLE, ((0.03, 256), (0.06, 256))):
+        field = gd.section_near_field(gd.Section.biconvex(t, n=n), 2.0, 0.0, [1.0],
+                                      max_line_turn=np.radians(0.02))
+        for shock, style, name in ((field.leading_shock_below, "-", "leading"),
+                                   (field.trailing_shock_below, "--", "trailing")):
+            y, strength = np.abs(shock.y[1:]), shock.pressure_ratio[1:] - 1.0
+            keep = strength > 0.0
+            ax.loglog(y[keep], strength[keep], ls=style, color=colour,
+                      label=f"{t:.0%} biconvex, {name} shock")
+    y = np.array([3.0, 3000.0])
+    ax.loglog(y, 0.25 * (y / 3.0) ** -0.5, color="#8C8C8C", lw=0.9, ls=":",
+              label="distance^(-1/2) (Whitham 1974)")
+    ax.set_xlabel("distance below the section [chord]")
+    ax.set_ylabel("shock strength p2/p1 - 1 [-]")
+    ax.set_title("section_near_field: shock decay at Mach 2", fontsize="medium")
+    ax.legend(fontsize="small", frameon=False)
+    return figure
+
+
 def thermally_perfect_comparison():
     drawn = draw_gas_model_comparison(250.0, quantities=("T2_T1", "rho2_rho1", "p2_p1"))
     return drawn.figure
@@ -178,6 +211,8 @@ FIGURES = {
     "plotting-net.png": plotting_net,
     "plotting-pressures.png": plotting_pressures,
     "thermally-perfect-comparison.png": thermally_perfect_comparison,
+    "near-field-signature.png": near_field_signature,
+    "near-field-decay.png": near_field_decay,
 }
 
 

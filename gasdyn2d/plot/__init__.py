@@ -29,6 +29,8 @@ Public functions
   coloured by Mach number (optionally a spike intake's cowl lip);
   :func:`draw_cone_pressures` — cone and wedge surface pressures against
   half-angle, up to detachment.
+- :func:`draw_pressure_signature` — the pressure signature of a section's near field
+  below and above it, against distance along the flight direction.
 - :class:`Drawing` — what every ``draw_*`` function returns.
 - :data:`PALETTE` — the colour-blind-safe colours used throughout;
   :data:`WAVE_STYLES` — the line style of each kind of line.
@@ -49,9 +51,10 @@ from .pressure_plots import draw_surface_pressures
 from .gas_model_plots import draw_gas_model_comparison
 from .tour import tour_figure
 from .cone_plots import draw_cone_flow, draw_cone_pressures
+from .signature_plots import draw_pressure_signature
 
 __all__ = [
     "Drawing", "PALETTE", "WAVE_STYLES", "draw_polars", "draw_pattern_polars", "draw_wave_pattern",
     "draw_characteristic_net", "draw_surface_pressures", "draw_gas_model_comparison",
-    "tour_figure", "draw_cone_flow", "draw_cone_pressures",
+    "tour_figure", "draw_cone_flow", "draw_cone_pressures", "draw_pressure_signature",
 ]
