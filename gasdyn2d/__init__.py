@@ -56,7 +56,7 @@ from .relations.cone_shock_layer import ConeShockLayer, cone_shock_layer
 from .relations.cone_probes import cone_probe_flow
 from .design.spike_intakes import SpikeIntake, spike_intake
 from .design.cone_loads import ConeCylinderForebody, ConeWaveDrag, cone_cylinder_forebody, cone_wave_drag
-from .design.near_fields import FittedShock, SectionNearField, section_near_field
+from .design.near_fields import NearFieldShock, SectionNearField, section_near_field
 
 
 def __getattr__(name):
@@ -93,6 +93,6 @@ __all__ = [
     "cone_flow", "ConeFlow", "max_cone_angle", "sonic_cone_angle", "cone_shock_layer",
     "ConeShockLayer", "cone_probe_flow", "spike_intake", "SpikeIntake", "cone_wave_drag",
     "ConeWaveDrag", "cone_cylinder_forebody", "ConeCylinderForebody",
-    "section_near_field", "SectionNearField", "FittedShock",
+    "section_near_field", "SectionNearField", "NearFieldShock",
 ]
 __version__ = "0.1.0"

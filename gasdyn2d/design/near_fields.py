@@ -2,7 +2,7 @@
 pressure signature at given distances below and above it.
 
 Unit boundary: :func:`section_near_field`; result :class:`SectionNearField` (with one
-:class:`FittedShock` per shock). The field is the classical field of shock-expansion
+:class:`NearFieldShock` per shock). The field is the classical field of shock-expansion
 theory with the reflected waves neglected:
 
 - on each side the surface expansion is a simple wave: its characteristics of the
@@ -52,7 +52,7 @@ from .section_forces import panel_coefficients, panel_geometry
 from .section_loads import shock_expansion_loads
 from .sections import Section
 
-__all__ = ["FittedShock", "SectionNearField", "section_near_field", "DEFAULT_LINE_TURN"]
+__all__ = ["NearFieldShock", "SectionNearField", "section_near_field", "DEFAULT_LINE_TURN"]
 
 #: Default largest turn between neighbouring characteristics of one fan [rad] (0.25°).
 DEFAULT_LINE_TURN = math.radians(0.25)
@@ -62,7 +62,7 @@ _CLEARANCE = 1e-9  # [chord]: how far a signature line must clear the section
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
-class FittedShock(ResultTable):
+class NearFieldShock(ResultTable):
     """One shock of a section's near field, at its start and at every crossing with a
     characteristic (wind axes: x along the flight direction, y up; lengths in chords or in
     the chord's unit). Empty arrays when the shock does not exist (a fan on that side)."""
@@ -101,10 +101,10 @@ class SectionNearField(ResultTable):
     cd: float = unit_field("", "wave-drag coefficient from the surface pressures")
     slip_direction: object = unit_field("rad", "wake slip line from the flight direction")
     wake_pressure_ratio: float = unit_field("", "p/p∞ on the wake slip line")
-    leading_shock_above: FittedShock = unit_field("", "leading-edge shock, upper side")
-    trailing_shock_above: FittedShock = unit_field("", "trailing-edge shock, upper side")
-    leading_shock_below: FittedShock = unit_field("", "leading-edge shock, lower side")
-    trailing_shock_below: FittedShock = unit_field("", "trailing-edge shock, lower side")
+    leading_shock_above: NearFieldShock = unit_field("", "leading-edge shock, upper side")
+    trailing_shock_above: NearFieldShock = unit_field("", "trailing-edge shock, upper side")
+    leading_shock_below: NearFieldShock = unit_field("", "leading-edge shock, lower side")
+    trailing_shock_below: NearFieldShock = unit_field("", "trailing-edge shock, lower side")
     x_above: object = unit_field("", "[length] signature abscissae above, one row per distance")
     overpressure_above: np.ndarray = unit_field("", "p/p∞ - 1 above, one row per distance")
     x_below: object = unit_field("", "[length] signature abscissae below, one row per distance")
@@ -124,8 +124,8 @@ class SectionNearField(ResultTable):
         variables = {}
         for info in result_fields(type(self)):
             value = getattr(self, info.name)
-            if isinstance(value, FittedShock):
-                for inner in result_fields(FittedShock):
+            if isinstance(value, NearFieldShock):
+                for inner in result_fields(NearFieldShock):
                     variables[f"{info.name}.{inner.name}"] = _data_array(
                         xr, getattr(value, inner.name), (f"{info.name}_point",), inner,
                         self.length_unit)
@@ -441,7 +441,7 @@ def section_near_field(section, M1, alpha, distances, *, chord=None, gamma=1.4,
     neglected, and with them the entropy (vorticity) gradient behind the curved shocks
     and the change they would make to the surface pressures (third order in the
     surface turn angles, as in shock-expansion theory). Each shock point measures the
-    wave it neglects: ``FittedShock.neglected_wave``, ln(p behind the shock point / p on
+    wave it neglects: ``NearFieldShock.neglected_wave``, ln(p behind the shock point / p on
     the arriving line), which is the strength of the reflected wave: it matches the
     reflected wave of the region graph's exact interaction of a wedge shock with a whole
     corner fan to 1 %, and is 0.1 % of the incident wave on a 5 % biconvex section at
@@ -552,11 +552,11 @@ def _chord_units(value):
 def _shock_result(trace, mirror, scale, call, length):
     if trace is None:
         empty = np.empty(0)
-        return FittedShock(length(empty), length(empty), call.angle(empty),
+        return NearFieldShock(length(empty), length(empty), call.angle(empty),
                            call.angle(empty), frozen_array(empty), frozen_array(empty),
                            frozen_array(empty))
     sign = -1.0 if mirror else 1.0
-    return FittedShock(length(scale * trace["x"]), length(sign * scale * trace["y"]),
+    return NearFieldShock(length(scale * trace["x"]), length(sign * scale * trace["y"]),
                        call.angle(trace["wave_angle"]), call.angle(sign * trace["direction"]),
                        frozen_array(trace["pressure_ratio"]),
                        frozen_array(trace["upstream_pressure"]),
