@@ -30,10 +30,12 @@ Plain core only (SI, radians, pressures in any one unit): :func:`shock_point`.
 
 from __future__ import annotations
 
+import math
 from typing import NamedTuple
 
 import numpy as np
 
+from .. import numerics as nx
 from ..relations.oblique_shocks import oblique_shock_ratios
 from ..relations.theta_beta_mach import sonic_angles
 
@@ -119,6 +121,10 @@ def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, fa
     >>> round(math.degrees(float(point.wave_angle)), 4)
     39.3139
     """
+    if nx.plain_scalars(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family,
+                        gamma):
+        return _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind,
+                                   family, gamma)
     arrays = np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in (
         mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family, gamma)))
     mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family, gamma = arrays
@@ -149,6 +155,67 @@ def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, fa
     if result.wave_angle.ndim == 0:
         return ShockPoint(*(v[()] for v in result))
     return result
+
+
+def _compatibility_coefficient_scalar(mach, gamma):
+    """Scalar form of :func:`compatibility_coefficient`."""
+    if not mach > 1.0 - 1e-12:
+        return math.nan
+    return math.sqrt(max((mach - 1.0) * (mach + 1.0), 0.0)) / (gamma * mach * mach)
+
+
+def _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family,
+                        gamma):
+    """Scalar form of :func:`shock_point` (same residual, same Illinois steps; the march of
+    fitted shocks calls it once per shock per step, where numpy's per-call cost dominates)."""
+    nan = math.nan
+    if not (mach_up > 1.0 and p_up > 0.0 and p_behind > 0.0) or math.isnan(
+            mach_behind + theta_behind + theta_up + family + gamma):
+        return ShockPoint(nan, nan, nan, nan, nan, nan, False, False)
+    b_behind = _compatibility_coefficient_scalar(mach_behind, gamma)
+    log_p_behind = math.log(p_behind / p_up)
+    turn_behind = family * (theta_behind - theta_up)
+
+    def residual(beta):
+        ratios = oblique_shock_ratios(mach_up, beta, gamma)
+        b_mean = 0.5 * (b_behind + _compatibility_coefficient_scalar(ratios.M2, gamma))
+        return ratios.deflection - turn_behind + b_mean * (
+            math.log1p(ratios.strength) - log_p_behind), ratios
+
+    low = math.asin(1.0 / mach_up)
+    high = float(sonic_angles(mach_up, gamma)[1])
+    f_low, f_high = residual(low)[0], residual(high)[0]
+    vanished, subsonic = f_low >= 0.0, f_high < 0.0
+    if math.isnan(f_low + f_high):
+        return ShockPoint(nan, nan, nan, nan, nan, nan, False, False)
+    if vanished:
+        beta = low
+    elif subsonic:
+        return ShockPoint(nan, nan, nan, nan, nan, nan, False, True)
+    else:
+        beta, side = 0.5 * (low + high), 0
+        for _ in range(_ITERATIONS):
+            guess = (low * f_high - high * f_low) / (f_high - f_low)
+            if not low < guess < high:
+                guess = 0.5 * (low + high)
+            f_guess = residual(guess)[0]
+            beta = guess
+            if f_guess < 0.0:
+                low, f_low = guess, f_guess
+                if side < 0:
+                    f_high *= 0.5
+                side = -1
+            else:
+                high, f_high = guess, f_guess
+                if side > 0:
+                    f_low *= 0.5
+                side = 1
+            if high - low <= 4.0 * math.ulp(high) or f_guess == 0.0:
+                break
+    ratios = oblique_shock_ratios(mach_up, beta, gamma)
+    return ShockPoint(beta, theta_up + family * beta, ratios.M2,
+                      theta_up + family * ratios.deflection, p_up * (1.0 + ratios.strength),
+                      ratios.p02_p01, vanished, False)
 
 
 def _illinois(residual, low, high, f_low, f_high, active):

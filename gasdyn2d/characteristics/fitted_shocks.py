@@ -1,0 +1,627 @@
+"""Shock-fitted space marching of a planar channel: shocks carried as discontinuities.
+
+Where the characteristic net of :func:`gasdyn2d.characteristics.channels.channel_flow`
+folds (characteristics of one family cross: a shock forms), the channel is marched
+instead by this inverse (space-)marching scheme with fitted shocks. Plain core only:
+:func:`march_fitted_channel`; its shocks come back as :class:`FittedShock` results.
+
+Method
+------
+The channel is marched in x, station by station. At each station the cross-section
+is split into zones by the two walls and the fitted shocks; each zone holds nodes
+spaced evenly between its two boundaries (as many as keep the spacing at most the
+target spacing h = local height/(n - 1), at least its two boundary nodes). A shock
+point appears twice, once on each side. The variables are p, θ and the stagnation
+pressure p0 of the streamline (the entropy), with M from p/p0 on the streamline.
+
+A new node's state comes from tracing its C+, its C- and its streamline back to the
+previous station and interpolating there (linear interpolation in each zone; a trace
+that leaves the zone between the stations meets the zone's boundary path, and the
+state there is interpolated along that path). Along C± the planar compatibility
+relations in p and θ hold in rotational flow as they stand,
+
+    dθ + B dp/p = 0 along C+,   dθ - B dp/p = 0 along C-,   B = √(M² - 1)/(γM²),
+
+and p0 is constant along a streamline (Zucrow and Hoffman, 1977, vol. 2, ch. 16:
+the inverse marching method and the rotational compatibility relations; chapter
+from memory). The entropy enters through M(p, p0) on each streamline. Slopes and
+coefficients are taken at the new node's estimate in a predictor and averaged
+between the foot and the node in two correctors.
+
+Wall node: the wall fixes θ; the characteristic arriving from the flow (C- at the
+lower wall, C+ at the upper) fixes p; p0 is carried along the wall streamline.
+
+Shock point (:func:`gasdyn2d.characteristics.shock_points.shock_point`): the
+upstream state is that of the upstream side's node (computed like an interior node
+of the zone ahead); the oblique-shock relations and the characteristic of the
+shock's own family traced back into the zone behind give the wave angle and the
+state behind; p0 behind is p0 ahead times p02/p01. The shock is moved along the
+mean of its old and new directions.
+
+Where shocks start: at the start of each compressive stretch of a wall (the lower
+wall turning up, the upper turning down) a shock is inserted as a Mach wave of
+zero strength, which the compression waves from the wall then strengthen from
+behind. For a short arc the compression coalesces at once and this is the true
+shock; for a gradual compression, which would stay isentropic until its
+characteristics cross, the fitted shock replaces the isentropic compression: the
+entropy it produces is of third order in the turn (the oblique-shock entropy rise
+for a turn δ is O(δ³)), so the error is of that order.
+
+Reflection from a wall: where a shock reaches a wall the station is placed there;
+the reflected shock (the other family) turns the flow behind the incident shock back
+parallel to the wall (regular reflection, by the oblique-shock relations for that
+deflection, weak branch). Where that deflection exceeds the detachment angle, only
+a Mach reflection exists: the march stops (``"mach_reflection"``).
+
+Where it stops: two shocks meeting (crossing, or one overtaking another) stop the
+march (``"shock_crossing"``; the slip line of a crossing is not fitted); flow
+compressed to M = 1, or a shock so strong the flow behind it is subsonic, stops
+it (``"sonic"``).
+
+Accuracy: the scheme is second order in smooth flow away from the interpolation
+(the averaged-coefficient rule); linear interpolation at the feet adds an O(h)
+numerical diffusion over the march, so the measured order of wall pressures is
+between one and two (see the tests and ``docs/characteristics.md``).
+
+Not modelled: boundary layers, shock/boundary-layer interaction and separation
+(which a real shock reflection in a duct often causes), real-gas effects.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from typing import NamedTuple
+
+import numpy as np
+
+from ..boundary.results import ResultTable, unit_field
+from ..relations.isentropic import pressure_ratio
+from ..relations.oblique_shocks import oblique_shock_ratios
+from ..relations.theta_beta_mach import (
+    detachment_angles,
+    sonic_angles,
+    wave_angle_from_deflection,
+)
+from .shock_points import shock_point
+
+__all__ = ["FittedShock", "FittedMarch", "march_fitted_channel", "compressive_stretches"]
+
+_PASSES = 3  # predictor + two correctors
+_CFL = 1.0  # feet of C± about one target spacing from the node
+_MAX_STATIONS = 100_000
+_LOOKAHEAD = 1.5  # a shock hitting a wall within this many steps lands a station on the wall
+
+# node kinds
+_INTERIOR, _LOWER_WALL, _UPPER_WALL, _AHEAD, _BEHIND = 0, 1, 2, 3, 4
+
+
+@dataclasses.dataclass(frozen=True, repr=False)
+class FittedShock(ResultTable):
+    """One fitted shock of a channel march: its points from where it starts to where it ends.
+
+    A shock that reflects from a wall ends there; its reflection is the next entry.
+    """
+
+    family: int = unit_field("", "+1: runs like a C+ (up the channel), -1: like a C-", dtype=int)
+    x: np.ndarray = unit_field("m", "shock points, in streamwise order")
+    y: np.ndarray = unit_field("m")
+    wave_angle: np.ndarray = unit_field("rad", "β between the upstream flow and the shock")
+    p2_p1: np.ndarray = unit_field("", "static pressure ratio across the shock")
+    end: str = unit_field("", "where it ends: 'wall', 'length' or the stop reason", dtype=str)
+
+
+class FittedMarch(NamedTuple):
+    """Plain-core result of :func:`march_fitted_channel` (SI, radians)."""
+
+    station_x: np.ndarray  #: x of each station [m]
+    y: list  #: per station: node heights [m], lower to upper wall (shock points twice)
+    p_p0: list  #: per station: static pressure over the inlet stagnation pressure
+    theta: list  #: per station: flow direction [rad]
+    p0_p0_inlet: list  #: per station: stagnation pressure over the inlet's
+    mach: list  #: per station: Mach number
+    shocks: list  #: (family, x, y, wave_angle, p2_p1, end) per fitted shock
+    reason: str  #: "length", "mach_reflection", "shock_crossing" or "sonic"
+    stop_position: tuple  #: (x, y) where the march stopped short (NaN at "length")
+
+
+class _Shock:
+    """A fitted shock being marched: its current position and direction, and its path."""
+
+    def __init__(self, family, x, y, direction, wave_angle, p2_p1):
+        self.family = family
+        self.y = y
+        self.direction = direction
+        self.path = [(x, y, wave_angle, p2_p1)]
+        self.end = "length"
+
+    def record(self, x, wave_angle, p2_p1):
+        self.path.append((x, self.y, wave_angle, p2_p1))
+
+
+class _Station:
+    """Nodes of one station, zone by zone (arrays over all nodes)."""
+
+    def __init__(self, x, counts, y, lp, th, lp0, shocks):
+        self.x = x
+        self.counts = np.asarray(counts, dtype=np.intp)
+        self.y, self.lp, self.th, self.lp0 = y, lp, th, lp0
+        self.shocks = shocks  # list of _Shock, len(counts) - 1, between zone i and i + 1
+        self.zone, self.eta, self.start, self.stop = _layout(self.counts)
+        self.xi = 2.0 * self.zone + self.eta  # increasing: one interpolation for all zones
+
+
+def _layout(counts):
+    """Zone of each node, its even position η in [0, 1] in the zone, first and last index."""
+    zone = np.repeat(np.arange(counts.size), counts)
+    stop = np.cumsum(counts) - 1
+    start = stop - counts + 1
+    eta = (np.arange(zone.size) - start[zone]) / (counts[zone] - 1.0)
+    return zone, eta, start, stop
+
+
+def _kinds(counts, shocks):
+    """Node kinds: interior, wall nodes, and the sides of each shock (ahead, behind)."""
+    zone, _, start, stop = _layout(counts)
+    kind = np.zeros(zone.size, dtype=np.intp)
+    kind[start[0]] = _LOWER_WALL
+    kind[stop[-1]] = _UPPER_WALL
+    ahead, behind = [], []
+    for i, shock in enumerate(shocks):
+        below, above = stop[i], start[i + 1]
+        up, down = (below, above) if shock.family < 0 else (above, below)
+        kind[up], kind[down] = _AHEAD, _BEHIND
+        ahead.append(up)
+        behind.append(down)
+    return kind, np.array(ahead, dtype=np.intp), np.array(behind, dtype=np.intp)
+
+
+def _properties(lp, lp0, gamma):
+    """Mach number, Mach angle and B from ln p and ln p0 of the streamline."""
+    m2 = 2.0 / (gamma - 1.0) * np.expm1((gamma - 1.0) / gamma * (lp0 - lp))
+    mach = np.sqrt(m2)
+    mu = np.arcsin(1.0 / mach)
+    b = np.sqrt(m2 - 1.0) / (gamma * m2)
+    return mach, mu, b
+
+
+def compressive_stretches(wall, length, side, samples=20001):
+    """Where stretches of compressive turning of a wall begin and end [m], in [0, length].
+
+    ``side`` is "lower" (compressive where the wall turns up) or "upper" (where it
+    turns down). The wall angle is sampled at ``samples`` points; a stretch starts
+    at the last sample before the turning begins (a Mach wave inserted a little
+    early carries nothing until the turn reaches it) and ends at the first sample
+    after it. Returns an array of shape (k, 2).
+    """
+    x = np.linspace(0.0, length, samples)
+    angle = np.arctan(np.asarray(wall.slope(x), dtype=float))
+    turn = np.diff(angle) * (1.0 if side == "lower" else -1.0)
+    compressive = np.concatenate([[False], turn > 1e-12, [False]])
+    begins = np.flatnonzero(compressive[1:] & ~compressive[:-1])
+    ends = np.flatnonzero(compressive[:-1] & ~compressive[1:])
+    return np.column_stack([x[begins], x[ends]]).reshape(-1, 2)
+
+
+def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n):
+    """Plain core: march a planar channel with fitted shocks from a uniform inlet at x = 0.
+
+    Parameters
+    ----------
+    M, gamma : float
+        Inlet Mach number (> 1, flow along x) and ratio of specific heats.
+    lower_wall, upper_wall : WallContour
+        The walls (the centreline of a symmetric channel is a straight lower wall).
+    length : float
+        Where the march ends [m].
+    n : int
+        Nodes across the inlet; the target spacing is the local height / (n - 1).
+
+    Returns
+    -------
+    FittedMarch
+
+    References
+    ----------
+    Zucrow, M. J. and Hoffman, J. D., 1977, *Gas Dynamics*, vol. 2, Wiley, ch. 16
+    (inverse marching, rotational compatibility relations, shock points; chapter from
+    memory).
+
+    Examples
+    --------
+    A made-up Mach 2.2 duct whose roof turns down 6° at a sharp corner: the corner's
+    shock reflects regularly from the floor.
+
+    >>> import math
+    >>> from gasdyn2d.characteristics.walls import WallContour
+    >>> from gasdyn2d.characteristics.fitted_shocks import march_fitted_channel
+    >>> march = march_fitted_channel(2.2, 1.4, WallContour.straight(0.0),
+    ...                              WallContour.bend(0.1, 0.05, math.radians(-6.0), 1e-4),
+    ...                              0.3, 21)
+    >>> march.reason, [shock[0] for shock in march.shocks]
+    ('length', [-1, 1])
+    >>> round(math.degrees(march.shocks[0][3][0]), 4)  # β of the 6° shock at Mach 2.2
+    31.9809
+    """
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        return _march(M, gamma, lower_wall, upper_wall, length, n)
+
+
+def _march(M, gamma, lower_wall, upper_wall, length, n):
+    """:func:`march_fitted_channel` inside one floating-point error state."""
+    p_inlet = float(pressure_ratio(M, gamma))
+    y0 = np.linspace(float(lower_wall.height(0.0)), float(upper_wall.height(0.0)), n)
+    station = _Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
+                       np.zeros(n), [])
+    starts = sorted(_corner_or_stretch(wall, a, b, side) for wall, side in (
+        (lower_wall, "lower"), (upper_wall, "upper"))
+        for a, b in compressive_stretches(wall, length, side))
+    out = _Recorder(gamma)
+    finished = []
+    reason, where = "length", (math.nan, math.nan)
+    walls = (lower_wall, upper_wall)
+    station = _insert_shocks(station, starts, walls, n, gamma)
+    if isinstance(station, tuple):
+        reason, where = station[1]
+        station = _Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
+                           np.zeros(n), [])
+    out.add(station)
+    for _ in range(_MAX_STATIONS):
+        if station.x >= length * (1.0 - 1e-14):
+            break
+        dx, hit, meet = _step_length(station, walls, length, starts, n, gamma)
+        if meet is not None:
+            reason, where = "shock_crossing", meet
+            break
+        new, status = _advance(station, dx, hit, walls, n, gamma)
+        if status != "ok":
+            reason, where = status
+            break
+        for shock, ratio, beta in zip(new.shocks, *_shock_strengths(new, gamma)):
+            shock.record(new.x, beta, ratio)
+        if hit is not None:
+            new, status = _reflect(new, hit, walls, gamma, finished)
+            if status != "ok":
+                reason, where = status
+                out.add(new)
+                break
+        inserted = _insert_shocks(new, starts, walls, n, gamma)
+        if isinstance(inserted, tuple):
+            reason, where = inserted[1]
+            out.add(new)
+            break
+        new = inserted
+        out.add(new)
+        station = new
+    for shock in finished + list(station.shocks):
+        if shock not in finished and reason != "length":
+            shock.end = reason
+    shocks = [(s.family,) + tuple(np.array(v) for v in zip(*s.path)) + (s.end,)
+              for s in finished + [s for s in station.shocks if s not in finished]]
+    return FittedMarch(np.array(out.x), out.y, out.p, out.th, out.p0, out.mach, shocks,
+                       reason, where)
+
+
+def _corner_or_stretch(wall, start, end, side):
+    """(start, side, end) of a compressive stretch; a polyline's corner inside it is the
+    stretch itself (start = end = the corner)."""
+    for corner in getattr(wall, "corners_x", ()):
+        if start <= corner <= end:
+            return (float(corner), side, float(corner))
+    return (float(start), side, float(end))
+
+
+class _Recorder:
+    """Stations as they are marched, in output form."""
+
+    def __init__(self, gamma):
+        self.gamma = gamma
+        self.x, self.y, self.p, self.th, self.p0, self.mach = [], [], [], [], [], []
+
+    def add(self, station):
+        self.x.append(station.x)
+        self.y.append(station.y.copy())
+        self.p.append(np.exp(station.lp))
+        self.th.append(station.th.copy())
+        self.p0.append(np.exp(station.lp0))
+        self.mach.append(_properties(station.lp, station.lp0, self.gamma)[0])
+
+
+def _shock_strengths(station, gamma):
+    """Pressure ratio and wave angle of each shock of a station, from its two sides."""
+    _, ahead, behind = _kinds(station.counts, station.shocks)
+    if ahead.size == 0:
+        return [], []
+    ratio = np.exp(station.lp[behind] - station.lp[ahead])
+    mach = _properties(station.lp[ahead], station.lp0[ahead], gamma)[0]
+    # β from the normal Mach number: p2/p1 = 1 + 2γ(Mn² - 1)/(γ + 1) (NACA Report 1135, eq. 128)
+    mn2 = 1.0 + np.maximum(ratio - 1.0, 0.0) * (gamma + 1.0) / (2.0 * gamma)
+    beta = np.arcsin(np.minimum(np.sqrt(mn2) / mach, 1.0))
+    return list(ratio), list(beta)
+
+
+def _step_length(station, walls, length, starts, n, gamma):
+    """The next step: CFL length, cut to land on the channel end, a shock's wall hit or
+    a shock's start; or the point where two shocks meet."""
+    x = station.x
+    height = float(walls[1].height(x) - walls[0].height(x))
+    h = height / (n - 1)
+    _, mu, _ = _properties(station.lp, station.lp0, gamma)
+    spread = np.tan(station.th + mu) - np.tan(station.th - mu)
+    dx_cfl = _CFL * 2.0 * h / float(np.max(spread))
+    limit = length - x
+    corners = [c for wall in walls for c in getattr(wall, "corners_x", ())]
+    for x_mark in [start[0] for start in starts] + corners:
+        if x + 1e-12 * max(1.0, abs(x)) < x_mark:  # land on shock starts and wall corners
+            limit = min(limit, x_mark - x)
+    dx = min(dx_cfl, limit)
+    reach = min(_LOOKAHEAD * dx_cfl, limit)
+    shocks = station.shocks
+    hit = None
+    if shocks:
+        for k, wall_index, family in ((0, 0, -1), (len(shocks) - 1, 1, +1)):
+            shock = shocks[k]
+            if shock.family != family:
+                continue
+            d = _wall_hit(shock, walls[wall_index], x, reach, wall_index)
+            if d is not None and (hit is None or d < dx):
+                dx, hit = d, (k, wall_index)
+    for i in range(len(shocks) - 1):  # neighbouring shocks meeting within the step
+        gap = shocks[i + 1].y - shocks[i].y
+        closing = math.tan(shocks[i].direction) - math.tan(shocks[i + 1].direction)
+        if closing > 0.0 and gap <= closing * dx:
+            d = gap / closing
+            return dx, None, (x + d, shocks[i].y + d * math.tan(shocks[i].direction))
+    return dx, hit, None
+
+
+def _wall_hit(shock, wall, x, reach, wall_index):
+    """Distance along x in (0, reach] at which the straight continuation of a shock meets
+    a wall, or None."""
+    sign = 1.0 if wall_index == 0 else -1.0  # gap > 0 while the shock is inside
+
+    def gap(d):
+        return sign * (shock.y + d * math.tan(shock.direction) - float(wall.height(x + d)))
+
+    if gap(reach) > 0.0:
+        return None
+    low, high = 0.0, reach
+    for _ in range(60):  # bisection: the wall may be curved
+        mid = 0.5 * (low + high)
+        if gap(mid) > 0.0:
+            low = mid
+        else:
+            high = mid
+    return high if high > 1e-12 * max(1.0, abs(x)) else None
+
+
+def _advance(old, dx, hit, walls, n, gamma):
+    """March one step: the new station's nodes by predictor and correctors."""
+    x = old.x + dx
+    y_low, y_up = float(walls[0].height(x)), float(walls[1].height(x))
+    th_low, th_up = (_wall_angle(w, x, dx) for w in walls)
+    h = (y_up - y_low) / (n - 1)
+    shocks = old.shocks
+    shock_y_old = np.array([s.y for s in shocks])
+    dir_old = np.array([s.direction for s in shocks])
+    shock_y = shock_y_old + dx * np.tan(dir_old)
+    pinned = None
+    if hit is not None:
+        pinned = hit[0]
+        shock_y[pinned] = y_low if hit[1] == 0 else y_up
+    bounds = np.concatenate([[y_low], shock_y, [y_up]])
+    if np.any(np.diff(bounds) < -1e-12 * max(h, 1e-300)):
+        k = int(np.argmin(np.diff(bounds)))
+        return None, ("shock_crossing", (x, float(bounds[k])))
+    bounds = np.maximum.accumulate(bounds)
+    thick = np.diff(bounds)
+    counts = np.maximum(2, np.ceil(thick / h - 1e-9).astype(np.intp) + 1)
+    zone, eta, start, stop = _layout(counts)
+    kind, ahead, behind = _kinds(counts, shocks)
+    family = np.array([s.family for s in shocks], dtype=float)
+    y = bounds[zone] + eta * thick[zone]
+    xi = 2.0 * zone + eta
+    lp, th, lp0 = (np.interp(xi, old.xi, v) for v in (old.lp, old.th, old.lp0))
+    if shocks:
+        # Predictor state behind each shock: the previous station's node one step into the
+        # zone behind. Behind a weak shock the state right at the shock is (nearly) the one
+        # ahead, whose own-family characteristic runs along the shock and never meets the
+        # compression behind it (an unstable fixed point); starting from the neighbour's
+        # slope the trace reaches into the zone behind, where the compression is.
+        _, old_ahead, old_behind = _kinds(old.counts, shocks)
+        inward = old_behind + np.where(old_behind > old_ahead, 1, -1)
+        lp[behind], th[behind], lp0[behind] = old.lp[inward], old.th[inward], old.lp0[inward]
+    own_lo = np.zeros(zone.size, bool)
+    own_lo[start] = True
+    own_hi = np.zeros(zone.size, bool)
+    own_hi[stop] = True
+    geometry = (zone, own_lo, own_hi, start, stop, dx)
+    feet_slopes = None
+    new_dir = dir_old
+    interior = (kind == _INTERIOR) | (kind == _AHEAD)
+    for _ in range(_PASSES):
+        _, mu, b = _properties(lp, lp0, gamma)
+        slopes = np.tan(np.array([th + mu, th - mu, th]))
+        if feet_slopes is not None:
+            slopes = 0.5 * (slopes + feet_slopes)
+        new = (y, lp, th, lp0)
+        feet = [_foot(old, new, s, geometry) for s in slopes]
+        (lpa, tha, lp0a), (lpb, thb, lp0b), (_, _, lp0s) = feet
+        _, mua, ba = _properties(lpa, lp0a, gamma)
+        _, mub, bb = _properties(lpb, lp0b, gamma)
+        feet_slopes = np.tan(np.array([tha + mua, thb - mub, feet[2][1]]))
+        bp, bm = 0.5 * (ba + b), 0.5 * (bb + b)
+        rp, rm = tha + bp * lpa, thb - bm * lpb
+        lp_new = np.where(interior, (rp - rm) / (bp + bm), lp)
+        th_new = np.where(interior, rp - bp * lp_new, th)
+        i0, i1 = start[0], stop[-1]
+        th_new[i0], lp_new[i0] = th_low, lpb[i0] + (th_low - thb[i0]) / bm[i0]
+        th_new[i1], lp_new[i1] = th_up, lpa[i1] - (th_up - tha[i1]) / bp[i1]
+        lp0_new = np.where(kind == _BEHIND, lp0, lp0s)
+        lp0_new[i0], lp0_new[i1] = old.lp0[old.start[0]], old.lp0[old.stop[-1]]  # wall streamlines
+        if shocks:
+            own = np.where(family > 0, 1, 0)  # behind a +1 shock its C+ arrives: foot a
+            foot_lp = np.where(own == 1, lpa[behind], lpb[behind])
+            foot_th = np.where(own == 1, tha[behind], thb[behind])
+            foot_lp0 = np.where(own == 1, lp0a[behind], lp0b[behind])
+            m_up = _properties(lp_new[ahead], lp0_new[ahead], gamma)[0]
+            m_b = _properties(foot_lp, foot_lp0, gamma)[0]
+            point = _shock_points(m_up, th_new[ahead], np.exp(lp_new[ahead]), m_b, foot_th,
+                                  np.exp(foot_lp), family, gamma)
+            if np.any(point.subsonic) or not np.all(np.isfinite(point.wave_angle)):
+                k = int(np.argmax(point.subsonic | ~np.isfinite(point.wave_angle)))
+                return None, ("sonic", (x, float(shock_y[k])))
+            lp_new[behind] = np.log(point.p)
+            th_new[behind] = point.theta
+            lp0_new[behind] = lp0_new[ahead] + np.log(point.p0_ratio)
+            new_dir = np.asarray(point.direction, dtype=float)
+            shock_y = shock_y_old + dx * 0.5 * (np.tan(dir_old) + np.tan(new_dir))
+            if pinned is not None:
+                shock_y[pinned] = y_low if hit[1] == 0 else y_up
+            bounds = np.maximum.accumulate(np.concatenate([[y_low], shock_y, [y_up]]))
+            thick = np.diff(bounds)
+            y = bounds[zone] + eta * thick[zone]
+        lp, th, lp0 = lp_new, th_new, lp0_new
+    mach = _properties(lp, lp0, gamma)[0]
+    if not np.all(mach > 1.0):
+        k = int(np.argmin(np.where(np.isnan(mach), -np.inf, mach)))
+        return None, ("sonic", (x, float(y[k])))
+    for shock, y_s, direction in zip(shocks, shock_y, new_dir):
+        shock.y, shock.direction = float(y_s), float(direction)
+    return _Station(x, counts, y, lp, th, lp0, list(shocks)), "ok"
+
+
+def _shock_points(*states):
+    """:func:`shock_point` for each shock of a station (its scalar form: a few shocks)."""
+    *arrays, gamma = states
+    points = [shock_point(*(float(v) for v in values), float(gamma)) for values in zip(*arrays)]
+    return type(points[0])(*(np.array(v) for v in zip(*points)))
+
+
+def _wall_angle(wall, x, dx):
+    """The wall's angle at x [rad]; at a corner the angle just upstream of it (the turn
+    acts on the next step)."""
+    if any(abs(x - c) <= 1e-12 * max(1.0, abs(c)) for c in getattr(wall, "corners_x", ())):
+        x = x - 1e-9 * dx
+    return float(np.arctan(wall.slope(x)))
+
+
+def _foot(old, new, slope, geometry):
+    """State (ln p, θ, ln p0) where lines of ``slope`` through the new nodes meet the
+    previous station, or, where they leave their zone first, the zone's boundary path."""
+    zone, own_lo, own_hi, start, stop, dx = geometry
+    y, lp, th, lp0 = new
+    y_foot = y - dx * slope
+    lo_old, hi_old = old.y[old.start[zone]], old.y[old.stop[zone]]
+    thick = hi_old - lo_old
+    below = (y_foot < lo_old) & ~own_lo
+    above = (y_foot > hi_old) & ~own_hi
+    eta = np.where(thick > 0.0, (y_foot - lo_old) / thick, 0.5)
+    xi = 2.0 * zone + np.clip(eta, 0.0, 1.0)
+    values = [np.interp(xi, old.xi, v) for v in (old.lp, old.th, old.lp0)]
+    for side, mask, new_index, old_index in ((0, below, start, old.start),
+                                             (1, above, stop, old.stop)):
+        if not np.any(mask):
+            continue
+        k = np.flatnonzero(mask)
+        z = zone[k]
+        edge_new, edge_old = y[new_index[z]], old.y[old_index[z]]
+        t = (y[k] - edge_new) / (dx * slope[k] - (edge_new - edge_old))
+        t = np.clip(np.nan_to_num(t, nan=1.0), 0.0, 1.0)
+        for value, now, before in zip(values, (lp, th, lp0), (old.lp, old.th, old.lp0)):
+            value[k] = (1.0 - t) * now[new_index[z]] + t * before[old_index[z]]
+    return values
+
+
+def _reflect(station, hit, walls, gamma, finished):
+    """Replace a shock that has reached a wall by its regular reflection (new station)."""
+    k, wall_index = hit
+    shocks = list(station.shocks)
+    incident = shocks[k]
+    incident.end = "wall"
+    finished.append(incident)
+    counts = station.counts.copy()
+    _, _, start, stop = _layout(counts)
+    wall = walls[wall_index]
+    theta_wall = float(np.arctan(wall.slope(station.x)))
+    behind = start[k + 1] if wall_index == 0 else stop[k]  # the incident's downstream node
+    lp2, th2, lp02 = station.lp[behind], station.th[behind], station.lp0[behind]
+    mach2 = float(_properties(lp2, lp02, gamma)[0])
+    family = -incident.family
+    deflection = family * (theta_wall - th2)
+    y_wall = float(station.y[behind])
+    if deflection > float(detachment_angles(mach2, gamma)[0]):
+        return station, ("mach_reflection", (station.x, y_wall))
+    if deflection > 0.0:
+        beta = float(wave_angle_from_deflection(mach2, deflection, gamma))
+        ratios = oblique_shock_ratios(mach2, beta, gamma)
+        ratio, p0_ratio = float(ratios.p2_p1), float(ratios.p02_p01)
+    else:  # the incident shock has died out before the wall: a Mach wave reflects
+        beta, ratio, p0_ratio = math.asin(1.0 / mach2), 1.0, 1.0
+    reflected = _Shock(family, station.x, y_wall, th2 + family * beta, beta, ratio)
+    state = (lp2 + math.log(ratio), theta_wall, lp02 + math.log(p0_ratio))
+    # the zone between the wall and the incident shock has closed; a zone between the wall
+    # and the reflected shock opens (two nodes at the wall point, the state behind it)
+    keep = np.ones(station.y.size, bool)
+    gone = slice(start[k], stop[k] + 1) if wall_index == 0 else slice(start[k + 1], stop[k + 1] + 1)
+    keep[gone] = False
+    parts = [station.y, station.lp, station.th, station.lp0]
+    opened = [np.full(2, y_wall)] + [np.full(2, v) for v in state]
+    if wall_index == 0:
+        arrays = [np.concatenate([o, p[keep]]) for o, p in zip(opened, parts)]
+        counts = np.concatenate([[2], np.delete(counts, k)])
+    else:
+        arrays = [np.concatenate([p[keep], o]) for o, p in zip(opened, parts)]
+        counts = np.concatenate([np.delete(counts, k + 1), [2]])
+    shocks[k] = reflected
+    return _Station(station.x, counts, *arrays, shocks), "ok"
+
+
+def _insert_shocks(station, starts, walls, n, gamma):
+    """Insert a shock at each wall where a compressive stretch begins at this station.
+
+    A stretch longer than a marching step gets a Mach wave of zero strength, which the
+    compression then strengthens from behind. A shorter one (a sharp corner or a short
+    arc, which the mesh cannot resolve) gets the oblique shock of its whole turn at
+    once, as at a corner placed at the stretch's start (error of the order of the
+    stretch's length). Returns the new station, or (None, (reason, position)) where the
+    turn is beyond what an attached supersonic shock can take.
+    """
+    for x_start, side, x_end in starts:
+        if abs(x_start - station.x) > 1e-12 * max(1.0, abs(station.x)):
+            continue
+        lower = side == "lower"
+        wall = walls[0 if lower else 1]
+        index = 0 if lower else station.y.size - 1
+        lp, th, lp0 = station.lp[index], station.th[index], station.lp0[index]
+        mach, mu, _ = (float(v) for v in _properties(lp, lp0, gamma))
+        family = 1 if lower else -1
+        h = float(walls[1].height(station.x) - walls[0].height(station.x)) / (n - 1)
+        step = _CFL * 2.0 * h / (math.tan(th + mu) - math.tan(th - mu))
+        ahead, after = x_start - 1e-9 * step, x_end + 1e-9 * step  # either side of a corner
+        turn = family * float(np.arctan(wall.slope(after)) - np.arctan(wall.slope(ahead)))
+        beta, ratio, p0_ratio = mu, 1.0, 1.0
+        if x_end - x_start <= step and turn > 0.0:
+            if turn > float(sonic_angles(mach, gamma)[0]):
+                return None, ("sonic", (station.x, float(station.y[index])))
+            beta = float(wave_angle_from_deflection(mach, turn, gamma))
+            ratios = oblique_shock_ratios(mach, beta, gamma)
+            ratio, p0_ratio = float(ratios.p2_p1), float(ratios.p02_p01)
+        else:
+            turn = 0.0
+        shock = _Shock(family, station.x, float(station.y[index]), th + family * beta, beta,
+                       ratio)
+        parts = [station.y, station.lp, station.th, station.lp0]
+        behind = (station.y[index], lp + math.log(ratio), th + family * turn,
+                  lp0 + math.log(p0_ratio))
+        opened = [np.full(2, v) for v in behind]
+        if lower:
+            arrays = [np.concatenate([o, p]) for o, p in zip(opened, parts)]
+            counts = np.concatenate([[2], station.counts])
+            shocks = [shock] + list(station.shocks)
+        else:
+            arrays = [np.concatenate([p, o]) for o, p in zip(opened, parts)]
+            counts = np.concatenate([station.counts, [2]])
+            shocks = list(station.shocks) + [shock]
+        station = _Station(station.x, counts, *arrays, shocks)
+    return station

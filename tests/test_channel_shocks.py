@@ -1,0 +1,192 @@
+"""Channels marched through fitted shocks (gasdyn2d.characteristics.fitted_shocks, channel_flow).
+
+Sources:
+- The exact regular reflection of an oblique shock from a wall
+  (:func:`gasdyn2d.patterns.reflections.wall_reflection`, itself checked against
+  NACA Report 1135 and published reflection data in tests/test_reflections.py).
+- The oblique-shock relations (NACA Report 1135, eqs. 128-132, 138) and the detachment
+  angle (eq. 168), through gasdyn2d.relations.
+- Conservation of mass, momentum and energy across any cross-section of a steady duct
+  flow (facts of the trade): the fluxes through every station must equal the inlet's
+  (x-momentum less the x-force of the wall pressure in between).
+- The envelope cusp of a circular-arc compression (derived in tests/test_channels.py):
+  where a shock of zero strength starts to strengthen.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+
+from gasdyn2d.characteristics.channels import channel_flow
+from gasdyn2d.characteristics.unit_processes import WallContour
+from gasdyn2d.patterns.reflections import wall_reflection
+from gasdyn2d.relations.isentropic import pressure_ratio
+from gasdyn2d.relations.oblique_shocks import oblique_shock_ratios
+from gasdyn2d.relations.theta_beta_mach import detachment_angles, wave_angle_from_deflection
+
+FLOOR = WallContour.straight(0.0)
+M1, TURN, HEIGHT = 2.2, math.radians(6.0), 0.1  # invented test-section duct
+
+
+def _roof(radius):
+    """Invented roof: turns down into the flow by 6° over an arc starting at x = 0.05 m."""
+    return WallContour.bend(HEIGHT, 0.05, -TURN, radius)
+
+
+def _exact_floor_pressure():
+    """p3/p01 behind the regular reflection of the 6° shock (p over the inlet p0)."""
+    return float(wall_reflection(M1, TURN).p3_p1) * float(pressure_ratio(M1))
+
+
+def _floor_after_first_reflection(flow):
+    """Floor pressure half-way between the first and second shock feet on the floor."""
+    first, second = flow.shocks[0].x[-1], flow.shocks[2].x[-1]
+    middle = first + 0.5 * (second - first)
+    return float(np.interp(middle, flow.lower_wall_x, flow.lower_wall_p_p0)), first
+
+
+def test_corner_shock_reflects_exactly():
+    # A roof arc shorter than one marching step is a corner: its shock is the exact
+    # oblique shock and the reflection the exact regular reflection, to rounding, at
+    # every resolution (measured: 1e-15). The march reaches the end of the duct.
+    exact = _exact_floor_pressure()
+    beta = wave_angle_from_deflection(M1, TURN)  # NACA Report 1135, eq. 138
+    for n in (21, 41):
+        flow = channel_flow(M1, lower_wall=FLOOR, upper_wall=_roof(0.01), length=0.5, n_points=n)
+        assert flow.stop_reason == "length" and flow.net.x.max() == pytest.approx(0.5)
+        assert flow.shocks[0].family == -1 and flow.shocks[1].family == +1
+        assert flow.shocks[0].end == "wall" and flow.shocks[-1].end == "length"
+        assert flow.shocks[0].wave_angle == pytest.approx(beta, rel=1e-12)
+        assert flow.shocks[0].p2_p1 == pytest.approx(oblique_shock_ratios(M1, beta).p2_p1,
+                                                     rel=1e-12)
+        value, _ = _floor_after_first_reflection(flow)
+        assert value == pytest.approx(exact, rel=1e-12)
+
+
+def test_resolved_arc_reflection_within_half_a_percent_and_converging():
+    # A short arc the mesh resolves (radius 0.1 m: 10 mm of arc, 1-4 steps): its shock is
+    # fitted from a Mach wave of zero strength that the compression strengthens. The floor
+    # pressure behind the reflected shock against the exact regular reflection of the 6°
+    # shock (the arc's near-isentropic compression makes less entropy than the corner's
+    # shock: a true difference of O(δ³), measured -5e-5 at n = 21 to -7e-7 at n = 161).
+    # Refinement study n = 21, 41, 81: floor pressure error vs wall_reflection
+    # -5.0e-5, -7.7e-6, -5.2e-6; the foot of the incident shock on the floor moves by
+    # 4.0 mm then 3.3 mm: first order (order 0.3-1.0 over these levels, the weak shock's
+    # strengthening is smeared over a cell by the linear interpolation).
+    exact = _exact_floor_pressure()
+    values, feet = [], []
+    for n in (21, 41, 81):
+        flow = channel_flow(M1, lower_wall=FLOOR, upper_wall=_roof(0.1), length=0.5, n_points=n)
+        assert flow.stop_reason == "length"
+        value, foot = _floor_after_first_reflection(flow)
+        values.append(value)
+        feet.append(foot)
+    errors = np.abs(np.array(values) / exact - 1.0)
+    assert errors[1] < 5e-3  # the issue's requirement at a moderate resolution (n = 41)
+    assert errors[0] > errors[1] > errors[2]
+    steps = np.abs(np.diff(feet))
+    assert steps[1] < steps[0]  # the shock's foot converges
+    order = math.log(steps[0] / steps[1]) / math.log(2.0)
+    assert order > 0.2
+
+
+def test_mach_reflection_stops_the_march_where_no_regular_reflection_exists():
+    # A 10° corner at Mach 2.2 (invented): each regular reflection slows the stream; the
+    # oblique-shock relations give the Mach number ahead of each reflection, and the
+    # march must stop at the first wall where 10° exceeds the detachment angle
+    # (NACA Report 1135, eq. 168).
+    turn = math.radians(10.0)
+    roof = WallContour.bend(HEIGHT, 0.05, -turn, 1e-5)
+    flow = channel_flow(M1, lower_wall=FLOOR, upper_wall=roof, length=0.6, n_points=31)
+    mach, regular = M1, 0
+    while turn <= detachment_angles(mach)[0]:
+        mach = float(oblique_shock_ratios(mach, wave_angle_from_deflection(mach, turn)).M2)
+        regular += 1
+    # the corner's shock and the regular reflections before the failing one
+    assert flow.stop_reason == "mach_reflection"
+    assert len(flow.shocks) == regular
+    assert all(s.end == "wall" for s in flow.shocks)
+    last = flow.shocks[-1]
+    wall = FLOOR if last.family < 0 else roof
+    assert flow.stop_x == pytest.approx(last.x[-1])
+    assert flow.stop_y == pytest.approx(float(wall.height(flow.stop_x)), abs=1e-12)
+
+
+def _fluxes(flow, gamma=1.4):
+    """Mass, x-momentum and energy fluxes through every station (trapezoid in y), in units
+    of the inlet stagnation state (p0 = 1, T0 = 1, R = 1); the x-momentum less the
+    x-force of the roof's pressure upstream of the station (the floor is straight)."""
+    net = flow.net
+    rows = []
+    for x in np.unique(net.x):
+        k = net.x == x
+        y, mach, theta, p = net.y[k], net.mach[k], net.theta[k], net.p_p0[k]
+        temperature = 1.0 / (1.0 + 0.5 * (gamma - 1.0) * mach**2)
+        rho = p / temperature
+        u = mach * np.sqrt(gamma * temperature) * np.cos(theta)
+        h0 = gamma / (gamma - 1.0)  # cp T0
+        rows.append((x, np.trapezoid(rho * u, y), np.trapezoid(p + rho * u * u, y),
+                     np.trapezoid(rho * u * h0 * np.ones_like(y), y)))
+    rows = np.array(rows)
+    roof_x, roof_p = flow.upper_wall_x, flow.upper_wall_p_p0
+    slope = np.asarray(_roof_for_fluxes.slope(roof_x))
+    force = np.concatenate([[0.0], np.cumsum(0.5 * np.diff(roof_x)
+                                             * (roof_p[1:] * slope[1:] + roof_p[:-1] * slope[:-1]))])
+    rows[:, 2] -= np.interp(rows[:, 0], roof_x, force)
+    return rows
+
+
+_roof_for_fluxes = WallContour.polyline([0.0, 0.06, 0.16, 0.5], [HEIGHT, HEIGHT, HEIGHT - 0.007,
+                                                                  HEIGHT - 0.0035])
+
+
+def test_fluxes_through_cross_sections_agree_with_the_inlet():
+    # Invented duct with shocks and fans: the roof turns down 4° at a corner (a shock that
+    # reflects from the floor and the roof), then back up past level at a second corner
+    # (an expansion fan that overtakes and weakens the shock and its reflections). Mass,
+    # x-momentum and energy fluxes through every station against the inlet's. Measured
+    # max relative deviation at n = 41 / 81 / 161: mass 1.4e-3 / 7.9e-4 / 3.9e-4,
+    # x-momentum 1.3e-3 / 7.2e-4 / 4.2e-4 (first order: the expansion fan, resolved by
+    # linear interpolation; through the corner shock itself mass is kept to 1e-16 and
+    # momentum to 7e-5, the trapezoid rule across the wall-pressure jump at the corner);
+    # energy as mass, since T0 is uniform by construction.
+    flows = [channel_flow(M1, lower_wall=FLOOR, upper_wall=_roof_for_fluxes, length=0.5,
+                          n_points=n) for n in (41, 81)]
+    deviations = []
+    for flow in flows:
+        assert flow.stop_reason == "length" and len(flow.shocks) >= 3
+        rows = _fluxes(flow)
+        deviations.append(np.max(np.abs(rows[:, 1:] / rows[0, 1:] - 1.0), axis=0))
+    assert np.all(deviations[1] < 1.5e-3)
+    assert np.all(deviations[1] < 0.7 * deviations[0])  # the method's error: first order in h
+
+
+def test_shock_forms_where_the_net_folded():
+    # The characteristic net still finds the fold (the envelope cusp of the arc's
+    # compression, tests/test_channels.py); the fitted shock starts at the arc as a Mach
+    # wave, runs along the head characteristic and passes the cusp with (nearly) zero
+    # strength, strengthening beyond it.
+    R, xs = 0.2, 0.05
+    mu1 = math.asin(1 / M1)
+    t = R * math.sin(mu1) * 2 * (M1**2 - 1) / (2.4 * M1**2)
+    cusp = (xs + t * math.cos(mu1), HEIGHT - t * math.sin(mu1))
+    flow = channel_flow(M1, lower_wall=FLOOR, upper_wall=WallContour.bend(HEIGHT, xs, -TURN, R),
+                        length=0.5, n_points=41)
+    shock = flow.shocks[0]
+    assert flow.stop_reason == "length"
+    assert shock.x[0] == pytest.approx(xs, abs=1e-4)
+    assert math.hypot(flow.shock_x - cusp[0], flow.shock_y - cusp[1]) < 0.01
+    assert float(np.interp(cusp[0], shock.x, shock.y)) == pytest.approx(cusp[1], abs=1e-4)
+    assert float(np.interp(cusp[0], shock.x, shock.p2_p1)) < 1.01
+    assert shock.p2_p1[-1] > 1.3  # nearly the full 6° shock (p2/p1 = 1.42) at the floor
+
+
+def test_round_ducts_are_not_fitted():
+    # Shocks are fitted in planar channels only: a round duct stops where the net folds
+    flow = channel_flow(M1, lower_wall=None, upper_wall=_roof(0.01), length=0.5, n_points=21,
+                        geometry="axisymmetric")
+    assert flow.stop_reason == "shock" and flow.shocks == ()
+    assert flow.stop_x == flow.shock_x
