@@ -132,10 +132,12 @@ class _Shock:
         self.family = family
         self.y = y
         self.direction = direction
+        self.wave_angle = wave_angle
         self.path = [(x, y, wave_angle, p2_p1)]
         self.end = "length"
 
     def record(self, x, wave_angle, p2_p1):
+        self.wave_angle = wave_angle
         self.path.append((x, self.y, wave_angle, p2_p1))
 
 
@@ -438,6 +440,7 @@ def _advance(old, dx, hit, walls, n, gamma):
     geometry = (zone, own_lo, own_hi, start, stop, dx)
     feet_slopes = None
     new_dir = dir_old
+    beta_guess = np.array([s.wave_angle for s in shocks])
     interior = (kind == _INTERIOR) | (kind == _AHEAD)
     for _ in range(_PASSES):
         _, mu, b = _properties(lp, lp0, gamma)
@@ -445,11 +448,11 @@ def _advance(old, dx, hit, walls, n, gamma):
         if feet_slopes is not None:
             slopes = 0.5 * (slopes + feet_slopes)
         new = (y, lp, th, lp0)
-        feet = [_foot(old, new, s, geometry) for s in slopes]
-        (lpa, tha, lp0a), (lpb, thb, lp0b), (_, _, lp0s) = feet
-        _, mua, ba = _properties(lpa, lp0a, gamma)
-        _, mub, bb = _properties(lpb, lp0b, gamma)
-        feet_slopes = np.tan(np.array([tha + mua, thb - mub, feet[2][1]]))
+        all_lp, all_th, all_lp0 = _foot(old, new, slopes, geometry)  # rows: a, b, s
+        (lpa, lpb, _), (tha, thb, ths), (lp0a, lp0b, lp0s) = all_lp, all_th, all_lp0
+        _, mu_ab, b_ab = _properties(all_lp[:2], all_lp0[:2], gamma)
+        (mua, mub), (ba, bb) = mu_ab, b_ab
+        feet_slopes = np.tan(np.array([tha + mua, thb - mub, ths]))
         bp, bm = 0.5 * (ba + b), 0.5 * (bb + b)
         rp, rm = tha + bp * lpa, thb - bm * lpb
         lp_new = np.where(interior, (rp - rm) / (bp + bm), lp)
@@ -467,7 +470,8 @@ def _advance(old, dx, hit, walls, n, gamma):
             m_up = _properties(lp_new[ahead], lp0_new[ahead], gamma)[0]
             m_b = _properties(foot_lp, foot_lp0, gamma)[0]
             point = _shock_points(m_up, th_new[ahead], np.exp(lp_new[ahead]), m_b, foot_th,
-                                  np.exp(foot_lp), family, gamma)
+                                  np.exp(foot_lp), family, gamma, guesses=beta_guess)
+            beta_guess = point.wave_angle
             if np.any(point.subsonic) or not np.all(np.isfinite(point.wave_angle)):
                 k = int(np.argmax(point.subsonic | ~np.isfinite(point.wave_angle)))
                 return None, ("sonic", (x, float(shock_y[k])))
@@ -491,10 +495,12 @@ def _advance(old, dx, hit, walls, n, gamma):
     return _Station(x, counts, y, lp, th, lp0, list(shocks)), "ok"
 
 
-def _shock_points(*states):
-    """:func:`shock_point` for each shock of a station (its scalar form: a few shocks)."""
+def _shock_points(*states, guesses):
+    """:func:`shock_point` for each shock of a station (its scalar form: a few shocks),
+    bracketed first around each shock's wave angle of the step before."""
     *arrays, gamma = states
-    points = [shock_point(*(float(v) for v in values), float(gamma)) for values in zip(*arrays)]
+    points = [shock_point(*(float(v) for v in values), float(gamma), guess=float(guess))
+              for *values, guess in zip(*arrays, guesses)]
     return type(points[0])(*(np.array(v) for v in zip(*points)))
 
 
@@ -508,7 +514,11 @@ def _wall_angle(wall, x, dx):
 
 def _foot(old, new, slope, geometry):
     """State (ln p, θ, ln p0) where lines of ``slope`` through the new nodes meet the
-    previous station, or, where they leave their zone first, the zone's boundary path."""
+    previous station, or, where they leave their zone first, the zone's boundary path.
+
+    ``slope`` has shape (k, n): k families of lines at once (C+, C-, streamline); each
+    returned array has that shape.
+    """
     zone, own_lo, own_hi, start, stop, dx = geometry
     y, lp, th, lp0 = new
     y_foot = y - dx * slope
@@ -516,20 +526,21 @@ def _foot(old, new, slope, geometry):
     thick = hi_old - lo_old
     below = (y_foot < lo_old) & ~own_lo
     above = (y_foot > hi_old) & ~own_hi
-    eta = np.where(thick > 0.0, (y_foot - lo_old) / thick, 0.5)
-    xi = 2.0 * zone + np.clip(eta, 0.0, 1.0)
+    eta = np.where(thick > 0.0, (y_foot - lo_old) / np.where(thick > 0.0, thick, 1.0), 0.5)
+    xi = 2.0 * zone + np.minimum(np.maximum(eta, 0.0), 1.0)
     values = [np.interp(xi, old.xi, v) for v in (old.lp, old.th, old.lp0)]
-    for side, mask, new_index, old_index in ((0, below, start, old.start),
-                                             (1, above, stop, old.stop)):
-        if not np.any(mask):
+    n = y.size
+    for mask, new_index, old_index in ((below, start, old.start), (above, stop, old.stop)):
+        if not mask.any():
             continue
         k = np.flatnonzero(mask)
-        z = zone[k]
+        node = k % n
+        z = zone[node]
         edge_new, edge_old = y[new_index[z]], old.y[old_index[z]]
-        t = (y[k] - edge_new) / (dx * slope[k] - (edge_new - edge_old))
-        t = np.clip(np.nan_to_num(t, nan=1.0), 0.0, 1.0)
+        t = (y[node] - edge_new) / (dx * slope.ravel()[k] - (edge_new - edge_old))
+        t = np.where(t >= 0.0, np.minimum(t, 1.0), np.where(t < 0.0, 0.0, 1.0))  # NaN: 1
         for value, now, before in zip(values, (lp, th, lp0), (old.lp, old.th, old.lp0)):
-            value[k] = (1.0 - t) * now[new_index[z]] + t * before[old_index[z]]
+            value.ravel()[k] = (1.0 - t) * now[new_index[z]] + t * before[old_index[z]]
     return values
 
 

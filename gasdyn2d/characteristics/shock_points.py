@@ -42,6 +42,7 @@ from ..relations.theta_beta_mach import sonic_angles
 __all__ = ["ShockPoint", "shock_point", "compatibility_coefficient"]
 
 _ITERATIONS = 80  # Illinois steps at most; the bracket closes to a few ulp in ~10
+_GUESS_WIDTH = 1e-3  # half-width [rad] of the first bracket around a guess
 
 
 class ShockPoint(NamedTuple):
@@ -70,7 +71,7 @@ def compatibility_coefficient(mach, gamma=1.4):
 
 
 def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family,
-                gamma=1.4):
+                gamma=1.4, *, guess=None):
     """Plain core: the state just behind a shock point, and the shock's angle there.
 
     Parameters
@@ -86,6 +87,10 @@ def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, fa
         one running like a C-.
     gamma : float, optional
         Ratio of specific heats.
+    guess : float, optional
+        A wave angle near the answer [rad] (say, the shock's angle one step before in a
+        march). Scalar calls only: the root is first bracketed within 1e-3 rad of it,
+        which saves most of the steps; the answer is the same (to a few ulp).
 
     Returns
     -------
@@ -124,7 +129,7 @@ def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, fa
     if nx.plain_scalars(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family,
                         gamma):
         return _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind,
-                                   family, gamma)
+                                   family, gamma, guess)
     arrays = np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in (
         mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family, gamma)))
     mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family, gamma = arrays
@@ -165,7 +170,7 @@ def _compatibility_coefficient_scalar(mach, gamma):
 
 
 def _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family,
-                        gamma):
+                        gamma, guess=None):
     """Scalar form of :func:`shock_point` (same residual, same Illinois steps; the march of
     fitted shocks calls it once per shock per step, where numpy's per-call cost dominates)."""
     nan = math.nan
@@ -184,38 +189,54 @@ def _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_be
 
     low = math.asin(1.0 / mach_up)
     high = float(sonic_angles(mach_up, gamma)[1])
+    if guess is not None and low < guess - _GUESS_WIDTH and guess + _GUESS_WIDTH < high:
+        # F rises with β: a bracket around the guess also rules out both flags
+        f_below, f_above = residual(guess - _GUESS_WIDTH)[0], residual(guess + _GUESS_WIDTH)[0]
+        if f_below < 0.0 <= f_above:
+            low, high, f_low, f_high = guess - _GUESS_WIDTH, guess + _GUESS_WIDTH, f_below, f_above
+            return _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_up,
+                                     family, gamma)
     f_low, f_high = residual(low)[0], residual(high)[0]
     vanished, subsonic = f_low >= 0.0, f_high < 0.0
     if math.isnan(f_low + f_high):
         return ShockPoint(nan, nan, nan, nan, nan, nan, False, False)
-    if vanished:
-        beta = low
-    elif subsonic:
+    if subsonic and not vanished:
         return ShockPoint(nan, nan, nan, nan, nan, nan, False, True)
-    else:
-        beta, side = 0.5 * (low + high), 0
-        for _ in range(_ITERATIONS):
-            guess = (low * f_high - high * f_low) / (f_high - f_low)
-            if not low < guess < high:
-                guess = 0.5 * (low + high)
-            f_guess = residual(guess)[0]
-            beta = guess
-            if f_guess < 0.0:
-                low, f_low = guess, f_guess
-                if side < 0:
-                    f_high *= 0.5
-                side = -1
-            else:
-                high, f_high = guess, f_guess
-                if side > 0:
-                    f_low *= 0.5
-                side = 1
-            if high - low <= 4.0 * math.ulp(high) or f_guess == 0.0:
-                break
+    if not vanished:
+        return _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_up,
+                                 family, gamma)
+    ratios = oblique_shock_ratios(mach_up, low, gamma)
+    return ShockPoint(low, theta_up + family * low, ratios.M2,
+                      theta_up + family * ratios.deflection, p_up * (1.0 + ratios.strength),
+                      ratios.p02_p01, True, False)
+
+
+def _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_up, family,
+                      gamma):
+    """Illinois steps on a bracket of the scalar residual, and the shock point at the root."""
+    beta, side = 0.5 * (low + high), 0
+    for _ in range(_ITERATIONS):
+        guess = (low * f_high - high * f_low) / (f_high - f_low)
+        if not low < guess < high:
+            guess = 0.5 * (low + high)
+        f_guess = residual(guess)[0]
+        beta = guess
+        if f_guess < 0.0:
+            low, f_low = guess, f_guess
+            if side < 0:
+                f_high *= 0.5
+            side = -1
+        else:
+            high, f_high = guess, f_guess
+            if side > 0:
+                f_low *= 0.5
+            side = 1
+        if high - low <= 4.0 * math.ulp(high) or f_guess == 0.0:
+            break
     ratios = oblique_shock_ratios(mach_up, beta, gamma)
     return ShockPoint(beta, theta_up + family * beta, ratios.M2,
                       theta_up + family * ratios.deflection, p_up * (1.0 + ratios.strength),
-                      ratios.p02_p01, vanished, False)
+                      ratios.p02_p01, False, False)
 
 
 def _illinois(residual, low, high, f_low, f_high, active):
