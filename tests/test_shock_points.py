@@ -89,3 +89,17 @@ def test_scalar_fast_path_matches_the_array_core():
         array = shock_point(*(np.array([v]) for v in case))
         for got, expected in zip(scalar, array):
             assert np.allclose(got, expected[0], rtol=1e-13, atol=1e-15, equal_nan=True)
+
+
+def test_guess_gives_the_same_shock_point():
+    # A guess only narrows the first bracket: the answer is the same to a few ulp, whether
+    # the guess is good, poor (the bracket misses: full bracket) or the root is a Mach wave
+    # (invented states behind a Mach 2.4 shock)
+    cases = [(2.4, 0.0, 1.0, 2.0, -0.08, 1.5, -1.0), (2.4, 0.0, 1.0, 2.1, 0.05, 1.3, 1.0),
+             (2.4, 0.0, 1.0, 2.4, 0.0, 1.0, 1.0)]
+    for case in cases:
+        plain = shock_point(*case)
+        for guess in (float(plain.wave_angle) + 2e-4, 0.9, 0.5):
+            guessed = shock_point(*case, guess=guess)
+            for got, expected in zip(guessed, plain):
+                assert got == pytest.approx(expected, rel=1e-14, abs=1e-15)

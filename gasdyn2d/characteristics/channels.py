@@ -136,9 +136,23 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     invariants; positions are second-order accurate. In uniform regions (a
     fan fully reflected, two fans fully crossed) the state is therefore exact
     to rounding, e.g. ν = ν1 + 2δ on a straight wall after the fan of a turn δ
-    on the opposite wall has reflected from it. When two characteristics of
-    one family cross (a compression steepening into a shock) the march stops:
-    the method ends there.
+    on the opposite wall has reflected from it.
+
+    When two characteristics of one family cross (a compression steepening into
+    a shock, at ``shock_x``, ``shock_y``), a planar channel is marched again from
+    the inlet with fitted shocks
+    (:func:`gasdyn2d.characteristics.fitted_shocks.march_fitted_channel`: an
+    inverse marching scheme, p, θ and the streamline's stagnation pressure
+    traced back along C+, C- and the streamline; shock points from the
+    oblique-shock relations and the characteristic arriving from behind;
+    regular reflections from the walls). It ends at ``length``, or where a
+    reflection would have to be a Mach reflection (``"mach_reflection"``), two
+    shocks meet (``"shock_crossing"``) or the flow becomes subsonic
+    (``"sonic"``); ``stop_x``, ``stop_y`` say where. A round duct stops at the
+    fold (``"shock"``): shocks are fitted in planar channels only. Pressures are
+    static over the *inlet* stagnation pressure, so losses through shocks show.
+    Boundary layers, and their interaction with the shocks (thickening,
+    separation), are not modelled.
 
     References
     ----------
@@ -159,6 +173,18 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     'length'
     >>> round(float(flow.lower_wall_mach.max()), 4)   # after the fan has reflected: ν1 + 12°
     2.7051
+
+    With the roof turning down by 6° at a corner instead, the corner's shock
+    reflects from the floor, and the floor pressure behind it is the exact
+    regular reflection's (p3/p01 = 0.18337):
+
+    >>> corner = channel_flow(2.2, lower_wall=WallContour.straight(0.0),
+    ...                       upper_wall=WallContour.bend(0.1, 0.05, np.radians(-6.0), 1e-4),
+    ...                       length=0.3, n_points=21)
+    >>> corner.stop_reason, [shock.end for shock in corner.shocks]
+    ('length', ['wall', 'length'])
+    >>> round(float(np.interp(0.25, corner.lower_wall_x, corner.lower_wall_p_p0)), 5)
+    0.18337
     """
     call = DesignCall("channel_flow")
     M = call.scalar("M_inlet", M_inlet, nan="record")
