@@ -192,3 +192,20 @@ def test_round_ducts_are_not_fitted():
                         geometry="axisymmetric")
     assert flow.stop_reason == "shock" and flow.shocks == ()
     assert flow.stop_x == flow.shock_x
+
+
+def test_two_shocks_meeting_stop_the_march_where_they_cross():
+    # Invented symmetric duct: floor and roof both turn 4° into the flow at sharp corners
+    # at x = 0.05 m; the two exact straight shocks (NACA Report 1135, eq. 138) meet on the
+    # centreline at x = 0.05 + (H/2)/tan β. The crossing is not carried on: the march stops
+    # there.
+    turn = math.radians(4.0)
+    beta = float(wave_angle_from_deflection(M1, turn))
+    flow = channel_flow(M1, lower_wall=WallContour.bend(0.0, 0.05, turn, 1e-5),
+                        upper_wall=WallContour.bend(HEIGHT, 0.05, -turn, 1e-5), length=0.5,
+                        n_points=41)
+    assert flow.stop_reason == "shock_crossing"
+    assert [s.family for s in flow.shocks] == [1, -1]
+    assert all(s.end == "shock_crossing" for s in flow.shocks)
+    assert flow.stop_x == pytest.approx(0.05 + 0.5 * HEIGHT / math.tan(beta), abs=1e-4)
+    assert flow.stop_y == pytest.approx(0.5 * HEIGHT, abs=1e-4)
