@@ -22,6 +22,7 @@ import pytest
 
 from gasdyn2d.characteristics.channels import channel_flow
 from gasdyn2d.characteristics.unit_processes import WallContour
+from gasdyn2d.patterns.interactions import shock_crossing
 from gasdyn2d.patterns.reflections import wall_reflection
 from gasdyn2d.relations.isentropic import pressure_ratio
 from gasdyn2d.relations.oblique_shocks import oblique_shock_ratios
@@ -194,18 +195,48 @@ def test_round_ducts_are_not_fitted():
     assert flow.stop_x == flow.shock_x
 
 
-def test_two_shocks_meeting_stop_the_march_where_they_cross():
-    # Invented symmetric duct: floor and roof both turn 4° into the flow at sharp corners
-    # at x = 0.05 m; the two exact straight shocks (NACA Report 1135, eq. 138) meet on the
-    # centreline at x = 0.05 + (H/2)/tan β. The crossing is not carried on: the march stops
-    # there.
-    turn = math.radians(4.0)
-    beta = float(wave_angle_from_deflection(M1, turn))
-    flow = channel_flow(M1, lower_wall=WallContour.bend(0.0, 0.05, turn, 1e-5),
-                        upper_wall=WallContour.bend(HEIGHT, 0.05, -turn, 1e-5), length=0.5,
+@pytest.mark.parametrize("lower_deg, upper_deg", [(4.0, 4.0), (3.0, 5.0)])
+def test_crossing_shocks_match_the_exact_crossing(lower_deg, upper_deg):
+    # Invented duct: floor and roof turn into the flow at sharp corners at x = 0.05 m. The
+    # two straight corner shocks (NACA Report 1135, eq. 138) cross where the lines meet;
+    # behind the crossing, the transmitted shocks and the slip line are those of the exact
+    # crossing of two shocks in a uniform stream (gasdyn2d.patterns.interactions.
+    # shock_crossing, itself checked in tests/test_wave_interactions.py): slip-line
+    # direction and pressure to 1e-9, transmitted wave angles to 1e-9.
+    lower, upper = math.radians(lower_deg), math.radians(upper_deg)
+    b_low, b_up = (float(wave_angle_from_deflection(M1, t)) for t in (lower, upper))
+    x_cross = 0.05 + HEIGHT / (math.tan(b_low) + math.tan(b_up))
+    flow = channel_flow(M1, lower_wall=WallContour.bend(0.0, 0.05, lower, 1e-5),
+                        upper_wall=WallContour.bend(HEIGHT, 0.05, -upper, 1e-5), length=0.5,
                         n_points=41)
+    first = flow.shocks[:2]
+    assert [s.family for s in first] == [1, -1] and all(s.end == "crossing" for s in first)
+    assert first[0].x[-1] == pytest.approx(x_cross, abs=1e-9)
+    assert first[0].y[-1] == pytest.approx(math.tan(b_low) * (x_cross - 0.05), abs=1e-9)
+    exact = shock_crossing(M1, upper, lower)
+    transmitted = [s for s in flow.shocks if s.x[0] == first[0].x[-1]]
+    assert sorted(float(s.wave_angle[0]) for s in transmitted) == pytest.approx(
+        sorted([float(exact.transmitted_above_wave_angle),
+                float(exact.transmitted_below_wave_angle)]), rel=1e-9)
+    net = flow.net
+    behind = (net.x == first[0].x[-1]) & (np.abs(net.y - first[0].y[-1]) < 1e-12)
+    slip = behind & (np.abs(net.theta - float(exact.slip_direction)) < 1e-9)
+    assert np.count_nonzero(slip) == 4  # regions 4 and 5, two nodes each
+    assert net.p_p0[slip] == pytest.approx(float(exact.p_p1) * float(pressure_ratio(M1)),
+                                           rel=1e-9)
+    # the march goes on (reflections, shocks through the slip line) until a crossing at
+    # M ≈ 1.2, where 4° exceeds the detachment angle: no regular crossing exists
+    assert flow.stop_reason == "shock_crossing" and flow.stop_x > 0.3
+
+
+def test_a_shock_overtaking_another_stops_the_march():
+    # Invented roof with two 4° compression corners 30 mm apart: the second, steeper shock
+    # catches the first (merging of shocks of one family is not carried on)
+    roof = WallContour.polyline([0.0, 0.05, 0.08, 0.5],
+                                [HEIGHT, HEIGHT, HEIGHT - 0.03 * math.tan(math.radians(4.0)),
+                                 HEIGHT - 0.03 * math.tan(math.radians(4.0))
+                                 - 0.42 * math.tan(math.radians(8.0))])
+    flow = channel_flow(M1, lower_wall=FLOOR, upper_wall=roof, length=0.5, n_points=41)
     assert flow.stop_reason == "shock_crossing"
-    assert [s.family for s in flow.shocks] == [1, -1]
-    assert all(s.end == "shock_crossing" for s in flow.shocks)
-    assert flow.stop_x == pytest.approx(0.05 + 0.5 * HEIGHT / math.tan(beta), abs=1e-4)
-    assert flow.stop_y == pytest.approx(0.5 * HEIGHT, abs=1e-4)
+    assert [s.family for s in flow.shocks] == [-1, -1]
+    assert flow.stop_x < 0.2 and flow.stop_x == pytest.approx(flow.shocks[0].x[-1], abs=2e-3)

@@ -93,7 +93,7 @@ _MAX_STATIONS = 100_000
 _LOOKAHEAD = 1.5  # a shock hitting a wall within this many steps lands a station on the wall
 
 # node kinds
-_INTERIOR, _LOWER_WALL, _UPPER_WALL, _AHEAD, _BEHIND = 0, 1, 2, 3, 4
+_INTERIOR, _LOWER_WALL, _UPPER_WALL, _AHEAD, _BEHIND, _SLIP = 0, 1, 2, 3, 4, 5
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
@@ -126,10 +126,12 @@ class FittedMarch(NamedTuple):
 
 
 class _Shock:
-    """A fitted shock being marched: its current position and direction, and its path."""
+    """A fitted shock (or slip line, family 0) being marched: its current position and
+    direction, and its path."""
 
     def __init__(self, family, x, y, direction, wave_angle, p2_p1):
         self.family = family
+        self.is_shock = family != 0
         self.y = y
         self.direction = direction
         self.wave_angle = wave_angle
@@ -163,7 +165,8 @@ def _layout(counts):
 
 
 def _kinds(counts, shocks):
-    """Node kinds: interior, wall nodes, and the sides of each shock (ahead, behind)."""
+    """Node kinds: interior, wall nodes, the sides of each shock (ahead, behind, in the
+    order of the shocks) and of each slip line (below, above)."""
     zone, _, start, stop = _layout(counts)
     kind = np.zeros(zone.size, dtype=np.intp)
     kind[start[0]] = _LOWER_WALL
@@ -171,6 +174,9 @@ def _kinds(counts, shocks):
     ahead, behind = [], []
     for i, shock in enumerate(shocks):
         below, above = stop[i], start[i + 1]
+        if not shock.is_shock:
+            kind[below], kind[above] = _SLIP, _SLIP
+            continue
         up, down = (below, above) if shock.family < 0 else (above, below)
         kind[up], kind[down] = _AHEAD, _BEHIND
         ahead.append(up)
@@ -279,10 +285,21 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
         if status != "ok":
             reason, where = status
             break
-        for shock, ratio, beta in zip(new.shocks, *_shock_strengths(new, gamma)):
+        for shock, ratio, beta in zip([s for s in new.shocks if s.is_shock],
+                                      *_shock_strengths(new, gamma)):
             shock.record(new.x, beta, ratio)
-        if hit is not None:
-            new, status = _reflect(new, hit, walls, gamma, finished)
+        if hit is not None and hit[0] in ("cross", "refract"):
+            handle = _cross if hit[0] == "cross" else _refract
+            new, status = handle(new, hit[1], hit[2], gamma, finished)
+            if status != "ok":
+                reason, where = status
+                out.add(new)
+                break
+        elif hit is not None:
+            for wall_hit in hit[1]:
+                new, status = _reflect(new, wall_hit, walls, gamma, finished)
+                if status != "ok":
+                    break
             if status != "ok":
                 reason, where = status
                 out.add(new)
@@ -299,7 +316,8 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
         if shock not in finished and reason != "length":
             shock.end = reason
     shocks = [(s.family,) + tuple(np.array(v) for v in zip(*s.path)) + (s.end,)
-              for s in finished + [s for s in station.shocks if s not in finished]]
+              for s in finished + [s for s in station.shocks if s not in finished]
+              if s.is_shock]
     return FittedMarch(np.array(out.x), out.y, out.p, out.th, out.p0, out.mach, shocks,
                        reason, where)
 
@@ -330,7 +348,8 @@ class _Recorder:
 
 
 def _shock_strengths(station, gamma):
-    """Pressure ratio and wave angle of each shock of a station, from its two sides."""
+    """Pressure ratio and wave angle of each shock of a station (not of slip lines), from
+    its two sides."""
     _, ahead, behind = _kinds(station.counts, station.shocks)
     if ahead.size == 0:
         return [], []
@@ -359,21 +378,44 @@ def _step_length(station, walls, length, starts, n, gamma):
     dx = min(dx_cfl, limit)
     reach = min(_LOOKAHEAD * dx_cfl, limit)
     shocks = station.shocks
-    hit = None
+    hit, found = None, []
     if shocks:
         for k, wall_index, family in ((0, 0, -1), (len(shocks) - 1, 1, +1)):
             shock = shocks[k]
             if shock.family != family:
                 continue
             d = _wall_hit(shock, walls[wall_index], x, reach, wall_index)
-            if d is not None and (hit is None or d < dx):
-                dx, hit = d, (k, wall_index)
-    for i in range(len(shocks) - 1):  # neighbouring shocks meeting within the step
+            if d is not None:
+                found.append((d, k, wall_index))
+    if found:  # the first wall hit, and any other at the same x (a symmetric channel)
+        first = min(d for d, _, _ in found)
+        dx = first
+        hit = ("walls", [(k, w) for d, k, w in found if d <= first * (1.0 + 1e-9)])
+    meets = []  # neighbouring shocks or slip lines meeting within reach
+    for i in range(len(shocks) - 1):
         gap = shocks[i + 1].y - shocks[i].y
         closing = math.tan(shocks[i].direction) - math.tan(shocks[i + 1].direction)
-        if closing > 0.0 and gap <= closing * dx:
-            d = gap / closing
+        if closing > 0.0 and gap <= closing * reach:
+            meets.append((gap / closing, i))
+    if not meets:
+        return dx, hit, None
+    d, i = min(meets)
+    near = {j: dj for dj, j in meets if dj <= d + 1e-6 * dx_cfl}
+    below, above = shocks[i].family, shocks[i + 1].family
+    if below > 0 and above < 0:
+        event = ("cross", i, 1)  # two shocks cross
+    elif below > 0 and above == 0 and i + 1 in near and shocks[i + 2].family < 0:
+        event = ("cross", i, 2)  # ... on a slip line
+    elif below == 0 and above < 0 and i - 1 in near and shocks[i - 1].family > 0:
+        event = ("cross", i - 1, 2)
+    elif (below > 0 and above == 0) or (below == 0 and above < 0):
+        event = ("refract", i, 1)  # a shock passes through a slip line
+    else:  # merging shocks (one overtaking another of its family): not carried on
+        if d <= dx:
             return dx, None, (x + d, shocks[i].y + d * math.tan(shocks[i].direction))
+        return dx, hit, None
+    if d < dx or hit is None:
+        dx, hit = d, event  # land a station where they meet
     return dx, hit, None
 
 
@@ -407,10 +449,17 @@ def _advance(old, dx, hit, walls, n, gamma):
     shock_y_old = np.array([s.y for s in shocks])
     dir_old = np.array([s.direction for s in shocks])
     shock_y = shock_y_old + dx * np.tan(dir_old)
-    pinned = None
-    if hit is not None:
-        pinned = hit[0]
-        shock_y[pinned] = y_low if hit[1] == 0 else y_up
+    def pin(positions):
+        """Shocks at a wall hit on the wall; two crossing shocks at one point."""
+        if hit is not None and hit[0] in ("cross", "refract"):
+            i, span = hit[1], hit[2]
+            positions[i:i + span + 1] = 0.5 * (positions[i] + positions[i + span])
+        elif hit is not None:
+            for k, wall_index in hit[1]:
+                positions[k] = y_low if wall_index == 0 else y_up
+        return positions
+
+    shock_y = pin(shock_y)
     bounds = np.concatenate([[y_low], shock_y, [y_up]])
     if np.any(np.diff(bounds) < -1e-12 * max(h, 1e-300)):
         k = int(np.argmin(np.diff(bounds)))
@@ -420,11 +469,15 @@ def _advance(old, dx, hit, walls, n, gamma):
     counts = np.maximum(2, np.ceil(thick / h - 1e-9).astype(np.intp) + 1)
     zone, eta, start, stop = _layout(counts)
     kind, ahead, behind = _kinds(counts, shocks)
-    family = np.array([s.family for s in shocks], dtype=float)
+    is_shock = np.array([s.is_shock for s in shocks], dtype=bool)
+    sid = np.flatnonzero(is_shock)  # shocks among the interfaces (the rest: slip lines)
+    slip = np.flatnonzero(~is_shock)
+    family = np.array([shocks[i].family for i in sid], dtype=float)
+    slip_low, slip_high = stop[slip], start[slip + 1]
     y = bounds[zone] + eta * thick[zone]
     xi = 2.0 * zone + eta
     lp, th, lp0 = (np.interp(xi, old.xi, v) for v in (old.lp, old.th, old.lp0))
-    if shocks:
+    if sid.size:
         # Predictor state behind each shock: the previous station's node one step into the
         # zone behind. Behind a weak shock the state right at the shock is (nearly) the one
         # ahead, whose own-family characteristic runs along the shock and never meets the
@@ -440,7 +493,7 @@ def _advance(old, dx, hit, walls, n, gamma):
     geometry = (zone, own_lo, own_hi, start, stop, dx)
     feet_slopes = None
     new_dir = dir_old
-    beta_guess = np.array([s.wave_angle for s in shocks])
+    beta_guess = np.array([shocks[i].wave_angle for i in sid])
     interior = (kind == _INTERIOR) | (kind == _AHEAD)
     for _ in range(_PASSES):
         _, mu, b = _properties(lp, lp0, gamma)
@@ -462,7 +515,16 @@ def _advance(old, dx, hit, walls, n, gamma):
         th_new[i1], lp_new[i1] = th_up, lpa[i1] - (th_up - tha[i1]) / bp[i1]
         lp0_new = np.where(kind == _BEHIND, lp0, lp0s)
         lp0_new[i0], lp0_new[i1] = old.lp0[old.start[0]], old.lp0[old.stop[-1]]  # wall streamlines
+        if slip.size:  # a slip line: one p and θ on both sides, C+ from below, C- from above
+            b_low, b_high = bp[slip_low], bm[slip_high]
+            r_low, r_high = rp[slip_low], rm[slip_high]
+            lp_new[slip_low] = lp_new[slip_high] = (r_low - r_high) / (b_low + b_high)
+            th_new[slip_low] = th_new[slip_high] = r_low - b_low * lp_new[slip_low]
         if shocks:
+            new_dir = dir_old.copy()
+            if slip.size:
+                new_dir[slip] = th_new[slip_low]
+        if sid.size:
             own = np.where(family > 0, 1, 0)  # behind a +1 shock its C+ arrives: foot a
             foot_lp = np.where(own == 1, lpa[behind], lpb[behind])
             foot_th = np.where(own == 1, tha[behind], thb[behind])
@@ -474,14 +536,13 @@ def _advance(old, dx, hit, walls, n, gamma):
             beta_guess = point.wave_angle
             if np.any(point.subsonic) or not np.all(np.isfinite(point.wave_angle)):
                 k = int(np.argmax(point.subsonic | ~np.isfinite(point.wave_angle)))
-                return None, ("sonic", (x, float(shock_y[k])))
+                return None, ("sonic", (x, float(shock_y[sid[k]])))
             lp_new[behind] = np.log(point.p)
             th_new[behind] = point.theta
             lp0_new[behind] = lp0_new[ahead] + np.log(point.p0_ratio)
-            new_dir = np.asarray(point.direction, dtype=float)
-            shock_y = shock_y_old + dx * 0.5 * (np.tan(dir_old) + np.tan(new_dir))
-            if pinned is not None:
-                shock_y[pinned] = y_low if hit[1] == 0 else y_up
+            new_dir[sid] = np.asarray(point.direction, dtype=float)
+        if shocks:
+            shock_y = pin(shock_y_old + dx * 0.5 * (np.tan(dir_old) + np.tan(new_dir)))
             bounds = np.maximum.accumulate(np.concatenate([[y_low], shock_y, [y_up]]))
             thick = np.diff(bounds)
             y = bounds[zone] + eta * thick[zone]
@@ -586,6 +647,105 @@ def _reflect(station, hit, walls, gamma, finished):
         counts = np.concatenate([np.delete(counts, k + 1), [2]])
     shocks[k] = reflected
     return _Station(station.x, counts, *arrays, shocks), "ok"
+
+
+def _cross(station, i, span, gamma, finished):
+    """Two shocks crossing at a point: transmitted shocks and a slip line (new station).
+
+    Interfaces i (a +1 shock, below) and i + span (a -1 shock, above) meet, with a slip
+    line between them when ``span`` is 2 (it ends there); the zones between them have
+    closed. The -1 shock goes on into the flow behind
+    the +1 one (region 2, below) and the +1 shock into the flow behind the -1 one (region
+    3, above); the flows behind them (4 and 5) share pressure and direction across a slip
+    line, their stagnation pressures differ. θ on the slip line is found by bisection of
+    the pressure mismatch (oblique-shock relations for the two turns, weak branch).
+    """
+    counts = station.counts
+    _, _, start, stop = _layout(counts)
+    below, above = stop[i], start[i + span + 1]  # region 2 (behind the +1 shock), region 3
+    (lp2, th2, lp02), (lp3, th3, lp03) = ((station.lp[k], station.th[k], station.lp0[k])
+                                          for k in (below, above))
+    m2, m3 = (float(_properties(lp, lp0, gamma)[0]) for lp, lp0 in ((lp2, lp02), (lp3, lp03)))
+    y_meet = float(station.y[below + 1])
+    where = (station.x, y_meet)
+    turn_max = (float(detachment_angles(m2, gamma)[0]), float(detachment_angles(m3, gamma)[0]))
+
+    def transmitted(mach, turn):
+        beta = float(wave_angle_from_deflection(mach, turn, gamma)) if turn > 0.0 else \
+            math.asin(1.0 / mach)
+        return beta, oblique_shock_ratios(mach, beta, gamma)
+
+    def mismatch(theta):  # ln p4 - ln p5: falls as θ rises
+        lp4 = lp2 + math.log(transmitted(m2, th2 - theta)[1].p2_p1)
+        return lp4 - lp3 - math.log(transmitted(m3, theta - th3)[1].p2_p1)
+
+    low, high = max(th3, th2 - turn_max[0]), min(th2, th3 + turn_max[1])
+    if not (low <= high and mismatch(low) >= 0.0 >= mismatch(high)):
+        return station, ("shock_crossing", where)  # no regular crossing of two shocks
+    for _ in range(60):
+        middle = 0.5 * (low + high)
+        low, high = (middle, high) if mismatch(middle) > 0.0 else (low, middle)
+    theta = 0.5 * (low + high)
+    (beta_a, after_a), (beta_b, after_b) = transmitted(m2, th2 - theta), transmitted(m3, theta - th3)
+    lp4 = lp2 + math.log(after_a.p2_p1)
+    state4 = (y_meet, lp4, theta, lp02 + math.log(after_a.p02_p01))
+    state5 = (y_meet, lp4, theta, lp03 + math.log(after_b.p02_p01))
+    for shock in station.shocks[i:i + span + 1]:
+        shock.end = "crossing"
+        finished.append(shock)
+    new_shocks = [_Shock(-1, station.x, y_meet, th2 - beta_a, beta_a, float(after_a.p2_p1)),
+                  _Shock(0, station.x, y_meet, theta, 0.0, 1.0),
+                  _Shock(1, station.x, y_meet, th3 + beta_b, beta_b, float(after_b.p2_p1))]
+    head, tail = np.arange(station.y.size) <= stop[i], np.arange(station.y.size) >= above
+    arrays = [np.concatenate([v[head], np.full(2, a), np.full(2, b), v[tail]])
+              for v, a, b in zip((station.y, station.lp, station.th, station.lp0), state4, state5)]
+    new_counts = np.concatenate([counts[:i + 1], [2, 2], counts[i + span + 1:]])
+    shocks = list(station.shocks[:i]) + new_shocks + list(station.shocks[i + span + 1:])
+    return _Station(station.x, new_counts, *arrays, shocks), "ok"
+
+
+def _refract(station, i, span, gamma, finished):
+    """A shock passing through a slip line (new station).
+
+    Interfaces i and i + 1 are a +1 shock below a slip line, or a slip line below a -1
+    shock; the zone between them has closed. The transmitted shock turns the flow on the
+    far side of the slip line to the direction of the flow behind the incident shock
+    (weak branch). The pressures on the two sides then differ a little: the wave this
+    reflects from the slip line is not fitted; the slip line's own unit process (C+ from
+    below, C- from above) sends it into the flow, where the interpolation carries it.
+    """
+    counts = station.counts
+    _, _, start, stop = _layout(counts)
+    incident = station.shocks[i] if station.shocks[i].is_shock else station.shocks[i + 1]
+    family = incident.family
+    low, high = stop[i], start[i + 2]  # the outer nodes: below and above the closed zone
+    ahead, behind = (high, low) if family > 0 else (low, high)
+    lp_a, th_a, lp0_a = station.lp[ahead], station.th[ahead], station.lp0[ahead]
+    th_b = station.th[behind]
+    mach = float(_properties(lp_a, lp0_a, gamma)[0])
+    turn = family * (th_b - th_a)
+    y_meet = float(station.y[low + 1])
+    if turn > float(detachment_angles(mach, gamma)[0]):
+        return station, ("shock_crossing", (station.x, y_meet))
+    if turn > 0.0:
+        beta = float(wave_angle_from_deflection(mach, turn, gamma))
+    else:
+        beta, turn = math.asin(1.0 / mach), 0.0
+    after = oblique_shock_ratios(mach, beta, gamma)
+    state = (y_meet, lp_a + math.log(after.p2_p1), th_a + family * turn,
+             lp0_a + math.log(after.p02_p01))
+    incident.end = "slip line"
+    finished.append(incident)
+    slip = station.shocks[i + 1] if family > 0 else station.shocks[i]
+    transmitted = _Shock(family, station.x, y_meet, th_a + family * beta, beta,
+                         float(after.p2_p1))
+    pair = [slip, transmitted] if family > 0 else [transmitted, slip]
+    head, tail = np.arange(station.y.size) <= low, np.arange(station.y.size) >= high
+    arrays = [np.concatenate([v[head], np.full(2, a), v[tail]])
+              for v, a in zip((station.y, station.lp, station.th, station.lp0), state)]
+    new_counts = np.concatenate([counts[:i + 1], [2], counts[i + 2:]])
+    shocks = list(station.shocks[:i]) + pair + list(station.shocks[i + 2:])
+    return _Station(station.x, new_counts, *arrays, shocks), "ok"
 
 
 def _insert_shocks(station, starts, walls, n, gamma):
