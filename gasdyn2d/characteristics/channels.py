@@ -50,7 +50,9 @@ class ChannelFlow(ResultTable):
     (characteristics crossed in a round duct, where shocks are not fitted: the
     march stops there), ``"mach_reflection"`` (a shock reached a wall at a turn
     beyond detachment, where only a Mach reflection exists), ``"shock_crossing"``
-    (two fitted shocks met: crossing or overtaking are not carried on),
+    (fitted shocks merged, one overtaking another of its family, or met beyond
+    detachment, where no regular crossing exists; regular crossings are carried
+    on, with their slip line),
     ``"sonic"`` (a compression, or a shock, slowed the stream to M <= 1) or
     ``"nan"`` (a flow input was NaN: no nodes, NaN values); ``stop_x``, ``stop_y``
     is where the march stopped short. The last complete row of the characteristic
@@ -145,10 +147,12 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     inverse marching scheme, p, θ and the streamline's stagnation pressure
     traced back along C+, C- and the streamline; shock points from the
     oblique-shock relations and the characteristic arriving from behind;
-    regular reflections from the walls). It ends at ``length``, or where a
-    reflection would have to be a Mach reflection (``"mach_reflection"``), two
-    shocks meet (``"shock_crossing"``) or the flow becomes subsonic
-    (``"sonic"``); ``stop_x``, ``stop_y`` say where. A round duct stops at the
+    regular reflections from the walls; crossings of two shocks, with the slip
+    line between the transmitted shocks carried on). It ends at ``length``, or
+    where a reflection would have to be a Mach reflection
+    (``"mach_reflection"``), shocks merge or cross beyond detachment
+    (``"shock_crossing"``) or the flow becomes subsonic (``"sonic"``);
+    ``stop_x``, ``stop_y`` say where. A round duct stops at the
     fold (``"shock"``): shocks are fitted in planar channels only. Pressures are
     static over the *inlet* stagnation pressure, so losses through shocks show.
     Boundary layers, and their interaction with the shocks (thickening,

@@ -39,10 +39,10 @@ state behind; p0 behind is p0 ahead times p02/p01. The shock is moved along the
 mean of its old and new directions.
 
 Where shocks start: at the start of each compressive stretch of a wall (the lower
-wall turning up, the upper turning down) a shock is inserted as a Mach wave of
-zero strength, which the compression waves from the wall then strengthen from
-behind. For a short arc the compression coalesces at once and this is the true
-shock; for a gradual compression, which would stay isentropic until its
+wall turning up, the upper turning down). A stretch shorter than a step (a corner,
+a short arc) gets the oblique shock of its whole turn at once; a longer one a Mach
+wave of zero strength, which the compression waves from the wall then strengthen
+from behind. For a gradual compression, which would stay isentropic until its
 characteristics cross, the fitted shock replaces the isentropic compression: the
 entropy it produces is of third order in the turn (the oblique-shock entropy rise
 for a turn δ is O(δ³)), so the error is of that order.
@@ -53,15 +53,24 @@ parallel to the wall (regular reflection, by the oblique-shock relations for tha
 deflection, weak branch). Where that deflection exceeds the detachment angle, only
 a Mach reflection exists: the march stops (``"mach_reflection"``).
 
-Where it stops: two shocks meeting (crossing, or one overtaking another) stop the
-march (``"shock_crossing"``; the slip line of a crossing is not fitted); flow
-compressed to M = 1, or a shock so strong the flow behind it is subsonic, stops
-it (``"sonic"``).
+Crossings: two shocks of opposite families that meet cross; the transmitted shocks
+and the slip line between them match pressure and direction (oblique-shock
+relations); the slip line is carried on as a zone boundary with one p and θ on
+both sides (C+ from below, C- from above) and p0 jumping across it. A shock that
+meets a slip line passes through it; the weak wave this reflects from the slip
+line is not fitted (the slip line's unit process sends it into the flow). The
+events are in :mod:`gasdyn2d.characteristics.fitted_events`.
+
+Where it stops (``"shock_crossing"``): shocks of one family merging (one overtaking
+another), or a crossing or a refraction beyond detachment (no regular solution);
+flow compressed to M = 1, or a shock so strong the flow behind it is subsonic
+(``"sonic"``).
 
 Accuracy: the scheme is second order in smooth flow away from the interpolation
 (the averaged-coefficient rule); linear interpolation at the feet adds an O(h)
-numerical diffusion over the march, so the measured order of wall pressures is
-between one and two (see the tests and ``docs/characteristics.md``).
+numerical diffusion over the march, so fans and the strengthening of weak shocks
+converge at first order, piecewise-uniform flows are exact (see the tests and
+``docs/characteristics.md``).
 
 Not modelled: boundary layers, shock/boundary-layer interaction and separation
 (which a real shock reflection in a duct often causes), real-gas effects.
@@ -77,18 +86,21 @@ import numpy as np
 
 from ..boundary.results import ResultTable, unit_field
 from ..relations.isentropic import pressure_ratio
-from ..relations.oblique_shocks import oblique_shock_ratios
-from ..relations.theta_beta_mach import (
-    detachment_angles,
-    sonic_angles,
-    wave_angle_from_deflection,
+from .fitted_events import (
+    CFL_NUMBER,
+    Station,
+    cross_shocks,
+    flow_properties,
+    insert_shocks,
+    reflect_from_wall,
+    refract_through_slip_line,
+    zone_layout,
 )
 from .shock_points import shock_point
 
 __all__ = ["FittedShock", "FittedMarch", "march_fitted_channel", "compressive_stretches"]
 
 _PASSES = 3  # predictor + two correctors
-_CFL = 1.0  # feet of C± about one target spacing from the node
 _MAX_STATIONS = 100_000
 _LOOKAHEAD = 1.5  # a shock hitting a wall within this many steps lands a station on the wall
 
@@ -125,49 +137,10 @@ class FittedMarch(NamedTuple):
     stop_position: tuple  #: (x, y) where the march stopped short (NaN at "length")
 
 
-class _Shock:
-    """A fitted shock (or slip line, family 0) being marched: its current position and
-    direction, and its path."""
-
-    def __init__(self, family, x, y, direction, wave_angle, p2_p1):
-        self.family = family
-        self.is_shock = family != 0
-        self.y = y
-        self.direction = direction
-        self.wave_angle = wave_angle
-        self.path = [(x, y, wave_angle, p2_p1)]
-        self.end = "length"
-
-    def record(self, x, wave_angle, p2_p1):
-        self.wave_angle = wave_angle
-        self.path.append((x, self.y, wave_angle, p2_p1))
-
-
-class _Station:
-    """Nodes of one station, zone by zone (arrays over all nodes)."""
-
-    def __init__(self, x, counts, y, lp, th, lp0, shocks):
-        self.x = x
-        self.counts = np.asarray(counts, dtype=np.intp)
-        self.y, self.lp, self.th, self.lp0 = y, lp, th, lp0
-        self.shocks = shocks  # list of _Shock, len(counts) - 1, between zone i and i + 1
-        self.zone, self.eta, self.start, self.stop = _layout(self.counts)
-        self.xi = 2.0 * self.zone + self.eta  # increasing: one interpolation for all zones
-
-
-def _layout(counts):
-    """Zone of each node, its even position η in [0, 1] in the zone, first and last index."""
-    zone = np.repeat(np.arange(counts.size), counts)
-    stop = np.cumsum(counts) - 1
-    start = stop - counts + 1
-    eta = (np.arange(zone.size) - start[zone]) / (counts[zone] - 1.0)
-    return zone, eta, start, stop
-
-
 def _kinds(counts, shocks):
     """Node kinds: interior, wall nodes, the sides of each shock (ahead, behind, in the
     order of the shocks) and of each slip line (below, above)."""
-    zone, _, start, stop = _layout(counts)
+    zone, _, start, stop = zone_layout(counts)
     kind = np.zeros(zone.size, dtype=np.intp)
     kind[start[0]] = _LOWER_WALL
     kind[stop[-1]] = _UPPER_WALL
@@ -182,15 +155,6 @@ def _kinds(counts, shocks):
         ahead.append(up)
         behind.append(down)
     return kind, np.array(ahead, dtype=np.intp), np.array(behind, dtype=np.intp)
-
-
-def _properties(lp, lp0, gamma):
-    """Mach number, Mach angle and B from ln p and ln p0 of the streamline."""
-    m2 = 2.0 / (gamma - 1.0) * np.expm1((gamma - 1.0) / gamma * (lp0 - lp))
-    mach = np.sqrt(m2)
-    mu = np.arcsin(1.0 / mach)
-    b = np.sqrt(m2 - 1.0) / (gamma * m2)
-    return mach, mu, b
 
 
 def compressive_stretches(wall, length, side, samples=20001):
@@ -259,7 +223,7 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
     """:func:`march_fitted_channel` inside one floating-point error state."""
     p_inlet = float(pressure_ratio(M, gamma))
     y0 = np.linspace(float(lower_wall.height(0.0)), float(upper_wall.height(0.0)), n)
-    station = _Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
+    station = Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
                        np.zeros(n), [])
     starts = sorted(_corner_or_stretch(wall, a, b, side) for wall, side in (
         (lower_wall, "lower"), (upper_wall, "upper"))
@@ -268,10 +232,10 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
     finished = []
     reason, where = "length", (math.nan, math.nan)
     walls = (lower_wall, upper_wall)
-    station = _insert_shocks(station, starts, walls, n, gamma)
+    station = insert_shocks(station, starts, walls, n, gamma)
     if isinstance(station, tuple):
         reason, where = station[1]
-        station = _Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
+        station = Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
                            np.zeros(n), [])
     out.add(station)
     for _ in range(_MAX_STATIONS):
@@ -289,7 +253,7 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
                                       *_shock_strengths(new, gamma)):
             shock.record(new.x, beta, ratio)
         if hit is not None and hit[0] in ("cross", "refract"):
-            handle = _cross if hit[0] == "cross" else _refract
+            handle = cross_shocks if hit[0] == "cross" else refract_through_slip_line
             new, status = handle(new, hit[1], hit[2], gamma, finished)
             if status != "ok":
                 reason, where = status
@@ -297,14 +261,14 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
                 break
         elif hit is not None:
             for wall_hit in hit[1]:
-                new, status = _reflect(new, wall_hit, walls, gamma, finished)
+                new, status = reflect_from_wall(new, wall_hit, walls, gamma, finished)
                 if status != "ok":
                     break
             if status != "ok":
                 reason, where = status
                 out.add(new)
                 break
-        inserted = _insert_shocks(new, starts, walls, n, gamma)
+        inserted = insert_shocks(new, starts, walls, n, gamma)
         if isinstance(inserted, tuple):
             reason, where = inserted[1]
             out.add(new)
@@ -344,7 +308,7 @@ class _Recorder:
         self.p.append(np.exp(station.lp))
         self.th.append(station.th.copy())
         self.p0.append(np.exp(station.lp0))
-        self.mach.append(_properties(station.lp, station.lp0, self.gamma)[0])
+        self.mach.append(flow_properties(station.lp, station.lp0, self.gamma)[0])
 
 
 def _shock_strengths(station, gamma):
@@ -354,7 +318,7 @@ def _shock_strengths(station, gamma):
     if ahead.size == 0:
         return [], []
     ratio = np.exp(station.lp[behind] - station.lp[ahead])
-    mach = _properties(station.lp[ahead], station.lp0[ahead], gamma)[0]
+    mach = flow_properties(station.lp[ahead], station.lp0[ahead], gamma)[0]
     # β from the normal Mach number: p2/p1 = 1 + 2γ(Mn² - 1)/(γ + 1) (NACA Report 1135, eq. 128)
     mn2 = 1.0 + np.maximum(ratio - 1.0, 0.0) * (gamma + 1.0) / (2.0 * gamma)
     beta = np.arcsin(np.minimum(np.sqrt(mn2) / mach, 1.0))
@@ -367,9 +331,9 @@ def _step_length(station, walls, length, starts, n, gamma):
     x = station.x
     height = float(walls[1].height(x) - walls[0].height(x))
     h = height / (n - 1)
-    _, mu, _ = _properties(station.lp, station.lp0, gamma)
+    _, mu, _ = flow_properties(station.lp, station.lp0, gamma)
     spread = np.tan(station.th + mu) - np.tan(station.th - mu)
-    dx_cfl = _CFL * 2.0 * h / float(np.max(spread))
+    dx_cfl = CFL_NUMBER * 2.0 * h / float(np.max(spread))
     limit = length - x
     corners = [c for wall in walls for c in getattr(wall, "corners_x", ())]
     for x_mark in [start[0] for start in starts] + corners:
@@ -467,7 +431,7 @@ def _advance(old, dx, hit, walls, n, gamma):
     bounds = np.maximum.accumulate(bounds)
     thick = np.diff(bounds)
     counts = np.maximum(2, np.ceil(thick / h - 1e-9).astype(np.intp) + 1)
-    zone, eta, start, stop = _layout(counts)
+    zone, eta, start, stop = zone_layout(counts)
     kind, ahead, behind = _kinds(counts, shocks)
     is_shock = np.array([s.is_shock for s in shocks], dtype=bool)
     sid = np.flatnonzero(is_shock)  # shocks among the interfaces (the rest: slip lines)
@@ -496,14 +460,14 @@ def _advance(old, dx, hit, walls, n, gamma):
     beta_guess = np.array([shocks[i].wave_angle for i in sid])
     interior = (kind == _INTERIOR) | (kind == _AHEAD)
     for _ in range(_PASSES):
-        _, mu, b = _properties(lp, lp0, gamma)
+        _, mu, b = flow_properties(lp, lp0, gamma)
         slopes = np.tan(np.array([th + mu, th - mu, th]))
         if feet_slopes is not None:
             slopes = 0.5 * (slopes + feet_slopes)
         new = (y, lp, th, lp0)
         all_lp, all_th, all_lp0 = _foot(old, new, slopes, geometry)  # rows: a, b, s
         (lpa, lpb, _), (tha, thb, ths), (lp0a, lp0b, lp0s) = all_lp, all_th, all_lp0
-        _, mu_ab, b_ab = _properties(all_lp[:2], all_lp0[:2], gamma)
+        _, mu_ab, b_ab = flow_properties(all_lp[:2], all_lp0[:2], gamma)
         (mua, mub), (ba, bb) = mu_ab, b_ab
         feet_slopes = np.tan(np.array([tha + mua, thb - mub, ths]))
         bp, bm = 0.5 * (ba + b), 0.5 * (bb + b)
@@ -529,8 +493,8 @@ def _advance(old, dx, hit, walls, n, gamma):
             foot_lp = np.where(own == 1, lpa[behind], lpb[behind])
             foot_th = np.where(own == 1, tha[behind], thb[behind])
             foot_lp0 = np.where(own == 1, lp0a[behind], lp0b[behind])
-            m_up = _properties(lp_new[ahead], lp0_new[ahead], gamma)[0]
-            m_b = _properties(foot_lp, foot_lp0, gamma)[0]
+            m_up = flow_properties(lp_new[ahead], lp0_new[ahead], gamma)[0]
+            m_b = flow_properties(foot_lp, foot_lp0, gamma)[0]
             point = _shock_points(m_up, th_new[ahead], np.exp(lp_new[ahead]), m_b, foot_th,
                                   np.exp(foot_lp), family, gamma, guesses=beta_guess)
             beta_guess = point.wave_angle
@@ -547,13 +511,13 @@ def _advance(old, dx, hit, walls, n, gamma):
             thick = np.diff(bounds)
             y = bounds[zone] + eta * thick[zone]
         lp, th, lp0 = lp_new, th_new, lp0_new
-    mach = _properties(lp, lp0, gamma)[0]
+    mach = flow_properties(lp, lp0, gamma)[0]
     if not np.all(mach > 1.0):
         k = int(np.argmin(np.where(np.isnan(mach), -np.inf, mach)))
         return None, ("sonic", (x, float(y[k])))
     for shock, y_s, direction in zip(shocks, shock_y, new_dir):
         shock.y, shock.direction = float(y_s), float(direction)
-    return _Station(x, counts, y, lp, th, lp0, list(shocks)), "ok"
+    return Station(x, counts, y, lp, th, lp0, list(shocks)), "ok"
 
 
 def _shock_points(*states, guesses):
@@ -603,196 +567,3 @@ def _foot(old, new, slope, geometry):
         for value, now, before in zip(values, (lp, th, lp0), (old.lp, old.th, old.lp0)):
             value.ravel()[k] = (1.0 - t) * now[new_index[z]] + t * before[old_index[z]]
     return values
-
-
-def _reflect(station, hit, walls, gamma, finished):
-    """Replace a shock that has reached a wall by its regular reflection (new station)."""
-    k, wall_index = hit
-    shocks = list(station.shocks)
-    incident = shocks[k]
-    incident.end = "wall"
-    finished.append(incident)
-    counts = station.counts.copy()
-    _, _, start, stop = _layout(counts)
-    wall = walls[wall_index]
-    theta_wall = float(np.arctan(wall.slope(station.x)))
-    behind = start[k + 1] if wall_index == 0 else stop[k]  # the incident's downstream node
-    lp2, th2, lp02 = station.lp[behind], station.th[behind], station.lp0[behind]
-    mach2 = float(_properties(lp2, lp02, gamma)[0])
-    family = -incident.family
-    deflection = family * (theta_wall - th2)
-    y_wall = float(station.y[behind])
-    if deflection > float(detachment_angles(mach2, gamma)[0]):
-        return station, ("mach_reflection", (station.x, y_wall))
-    if deflection > 0.0:
-        beta = float(wave_angle_from_deflection(mach2, deflection, gamma))
-        ratios = oblique_shock_ratios(mach2, beta, gamma)
-        ratio, p0_ratio = float(ratios.p2_p1), float(ratios.p02_p01)
-    else:  # the incident shock has died out before the wall: a Mach wave reflects
-        beta, ratio, p0_ratio = math.asin(1.0 / mach2), 1.0, 1.0
-    reflected = _Shock(family, station.x, y_wall, th2 + family * beta, beta, ratio)
-    state = (lp2 + math.log(ratio), theta_wall, lp02 + math.log(p0_ratio))
-    # the zone between the wall and the incident shock has closed; a zone between the wall
-    # and the reflected shock opens (two nodes at the wall point, the state behind it)
-    keep = np.ones(station.y.size, bool)
-    gone = slice(start[k], stop[k] + 1) if wall_index == 0 else slice(start[k + 1], stop[k + 1] + 1)
-    keep[gone] = False
-    parts = [station.y, station.lp, station.th, station.lp0]
-    opened = [np.full(2, y_wall)] + [np.full(2, v) for v in state]
-    if wall_index == 0:
-        arrays = [np.concatenate([o, p[keep]]) for o, p in zip(opened, parts)]
-        counts = np.concatenate([[2], np.delete(counts, k)])
-    else:
-        arrays = [np.concatenate([p[keep], o]) for o, p in zip(opened, parts)]
-        counts = np.concatenate([np.delete(counts, k + 1), [2]])
-    shocks[k] = reflected
-    return _Station(station.x, counts, *arrays, shocks), "ok"
-
-
-def _cross(station, i, span, gamma, finished):
-    """Two shocks crossing at a point: transmitted shocks and a slip line (new station).
-
-    Interfaces i (a +1 shock, below) and i + span (a -1 shock, above) meet, with a slip
-    line between them when ``span`` is 2 (it ends there); the zones between them have
-    closed. The -1 shock goes on into the flow behind
-    the +1 one (region 2, below) and the +1 shock into the flow behind the -1 one (region
-    3, above); the flows behind them (4 and 5) share pressure and direction across a slip
-    line, their stagnation pressures differ. θ on the slip line is found by bisection of
-    the pressure mismatch (oblique-shock relations for the two turns, weak branch).
-    """
-    counts = station.counts
-    _, _, start, stop = _layout(counts)
-    below, above = stop[i], start[i + span + 1]  # region 2 (behind the +1 shock), region 3
-    (lp2, th2, lp02), (lp3, th3, lp03) = ((station.lp[k], station.th[k], station.lp0[k])
-                                          for k in (below, above))
-    m2, m3 = (float(_properties(lp, lp0, gamma)[0]) for lp, lp0 in ((lp2, lp02), (lp3, lp03)))
-    y_meet = float(station.y[below + 1])
-    where = (station.x, y_meet)
-    turn_max = (float(detachment_angles(m2, gamma)[0]), float(detachment_angles(m3, gamma)[0]))
-
-    def transmitted(mach, turn):
-        beta = float(wave_angle_from_deflection(mach, turn, gamma)) if turn > 0.0 else \
-            math.asin(1.0 / mach)
-        return beta, oblique_shock_ratios(mach, beta, gamma)
-
-    def mismatch(theta):  # ln p4 - ln p5: falls as θ rises
-        lp4 = lp2 + math.log(transmitted(m2, th2 - theta)[1].p2_p1)
-        return lp4 - lp3 - math.log(transmitted(m3, theta - th3)[1].p2_p1)
-
-    low, high = max(th3, th2 - turn_max[0]), min(th2, th3 + turn_max[1])
-    if not (low <= high and mismatch(low) >= 0.0 >= mismatch(high)):
-        return station, ("shock_crossing", where)  # no regular crossing of two shocks
-    for _ in range(60):
-        middle = 0.5 * (low + high)
-        low, high = (middle, high) if mismatch(middle) > 0.0 else (low, middle)
-    theta = 0.5 * (low + high)
-    (beta_a, after_a), (beta_b, after_b) = transmitted(m2, th2 - theta), transmitted(m3, theta - th3)
-    lp4 = lp2 + math.log(after_a.p2_p1)
-    state4 = (y_meet, lp4, theta, lp02 + math.log(after_a.p02_p01))
-    state5 = (y_meet, lp4, theta, lp03 + math.log(after_b.p02_p01))
-    for shock in station.shocks[i:i + span + 1]:
-        shock.end = "crossing"
-        finished.append(shock)
-    new_shocks = [_Shock(-1, station.x, y_meet, th2 - beta_a, beta_a, float(after_a.p2_p1)),
-                  _Shock(0, station.x, y_meet, theta, 0.0, 1.0),
-                  _Shock(1, station.x, y_meet, th3 + beta_b, beta_b, float(after_b.p2_p1))]
-    head, tail = np.arange(station.y.size) <= stop[i], np.arange(station.y.size) >= above
-    arrays = [np.concatenate([v[head], np.full(2, a), np.full(2, b), v[tail]])
-              for v, a, b in zip((station.y, station.lp, station.th, station.lp0), state4, state5)]
-    new_counts = np.concatenate([counts[:i + 1], [2, 2], counts[i + span + 1:]])
-    shocks = list(station.shocks[:i]) + new_shocks + list(station.shocks[i + span + 1:])
-    return _Station(station.x, new_counts, *arrays, shocks), "ok"
-
-
-def _refract(station, i, span, gamma, finished):
-    """A shock passing through a slip line (new station).
-
-    Interfaces i and i + 1 are a +1 shock below a slip line, or a slip line below a -1
-    shock; the zone between them has closed. The transmitted shock turns the flow on the
-    far side of the slip line to the direction of the flow behind the incident shock
-    (weak branch). The pressures on the two sides then differ a little: the wave this
-    reflects from the slip line is not fitted; the slip line's own unit process (C+ from
-    below, C- from above) sends it into the flow, where the interpolation carries it.
-    """
-    counts = station.counts
-    _, _, start, stop = _layout(counts)
-    incident = station.shocks[i] if station.shocks[i].is_shock else station.shocks[i + 1]
-    family = incident.family
-    low, high = stop[i], start[i + 2]  # the outer nodes: below and above the closed zone
-    ahead, behind = (high, low) if family > 0 else (low, high)
-    lp_a, th_a, lp0_a = station.lp[ahead], station.th[ahead], station.lp0[ahead]
-    th_b = station.th[behind]
-    mach = float(_properties(lp_a, lp0_a, gamma)[0])
-    turn = family * (th_b - th_a)
-    y_meet = float(station.y[low + 1])
-    if turn > float(detachment_angles(mach, gamma)[0]):
-        return station, ("shock_crossing", (station.x, y_meet))
-    if turn > 0.0:
-        beta = float(wave_angle_from_deflection(mach, turn, gamma))
-    else:
-        beta, turn = math.asin(1.0 / mach), 0.0
-    after = oblique_shock_ratios(mach, beta, gamma)
-    state = (y_meet, lp_a + math.log(after.p2_p1), th_a + family * turn,
-             lp0_a + math.log(after.p02_p01))
-    incident.end = "slip line"
-    finished.append(incident)
-    slip = station.shocks[i + 1] if family > 0 else station.shocks[i]
-    transmitted = _Shock(family, station.x, y_meet, th_a + family * beta, beta,
-                         float(after.p2_p1))
-    pair = [slip, transmitted] if family > 0 else [transmitted, slip]
-    head, tail = np.arange(station.y.size) <= low, np.arange(station.y.size) >= high
-    arrays = [np.concatenate([v[head], np.full(2, a), v[tail]])
-              for v, a in zip((station.y, station.lp, station.th, station.lp0), state)]
-    new_counts = np.concatenate([counts[:i + 1], [2], counts[i + 2:]])
-    shocks = list(station.shocks[:i]) + pair + list(station.shocks[i + 2:])
-    return _Station(station.x, new_counts, *arrays, shocks), "ok"
-
-
-def _insert_shocks(station, starts, walls, n, gamma):
-    """Insert a shock at each wall where a compressive stretch begins at this station.
-
-    A stretch longer than a marching step gets a Mach wave of zero strength, which the
-    compression then strengthens from behind. A shorter one (a sharp corner or a short
-    arc, which the mesh cannot resolve) gets the oblique shock of its whole turn at
-    once, as at a corner placed at the stretch's start (error of the order of the
-    stretch's length). Returns the new station, or (None, (reason, position)) where the
-    turn is beyond what an attached supersonic shock can take.
-    """
-    for x_start, side, x_end in starts:
-        if abs(x_start - station.x) > 1e-12 * max(1.0, abs(station.x)):
-            continue
-        lower = side == "lower"
-        wall = walls[0 if lower else 1]
-        index = 0 if lower else station.y.size - 1
-        lp, th, lp0 = station.lp[index], station.th[index], station.lp0[index]
-        mach, mu, _ = (float(v) for v in _properties(lp, lp0, gamma))
-        family = 1 if lower else -1
-        h = float(walls[1].height(station.x) - walls[0].height(station.x)) / (n - 1)
-        step = _CFL * 2.0 * h / (math.tan(th + mu) - math.tan(th - mu))
-        ahead, after = x_start - 1e-9 * step, x_end + 1e-9 * step  # either side of a corner
-        turn = family * float(np.arctan(wall.slope(after)) - np.arctan(wall.slope(ahead)))
-        beta, ratio, p0_ratio = mu, 1.0, 1.0
-        if x_end - x_start <= step and turn > 0.0:
-            if turn > float(sonic_angles(mach, gamma)[0]):
-                return None, ("sonic", (station.x, float(station.y[index])))
-            beta = float(wave_angle_from_deflection(mach, turn, gamma))
-            ratios = oblique_shock_ratios(mach, beta, gamma)
-            ratio, p0_ratio = float(ratios.p2_p1), float(ratios.p02_p01)
-        else:
-            turn = 0.0
-        shock = _Shock(family, station.x, float(station.y[index]), th + family * beta, beta,
-                       ratio)
-        parts = [station.y, station.lp, station.th, station.lp0]
-        behind = (station.y[index], lp + math.log(ratio), th + family * turn,
-                  lp0 + math.log(p0_ratio))
-        opened = [np.full(2, v) for v in behind]
-        if lower:
-            arrays = [np.concatenate([o, p]) for o, p in zip(opened, parts)]
-            counts = np.concatenate([[2], station.counts])
-            shocks = [shock] + list(station.shocks)
-        else:
-            arrays = [np.concatenate([p, o]) for o, p in zip(opened, parts)]
-            counts = np.concatenate([station.counts, [2]])
-            shocks = list(station.shocks) + [shock]
-        station = _Station(station.x, counts, *arrays, shocks)
-    return station
