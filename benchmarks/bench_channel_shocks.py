@@ -5,13 +5,15 @@ Run from the repository root::
     python benchmarks/bench_channel_shocks.py           # best of 5 repeats
     python benchmarks/bench_channel_shocks.py --quick   # one repeat, a few seconds (CI)
 
-Case (invented): a Mach 2.2 duct 0.1 m high whose roof turns 6° down at a sharp
-corner; its shock and the reflections from floor and roof (the fitted shocks of
-the march; a reflection starts a new entry) are marched to 0.5 m, about 10^4
-nodes. A second case adds a 4° expansion corner on the roof that overtakes and
-bends the reflected shocks.
+Cases (invented), Mach 2.2 ducts 0.1 m high marched to 0.5 m, about 10^4 nodes:
+floor and roof both turn 3° into the flow at sharp corners, so two fitted shocks
+start together, cross (transmitted shocks and a slip line), reflect from the walls
+and pass through the slip line, again and again (every crossing or reflection
+starts new entries of ``shocks``); the roof alone turns 6° down at a corner (a
+shock and its reflections); and the same with a 4° expansion corner on the roof
+that overtakes and bends the reflected shocks.
 
-Target (issue 13): about 10^4 nodes with fitted shocks in <= 0.5 s. Baseline,
+Target (issue 13): about 10^4 nodes with two fitted shocks in <= 0.5 s. Baseline,
 timed in the same run on about the same number of nodes: today's unfitted
 characteristic net of ``channel_flow`` (a roof that turns *away* from the flow, so
 no shock forms). The ratio column reads "costs as much as N nets of the same
@@ -53,7 +55,11 @@ def cases(quick):
                                           [0.1, 0.1, 0.1 - 0.1 * math.tan(math.radians(6.0)),
                                            0.1 - 0.1 * math.tan(math.radians(6.0))
                                            + 0.45 * math.tan(math.radians(-2.0))])
+    turn = math.radians(3.0)
     return [
+        ("two 3° corners: shocks cross", lambda: channel_flow(
+            2.2, lower_wall=WallContour.bend(0.0, 0.05, turn, 1e-4),
+            upper_wall=WallContour.bend(0.1, 0.05, -turn, 1e-4), length=length, n_points=41)),
         ("6° corner shock + reflections", lambda: channel_flow(
             2.2, lower_wall=FLOOR, upper_wall=corner, length=length, n_points=41)),
         ("6° corner, then a 4° fan", lambda: channel_flow(
