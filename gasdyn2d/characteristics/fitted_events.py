@@ -107,6 +107,8 @@ def reflect_from_wall(station, hit, walls, gamma, finished):
         beta = float(wave_angle_from_deflection(mach2, deflection, gamma))
         ratios = oblique_shock_ratios(mach2, beta, gamma)
         ratio, p0_ratio = float(ratios.p2_p1), float(ratios.p02_p01)
+        if not ratios.M2 > 1.0:  # regular, but subsonic behind: characteristics end here
+            return station, ("sonic", (station.x, y_wall))
     else:  # the incident shock has died out before the wall: a Mach wave reflects
         beta, ratio, p0_ratio = math.asin(1.0 / mach2), 1.0, 1.0
     reflected = Interface(family, station.x, y_wall, th2 + family * beta, beta, ratio)
@@ -166,6 +168,8 @@ def cross_shocks(station, i, span, gamma, finished):
         low, high = (middle, high) if mismatch(middle) > 0.0 else (low, middle)
     theta = 0.5 * (low + high)
     (beta_a, after_a), (beta_b, after_b) = transmitted(m2, th2 - theta), transmitted(m3, theta - th3)
+    if not (after_a.M2 > 1.0 and after_b.M2 > 1.0):  # subsonic behind a transmitted shock
+        return station, ("sonic", where)
     lp4 = lp2 + math.log(after_a.p2_p1)
     state4 = (y_meet, lp4, theta, lp02 + math.log(after_a.p02_p01))
     state5 = (y_meet, lp4, theta, lp03 + math.log(after_b.p02_p01))
@@ -211,6 +215,8 @@ def refract_through_slip_line(station, i, span, gamma, finished):
     else:
         beta, turn = math.asin(1.0 / mach), 0.0
     after = oblique_shock_ratios(mach, beta, gamma)
+    if not after.M2 > 1.0:  # subsonic behind the transmitted shock
+        return station, ("sonic", (station.x, y_meet))
     state = (y_meet, lp_a + math.log(after.p2_p1), th_a + family * turn,
              lp0_a + math.log(after.p02_p01))
     incident.end = "slip line"

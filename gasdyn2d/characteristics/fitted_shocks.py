@@ -242,6 +242,8 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
         if station.x >= length * (1.0 - 1e-14):
             break
         dx, hit, meet = _step_length(station, walls, length, starts, n, gamma)
+        if not dx > 0.0:  # every event checks for subsonic flow; this is a last guard
+            raise RuntimeError(f"fitted channel march: step {dx!r} at x = {station.x!r}")
         if meet is not None:
             reason, where = "shock_crossing", meet
             break
