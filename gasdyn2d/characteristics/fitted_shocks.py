@@ -15,9 +15,10 @@ point appears twice, once on each side. The variables are p, θ and the stagnati
 pressure p0 of the streamline (the entropy), with M from p/p0 on the streamline.
 
 A new node's state comes from tracing its C+, its C- and its streamline back to the
-previous station and interpolating there (linear interpolation in each zone; a trace
-that leaves the zone between the stations meets the zone's boundary path, and the
-state there is interpolated along that path). Along C± the planar compatibility
+previous station and interpolating there (in each zone, quadratic through the three
+nearest nodes, limited to the range of the two either side; a trace that leaves the
+zone between the stations meets the zone's boundary path, and the state there is
+interpolated along that path). Along C± the planar compatibility
 relations in p and θ hold in rotational flow as they stand,
 
     dθ + B dp/p = 0 along C+,   dθ - B dp/p = 0 along C-,   B = √(M² - 1)/(γM²),
@@ -66,11 +67,10 @@ another), or a crossing or a refraction beyond detachment (no regular solution);
 flow compressed to M = 1, or a shock so strong the flow behind it is subsonic
 (``"sonic"``).
 
-Accuracy: the scheme is second order in smooth flow away from the interpolation
-(the averaged-coefficient rule); linear interpolation at the feet adds an O(h)
-numerical diffusion over the march, so fans and the strengthening of weak shocks
-converge at first order, piecewise-uniform flows are exact (see the tests and
-``docs/characteristics.md``).
+Accuracy: the averaged-coefficient rule is second order; the limited interpolation
+at the feet keeps smooth regions close to that, but centred fans, the strengthening
+of weak shocks and steep compressions converge at first order or a little better;
+piecewise-uniform flows are exact (see the tests and ``docs/characteristics.md``).
 
 Not modelled: boundary layers, shock/boundary-layer interaction and separation
 (which a real shock reflection in a duct often causes), real-gas effects.
@@ -539,6 +539,35 @@ def _wall_angle(wall, x, dx):
     return float(np.arctan(wall.slope(x)))
 
 
+def _interpolate(old, zone, eta):
+    """(ln p, θ, ln p0) at relative positions η of zones of the previous station.
+
+    Quadratic through the three nearest nodes of the zone (nodes are evenly spaced in a
+    zone), limited to the range of the two nodes either side (no new extrema: a steep
+    compression about to meet a shock would otherwise overshoot); linear in a zone of two
+    nodes. Linear interpolation alone adds an O(h) numerical diffusion over a march.
+    """
+    counts = old.counts[zone]
+    u = eta * (counts - 1)  # position in node spacings from the zone's first node
+    centre = np.clip(np.rint(u), 1, counts - 2)  # middle node of the three-point stencil
+    two = counts < 3
+    centre = np.where(two, 0, centre).astype(np.intp)
+    r = u - centre
+    base = old.start[zone] + centre
+    left = old.start[zone] + np.minimum(np.floor(u), counts - 2).astype(np.intp)
+    values = []
+    for v in (old.lp, old.th, old.lp0):
+        middle = v[base]
+        after = v[np.minimum(base + 1, v.size - 1)]
+        before = v[np.maximum(base - 1, 0)]
+        quadratic = middle + 0.5 * r * (after - before) + 0.5 * r * r * (after - 2.0 * middle
+                                                                           + before)
+        low, high = v[left], v[left + 1]
+        limited = np.minimum(np.maximum(quadratic, np.minimum(low, high)), np.maximum(low, high))
+        values.append(np.where(two, middle + r * (after - middle), limited))
+    return values
+
+
 def _foot(old, new, slope, geometry):
     """State (ln p, θ, ln p0) where lines of ``slope`` through the new nodes meet the
     previous station, or, where they leave their zone first, the zone's boundary path.
@@ -554,8 +583,7 @@ def _foot(old, new, slope, geometry):
     below = (y_foot < lo_old) & ~own_lo
     above = (y_foot > hi_old) & ~own_hi
     eta = np.where(thick > 0.0, (y_foot - lo_old) / np.where(thick > 0.0, thick, 1.0), 0.5)
-    xi = 2.0 * zone + np.minimum(np.maximum(eta, 0.0), 1.0)
-    values = [np.interp(xi, old.xi, v) for v in (old.lp, old.th, old.lp0)]
+    values = _interpolate(old, zone, np.minimum(np.maximum(eta, 0.0), 1.0))
     n = y.size
     for mask, new_index, old_index in ((below, start, old.start), (above, stop, old.stop)):
         if not mask.any():
