@@ -27,7 +27,7 @@ and p0 is constant along a streamline (Zucrow and Hoffman, 1977, vol. 2, ch. 16:
 the inverse marching method and the rotational compatibility relations; chapter
 from memory). The entropy enters through M(p, p0) on each streamline. Slopes and
 coefficients are taken at the new node's estimate in a predictor and averaged
-between the foot and the node in two correctors.
+between the foot and the node in a corrector.
 
 Wall node: the wall fixes θ; the characteristic arriving from the flow (C- at the
 lower wall, C+ at the upper) fixes p; p0 is carried along the wall streamline.
@@ -100,7 +100,7 @@ from .shock_points import shock_point
 
 __all__ = ["FittedShock", "FittedMarch", "march_fitted_channel", "compressive_stretches"]
 
-_PASSES = 3  # predictor + two correctors
+_PASSES = 2  # predictor + one corrector
 _MAX_STATIONS = 100_000
 _LOOKAHEAD = 1.5  # a shock hitting a wall within this many steps lands a station on the wall
 
@@ -406,7 +406,7 @@ def _wall_hit(shock, wall, x, reach, wall_index):
 
 
 def _advance(old, dx, hit, walls, n, gamma):
-    """March one step: the new station's nodes by predictor and correctors."""
+    """March one step: the new station's nodes by predictor and corrector."""
     x = old.x + dx
     y_low, y_up = float(walls[0].height(x)), float(walls[1].height(x))
     th_low, th_up = (_wall_angle(w, x, dx) for w in walls)

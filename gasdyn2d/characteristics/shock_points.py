@@ -42,7 +42,8 @@ from ..relations.theta_beta_mach import sonic_angles
 __all__ = ["ShockPoint", "shock_point", "compatibility_coefficient"]
 
 _ITERATIONS = 80  # Illinois steps at most; the bracket closes to a few ulp in ~10
-_GUESS_WIDTH = 1e-3  # half-width [rad] of the first bracket around a guess
+_GUESS_WIDTH = 1e-3  # half-width [rad] of the wider bracket around a guess
+_RESIDUAL_FLOOR = 1e-15  # [rad]: a scalar solve stops there (β to ~1e-15 rad, F' ~ 1)
 
 
 class ShockPoint(NamedTuple):
@@ -89,8 +90,9 @@ def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, fa
         Ratio of specific heats.
     guess : float, optional
         A wave angle near the answer [rad] (say, the shock's angle one step before in a
-        march). Scalar calls only: the root is first bracketed within 1e-3 rad of it,
-        which saves most of the steps; the answer is the same (to a few ulp).
+        march). Scalar calls only: the root is first bracketed within 1e-6 rad of it,
+        and then within 1e-3 rad (from the nearer end of the first), which saves most of
+        the steps; the answer is the same (to a few ulp).
 
     Returns
     -------
@@ -189,13 +191,16 @@ def _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_be
 
     low = math.asin(1.0 / mach_up)
     high = float(sonic_angles(mach_up, gamma)[1])
-    if guess is not None and low < guess - _GUESS_WIDTH and guess + _GUESS_WIDTH < high:
+    for width in ((_GUESS_WIDTH * 1e-3, _GUESS_WIDTH) if guess is not None else ()):
+        if not (low < guess - width and guess + width < high):
+            break
         # F rises with β: a bracket around the guess also rules out both flags
-        f_below, f_above = residual(guess - _GUESS_WIDTH)[0], residual(guess + _GUESS_WIDTH)[0]
+        f_below, f_above = residual(guess - width)[0], residual(guess + width)[0]
         if f_below < 0.0 <= f_above:
-            low, high, f_low, f_high = guess - _GUESS_WIDTH, guess + _GUESS_WIDTH, f_below, f_above
-            return _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_up,
-                                     family, gamma)
+            return _bracketed_scalar(residual, guess - width, guess + width, f_below, f_above,
+                                     mach_up, theta_up, p_up, family, gamma)
+        # the root lies beyond the narrow bracket on the side the residual points to
+        guess = guess + (width if f_above < 0.0 else -width)
     f_low, f_high = residual(low)[0], residual(high)[0]
     vanished, subsonic = f_low >= 0.0, f_high < 0.0
     if math.isnan(f_low + f_high):
@@ -231,7 +236,7 @@ def _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_u
             if side > 0:
                 f_low *= 0.5
             side = 1
-        if high - low <= 4.0 * math.ulp(high) or f_guess == 0.0:
+        if high - low <= 4.0 * math.ulp(high) or abs(f_guess) <= _RESIDUAL_FLOOR:
             break
     ratios = oblique_shock_ratios(mach_up, beta, gamma)
     return ShockPoint(beta, theta_up + family * beta, ratios.M2,
