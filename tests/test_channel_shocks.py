@@ -270,3 +270,16 @@ def test_fluxes_through_a_duct_with_crossing_shocks():
         deviations.append(np.max(np.abs(rows[:, 1:] / rows[0, 1:] - 1.0), axis=0))
     assert deviations[0][0] < 1e-12 and deviations[1][0] < 1e-12  # mass
     assert deviations[1][1] < 1e-3 and deviations[1][1] < 0.7 * deviations[0][1]  # momentum
+
+
+def test_a_squeeze_to_sonic_speed_stops_cleanly():
+    # Invented weak duct (found by a fuzz of random ducts): Mach 1.40, floor turning up 4.3°
+    # at a corner, roof turning down 8.1° over a long arc; the flow is compressed towards
+    # M = 1 and the march must stop with "sonic", every node recorded supersonic and finite
+    flow = channel_flow(1.4015182161049373,
+                        lower_wall=WallContour.bend(0.0, 0.0444, math.radians(4.277), 4.2e-4),
+                        upper_wall=WallContour.bend(HEIGHT, 0.1689, math.radians(-8.144), 0.373),
+                        length=0.6, n_points=29)
+    assert flow.stop_reason == "sonic"
+    assert np.all(np.isfinite(flow.net.mach)) and np.all(flow.net.mach >= 1.0)
+    assert math.isfinite(flow.stop_x)

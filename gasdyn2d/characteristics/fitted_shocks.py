@@ -549,6 +549,8 @@ def _interpolate(old, zone, eta):
     """
     counts = old.counts[zone]
     u = eta * (counts - 1)  # position in node spacings from the zone's first node
+    lost = ~np.isfinite(u)  # a NaN foot (a subsonic estimate): NaN out, caught by the step
+    u = np.where(lost, 0.0, u)
     centre = np.clip(np.rint(u), 1, counts - 2)  # middle node of the three-point stencil
     two = counts < 3
     centre = np.where(two, 0, centre).astype(np.intp)
@@ -564,7 +566,8 @@ def _interpolate(old, zone, eta):
                                                                            + before)
         low, high = v[left], v[left + 1]
         limited = np.minimum(np.maximum(quadratic, np.minimum(low, high)), np.maximum(low, high))
-        values.append(np.where(two, middle + r * (after - middle), limited))
+        values.append(np.where(lost, np.nan, np.where(two, middle + r * (after - middle),
+                                                      limited)))
     return values
 
 
