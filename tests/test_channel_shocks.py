@@ -283,3 +283,16 @@ def test_a_squeeze_to_sonic_speed_stops_cleanly():
     assert flow.stop_reason == "sonic"
     assert np.all(np.isfinite(flow.net.mach)) and np.all(flow.net.mach >= 1.0)
     assert math.isfinite(flow.stop_x)
+
+
+def test_a_march_crawling_at_sonic_speed_stops():
+    # Invented duct (found by a fuzz of random ducts): Mach 2.05, a 5.8° roof compression over
+    # a long arc and a 1.6° floor corner slow the stream to M ≈ 1 near x = 0.52 m, where the
+    # Mach lines stand across the stream and the steps shrink towards zero: the march must
+    # stop there with "sonic" (it crawled on before), every node supersonic and finite
+    flow = channel_flow(2.0513903740044785,
+                        lower_wall=WallContour.bend(0.0, 0.15497, math.radians(1.568), 4.7456e-4),
+                        upper_wall=WallContour.bend(HEIGHT, 0.16871, math.radians(-5.7955), 0.9586),
+                        length=0.6, n_points=20)
+    assert flow.stop_reason == "sonic" and 0.4 < flow.stop_x < 0.6
+    assert np.all(np.isfinite(flow.net.mach)) and np.all(flow.net.mach >= 1.0)

@@ -244,6 +244,10 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
         dx, hit, meet = _step_length(station, walls, length, starts, n, gamma)
         if not dx > 0.0:  # every event checks for subsonic flow; this is a last guard
             raise RuntimeError(f"fitted channel march: step {dx!r} at x = {station.x!r}")
+        crawl = _crawling(station, walls, n, gamma)
+        if crawl is not None:  # M → 1: the Mach lines stand across the stream
+            reason, where = "sonic", crawl
+            break
         if meet is not None:
             reason, where = "shock_crossing", meet
             break
@@ -311,6 +315,19 @@ class _Recorder:
         self.th.append(station.th.copy())
         self.p0.append(np.exp(station.lp0))
         self.mach.append(flow_properties(station.lp, station.lp0, self.gamma)[0])
+
+
+def _crawling(station, walls, n, gamma):
+    """Where the march can no longer advance (the flow at M = 1 to within 1e-6, or a
+    characteristic turned across the stream: a CFL step below 1e-7 of the spacing), or
+    None."""
+    _, mu, _ = flow_properties(station.lp, station.lp0, gamma)
+    spread = np.tan(station.th + mu) - np.tan(station.th - mu)
+    h = float(walls[1].height(station.x) - walls[0].height(station.x)) / (n - 1)
+    if float(np.max(spread)) * 1e-7 * h < 2.0 * h * CFL_NUMBER:
+        return None
+    k = int(np.argmax(spread))
+    return (station.x, float(station.y[k]))
 
 
 def _shock_strengths(station, gamma):
