@@ -172,11 +172,13 @@ def test_compression_forms_a_shock_at_the_envelope_cusp():
         flow = channel_flow(M1, lower_wall=STRAIGHT_FLOOR,
                             upper_wall=WallContour.bend(H, xs, math.radians(-6.0), R),
                             length=0.5, n_points=n)
-        assert flow.stop_reason == "shock"
+        # the march now goes on through the shock with a fitted shock
+        # (tests/test_channel_shocks.py); the fold is still reported where the net folded
+        assert flow.stop_reason == "length"
         distances.append(math.hypot(flow.shock_x - cusp[0], flow.shock_y - cusp[1]))
         assert distances[-1] < 2.5 * (H / (n - 1)) * math.sqrt(M1**2 - 1)
-        # the net stops cleanly: no node downstream of the hand-over row's last x
-        assert flow.net.x.max() <= flow.handover_x.max() + 1e-15
+        # the hand-over row (the net's last complete row) lies upstream of the fold
+        assert flow.handover_x.min() <= flow.shock_x
     assert distances[0] > distances[1] > distances[2]
 
 
@@ -184,7 +186,8 @@ def test_compression_forms_a_shock_at_the_envelope_cusp():
 def test_sharp_corners_given_as_tiny_arcs(turn_deg):
     # Invented corners (radius 1e-5 m, far below the 3.3 mm inlet spacing): an outward
     # corner still gives the exact plateau ν1 + 2δ on the floor (invariants); an inward
-    # corner is a compression corner, so the shock is reported at once, at the corner.
+    # corner is a compression corner: the net folds at once, at the corner, and the fitted
+    # shock starts there (its reflections end in a Mach reflection: test_channel_shocks).
     M1, H, n = 2.2, 0.1, 31
     flow = channel_flow(M1, lower_wall=STRAIGHT_FLOOR,
                         upper_wall=WallContour.bend(H, 0.05, math.radians(turn_deg), 1e-5),
@@ -194,9 +197,10 @@ def test_sharp_corners_given_as_tiny_arcs(turn_deg):
         expected = mp_mach_from_nu(float(mp_nu(M1)) + 2 * math.radians(turn_deg))
         assert flow.lower_wall_mach.max() == pytest.approx(expected, rel=1e-12)
     else:
-        assert flow.stop_reason == "shock"
+        assert flow.stop_reason == "mach_reflection"
         spacing = H / (n - 1)
         assert math.hypot(flow.shock_x - 0.05, flow.shock_y - H) < 3 * spacing
+        assert math.hypot(flow.shocks[0].x[0] - 0.05, flow.shocks[0].y[0] - H) < 1e-4
 
 
 def test_compression_to_sonic_speed_stops_cleanly():
@@ -240,7 +244,11 @@ def test_net_properties(M1, roof_turn_deg, floor_turn_deg):
                             (roof, flow.upper_wall_x, flow.upper_wall_nodes)):
         assert np.array_equal(net.x[nodes], xs)
         assert np.allclose(net.y[nodes], wall.height(xs), rtol=0, atol=1e-12)
-        assert np.allclose(net.theta[nodes], np.arctan(wall.slope(xs)), rtol=0, atol=1e-14)
+        # where a fitted shock starts at a short arc, taken as a corner at the arc's start,
+        # the wall node there already carries the angle after the arc
+        keep = ~np.isin(xs, [shock.x[0] for shock in flow.shocks])
+        assert np.allclose(net.theta[nodes][keep], np.arctan(wall.slope(xs[keep])), rtol=0,
+                           atol=1e-14)
 
 
 def test_quantity_length():

@@ -74,3 +74,32 @@ def test_nan_in_gives_nan_out_and_shapes_broadcast():
     point = shock_point(np.array([[2.0], [np.nan]]), 0.0, 1.0, 1.8, np.array([0.05, 0.1]), 1.4, +1)
     assert point.wave_angle.shape == (2, 2)
     assert np.all(np.isnan(point.wave_angle[1])) and np.all(np.isfinite(point.wave_angle[0]))
+
+
+def test_scalar_fast_path_matches_the_array_core():
+    # Scalar form against the array core (same algorithm): invented states behind a Mach 2.4
+    # shock, both families, including a vanished and a subsonic case
+    rng = np.random.default_rng(11)
+    cases = [(2.4, 0.01, 1.0, m, f * t, p, f) for m, t, p, f in zip(
+        rng.uniform(1.5, 2.3, 40), rng.uniform(-0.02, 0.3, 40), rng.uniform(0.9, 3.0, 40),
+        rng.choice([-1.0, 1.0], 40))]
+    cases += [(2.4, 0.0, 1.0, 2.4, 0.0, 1.0, 1.0), (2.4, 0.0, 1.0, 1.01, 0.6, 9.0, -1.0)]
+    for case in cases:
+        scalar = shock_point(*case)
+        array = shock_point(*(np.array([v]) for v in case))
+        for got, expected in zip(scalar, array):
+            assert np.allclose(got, expected[0], rtol=1e-13, atol=1e-15, equal_nan=True)
+
+
+def test_guess_gives_the_same_shock_point():
+    # A guess only narrows the first bracket: the answer is the same to a few ulp, whether
+    # the guess is good, poor (the bracket misses: full bracket) or the root is a Mach wave
+    # (invented states behind a Mach 2.4 shock)
+    cases = [(2.4, 0.0, 1.0, 2.0, -0.08, 1.5, -1.0), (2.4, 0.0, 1.0, 2.1, 0.05, 1.3, 1.0),
+             (2.4, 0.0, 1.0, 2.4, 0.0, 1.0, 1.0)]
+    for case in cases:
+        plain = shock_point(*case)
+        for guess in (float(plain.wave_angle) + 2e-4, 0.9, 0.5):
+            guessed = shock_point(*case, guess=guess)
+            for got, expected in zip(guessed, plain):
+                assert got == pytest.approx(expected, rel=1e-13, abs=1e-15)

@@ -13,6 +13,7 @@ import numpy as np
 
 from ..boundary.results import ResultTable, unit_field
 from .design_calls import DesignCall, frozen_array
+from .fitted_shocks import FittedShock, march_fitted_channel
 from .unit_processes import (
     CharacteristicNet,
     WallContour,
@@ -36,15 +37,30 @@ _MAX_ROWS = 200_000
 
 @dataclasses.dataclass(frozen=True, repr=False)
 class ChannelFlow(ResultTable):
-    """Characteristic net of a channel flow, wall distributions and how the march ended.
+    """Nodes of a channel flow, wall distributions, fitted shocks and how the march ended.
 
-    ``stop_reason`` is ``"length"`` (the net reached ``length``), ``"shock"``
-    (characteristics of one family crossed at ``shock_x``, ``shock_y``),
-    ``"sonic"`` (a compression slowed the stream to M = 1) or ``"nan"`` (a
-    flow input was NaN: no nodes, NaN values). The last complete
-    row of nodes (``handover_*``), a line across the channel from the lower
-    to the upper wall, is where another method (a shock-fitting solver) can
-    take over.
+    Where no shock forms, ``net`` is the characteristic net. Where characteristics
+    of one family cross (at ``shock_x``, ``shock_y``) a planar channel is marched
+    again from the inlet with fitted shocks (:mod:`gasdyn2d.characteristics.fitted_shocks`):
+    ``net`` then holds the nodes of its marching stations (x = const lines, lower to
+    upper wall, a shock point twice, once on each side) without characteristic
+    segments, and ``shocks`` the fitted shocks.
+
+    ``stop_reason`` is ``"length"`` (the march reached ``length``), ``"shock"``
+    (characteristics crossed in a round duct, where shocks are not fitted: the
+    march stops there), ``"mach_reflection"`` (a shock reached a wall at a turn
+    beyond detachment, where only a Mach reflection exists), ``"shock_crossing"``
+    (fitted shocks merged, one overtaking another of its family, or met beyond
+    detachment, where no regular crossing exists; regular crossings are carried
+    on, with their slip line),
+    ``"sonic"`` (a compression, or a shock, slowed the stream to M <= 1) or
+    ``"nan"`` (a flow input was NaN: no nodes, NaN values); ``stop_x``, ``stop_y``
+    is where the march stopped short. The last complete row of the characteristic
+    net before the fold (``handover_*``), a line across the channel from the lower
+    to the upper wall, is where the net ended.
+
+    Pressures (``lower_wall_p_p0``, ``upper_wall_p_p0``, ``net.p_p0``) are static
+    pressure over the *inlet* stagnation pressure, so the losses through shocks show.
     """
 
     mach_inlet: float = unit_field("")  #: uniform Mach number at the inlet x = 0
@@ -53,7 +69,7 @@ class ChannelFlow(ResultTable):
     shock_y: float = unit_field("m")
     lower_wall_x: np.ndarray = unit_field("m")  #: lower wall nodes, in streamwise order
     lower_wall_mach: np.ndarray = unit_field("")
-    lower_wall_p_p0: np.ndarray = unit_field("")  #: wall static over stagnation pressure
+    lower_wall_p_p0: np.ndarray = unit_field("")  #: wall static over inlet stagnation pressure
     upper_wall_x: np.ndarray = unit_field("m")
     upper_wall_mach: np.ndarray = unit_field("")
     upper_wall_p_p0: np.ndarray = unit_field("")
@@ -68,6 +84,11 @@ class ChannelFlow(ResultTable):
     lower_wall_y: np.ndarray = unit_field("m", default=None)
     #: upper wall height at ``upper_wall_x``
     upper_wall_y: np.ndarray = unit_field("m", default=None)
+    #: the fitted shocks (:class:`~gasdyn2d.characteristics.fitted_shocks.FittedShock`), in
+    #: the order they start; a reflection from a wall starts a new entry
+    shocks: tuple = dataclasses.field(default=(), metadata={"unit": ""}, repr=False)
+    stop_x: float = unit_field("m", default=float("nan"))  #: where the march stopped short
+    stop_y: float = unit_field("m", default=float("nan"))
 
 
 def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=1.4,
@@ -117,9 +138,25 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     invariants; positions are second-order accurate. In uniform regions (a
     fan fully reflected, two fans fully crossed) the state is therefore exact
     to rounding, e.g. ν = ν1 + 2δ on a straight wall after the fan of a turn δ
-    on the opposite wall has reflected from it. When two characteristics of
-    one family cross (a compression steepening into a shock) the march stops:
-    the method ends there.
+    on the opposite wall has reflected from it.
+
+    When two characteristics of one family cross (a compression steepening into
+    a shock, at ``shock_x``, ``shock_y``), a planar channel is marched again from
+    the inlet with fitted shocks
+    (:func:`gasdyn2d.characteristics.fitted_shocks.march_fitted_channel`: an
+    inverse marching scheme, p, θ and the streamline's stagnation pressure
+    traced back along C+, C- and the streamline; shock points from the
+    oblique-shock relations and the characteristic arriving from behind;
+    regular reflections from the walls; crossings of two shocks, with the slip
+    line between the transmitted shocks carried on). It ends at ``length``, or
+    where a reflection would have to be a Mach reflection
+    (``"mach_reflection"``), shocks merge or cross beyond detachment
+    (``"shock_crossing"``) or the flow becomes subsonic (``"sonic"``);
+    ``stop_x``, ``stop_y`` say where. A round duct stops at the
+    fold (``"shock"``): shocks are fitted in planar channels only. Pressures are
+    static over the *inlet* stagnation pressure, so losses through shocks show.
+    Boundary layers, and their interaction with the shocks (thickening,
+    separation), are not modelled.
 
     References
     ----------
@@ -140,6 +177,18 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     'length'
     >>> round(float(flow.lower_wall_mach.max()), 4)   # after the fan has reflected: ν1 + 12°
     2.7051
+
+    With the roof turning down by 6° at a corner instead, the corner's shock
+    reflects from the floor, and the floor pressure behind it is the exact
+    regular reflection's (p3/p01 = 0.18337):
+
+    >>> corner = channel_flow(2.2, lower_wall=WallContour.straight(0.0),
+    ...                       upper_wall=WallContour.bend(0.1, 0.05, np.radians(-6.0), 1e-4),
+    ...                       length=0.3, n_points=21)
+    >>> corner.stop_reason, [shock.end for shock in corner.shocks]
+    ('length', ['wall', 'length'])
+    >>> round(float(np.interp(0.25, corner.lower_wall_x, corner.lower_wall_p_p0)), 5)
+    0.18337
     """
     call = DesignCall("channel_flow")
     M = call.scalar("M_inlet", M_inlet, nan="record")
@@ -159,6 +208,10 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
         return _nan_channel(call, M)
     march = _march_channel(M, g, lower_wall, upper_wall, L, n, y_low, y_up,
                            "axisymmetric" if axisymmetric else "planar")
+    if march[2] == "shock" and not axisymmetric:
+        floor = WallContour.straight(0.0) if lower_wall is None else lower_wall
+        fitted = march_fitted_channel(M, g, floor, upper_wall, L, n)
+        return _fitted_result(march, fitted, M, g, call)
     return _channel_result(march, M, g, call)
 
 
@@ -393,7 +446,41 @@ def _channel_result(march, M, gamma, call):
         handover_x=call.length(row.x), handover_y=call.length(row.y),
         handover_mach=frozen_array(row_mach), handover_theta=call.angle(row.theta),
         net=call.net(net), lower_wall_y=call.length(y[lower]),
-        upper_wall_y=call.length(y[upper]),
+        upper_wall_y=call.length(y[upper]), stop_x=call.length(fold[0]),
+        stop_y=call.length(fold[1]),
+    )
+
+
+def _fitted_result(march, fitted, M, gamma, call):
+    """The result of a planar channel marched with fitted shocks; the characteristic net's
+    fold and last row are kept as where the shock formed and where the net ended."""
+    _, row, _, fold = march
+    counts = np.array([y.size for y in fitted.y], dtype=np.intp)
+    x = np.repeat(fitted.station_x, counts)
+    y, mach, theta, p_p0 = (np.concatenate(v) for v in (fitted.y, fitted.mach, fitted.theta,
+                                                        fitted.p_p0))
+    upper = np.cumsum(counts) - 1
+    lower = upper - counts + 1
+    no_segments = np.empty((0, 2), np.intp)
+    net = CharacteristicNet(x, y, mach, theta, p_p0, no_segments, no_segments)
+    shocks = tuple(FittedShock(family=int(f), x=call.length(sx), y=call.length(sy),
+                               wave_angle=call.angle(beta), p2_p1=frozen_array(ratio), end=end)
+                   for f, sx, sy, beta, ratio, end in fitted.shocks)
+    row_mach = mach_from_prandtl_meyer_angle(row.nu, gamma)
+    return ChannelFlow(
+        mach_inlet=M, stop_reason=fitted.reason,
+        shock_x=call.length(fold[0]), shock_y=call.length(fold[1]),
+        lower_wall_x=call.length(x[lower]), lower_wall_mach=frozen_array(mach[lower]),
+        lower_wall_p_p0=frozen_array(p_p0[lower]),
+        upper_wall_x=call.length(x[upper]), upper_wall_mach=frozen_array(mach[upper]),
+        upper_wall_p_p0=frozen_array(p_p0[upper]),
+        lower_wall_nodes=frozen_array(lower, np.intp),
+        upper_wall_nodes=frozen_array(upper, np.intp),
+        handover_x=call.length(row.x), handover_y=call.length(row.y),
+        handover_mach=frozen_array(row_mach), handover_theta=call.angle(row.theta),
+        net=call.net(net), lower_wall_y=call.length(y[lower]),
+        upper_wall_y=call.length(y[upper]), shocks=shocks,
+        stop_x=call.length(fitted.stop_position[0]), stop_y=call.length(fitted.stop_position[1]),
     )
 
 
@@ -411,4 +498,4 @@ def _nan_channel(call, M):
         upper_wall_nodes=frozen_array(nowhere, np.intp), handover_x=call.length(empty),
         handover_y=call.length(empty), handover_mach=frozen_array(empty),
         handover_theta=call.angle(empty), net=call.net(net), lower_wall_y=call.length(empty),
-        upper_wall_y=call.length(empty))
+        upper_wall_y=call.length(empty), stop_x=call.length(np.nan), stop_y=call.length(np.nan))

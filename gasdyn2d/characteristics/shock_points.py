@@ -30,16 +30,20 @@ Plain core only (SI, radians, pressures in any one unit): :func:`shock_point`.
 
 from __future__ import annotations
 
+import math
 from typing import NamedTuple
 
 import numpy as np
 
+from .. import numerics as nx
 from ..relations.oblique_shocks import oblique_shock_ratios
 from ..relations.theta_beta_mach import sonic_angles
 
 __all__ = ["ShockPoint", "shock_point", "compatibility_coefficient"]
 
 _ITERATIONS = 80  # Illinois steps at most; the bracket closes to a few ulp in ~10
+_GUESS_WIDTH = 1e-3  # half-width [rad] of the wider bracket around a guess
+_RESIDUAL_FLOOR = 1e-15  # [rad]: a scalar solve stops there (β to ~1e-15 rad, F' ~ 1)
 
 
 class ShockPoint(NamedTuple):
@@ -68,7 +72,7 @@ def compatibility_coefficient(mach, gamma=1.4):
 
 
 def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family,
-                gamma=1.4):
+                gamma=1.4, *, guess=None):
     """Plain core: the state just behind a shock point, and the shock's angle there.
 
     Parameters
@@ -84,6 +88,11 @@ def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, fa
         one running like a C-.
     gamma : float, optional
         Ratio of specific heats.
+    guess : float, optional
+        A wave angle near the answer [rad] (say, the shock's angle one step before in a
+        march). Scalar calls only: the root is first bracketed within 1e-6 rad of it,
+        and then within 1e-3 rad (from the nearer end of the first), which saves most of
+        the steps; the answer is the same (to a few ulp).
 
     Returns
     -------
@@ -119,6 +128,10 @@ def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, fa
     >>> round(math.degrees(float(point.wave_angle)), 4)
     39.3139
     """
+    if nx.plain_scalars(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family,
+                        gamma):
+        return _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind,
+                                   family, gamma, guess)
     arrays = np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in (
         mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family, gamma)))
     mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family, gamma = arrays
@@ -149,6 +162,86 @@ def shock_point(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, fa
     if result.wave_angle.ndim == 0:
         return ShockPoint(*(v[()] for v in result))
     return result
+
+
+def _compatibility_coefficient_scalar(mach, gamma):
+    """Scalar form of :func:`compatibility_coefficient`."""
+    if not mach > 1.0 - 1e-12:
+        return math.nan
+    return math.sqrt(max((mach - 1.0) * (mach + 1.0), 0.0)) / (gamma * mach * mach)
+
+
+def _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_behind, family,
+                        gamma, guess=None):
+    """Scalar form of :func:`shock_point` (same residual, same Illinois steps; the march of
+    fitted shocks calls it once per shock per step, where numpy's per-call cost dominates)."""
+    nan = math.nan
+    if not (mach_up > 1.0 and p_up > 0.0 and p_behind > 0.0) or math.isnan(
+            mach_behind + theta_behind + theta_up + family + gamma):
+        return ShockPoint(nan, nan, nan, nan, nan, nan, False, False)
+    b_behind = _compatibility_coefficient_scalar(mach_behind, gamma)
+    log_p_behind = math.log(p_behind / p_up)
+    turn_behind = family * (theta_behind - theta_up)
+
+    def residual(beta):
+        ratios = oblique_shock_ratios(mach_up, beta, gamma)
+        b_mean = 0.5 * (b_behind + _compatibility_coefficient_scalar(ratios.M2, gamma))
+        return ratios.deflection - turn_behind + b_mean * (
+            math.log1p(ratios.strength) - log_p_behind), ratios
+
+    low = math.asin(1.0 / mach_up)
+    high = float(sonic_angles(mach_up, gamma)[1])
+    for width in ((_GUESS_WIDTH * 1e-3, _GUESS_WIDTH) if guess is not None else ()):
+        if not (low < guess - width and guess + width < high):
+            break
+        # F rises with β: a bracket around the guess also rules out both flags
+        f_below, f_above = residual(guess - width)[0], residual(guess + width)[0]
+        if f_below < 0.0 <= f_above:
+            return _bracketed_scalar(residual, guess - width, guess + width, f_below, f_above,
+                                     mach_up, theta_up, p_up, family, gamma)
+        # the root lies beyond the narrow bracket on the side the residual points to
+        guess = guess + (width if f_above < 0.0 else -width)
+    f_low, f_high = residual(low)[0], residual(high)[0]
+    vanished, subsonic = f_low >= 0.0, f_high < 0.0
+    if math.isnan(f_low + f_high):
+        return ShockPoint(nan, nan, nan, nan, nan, nan, False, False)
+    if subsonic and not vanished:
+        return ShockPoint(nan, nan, nan, nan, nan, nan, False, True)
+    if not vanished:
+        return _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_up,
+                                 family, gamma)
+    ratios = oblique_shock_ratios(mach_up, low, gamma)
+    return ShockPoint(low, theta_up + family * low, ratios.M2,
+                      theta_up + family * ratios.deflection, p_up * (1.0 + ratios.strength),
+                      ratios.p02_p01, True, False)
+
+
+def _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_up, family,
+                      gamma):
+    """Illinois steps on a bracket of the scalar residual, and the shock point at the root."""
+    beta, side = 0.5 * (low + high), 0
+    for _ in range(_ITERATIONS):
+        guess = (low * f_high - high * f_low) / (f_high - f_low)
+        if not low < guess < high:
+            guess = 0.5 * (low + high)
+        f_guess = residual(guess)[0]
+        beta = guess
+        if f_guess < 0.0:
+            low, f_low = guess, f_guess
+            if side < 0:
+                f_high *= 0.5
+            side = -1
+        else:
+            high, f_high = guess, f_guess
+            if side > 0:
+                f_low *= 0.5
+            side = 1
+        if high - low <= 4.0 * math.ulp(high) or abs(f_guess) <= _RESIDUAL_FLOOR:
+            break
+    ratios = oblique_shock_ratios(mach_up, beta, gamma)
+    return ShockPoint(beta, theta_up + family * beta, ratios.M2,
+                      theta_up + family * ratios.deflection, p_up * (1.0 + ratios.strength),
+                      ratios.p02_p01, False, False)
 
 
 def _illinois(residual, low, high, f_low, f_high, active):
