@@ -569,6 +569,28 @@ def test_channel_net_draws_its_own_walls(tmp_path):
     save_png(drawn["ax"], tmp_path, "channel_net_own_walls")
 
 
+def test_fitted_channel_draws_its_shocks_and_stations(tmp_path):
+    from gasdyn2d.characteristics.channels import channel_flow
+    from gasdyn2d.characteristics.unit_processes import WallContour
+
+    # invented: a Mach 2.4 duct 50 mm high whose roof turns 8° into the flow over a 10 mm arc
+    lower = WallContour.straight(0.0)
+    upper = WallContour.bend(0.05, 0.1, np.radians(-8.0), 0.01)
+    channel = channel_flow(2.4, lower_wall=lower, upper_wall=upper, length=0.6, n_points=21)
+    assert channel.shocks  # the net folded: the channel was marched with fitted shocks
+    drawn = draw_characteristic_net(channel, length_unit="mm")
+    assert drawn["plus_lines"] is None and drawn["station_lines"] is not None
+    assert len(drawn["shocks"]) == len(channel.shocks)
+    for line, shock in zip(drawn["shocks"], channel.shocks):
+        sx, sy = line.get_data()
+        np.testing.assert_allclose(sx, 1e3 * np.asarray(shock.x))  # metres, drawn in mm
+        np.testing.assert_allclose(sy, 1e3 * np.asarray(shock.y))
+        assert line.get_color() == WAVE_STYLES["shock"]["color"]
+    assert drawn["shock"] is None  # no "shock forms" marker beside the drawn shocks
+    assert "shock" in [t.get_text() for t in drawn["legend"].get_texts()]
+    save_png(drawn["ax"], tmp_path, "fitted_channel")
+
+
 # ------------------------------------------------------------------ issue 14: rendered checks
 # Each figure is rendered with Agg to PNG; the bounding boxes of what was drawn are then
 # read from the renderer in display pixels.

@@ -87,11 +87,15 @@ def draw_characteristic_net(result, *, walls=None, ax=None, colourbar=True, leng
     -------
     Drawing
         ``ax``; ``plus_lines`` and ``minus_lines`` (LineCollections of the C+
-        and C- families); ``walls``, ``centrelines`` and ``boundaries`` (lists
+        and C- families, or None); ``station_lines`` (for a channel marched with
+        fitted shocks, whose nodes lie on marching stations x = const rather than
+        on characteristics: the stations coloured by Mach number; else None);
+        ``shocks`` (Line2D of each fitted shock, in the shock style);
+        ``walls``, ``centrelines`` and ``boundaries`` (lists
         of Line2D; a jet's boundary is a free boundary of fixed pressure, drawn
         as in :func:`~gasdyn2d.plot.draw_wave_pattern`); ``colourbar`` (or
-        None); ``shock`` (a marker where the net folds, or None); ``legend``
-        (or None).
+        None); ``shock`` (a marker where the net folds when no fitted shock is
+        drawn, or None); ``legend`` (or None).
 
     Raises
     ------
@@ -108,7 +112,7 @@ def draw_characteristic_net(result, *, walls=None, ax=None, colourbar=True, leng
     >>> from gasdyn2d.plot import draw_characteristic_net
     >>> drawn = draw_characteristic_net(minimum_length_nozzle(2.0, n_characteristics=8))
     >>> drawn
-    <Drawing of draw_characteristic_net: plus_lines, minus_lines, walls ×1, centrelines ×1, boundaries ×0, colourbar, legend>
+    <Drawing of draw_characteristic_net: plus_lines, minus_lines, walls ×1, centrelines ×1, boundaries ×0, colourbar, shocks ×0, legend>
     >>> drawn.colourbar.ax.get_ylabel()
     'Mach number [-]'
     """
@@ -139,9 +143,12 @@ def draw_characteristic_net(result, *, walls=None, ax=None, colourbar=True, leng
         ax = axes_or_new(None, figsize=figure_size_for(np.ptp(xs), np.ptp(ys),
                                                        colourbar=colourbar))
     drawn = {"walls": [], "centrelines": [], "boundaries": [], "colourbar": None,
-             "shock": None}
-    for key, segments, width in (("plus_lines", net.plus_segments, 0.9),
-                                 ("minus_lines", net.minus_segments, 0.6)):
+             "shock": None, "plus_lines": None, "minus_lines": None, "station_lines": None,
+             "shocks": []}
+    families = [("plus_lines", net.plus_segments, 0.9), ("minus_lines", net.minus_segments, 0.6)]
+    if not any(len(segments) for _, segments, _ in families) and x.size:
+        families = [("station_lines", _station_segments(x, y), 1.2)]  # a shock-fitted march
+    for key, segments, width in families:
         segments = np.asarray(segments, dtype=np.intp).reshape(-1, 2)
         points = scale * np.stack([np.column_stack([x[segments[:, k]], y[segments[:, k]]])
                                    for k in (0, 1)], axis=1)
@@ -150,20 +157,24 @@ def draw_characteristic_net(result, *, walls=None, ax=None, colourbar=True, leng
         lines.set_array(0.5 * (mach[segments[:, 0]] + mach[segments[:, 1]]))
         ax.add_collection(lines)
         drawn[key] = lines
-    apply_properties("draw_characteristic_net", [drawn["plus_lines"], drawn["minus_lines"]],
-                     line_properties)
+    mach_lines = [drawn[key] for key, _, _ in families]
+    apply_properties("draw_characteristic_net", mach_lines, line_properties)
+    for shock in getattr(result, "shocks", ()):
+        (line,) = ax.plot(scale * plain(shock.x), scale * plain(shock.y), gid="shock", zorder=4,
+                          **WAVE_STYLES["shock"])
+        drawn["shocks"].append(line)
     for role, key, polylines in (("wall", "walls", solid), ("centreline", "centrelines", centre),
                                  ("free boundary", "boundaries", free)):
         for px, py in polylines:
             (line,) = ax.plot(scale * px, scale * py, gid=role, **WAVE_STYLES[role])
             drawn[key].append(line)
     shock_x = float(plain(getattr(result, "shock_x", np.nan)))
-    if np.isfinite(shock_x):
+    if np.isfinite(shock_x) and not drawn["shocks"]:
         shock_y = float(plain(result.shock_y))
         (drawn["shock"],) = ax.plot([scale * shock_x], [scale * shock_y], gid="shock forms",
                                     zorder=5, **SHOCK_FORMS_STYLE)
     if colourbar:
-        drawn["colourbar"] = _mach_colourbar(ax, drawn["plus_lines"])
+        drawn["colourbar"] = _mach_colourbar(ax, mach_lines[0])
     ax.autoscale_view()
     ax.set_aspect("equal")
     ax.set_xlabel(f"x [{unit_text}]")
@@ -171,8 +182,16 @@ def draw_characteristic_net(result, *, walls=None, ax=None, colourbar=True, leng
     tidy(ax, grid=False)
     roles = [role for role, present in (
         ("wall", drawn["walls"]), ("centreline", drawn["centrelines"]),
-        ("free boundary", drawn["boundaries"]), ("shock forms", drawn["shock"] is not None))
+        ("free boundary", drawn["boundaries"]), ("shock", drawn["shocks"]),
+        ("shock forms", drawn["shock"] is not None and not drawn["shocks"]))
         if present]
     key = legend_below(ax, *key_handles(roles)) if legend else None
     return Drawing("draw_characteristic_net", ax, plus_lines=drawn.pop("plus_lines"),
                    minus_lines=drawn.pop("minus_lines"), **drawn, legend=key)
+
+
+def _station_segments(x, y):
+    """Segments joining neighbouring nodes of each marching station of a shock-fitted march
+    (its nodes run station by station, lower to upper wall, a shock point twice)."""
+    i = np.flatnonzero((x[1:] == x[:-1]) & (y[1:] > y[:-1]))
+    return np.column_stack([i, i + 1])
