@@ -210,10 +210,16 @@ def _shock_point_scalar(mach_up, theta_up, p_up, mach_behind, theta_behind, p_be
     if not vanished:
         return _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_up,
                                  family, gamma)
-    ratios = oblique_shock_ratios(mach_up, low, gamma)
-    return ShockPoint(low, theta_up + family * low, ratios.M2,
+    return _scalar_point_at(low, mach_up, theta_up, p_up, family, gamma, vanished=True)
+
+
+def _scalar_point_at(beta, mach_up, theta_up, p_up, family, gamma, vanished=False):
+    """The scalar shock point of wave angle ``beta`` (state behind from the oblique-shock
+    relations)."""
+    ratios = oblique_shock_ratios(mach_up, beta, gamma)
+    return ShockPoint(beta, theta_up + family * beta, ratios.M2,
                       theta_up + family * ratios.deflection, p_up * (1.0 + ratios.strength),
-                      ratios.p02_p01, True, False)
+                      ratios.p02_p01, vanished, False)
 
 
 def _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_up, family,
@@ -238,10 +244,7 @@ def _bracketed_scalar(residual, low, high, f_low, f_high, mach_up, theta_up, p_u
             side = 1
         if high - low <= 4.0 * math.ulp(high) or abs(f_guess) <= _RESIDUAL_FLOOR:
             break
-    ratios = oblique_shock_ratios(mach_up, beta, gamma)
-    return ShockPoint(beta, theta_up + family * beta, ratios.M2,
-                      theta_up + family * ratios.deflection, p_up * (1.0 + ratios.strength),
-                      ratios.p02_p01, False, False)
+    return _scalar_point_at(beta, mach_up, theta_up, p_up, family, gamma)
 
 
 def _illinois(residual, low, high, f_low, f_high, active):
