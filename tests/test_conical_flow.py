@@ -610,6 +610,20 @@ def test_cone_beyond_detachment_raises_with_the_limit():
     assert issubclass(DetachedShockError, ValueError)
 
 
+def test_cone_at_its_detachment_angle_has_the_detachment_flow():
+    # at θc,max the root of θc(β) = θ is double and a bracketing solve may miss it by
+    # rounding (it did, for 130 of these 400 Mach numbers): those take β* (Taylor–Maccoll
+    # detachment, the kept reference of test_detachment_matches_kept_reference); β is
+    # then good to the square root of rounding, as at any double root
+    mach = np.linspace(1.05, 8.0, 400)
+    limit, beta_star = cone_detachment_angles(mach)
+    assert np.max(np.abs(cone_flow(mach, cone_angle=limit).wave_angle - beta_star)) < 1e-5
+    for M1 in mach[::20]:
+        limit, beta_star = cone_detachment_angles(float(M1))
+        assert float(cone_flow(float(M1), cone_angle=limit).wave_angle) == pytest.approx(
+            beta_star, abs=1e-5)
+
+
 @pytest.mark.parametrize("M1", [1.0, 0.8, -2.0, np.inf])
 def test_mach_number_must_be_supersonic(M1):
     with pytest.raises(InvalidInputError, match=r"M1 must be finite and > 1 \(supersonic flow\)"):

@@ -126,7 +126,10 @@ def reject_detached(theta, M1, gamma, failed, check):
     limit = limit.reshape(theta_a.shape)
     with np.errstate(invalid="ignore"):
         beyond = failed_a & (theta_a > limit)
-        unexplained = failed_a & ~beyond & ~np.isnan(theta_a)
+        # at the detachment angle itself (to rounding), the root of θc(β) = θ is double and
+        # may be missed: those cases take the detachment solution (see cone_core)
+        unexplained = (failed_a & ~beyond & ~np.isnan(theta_a)
+                       & (theta_a < limit * (1.0 - DETACHMENT_EDGE)))
     if scalar:
         checked = check.reject(bool(beyond[0]), theta, "cone_angle",
                                "at most the detachment angle θc,max(M1, γ) of the cone",
@@ -197,8 +200,28 @@ def cone_core(M1, value, gamma, check, *, name):
             failed = np.isnan(beta) & ~np.isnan(value) & ~np.isnan(M1) & ~np.isnan(gamma)
     if failed if type(beta) is float else failed.any():
         value = reject_detached(value, M1, gamma, failed, check)
-        fields = cone_flow_from_cone_angle(M1, value, gamma)
+        fields = _at_detachment(cone_flow_from_cone_angle(M1, value, gamma), M1, value, gamma)
     return (M1, nan_where_nan(fields.wave_angle, value), *fields[1:])
+
+
+#: a cone angle within this relative distance below θc,max is taken as at detachment
+DETACHMENT_EDGE = 1e-9
+
+
+def _at_detachment(fields, M1, value, gamma):
+    """``fields`` with the unsolved cases at the detachment angle (to rounding: the double
+    root of θc(β) = θ that a bracketing solve can miss) replaced by the detachment flow."""
+    with np.errstate(invalid="ignore"):
+        edge = np.isnan(np.asarray(fields.wave_angle, dtype=float)) & ~np.isnan(value) \
+            & ~np.isnan(M1) & ~np.isnan(gamma)
+    if not np.any(edge):
+        return fields
+    beta_star = cone_detachment_angles(M1, gamma)[1]
+    at_edge = cone_flow_from_wave_angle(M1, beta_star, gamma)
+    if type(fields.wave_angle) is float:
+        return at_edge
+    return type(fields)(*(np.where(edge, np.broadcast_to(e, np.shape(f)), f)
+                          for f, e in zip(fields, at_edge)))
 
 
 def cone_flow(M1: ArrayInput, *, cone_angle: ArrayInput = None, wave_angle: ArrayInput = None,
