@@ -46,6 +46,7 @@ from .characteristics.unit_processes import CharacteristicNet, WallContour
 from .characteristics.nozzles import MinimumLengthNozzle, RoundedThroatNozzle, minimum_length_nozzle, rounded_throat_nozzle
 from .characteristics.channels import ChannelFlow, channel_flow
 from .characteristics.jets import SlotJet, underexpanded_slot_jet
+from .characteristics.jet_cells import SlotJetCells, slot_jet_cells
 from .characteristics.conical_nozzles import ConicalNozzle, conical_nozzle
 from .characteristics.performance import NozzlePerformance
 from .design.section_loads import SectionLoads, linear_loads, second_order_loads, shock_expansion_loads
@@ -83,6 +84,7 @@ __all__ = [
     "PressureMatchingWave", "pressure_deflection_polar", "PressureDeflectionPolar",
     "minimum_length_nozzle", "MinimumLengthNozzle", "rounded_throat_nozzle",
     "RoundedThroatNozzle", "channel_flow", "ChannelFlow", "underexpanded_slot_jet", "SlotJet",
+    "slot_jet_cells", "SlotJetCells",
     "WallContour", "CharacteristicNet",
     "conical_nozzle", "ConicalNozzle", "NozzlePerformance",
     "Section", "SectionLoads", "shock_expansion_loads", "linear_loads", "second_order_loads",

@@ -175,7 +175,7 @@ def compressive_stretches(wall, length, side, samples=20001):
     return np.column_stack([x[begins], x[ends]]).reshape(-1, 2)
 
 
-def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n):
+def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n, start=None):
     """Plain core: march a planar channel with fitted shocks from a uniform inlet at x = 0.
 
     Parameters
@@ -188,6 +188,9 @@ def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n):
         Where the march ends [m].
     n : int
         Nodes across the inlet; the target spacing is the local height / (n - 1).
+    start : Station, optional
+        A first station other than the uniform inlet (a jet's). ``upper_wall`` may then
+        be a :class:`~gasdyn2d.characteristics.fitted_jets.FreeBoundary`.
 
     Returns
     -------
@@ -216,18 +219,23 @@ def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n):
     31.9809
     """
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        return _march(M, gamma, lower_wall, upper_wall, length, n)
+        return _march(M, gamma, lower_wall, upper_wall, length, n, start)
 
 
-def _march(M, gamma, lower_wall, upper_wall, length, n):
-    """:func:`march_fitted_channel` inside one floating-point error state."""
-    p_inlet = float(pressure_ratio(M, gamma))
-    y0 = np.linspace(float(lower_wall.height(0.0)), float(upper_wall.height(0.0)), n)
-    station = Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
-                       np.zeros(n), [])
-    starts = sorted(_corner_or_stretch(wall, a, b, side) for wall, side in (
-        (lower_wall, "lower"), (upper_wall, "upper"))
-        for a, b in compressive_stretches(wall, length, side))
+def _march(M, gamma, lower_wall, upper_wall, length, n, start=None):
+    """:func:`march_fitted_channel` inside one floating-point error state; ``start`` is a
+    first station other than the uniform inlet, and ``upper_wall`` may be a
+    :class:`~gasdyn2d.characteristics.fitted_jets.FreeBoundary` (a jet)."""
+    free = getattr(upper_wall, "is_free", False)
+    if start is None:
+        p_inlet = float(pressure_ratio(M, gamma))
+        y0 = np.linspace(float(lower_wall.height(0.0)), float(upper_wall.height(0.0)), n)
+        start = Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
+                        np.zeros(n), [])
+    station = start
+    sides = ((lower_wall, "lower"),) if free else ((lower_wall, "lower"), (upper_wall, "upper"))
+    starts = sorted(_corner_or_stretch(wall, a, b, side) for wall, side in sides
+                    for a, b in compressive_stretches(wall, length, side))
     out = _Recorder(gamma)
     finished = []
     reason, where = "length", (math.nan, math.nan)
@@ -235,11 +243,13 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
     station = insert_shocks(station, starts, walls, n, gamma)
     if isinstance(station, tuple):
         reason, where = station[1]
-        station = Station(0.0, [n], y0, np.full(n, math.log(p_inlet)), np.zeros(n),
-                           np.zeros(n), [])
+        station = start
     out.add(station)
     for _ in range(_MAX_STATIONS):
-        if station.x >= length * (1.0 - 1e-14):
+        if station.x >= length * (1.0 - 1e-14) or reason != "length":
+            break
+        if free and upper_wall.cells_done():
+            reason = "cells"
             break
         dx, hit, meet = _step_length(station, walls, length, starts, n, gamma)
         if not dx > 0.0:  # every event checks for subsonic flow; this is a last guard
@@ -267,7 +277,10 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
                 break
         elif hit is not None:
             for wall_hit in hit[1]:
-                new, status = reflect_from_wall(new, wall_hit, walls, gamma, finished)
+                if wall_hit[1] == 1 and free:  # a shock reaching a jet's boundary ends there
+                    new, status = upper_wall.end_shock(new, wall_hit[0], finished)
+                else:
+                    new, status = reflect_from_wall(new, wall_hit, walls, gamma, finished)
                 if status != "ok":
                     break
             if status != "ok":
@@ -280,6 +293,8 @@ def _march(M, gamma, lower_wall, upper_wall, length, n):
             out.add(new)
             break
         new = inserted
+        if free:
+            new = upper_wall.follow(new, n, gamma)
         out.add(new)
         station = new
     for shock in finished + list(station.shocks):
@@ -425,6 +440,7 @@ def _wall_hit(shock, wall, x, reach, wall_index):
 def _advance(old, dx, hit, walls, n, gamma):
     """March one step: the new station's nodes by predictor and corrector."""
     x = old.x + dx
+    free = getattr(walls[1], "is_free", False)
     y_low, y_up = float(walls[0].height(x)), float(walls[1].height(x))
     th_low, th_up = (_wall_angle(w, x, dx) for w in walls)
     h = (y_up - y_low) / (n - 1)
@@ -495,7 +511,12 @@ def _advance(old, dx, hit, walls, n, gamma):
         th_new = np.where(interior, rp - bp * lp_new, th)
         i0, i1 = start[0], stop[-1]
         th_new[i0], lp_new[i0] = th_low, lpb[i0] + (th_low - thb[i0]) / bm[i0]
-        th_new[i1], lp_new[i1] = th_up, lpa[i1] - (th_up - tha[i1]) / bp[i1]
+        if free:  # a jet's boundary: the ambient pressure, θ from the C+ arriving
+            lp_new[i1] = walls[1].log_pressure
+            th_new[i1] = tha[i1] + walls[1].turn_to_ambient(lpa[i1], lp0a[i1], lp0[i1], gamma)
+            y_up = walls[1].position(dx, th_new[i1])
+        else:
+            th_new[i1], lp_new[i1] = th_up, lpa[i1] - (th_up - tha[i1]) / bp[i1]
         lp0_new = np.where(kind == _BEHIND, lp0, lp0s)
         lp0_new[i0], lp0_new[i1] = old.lp0[old.start[0]], old.lp0[old.stop[-1]]  # wall streamlines
         if slip.size:  # a slip line: one p and θ on both sides, C+ from below, C- from above
@@ -524,7 +545,7 @@ def _advance(old, dx, hit, walls, n, gamma):
             th_new[behind] = point.theta
             lp0_new[behind] = lp0_new[ahead] + np.log(point.p0_ratio)
             new_dir[sid] = np.asarray(point.direction, dtype=float)
-        if shocks:
+        if shocks or free:
             shock_y = pin(shock_y_old + dx * 0.5 * (np.tan(dir_old) + np.tan(new_dir)))
             bounds = np.maximum.accumulate(np.concatenate([[y_low], shock_y, [y_up]]))
             thick = np.diff(bounds)

@@ -1,0 +1,169 @@
+"""Tests of the shock cells of planar slot jets, marched with fitted shocks.
+
+Sources:
+- Linear theory of the shock-cell length of a planar jet, L = 2h√(Mj² - 1) with h the
+  full jet width, and its cells all alike (Prandtl, Phys. Z. 5, 1904; Pack, Q. J. Mech.
+  Appl. Math. 3, 1950; as in /work/shared/SOURCES.md). It neglects terms of first order
+  in ε = pe/pa - 1, so the computed cells may depart from it by O(ε).
+- mpmath references for ν(M) and the isentropic p/p0 (NACA Report 1135, eqs. 44 and
+  171) and for the normal-shock pressure ratio (eq. 128).
+- The region graph's regular reflection (gasdyn2d.patterns.reflections.wall_reflection,
+  itself checked against NACA Report 1135) for the lip shock's reflection from the
+  centreline, and its detachment angle (NACA Report 1135, eq. 168) for the Mach disc.
+"""
+
+import functools
+import math
+
+import mpmath as mp
+import numpy as np
+import pytest
+
+from gasdyn2d import ureg
+from gasdyn2d.characteristics.jet_cells import slot_jet_cells
+from gasdyn2d.characteristics.jets import underexpanded_slot_jet
+from gasdyn2d.errors import InvalidInputError
+from gasdyn2d.patterns.reflections import wall_reflection
+from gasdyn2d.relations.oblique_shocks import max_deflection, oblique_shock
+
+slot_jet_cells = functools.partial(slot_jet_cells, slot_half_height=1.0)
+
+
+def mp_nu(M, g=1.4):
+    """ν(M) at 40 digits (NACA Report 1135, eq. 171)."""
+    with mp.workdps(40):
+        M, g = mp.mpf(M), mp.mpf(g)
+        k = mp.sqrt((g + 1) / (g - 1))
+        return k * mp.atan(mp.sqrt(M * M - 1) / k) - mp.atan(mp.sqrt(M * M - 1))
+
+
+def mp_jet_mach(M_exit, ratio, g=1.4):
+    """Fully expanded Mach number: p0/pa = (p0/pe)(pe/pa) (NACA Report 1135, eq. 44)."""
+    with mp.workdps(40):
+        M, g, r = mp.mpf(M_exit), mp.mpf(g), mp.mpf(ratio)
+        p0_pa = (1 + (g - 1) / 2 * M * M) ** (g / (g - 1)) * r
+        return mp.sqrt(2 / (g - 1) * (p0_pa ** ((g - 1) / g) - 1))
+
+
+@pytest.mark.parametrize("eps", [0.005, 0.01, 0.02, 0.05])
+def test_weak_jet_cells_against_linear_theory(eps):
+    # Prandtl (1904), Pack (1950): L = 2h√(Mj² - 1); computed, not extrapolated, cells
+    # depart from it at first order in ε (measured 0.43ε to 0.54ε at Me = 2, n = 81)
+    jet = slot_jet_cells(2.0, 1.0 + eps, n_points=81, n_cells=2)
+    assert jet.stop_reason == "cells"
+    linear = float(jet.cell_length_linear)
+    assert linear == pytest.approx(4.0 * math.sqrt(float(mp_jet_mach(2.0, 1 + eps)) ** 2 - 1),
+                                   rel=1e-12)
+    first, second = (float(c) for c in jet.cell_lengths)
+    assert 0.3 * eps < first / linear - 1.0 < 0.7 * eps
+    # linear theory's cells are all alike; the second computed cell is the first's to 0.3 %
+    assert second == pytest.approx(first, rel=3e-3)
+
+
+def test_weak_jet_departure_from_linear_theory_is_first_order():
+    # Prandtl (1904), Pack (1950): the departure falls in proportion to ε
+    departures = [float(slot_jet_cells(2.0, 1.0 + eps, n_points=81).cell_lengths[0])
+                  / float(slot_jet_cells(2.0, 1.0 + eps, n_points=81).cell_length_linear) - 1.0
+                  for eps in (0.02, 0.04)]
+    assert departures[1] / departures[0] == pytest.approx(2.0, rel=0.2)
+
+
+def test_first_cell_agrees_with_characteristic_net_widest_point():
+    # the characteristic net (second order, independent of the march) puts the widest point
+    # at half the cell in planar linear theory; the march's widest point and cell agree
+    net = underexpanded_slot_jet(2.0, 1.05, n_characteristics=120, slot_half_height=1.0)
+    jet = slot_jet_cells(2.0, 1.05, n_points=81)
+    assert float(jet.widest_x[0]) == pytest.approx(float(net.max_width_x), rel=2e-3)
+    assert float(jet.cell_lengths[0]) == pytest.approx(2.0 * float(net.max_width_x), rel=2e-3)
+
+
+def test_lip_fan_start_is_the_exact_simple_wave():
+    # Prandtl–Meyer (NACA Report 1135, eq. 171): the boundary leaves the lip turned by
+    # ν(Mj) - ν(Me); where the lip fan has crossed its mirror image the centreline has
+    # ν = ν(Me) + 2(ν(Mj) - ν(Me)) (Riemann invariants, a fact of the trade)
+    M, ratio = 2.0, 1.3
+    jet = slot_jet_cells(M, ratio, n_points=161, n_cells=1)
+    turn = float(mp_nu(mp_jet_mach(M, ratio)) - mp_nu(M))
+    assert float(jet.lip_turn) == pytest.approx(turn, rel=1e-12)
+    assert float(jet.boundary_theta[0]) == pytest.approx(turn, rel=1e-12)
+    nu_centre = float(mp_nu(M)) + 2.0 * turn
+    with mp.workdps(30):
+        mach = mp.findroot(lambda m: mp_nu(m) - nu_centre, 2.5)
+        p_expected = float((1 + 0.2 * mach * mach) ** -3.5)
+    assert float(np.min(jet.centreline_p_p0)) == pytest.approx(p_expected, rel=5e-3)
+
+
+def test_overexpanded_lip_shock_and_its_reflection():
+    # normal-shock pressure ratio, NACA Report 1135, eq. 128: the lip shock brings the exit
+    # flow to ambient pressure; its reflection from the centreline is the region graph's
+    # regular reflection (wall_reflection), as the flow between is uniform
+    M, ratio = 2.0, 0.8
+    jet = slot_jet_cells(M, ratio, n_points=41, n_cells=2)
+    assert jet.stop_reason == "cells"
+    lip, reflected = jet.shocks[0], jet.shocks[1]
+    assert (lip.family, lip.end, reflected.family, reflected.end) == (-1, "wall", 1,
+                                                                     "free boundary")
+    with mp.workdps(30):
+        mn = mp.sqrt(1 + (1 / mp.mpf(ratio) - 1) * mp.mpf(2.4) / mp.mpf(2.8))
+        beta = float(mp.asin(mn / M))
+    assert float(lip.p2_p1[0]) == pytest.approx(1 / ratio, rel=1e-12)
+    assert float(lip.wave_angle[0]) == pytest.approx(beta, rel=1e-12)
+    deflection = float(oblique_shock(M, wave_angle=beta).deflection)
+    assert float(-jet.lip_turn) == pytest.approx(deflection, rel=1e-12)
+    exact = wall_reflection(M, deflection)
+    assert str(exact.kind) == "regular"
+    assert float(reflected.p2_p1[0]) * float(lip.p2_p1[0]) == pytest.approx(
+        float(exact.p3_p1), rel=1e-9)
+    first, second = (float(c) for c in jet.cell_lengths)
+    assert second == pytest.approx(first, rel=3e-3)  # alike cells, as in linear theory
+
+
+@pytest.mark.parametrize("ratio", [0.5, 0.3])
+def test_mach_disc_stops_the_march(ratio):
+    # detachment (NACA Report 1135, eq. 168): where the flow behind the lip shock cannot be
+    # turned back parallel to the centreline by an attached shock, only a Mach reflection
+    # (a Mach disc) exists; the march stops there with that reason
+    M = 2.0
+    jet = slot_jet_cells(M, ratio, n_points=21)
+    deflection = -float(jet.lip_turn)
+    behind = float(oblique_shock(M, deflection=deflection).M2)
+    assert deflection > float(max_deflection(behind)[0])
+    assert jet.stop_reason == "mach_disc"
+    assert float(jet.stop_y) == 0.0 and float(jet.stop_x) > 0.0
+    assert jet.cell_lengths.size == 0
+
+
+def test_lip_shock_beyond_detachment_stops_at_the_lip():
+    # NACA Report 1135, eq. 128: pa/pe = 5 at Mach 2 needs Mn = 2.10 > 2: no oblique shock
+    jet = slot_jet_cells(2.0, 0.2, n_points=21)
+    assert jet.stop_reason == "sonic"
+    assert (float(jet.stop_x), float(jet.stop_y)) == (0.0, 1.0)
+
+
+def test_lengths_take_the_slot_unit():
+    plain = slot_jet_cells(2.0, 1.1, n_points=21)
+    scaled = slot_jet_cells(2.0, 1.1, n_points=21, slot_half_height=3 * ureg.mm)
+    assert scaled.cell_lengths.units == ureg.mm
+    np.testing.assert_allclose(scaled.cell_lengths.magnitude, 3 * plain.cell_lengths,
+                               rtol=1e-12)
+    assert scaled.boundary_theta.units == ureg.rad
+
+
+@pytest.mark.parametrize("args, name", [
+    ((2.0, 1.0), "p_exit_p_ambient"),
+    ((2.0, -0.5), "p_exit_p_ambient"),
+    ((1.0, 1.2), "M_exit"),
+    ((2.0, 1.2, {"n_cells": 0}), "n_cells"),
+    ((2.0, 1.2, {"n_points": 3}), "n_points"),
+])
+def test_bad_inputs_name_the_argument(args, name):
+    *values, = args
+    kwargs = values.pop() if isinstance(values[-1], dict) else {}
+    with pytest.raises(InvalidInputError, match=name):
+        slot_jet_cells(*values, **kwargs)
+
+
+def test_nan_in_gives_nan_out():
+    jet = slot_jet_cells(float("nan"), 1.2)
+    assert jet.stop_reason == "nan"
+    assert jet.cell_lengths.size == 0 and math.isnan(float(jet.cell_length_linear))
