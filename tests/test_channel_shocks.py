@@ -21,20 +21,23 @@ import numpy as np
 import pytest
 
 from gasdyn2d.characteristics.channels import channel_flow
+from gasdyn2d.characteristics.fitted_shocks import march_fitted_channel
 from gasdyn2d.characteristics.unit_processes import WallContour
-from gasdyn2d.patterns.interactions import shock_crossing
+from gasdyn2d.patterns.interactions import merging_shocks, shock_crossing
 from gasdyn2d.patterns.reflections import wall_reflection
 from gasdyn2d.relations.isentropic import pressure_ratio
-from gasdyn2d.relations.oblique_shocks import oblique_shock_ratios
+from gasdyn2d.relations.conical_flow import cone_flow
+from gasdyn2d.relations.oblique_shocks import oblique_shock, oblique_shock_ratios
 from gasdyn2d.relations.theta_beta_mach import detachment_angles, wave_angle_from_deflection
 
 FLOOR = WallContour.straight(0.0)
 M1, TURN, HEIGHT = 2.2, math.radians(6.0), 0.1  # invented test-section duct
 
 
-def _roof(radius):
-    """Invented roof: turns down into the flow by 6° over an arc starting at x = 0.05 m."""
-    return WallContour.bend(HEIGHT, 0.05, -TURN, radius)
+def _roof(radius, turn=-TURN):
+    """Invented roof: turns down into the flow by 6° (or ``turn``) over an arc starting at
+    x = 0.05 m."""
+    return WallContour.bend(HEIGHT, 0.05, turn, radius)
 
 
 def _exact_floor_pressure():
@@ -196,12 +199,44 @@ def test_shock_forms_where_the_net_folded():
     assert shock.p2_p1[-1] > 1.3  # nearly the full 6° shock (p2/p1 = 1.42) at the floor
 
 
-def test_round_ducts_are_not_fitted():
-    # Shocks are fitted in planar channels only: a round duct stops where the net folds
-    flow = channel_flow(M1, lower_wall=None, upper_wall=_roof(0.01), length=0.5, n_points=21,
-                        geometry="axisymmetric")
-    assert flow.stop_reason == "shock" and flow.shocks == ()
-    assert flow.stop_x == flow.shock_x
+def test_round_duct_shock_converging_on_the_axis_ends_in_a_mach_reflection():
+    # Invented round duct (radius 0.1 m) whose wall turns 4° inward at a corner: the conical
+    # shock strengthens as it converges on the axis (a fact of axisymmetric flow: the same
+    # turn is spread over a shrinking circumference) and cannot reflect regularly there
+    # (from memory); the march stops with a Mach reflection near the axis, at an x that
+    # converges as the mesh is refined (0.20818, 0.20714, 0.20713 m at n = 21, 41, 81)
+    stops = []
+    for n in (41, 81):
+        flow = channel_flow(M1, lower_wall=None, upper_wall=_roof(1e-4, turn=math.radians(-4.0)),
+                            length=0.5, n_points=n, geometry="axisymmetric")
+        assert flow.stop_reason == "mach_reflection" and float(flow.stop_y) == 0.0
+        shock = flow.shocks[0]
+        assert shock.p2_p1[0] == pytest.approx(float(oblique_shock(
+            M1, deflection=math.radians(4.0)).p2_p1), rel=1e-12)  # NACA Report 1135, eq. 128
+        assert np.all(np.diff(shock.p2_p1[2:]) > 0.0) and shock.p2_p1[-1] > 2.0
+        stops.append(float(flow.stop_x))
+    assert stops[1] == pytest.approx(stops[0], abs=2e-4)
+
+
+def test_round_duct_centre_body_cone_approaches_taylor_maccoll():
+    # A 10° cone centre body (tip on the axis at x = 0.05 m) in a Mach 2 stream, marched by
+    # the round fitted march (plain core; channel_flow takes centre bodies above the axis).
+    # The shock starts as the wedge's and relaxes to the conical one: surface pressure and
+    # wave angle approach Taylor–Maccoll (gasdyn2d.relations.conical_flow.cone_flow, checked
+    # against NACA Report 1135 charts in tests/test_conical_flow.py). Measured surface
+    # pressure error at x = 0.9 m: 4.4e-3, 5.7e-4, 5.7e-4, 3.4e-4 for n = 41 ... 321.
+    M, cone = 2.0, math.radians(10.0)
+    exact = cone_flow(M, cone_angle=cone)
+    p_cone = float(exact.p_cone_p1) * float(pressure_ratio(M))
+    body = WallContour.polyline([0.0, 0.05, 2.05], [0.0, 0.0, 2.0 * math.tan(cone)])
+    march = march_fitted_channel(M, 1.4, body, WallContour.straight(0.6), 1.0, 161,
+                                 geometry="axisymmetric")
+    assert march.reason == "length"
+    wall_p = np.array([p[0] for p in march.p_p0])
+    assert float(np.interp(0.9, march.station_x, wall_p)) == pytest.approx(p_cone, rel=1.5e-3)
+    family, x, y, beta, ratio, end = march.shocks[0]
+    assert family == 1 and end == "length"
+    assert float(beta[-1]) == pytest.approx(float(exact.wave_angle), abs=math.radians(0.15))
 
 
 @pytest.mark.parametrize("lower_deg, upper_deg", [(4.0, 4.0), (3.0, 5.0)])
@@ -238,17 +273,26 @@ def test_crossing_shocks_match_the_exact_crossing(lower_deg, upper_deg):
     assert flow.stop_reason == "shock_crossing" and flow.stop_x > 0.3
 
 
-def test_a_shock_overtaking_another_stops_the_march():
+def test_a_shock_overtaking_another_merges_into_the_exact_merged_shock():
     # Invented roof with two 4° compression corners 30 mm apart: the second, steeper shock
-    # catches the first (merging of shocks of one family is not carried on)
+    # catches the first and they go on as one. One step on, the merged shock is the exact
+    # merging of the region graph (gasdyn2d.patterns.interactions.merging_shocks: merged
+    # shock, weak reflected wave and slip line; checked in tests/test_wave_interactions.py):
+    # its pressure ratio and wave angle to 1e-7 (measured 1.7e-8 and 2e-9)
     roof = WallContour.polyline([0.0, 0.05, 0.08, 0.5],
                                 [HEIGHT, HEIGHT, HEIGHT - 0.03 * math.tan(math.radians(4.0)),
                                  HEIGHT - 0.03 * math.tan(math.radians(4.0))
                                  - 0.42 * math.tan(math.radians(8.0))])
     flow = channel_flow(M1, lower_wall=FLOOR, upper_wall=roof, length=0.5, n_points=41)
-    assert flow.stop_reason == "shock_crossing"
-    assert [s.family for s in flow.shocks] == [-1, -1]
-    assert flow.stop_x < 0.2 and flow.stop_x == pytest.approx(flow.shocks[0].x[-1], abs=2e-3)
+    first, second, merged = flow.shocks[:3]
+    assert (first.end, second.end, merged.family) == ("merged", "merged", -1)
+    assert merged.x[0] == first.x[-1] == second.x[-1]
+    exact = merging_shocks(M1, math.radians(4.0), math.radians(4.0))
+    assert merged.p2_p1[1] == pytest.approx(float(exact.p_p1), rel=1e-7)
+    assert float(merged.wave_angle[1]) == pytest.approx(float(exact.wave_angle), rel=1e-7)
+    # the merged 8° shock then reflects from the floor, and its reflection from the roof,
+    # at M ≈ 1.5, would need a turn beyond detachment: a Mach reflection
+    assert flow.stop_reason == "mach_reflection"
 
 
 def test_fluxes_through_a_duct_with_crossing_shocks():

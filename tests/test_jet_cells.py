@@ -167,3 +167,81 @@ def test_nan_in_gives_nan_out():
     jet = slot_jet_cells(float("nan"), 1.2)
     assert jet.stop_reason == "nan"
     assert jet.cell_lengths.size == 0 and math.isnan(float(jet.cell_length_linear))
+
+
+# ------------------------------------------------------------------ round jets
+# Linear theory of a round jet (Pack 1950's Fourier–Bessel solution): the boundary slope is
+# proportional to Σ sin(j_k ξ)/j_k, ξ = x/(R√(Mj² - 1)), j_k the zeros of J0; its roots,
+# computed here (gasdyn2d.characteristics.jets.ROUND_JET_NARROWEST_POINTS), put the widest
+# points at ξ = 1.43634, 4.00000 and the narrowest at 2.44713, 5.30401: not multiples of one
+# cell, the Bessel modes not being harmonics.
+
+
+def test_round_jet_boundary_extrema_against_linear_theory():
+    # ε = pe/pa - 1 = 0.02: the computed narrowest and widest points depart from linear
+    # theory at first order in ε; the march converges at first order in 1/n (its lip fan is
+    # captured), so the departure is Richardson-extrapolated from n = 81 and 161 (measured
+    # 0.23ε and 0.22ε for the first two narrowest points, 0.25ε and 0.19ε for the widest)
+    eps = 0.02
+    jets = [slot_jet_cells(2.0, 1.0 + eps, n_points=n, geometry="axisymmetric")
+            for n in (81, 161)]
+    assert all(jet.stop_reason == "cells" and jet.shocks == () for jet in jets)
+    for field in ("narrowest_x", "widest_x"):
+        coarse, fine = (np.asarray(getattr(jet, field))[:2] for jet in jets)
+        linear = np.asarray(getattr(jets[1], field + "_linear"))[:2]
+        departure = ((2.0 * fine - coarse) / linear - 1.0) / eps
+        assert np.all((0.1 < departure) & (departure < 0.4)), (field, departure)
+    scale = math.sqrt(float(mp_jet_mach(2.0, 1 + eps)) ** 2 - 1)
+    assert float(jets[1].narrowest_x_linear[0]) == pytest.approx(2.44712834 * scale, rel=1e-12)
+    assert float(jets[1].cell_length_linear) == pytest.approx(
+        2 * math.pi * scale / 2.404825557695773, rel=1e-12)  # Pack (1950), πD√(Mj²-1)/j0
+
+
+def test_round_jet_widest_point_agrees_with_the_round_characteristic_net():
+    # the round characteristic net of underexpanded_slot_jet (a different method, its own
+    # tests against linear theory) against the march, extrapolated from n = 81 and 161
+    # (measured 3e-4)
+    net = underexpanded_slot_jet(2.0, 1.02, n_characteristics=100, slot_half_height=1.0,
+                                 geometry="axisymmetric")
+    coarse, fine = (float(slot_jet_cells(2.0, 1.02, n_points=n, geometry="axisymmetric")
+                          .widest_x[0]) for n in (81, 161))
+    assert 2.0 * fine - coarse == pytest.approx(float(net.max_width_x), rel=1e-3)
+
+
+def _mass_flux(jet, gamma=1.4):
+    """Mass flux through every station [p0 = T0 = R = 1], 2πy-weighted for a round jet."""
+    net, out = jet.net, []
+    for x in np.unique(net.x):
+        k = net.x == x
+        y, mach, theta, p = net.y[k], net.mach[k], net.theta[k], net.p_p0[k]
+        temperature = 1.0 / (1.0 + 0.5 * (gamma - 1.0) * mach**2)
+        rho_u = p / temperature * mach * np.sqrt(gamma * temperature) * np.cos(theta)
+        weight = 2.0 * np.pi * y if jet.geometry == "axisymmetric" else 1.0
+        out.append(np.trapezoid(rho_u * weight, y))
+    return np.array(out)
+
+
+@pytest.mark.parametrize("geometry, ratio, n, limit", [
+    ("planar", 1.05, 81, 2e-4),  # measured 7.4e-5 (3.2e-5 at n = 161)
+    ("axisymmetric", 1.05, 81, 2e-4),  # measured 4.8e-5 (2.9e-5 at n = 161)
+    ("planar", 0.8, 81, 3e-3),  # lip shock fitted, fan at the boundary captured: 1.2e-3
+    ("planar", 3.0, 81, 1.5e-2),  # strong: shocks inserted late, 8.2e-3 (6.3e-3 at n = 161)
+])
+def test_mass_flux_through_every_station_is_the_exit_flux(geometry, ratio, n, limit):
+    # conservation of mass (a fact of the trade) through the stations of the march; the
+    # inverse marching scheme is not conservative, so the error is the method's
+    jet = slot_jet_cells(2.0, ratio, n_points=n, geometry=geometry)
+    flux = _mass_flux(jet)
+    assert np.max(np.abs(flux / flux[0] - 1.0)) < limit
+
+
+@pytest.mark.parametrize("ratio", [3.0, 0.8])
+def test_round_jet_mach_disc_stops_the_march(ratio):
+    # a strongly under-expanded round jet's barrel shock, and an over-expanded one's conical
+    # lip shock, converge on the axis, strengthen and cannot reflect regularly there (from
+    # memory): the march stops at the Mach disc, at an x that converges with n
+    stops = [slot_jet_cells(2.0, ratio, n_points=n, geometry="axisymmetric") for n in (81, 161)]
+    assert all(jet.stop_reason == "mach_disc" for jet in stops)
+    assert float(stops[1].stop_x) == pytest.approx(float(stops[0].stop_x), rel=0.02)
+    shock = stops[1].shocks[-1]
+    assert shock.family == -1 and shock.p2_p1[-1] > shock.p2_p1[0]

@@ -40,19 +40,18 @@ class ChannelFlow(ResultTable):
     """Nodes of a channel flow, wall distributions, fitted shocks and how the march ended.
 
     Where no shock forms, ``net`` is the characteristic net. Where characteristics
-    of one family cross (at ``shock_x``, ``shock_y``) a planar channel is marched
-    again from the inlet with fitted shocks (:mod:`gasdyn2d.characteristics.fitted_shocks`):
+    of one family cross (at ``shock_x``, ``shock_y``) the channel (planar or round) is
+    marched again from the inlet with fitted shocks (:mod:`gasdyn2d.characteristics.fitted_shocks`):
     ``net`` then holds the nodes of its marching stations (x = const lines, lower to
     upper wall, a shock point twice, once on each side) without characteristic
     segments, and ``shocks`` the fitted shocks.
 
-    ``stop_reason`` is ``"length"`` (the march reached ``length``), ``"shock"``
-    (characteristics crossed in a round duct, where shocks are not fitted: the
-    march stops there), ``"mach_reflection"`` (a shock reached a wall at a turn
-    beyond detachment, where only a Mach reflection exists), ``"shock_crossing"``
-    (fitted shocks merged, one overtaking another of its family, or met beyond
-    detachment, where no regular crossing exists; regular crossings are carried
-    on, with their slip line),
+    ``stop_reason`` is ``"length"`` (the march reached ``length``),
+    ``"mach_reflection"`` (a shock reached a wall at a turn beyond detachment, where
+    only a Mach reflection exists, or the axis of a round duct, where a converging
+    shock cannot reflect regularly), ``"shock_crossing"`` (fitted shocks met beyond
+    detachment, where no regular crossing exists; regular crossings are carried on,
+    with their slip line, and a shock overtaking another of its family merges with it),
     ``"sonic"`` (a compression, or a shock, slowed the stream to M <= 1) or
     ``"nan"`` (a flow input was NaN: no nodes, NaN values); ``stop_x``, ``stop_y``
     is where the march stopped short. The last complete row of the characteristic
@@ -64,7 +63,8 @@ class ChannelFlow(ResultTable):
     """
 
     mach_inlet: float = unit_field("")  #: uniform Mach number at the inlet x = 0
-    stop_reason: str = unit_field("")  #: "length", "shock", "sonic" or "nan"
+    #: "length", "mach_reflection", "shock_crossing", "sonic" or "nan"
+    stop_reason: str = unit_field("")
     shock_x: float = unit_field("m")  #: where the net folds or the stream reaches M = 1 (else NaN)
     shock_y: float = unit_field("m")
     lower_wall_x: np.ndarray = unit_field("m")  #: lower wall nodes, in streamwise order
@@ -141,19 +141,19 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
     on the opposite wall has reflected from it.
 
     When two characteristics of one family cross (a compression steepening into
-    a shock, at ``shock_x``, ``shock_y``), a planar channel is marched again from
+    a shock, at ``shock_x``, ``shock_y``), the channel is marched again from
     the inlet with fitted shocks
     (:func:`gasdyn2d.characteristics.fitted_shocks.march_fitted_channel`: an
     inverse marching scheme, p, θ and the streamline's stagnation pressure
     traced back along C+, C- and the streamline; shock points from the
     oblique-shock relations and the characteristic arriving from behind;
     regular reflections from the walls; crossings of two shocks, with the slip
-    line between the transmitted shocks carried on). It ends at ``length``, or
-    where a reflection would have to be a Mach reflection
-    (``"mach_reflection"``), shocks merge or cross beyond detachment
-    (``"shock_crossing"``) or the flow becomes subsonic (``"sonic"``);
-    ``stop_x``, ``stop_y`` say where. A round duct stops at the
-    fold (``"shock"``): shocks are fitted in planar channels only. Pressures are
+    line between the transmitted shocks carried on; shocks of one family that meet
+    merge). It ends at ``length``, or where a reflection would have to be a Mach
+    reflection (``"mach_reflection"``; in a round duct, wherever a shock reaches the
+    axis), shocks cross beyond detachment (``"shock_crossing"``) or the flow becomes
+    subsonic (``"sonic"``); ``stop_x``, ``stop_y`` say where. In a round duct the
+    compatibility relations carry the axisymmetric source term. Pressures are
     static over the *inlet* stagnation pressure, so losses through shocks show.
     Boundary layers, and their interaction with the shocks (thickening,
     separation), are not modelled.
@@ -208,9 +208,10 @@ def channel_flow(M_inlet, *, lower_wall, upper_wall, length, n_points=41, gamma=
         return _nan_channel(call, M)
     march = _march_channel(M, g, lower_wall, upper_wall, L, n, y_low, y_up,
                            "axisymmetric" if axisymmetric else "planar")
-    if march[2] == "shock" and not axisymmetric:
+    if march[2] == "shock":
         floor = WallContour.straight(0.0) if lower_wall is None else lower_wall
-        fitted = march_fitted_channel(M, g, floor, upper_wall, L, n)
+        fitted = march_fitted_channel(M, g, floor, upper_wall, L, n,
+                                      geometry="axisymmetric" if axisymmetric else "planar")
         return _fitted_result(march, fitted, M, g, call)
     return _channel_result(march, M, g, call)
 

@@ -10,7 +10,8 @@ streamline, and the events that change a station's zones:
 - :func:`cross_shocks`: two shocks of opposite families cross; transmitted shocks and a
   slip line, with pressure and direction matched across it (oblique-shock relations,
   weak branch; the region graph of :func:`gasdyn2d.patterns.interactions.shock_crossing`);
-- :func:`refract_through_slip_line`: a shock passes through a slip line.
+- :func:`refract_through_slip_line`: a shock passes through a slip line;
+- :func:`merge_shocks`: a shock overtakes another of its family; they go on as one.
 
 References: oblique-shock relations, NACA Report 1135 (Ames Research Staff, 1953), eqs.
 128-132, 138 and 168 (detachment); shock crossings, Ben-Dor (2007), *Shock Wave
@@ -31,7 +32,8 @@ from ..relations.theta_beta_mach import (
 )
 
 __all__ = ["Station", "Interface", "zone_layout", "flow_properties", "insert_shocks",
-           "reflect_from_wall", "cross_shocks", "refract_through_slip_line", "CFL_NUMBER"]
+           "reflect_from_wall", "cross_shocks", "refract_through_slip_line", "merge_shocks",
+           "CFL_NUMBER"]
 
 CFL_NUMBER = 1.0  #: feet of C± about one target spacing from the node
 
@@ -231,6 +233,41 @@ def refract_through_slip_line(station, i, span, gamma, finished):
     new_counts = np.concatenate([counts[:i + 1], [2], counts[i + 2:]])
     shocks = list(station.shocks[:i]) + pair + list(station.shocks[i + 2:])
     return Station(station.x, new_counts, *arrays, shocks), "ok"
+
+
+def merge_shocks(station, i, span, gamma, finished):
+    """Two shocks of one family meeting (the one behind overtakes the one ahead): one
+    shock goes on from the meeting point (new station).
+
+    Interfaces i and i + 1 have the same family; the zone between them has closed. The
+    merged shock has the state ahead of the front shock on one side and the state behind
+    the rear one on the other; its pressure ratio is theirs, its wave angle from it
+    (NACA Report 1135, eq. 128), and the next step's shock point makes the two sides
+    consistent with the oblique-shock relations. The weak wave and the slip line that
+    the exact merging also sends downstream (their strengths are of third order in the
+    shocks' turns) are not fitted.
+    """
+    counts = station.counts
+    _, _, start, stop = zone_layout(counts)
+    lower, upper = station.shocks[i], station.shocks[i + 1]
+    family = lower.family
+    below, above = stop[i], start[i + 2]  # the outer nodes, either side of the closed zone
+    ahead, behind = (above, below) if family > 0 else (below, above)
+    ratio = max(float(np.exp(station.lp[behind] - station.lp[ahead])), 1.0)
+    mach = float(flow_properties(station.lp[ahead], station.lp0[ahead], gamma)[0])
+    mn = math.sqrt(1.0 + (ratio - 1.0) * (gamma + 1.0) / (2.0 * gamma))
+    beta = math.asin(min(mn / mach, 1.0))
+    y_meet = float(station.y[below + 1])
+    for shock in (lower, upper):
+        shock.end = "merged"
+        finished.append(shock)
+    merged = Interface(family, station.x, y_meet, float(station.th[ahead]) + family * beta,
+                       beta, ratio)
+    keep = np.ones(station.y.size, bool)
+    keep[start[i + 1]:stop[i + 1] + 1] = False
+    arrays = [v[keep] for v in (station.y, station.lp, station.th, station.lp0)]
+    shocks = list(station.shocks[:i]) + [merged] + list(station.shocks[i + 2:])
+    return Station(station.x, np.delete(counts, i + 1), *arrays, shocks), "ok"
 
 
 def insert_shocks(station, starts, walls, n, gamma):

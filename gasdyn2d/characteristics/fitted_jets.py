@@ -19,16 +19,23 @@ boundary moves along the mean of its old and new directions.
 - Over-expanded: the lip shock (family -1) brings the exit flow to ambient pressure:
   Mn1² = 1 + (γ + 1)(pa/pe - 1)/(2γ) (NACA Report 1135, eq. 128) and the deflection from
   θ-β-M; the march starts at the lip.
-- Compression at the boundary: where the boundary, turning back toward the centreline,
-  has turned by more than 1e-3 of the lip turn since it last turned outward, and no shock
-  of family -1 is the boundary zone's lower edge, a Mach wave of zero strength (family
-  -1) is inserted at the boundary node; the compression waves from the boundary then
-  strengthen it from behind into the barrel (intercepting) shock. The compression ahead
-  of the insertion (1e-3 of the turn) runs ahead of the shock as isentropic waves, which
-  the shock overtakes and absorbs.
-- A shock reaching the centreline reflects regularly
+- Compressions: a shock is inserted between two neighbouring nodes inside a zone where
+  their characteristics of one family would cross within :data:`FOLD_STEPS` marching
+  steps (:func:`insert_at_folds`). The march's interpolation keeps a steepening
+  compression a few nodes wide, so characteristics never cross exactly; four steps
+  catches strong compressions (the barrel shock of a strongly under-expanded jet) while
+  leaving the gentle compression of a weakly under-expanded one as waves. Shocks of one
+  family that meet merge.
+- A shock reaching the centreline of a planar jet reflects regularly
   (:func:`~gasdyn2d.characteristics.fitted_events.reflect_from_wall`); where only a Mach
-  reflection exists the march stops (``"mach_disc"``: the Mach disc is not modelled).
+  reflection exists, where a shock reaches the axis of a round jet (no regular reflection
+  there), or where a shock grows so strong that the flow behind it would be subsonic, the
+  march stops (``"mach_disc"``: the Mach disc and the subsonic core behind it are not
+  modelled).
+- Round jets (``geometry="axisymmetric"``): the compatibility relations carry the
+  axisymmetric source term; an under-expanded round jet starts at the lip, its lip fan
+  captured by the march (first order there: the first cell end moves by 0.24 % from
+  n = 41 to 81 at pe/pa = 1.02).
 - A shock reaching the boundary ends there; the boundary node takes the ambient pressure
   on the next step, so the fan it reflects (centred at the point) is captured by the
   march, not fitted: first order there.
@@ -57,7 +64,11 @@ from .fitted_events import CFL_NUMBER, Interface, Station, flow_properties, zone
 from .fitted_shocks import FittedMarch, march_fitted_channel
 from .walls import WallContour
 
-__all__ = ["FreeBoundary", "JetMarch", "march_fitted_jet", "insert_at_folds"]
+__all__ = ["FreeBoundary", "JetMarch", "march_fitted_jet", "insert_at_folds", "FOLD_STEPS"]
+
+#: a shock is inserted where neighbouring characteristics of one family would cross within
+#: this many marching steps
+FOLD_STEPS = 4.0
 
 
 
@@ -132,7 +143,7 @@ class FreeBoundary:
         or widest point passed; insert a shock where the boundary turns compressive."""
         x, y, theta = station.x, float(station.y[-1]), float(station.th[-1])
         hit_here = bool(self.hits) and self.hits[-1] == x
-        if self.theta <= 0.0 < theta:  # turned outward: narrowest (at the shock's end, if any)
+        if self.theta <= 0.0 < theta and self.x > 0.0:  # turned outward: narrowest
             self.narrowest.append(self.x if self.hits and self.hits[-1] == self.x else
                                   _zero_crossing(self.x, x, self.theta, theta))
         elif self.theta > 0.0 >= theta:
@@ -147,9 +158,9 @@ class FreeBoundary:
 
 
 def insert_at_folds(station, n, gamma):
-    """Insert a shock where two neighbouring characteristics of one family would cross
-    within the next step (the net folds): between those two nodes, with the lower node's
-    state on one side and the upper's on the other.
+    """Insert a shock where two neighbouring characteristics of one family, inside a zone,
+    would cross within :data:`FOLD_STEPS` steps (the net is about to fold): between those
+    two nodes, with the lower node's state on one side and the upper's on the other.
 
     Each zone split this way is resampled with evenly spaced nodes (linear interpolation,
     the jump kept sharp). The pressure ratio of the new shock is that of the two states;
@@ -158,13 +169,16 @@ def insert_at_folds(station, n, gamma):
     mach, mu, _ = flow_properties(station.lp, station.lp0, gamma)
     h = float(station.y[-1] - station.y[0]) / (n - 1)
     spread = np.tan(station.th + mu) - np.tan(station.th - mu)
-    reach = CFL_NUMBER * 2.0 * h / float(np.max(spread))
+    reach = FOLD_STEPS * CFL_NUMBER * 2.0 * h / float(np.max(spread))
     for family in (-1, 1):
         slope = np.tan(station.th + family * mu)
         gap = np.diff(station.y)
         closing = slope[:-1] - slope[1:]
-        same_zone = station.zone[:-1] == station.zone[1:]
-        folds = np.flatnonzero(same_zone & (closing > 0.0) & (gap < closing * reach))
+        # pairs inside a zone, neither node on its edge: a compression reaching a shock or
+        # a boundary is taken up there (by the shock point, or reflected)
+        inside = (station.zone[:-1] == station.zone[1:]) & (station.eta[:-1] > 0.0) \
+            & (station.eta[1:] < 1.0)
+        folds = np.flatnonzero(inside & (closing > 0.0) & (gap < closing * reach))
         if folds.size:
             return _split_zone(station, int(folds[0]), family, mach, gamma, n)
     return station
@@ -212,7 +226,7 @@ def _zero_crossing(x0, x1, f0, f1):
     return x0 + f0 / (f0 - f1) * (x1 - x0)
 
 
-def march_fitted_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells):
+def march_fitted_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells, geometry="planar"):
     """Plain core: march the upper half of a planar jet from a slot, with fitted shocks.
 
     Parameters
@@ -228,6 +242,9 @@ def march_fitted_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells):
         over n - 1).
     n_cells : int
         Cells to march (each ends where the boundary is narrowest).
+    geometry : {"planar", "axisymmetric"}, optional
+        A slot jet (default) or a round jet (lengths in exit radii); a round
+        under-expanded jet starts at the lip, its lip fan captured by the march.
 
     Returns
     -------
@@ -236,21 +253,25 @@ def march_fitted_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells):
     Examples
     --------
     >>> from gasdyn2d.characteristics.fitted_jets import march_fitted_jet
-    >>> jet = march_fitted_jet(2.0, 1.05, 1.4, 41, 1)
-    >>> jet.march.reason, [shock[0] for shock in jet.march.shocks]
-    ('cells', [-1, 1])
+    >>> jet = march_fitted_jet(2.0, 0.8, 1.4, 41, 1)   # over-expanded: a lip shock
+    >>> jet.march.reason, [(shock[0], shock[-1]) for shock in jet.march.shocks]
+    ('cells', [(-1, 'wall'), (1, 'free boundary')])
     """
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        return _march_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells)
+        return _march_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells, geometry)
 
 
-def _march_jet(M, ratio, gamma, n, n_cells):
+def _march_jet(M, ratio, gamma, n, n_cells, geometry):
     p_exit = float(pressure_ratio(M, gamma))
     log_ambient = math.log(p_exit / ratio)
     axis = WallContour.straight(0.0)
     if ratio > 1.0:
         start, turn = _lip_fan_station(M, ratio, gamma, n, p_exit)
         cells = n_cells
+        if geometry == "axisymmetric":  # no simple wave: the lip fan is captured from x = 0
+            y = np.linspace(0.0, 1.0, n)
+            start = Station(0.0, [n], y, np.full(n, math.log(p_exit)), np.zeros(n),
+                            np.zeros(n), [])
     else:
         start, turn = _lip_shock_station(M, ratio, gamma, n, p_exit)
         cells = n_cells + 1  # the first narrowest point lies inside the first cell
@@ -260,8 +281,11 @@ def _march_jet(M, ratio, gamma, n, n_cells):
     boundary = FreeBoundary(log_ambient, start, cells)
     beta = math.sqrt((M - 1.0) * (M + 1.0))
     cap = 8.0 * (n_cells + 1) * beta * max(ratio, 1.0 / ratio)  # well past the cells asked
-    march = march_fitted_channel(M, gamma, axis, boundary, cap, n, start=start)
-    if march.reason == "mach_reflection":
+    march = march_fitted_channel(M, gamma, axis, boundary, cap, n, start=start,
+                                 geometry=geometry)
+    if march.reason in ("mach_reflection", "sonic"):
+        # a shock that cannot reflect regularly on the centreline, or one so strong that the
+        # flow behind it would be subsonic: where the Mach disc stands
         march = march._replace(reason="mach_disc")
     return JetMarch(march, np.array(boundary.narrowest), np.array(boundary.widest),
                     np.array(boundary.widest_y), turn)

@@ -1,4 +1,4 @@
-"""Shock-fitted space marching of a planar channel: shocks carried as discontinuities.
+"""Shock-fitted space marching of a channel, planar or round: shocks as discontinuities.
 
 Where the characteristic net of :func:`gasdyn2d.characteristics.channels.channel_flow`
 folds (characteristics of one family cross: a shock forms), the channel is marched
@@ -25,7 +25,10 @@ relations in p and θ hold in rotational flow as they stand,
 
 and p0 is constant along a streamline (Zucrow and Hoffman, 1977, vol. 2, ch. 16:
 the inverse marching method and the rotational compatibility relations; chapter
-from memory). The entropy enters through M(p, p0) on each streamline. Slopes and
+from memory). The entropy enters through M(p, p0) on each streamline. In round flow
+(``geometry="axisymmetric"``, y the radius) the relations gain the source terms
+Q± dx, Q± = sin θ sin μ / (y cos(θ ± μ)), taken at the midpoint of each trace
+(:func:`_source_terms`). Slopes and
 coefficients are taken at the new node's estimate in a predictor and averaged
 between the foot and the node in a corrector.
 
@@ -62,10 +65,20 @@ meets a slip line passes through it; the weak wave this reflects from the slip
 line is not fitted (the slip line's unit process sends it into the flow). The
 events are in :mod:`gasdyn2d.characteristics.fitted_events`.
 
-Where it stops (``"shock_crossing"``): shocks of one family merging (one overtaking
-another), or a crossing or a refraction beyond detachment (no regular solution);
-flow compressed to M = 1, or a shock so strong the flow behind it is subsonic
-(``"sonic"``).
+Merging: a shock that overtakes another of its family merges with it; the merged
+shock joins the state ahead of the front one to the state behind the rear one, and
+its shock point makes them consistent (the weak reflected wave and slip line of the
+exact merging, third order in the turns, are not fitted; the merged shock matches the
+exact one of :func:`gasdyn2d.patterns.interactions.merging_shocks` to 2e-8).
+
+The axis of a round flow: a shock converging on it strengthens (the turn is spread
+over a shrinking circumference) and cannot reflect regularly there (from memory); the
+march stops with ``"mach_reflection"`` where a shock reaches the axis, or where the
+flow behind it turns subsonic within two mesh spacings of it.
+
+Where it stops (``"shock_crossing"``): a crossing or a refraction beyond detachment
+(no regular solution), or two slip lines meeting; flow compressed to M = 1, or a
+shock so strong the flow behind it is subsonic (``"sonic"``).
 
 Accuracy: the averaged-coefficient rule is second order; the limited interpolation
 at the feet keeps smooth regions close to that, but centred fans, the strengthening
@@ -92,6 +105,7 @@ from .fitted_events import (
     cross_shocks,
     flow_properties,
     insert_shocks,
+    merge_shocks,
     reflect_from_wall,
     refract_through_slip_line,
     zone_layout,
@@ -175,7 +189,8 @@ def compressive_stretches(wall, length, side, samples=20001):
     return np.column_stack([x[begins], x[ends]]).reshape(-1, 2)
 
 
-def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n, start=None):
+def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n, start=None,
+                         geometry="planar"):
     """Plain core: march a planar channel with fitted shocks from a uniform inlet at x = 0.
 
     Parameters
@@ -191,6 +206,9 @@ def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n, start=None
     start : Station, optional
         A first station other than the uniform inlet (a jet's). ``upper_wall`` may then
         be a :class:`~gasdyn2d.characteristics.fitted_jets.FreeBoundary`.
+    geometry : {"planar", "axisymmetric"}, optional
+        Planar (default) or round about y = 0 (then the lower wall is the axis, y = 0,
+        and the compatibility relations carry the axisymmetric source term).
 
     Returns
     -------
@@ -219,10 +237,11 @@ def march_fitted_channel(M, gamma, lower_wall, upper_wall, length, n, start=None
     31.9809
     """
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        return _march(M, gamma, lower_wall, upper_wall, length, n, start)
+        return _march(M, gamma, lower_wall, upper_wall, length, n, start,
+                      geometry == "axisymmetric")
 
 
-def _march(M, gamma, lower_wall, upper_wall, length, n, start=None):
+def _march(M, gamma, lower_wall, upper_wall, length, n, start=None, round_=False):
     """:func:`march_fitted_channel` inside one floating-point error state; ``start`` is a
     first station other than the uniform inlet, and ``upper_wall`` may be a
     :class:`~gasdyn2d.characteristics.fitted_jets.FreeBoundary` (a jet)."""
@@ -261,15 +280,16 @@ def _march(M, gamma, lower_wall, upper_wall, length, n, start=None):
         if meet is not None:
             reason, where = "shock_crossing", meet
             break
-        new, status = _advance(station, dx, hit, walls, n, gamma)
+        new, status = _advance(station, dx, hit, walls, n, gamma, round_)
         if status != "ok":
             reason, where = status
             break
         for shock, ratio, beta in zip([s for s in new.shocks if s.is_shock],
                                       *_shock_strengths(new, gamma)):
             shock.record(new.x, beta, ratio)
-        if hit is not None and hit[0] in ("cross", "refract"):
-            handle = cross_shocks if hit[0] == "cross" else refract_through_slip_line
+        if hit is not None and hit[0] in ("cross", "refract", "merge"):
+            handle = {"cross": cross_shocks, "refract": refract_through_slip_line,
+                      "merge": merge_shocks}[hit[0]]
             new, status = handle(new, hit[1], hit[2], gamma, finished)
             if status != "ok":
                 reason, where = status
@@ -279,6 +299,11 @@ def _march(M, gamma, lower_wall, upper_wall, length, n, start=None):
             for wall_hit in hit[1]:
                 if wall_hit[1] == 1 and free:  # a shock reaching a jet's boundary ends there
                     new, status = upper_wall.end_shock(new, wall_hit[0], finished)
+                elif wall_hit[1] == 0 and round_ and float(lower_wall.height(new.x)) == 0.0:
+                    # on the axis of a round flow a shock cannot reflect regularly: it
+                    # strengthens as it converges and a Mach disc forms (see _march's notes)
+                    new.shocks[wall_hit[0]].end = "mach_reflection"
+                    status = ("mach_reflection", (new.x, 0.0))
                 else:
                     new, status = reflect_from_wall(new, wall_hit, walls, gamma, finished)
                 if status != "ok":
@@ -297,6 +322,10 @@ def _march(M, gamma, lower_wall, upper_wall, length, n, start=None):
             new = upper_wall.follow(new, n, gamma)
         out.add(new)
         station = new
+    if round_ and reason == "sonic" and _near_axis(where, walls, n):
+        # a round shock converging on the axis strengthens until the flow behind it is
+        # subsonic, within a mesh spacing or two of the axis: a Mach reflection (a Mach disc)
+        reason = "mach_reflection"
     for shock in finished + list(station.shocks):
         if shock not in finished and reason != "length":
             shock.end = reason
@@ -305,6 +334,14 @@ def _march(M, gamma, lower_wall, upper_wall, length, n, start=None):
               if s.is_shock]
     return FittedMarch(np.array(out.x), out.y, out.p, out.th, out.p0, out.mach, shocks,
                        reason, where)
+
+
+def _near_axis(where, walls, n):
+    """Whether a stop at ``where`` lies within two target spacings of the axis (a lower wall
+    at y = 0)."""
+    x, y = where
+    low = float(walls[0].height(x))
+    return low == 0.0 and y <= 2.0 * float(walls[1].height(x) - low) / (n - 1)
 
 
 def _corner_or_stretch(wall, start, end, side):
@@ -408,7 +445,9 @@ def _step_length(station, walls, length, starts, n, gamma):
         event = ("cross", i - 1, 2)
     elif (below > 0 and above == 0) or (below == 0 and above < 0):
         event = ("refract", i, 1)  # a shock passes through a slip line
-    else:  # merging shocks (one overtaking another of its family): not carried on
+    elif below == above:  # one shock overtaking another of its family: they merge
+        event = ("merge", i, 1)
+    else:  # a slip line meeting a slip line: not carried on
         if d <= dx:
             return dx, None, (x + d, shocks[i].y + d * math.tan(shocks[i].direction))
         return dx, hit, None
@@ -437,7 +476,7 @@ def _wall_hit(shock, wall, x, reach, wall_index):
     return high if high > 1e-12 * max(1.0, abs(x)) else None
 
 
-def _advance(old, dx, hit, walls, n, gamma):
+def _advance(old, dx, hit, walls, n, gamma, round_=False):
     """March one step: the new station's nodes by predictor and corrector."""
     x = old.x + dx
     free = getattr(walls[1], "is_free", False)
@@ -450,7 +489,7 @@ def _advance(old, dx, hit, walls, n, gamma):
     shock_y = shock_y_old + dx * np.tan(dir_old)
     def pin(positions):
         """Shocks at a wall hit on the wall; two crossing shocks at one point."""
-        if hit is not None and hit[0] in ("cross", "refract"):
+        if hit is not None and hit[0] in ("cross", "refract", "merge"):
             i, span = hit[1], hit[2]
             positions[i:i + span + 1] = 0.5 * (positions[i] + positions[i + span])
         elif hit is not None:
@@ -506,6 +545,8 @@ def _advance(old, dx, hit, walls, n, gamma):
         (mua, mub), (ba, bb) = mu_ab, b_ab
         feet_slopes = np.tan(np.array([tha + mua, thb - mub, ths]))
         bp, bm = 0.5 * (ba + b), 0.5 * (bb + b)
+        if round_:  # the source term, folded into the feet's θ (see _source_terms)
+            tha, thb = _source_terms(tha, thb, mua, mub, th, mu, y, slopes, dx)
         rp, rm = tha + bp * lpa, thb - bm * lpb
         lp_new = np.where(interior, (rp - rm) / (bp + bm), lp)
         th_new = np.where(interior, rp - bp * lp_new, th)
@@ -558,6 +599,27 @@ def _advance(old, dx, hit, walls, n, gamma):
     for shock, y_s, direction in zip(shocks, shock_y, new_dir):
         shock.y, shock.direction = float(y_s), float(direction)
     return Station(x, counts, y, lp, th, lp0, list(shocks)), "ok"
+
+
+def _source_terms(tha, thb, mua, mub, th, mu, y, slopes, dx):
+    """The feet's θ with the axisymmetric source term of each C± integrated to the node.
+
+    Along C+: dθ + B dp/p + Q+ dx = 0, along C-: dθ - B dp/p - Q- dx = 0, with
+    Q± = sin θ sin μ / (y cos(θ ± μ)) (the rotational p-θ form; Zucrow and Hoffman 1977,
+    vol. 2, ch. 16, from memory; the same terms as the homentropic
+    :mod:`~gasdyn2d.characteristics.unit_processes`). So the planar relations hold with
+    θa - Q+ dx and θb + Q- dx in place of the feet's θ. Q is taken at the midpoint of the
+    trace (θ, μ and y averaged between foot and node: second order), where y > 0 unless
+    both ends lie on the axis; there the C+ is not used (the axis node takes its C-).
+    """
+    terms = []
+    for theta_foot, mu_foot, slope, sign in ((tha, mua, slopes[0], 1.0),
+                                             (thb, mub, slopes[1], -1.0)):
+        y_mid = 0.5 * (y + np.maximum(y - dx * slope, 0.0))
+        t, m = 0.5 * (theta_foot + th), 0.5 * (mu_foot + mu)
+        q = np.sin(t) * np.sin(m) / (np.where(y_mid > 0.0, y_mid, 1.0) * np.cos(t + sign * m))
+        terms.append(np.where(y_mid > 0.0, q, 0.0) * dx)
+    return tha - terms[0], thb + terms[1]
 
 
 def _shock_points(*states, guesses):

@@ -17,8 +17,8 @@ from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
 from .design_calls import DesignCall, frozen_array
 from .fitted_jets import JetMarch, march_fitted_jet
 from .fitted_shocks import FittedMarch, FittedShock
-from .jets import linear_cell_length
-from .unit_processes import CharacteristicNet
+from .jets import linear_cell_length, linear_extrema
+from .unit_processes import CharacteristicNet, check_geometry
 
 __all__ = ["slot_jet_cells", "SlotJetCells"]
 
@@ -47,10 +47,14 @@ class SlotJetCells(ResultTable):
     stop_x: float = unit_field("m", "where the march stopped short (NaN at 'cells')")
     stop_y: float = unit_field("m")
     cell_lengths: np.ndarray = unit_field("m", "computed length of each complete cell")
-    #: linear theory, 2h√(Mj² - 1) with h = 2 b (Prandtl 1904; Pack 1950)
+    #: linear theory's cell, 2h√(Mj² - 1) with h = 2b; round, π D√(Mj² - 1)/j0 (Prandtl
+    #: 1904; Pack 1950)
     cell_length_linear: float = unit_field("m")
     narrowest_x: np.ndarray = unit_field("m", "where the boundary is narrowest (cell ends)")
+    #: linear theory's narrowest points (:func:`~gasdyn2d.characteristics.jets.linear_extrema`)
+    narrowest_x_linear: np.ndarray = unit_field("m")
     widest_x: np.ndarray = unit_field("m", "where the boundary is widest, one per cell")
+    widest_x_linear: np.ndarray = unit_field("m", "linear theory's widest points")
     widest_half_width: np.ndarray = unit_field("m", "the half-width there")
     boundary_x: np.ndarray = unit_field("m", "jet boundary (constant pressure), one point "
                                         "per marching station")
@@ -65,10 +69,12 @@ class SlotJetCells(ResultTable):
     #: twice); no characteristic segments
     net: CharacteristicNet | None = dataclasses.field(default=None, metadata={"unit": ""},
                                                       repr=False)
+    geometry: str = unit_field("", "'planar' (a slot) or 'axisymmetric' (a round jet)",
+                               default="planar")
 
 
 def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.4,
-                   slot_half_height=0.01):
+                   slot_half_height=0.01, geometry="planar"):
     """Shock cells of a planar jet leaving a slot, marched with fitted shocks.
 
     The jet's constant-pressure boundary is a boundary of the shock-fitted space march
@@ -90,7 +96,11 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.
     gamma : float, optional
         Ratio of specific heats [-].
     slot_half_height : float or Quantity, optional
-        Half-height b of the slot [m]; every length of the result is in its unit.
+        Half-height b of the slot [m] (the exit radius R of a round jet); every length of
+        the result is in its unit.
+    geometry : {"planar", "axisymmetric"}, optional
+        A slot jet (default) or a round jet (the axisymmetric source term in the
+        compatibility relations; the centreline is the axis).
 
     Returns
     -------
@@ -143,15 +153,17 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.
     n = call.count("n_points", n_points, 5, 2000)
     cells = call.count("n_cells", n_cells, 1, 20)
     if call.nan_inputs:  # NaN in, NaN out: no stations
-        return _cells_result(_NAN_JET, M, math.nan, ratio, b, call)
+        return _cells_result(_NAN_JET, M, math.nan, ratio, b, call, "planar")
     M_jet = float(mach_from_pressure_ratio(pressure_ratio(M, g) / ratio, g))
     call.check(np.isfinite(M_jet), "p_exit_p_ambient", ratio,
                "small enough that the jet does not expand to vacuum")
-    jet = march_fitted_jet(M, ratio, g, n, cells)
-    return _cells_result(jet, M, M_jet, ratio, b, call)
+    round_ = check_geometry(geometry)
+    geometry = "axisymmetric" if round_ else "planar"
+    jet = march_fitted_jet(M, ratio, g, n, cells, geometry)
+    return _cells_result(jet, M, M_jet, ratio, b, call, geometry)
 
 
-def _cells_result(jet, M, M_jet, ratio, b, call):
+def _cells_result(jet, M, M_jet, ratio, b, call, geometry):
     march = jet.march
     counts = np.array([y.size for y in march.y], dtype=np.intp)
     top = np.cumsum(counts) - 1
@@ -172,14 +184,19 @@ def _cells_result(jet, M, M_jet, ratio, b, call):
                                wave_angle=call.angle(beta), p2_p1=frozen_array(r), end=end)
                    for f, sx, sy, beta, r, end in march.shocks)
     stop_x, stop_y = march.stop_position
+    count = max(ends.size, jet.widest_x.size)
+    linear = (linear_extrema(M_jet, 1.0, count, ratio > 1.0, geometry) if M_jet > 1.0
+              else (np.full(count, math.nan),) * 2)
     return SlotJetCells(
         mach_exit=M, mach_jet=M_jet, p_exit_p_ambient=ratio, lip_turn=call.angle(jet.lip_turn),
         stop_reason=march.reason, stop_x=length(stop_x), stop_y=length(stop_y),
         cell_lengths=length(lengths),
-        cell_length_linear=length(float(linear_cell_length(M_jet, 2.0)) if M_jet > 1.0
-                                  else math.nan),
+        cell_length_linear=length(float(linear_cell_length(M_jet, 2.0, geometry))
+                                  if M_jet > 1.0 else math.nan),
+        narrowest_x_linear=length(linear[0]), widest_x_linear=length(linear[1]),
         narrowest_x=length(ends), widest_x=length(jet.widest_x),
         widest_half_width=length(jet.widest_y), boundary_x=length(x[top]),
         boundary_y=length(y[top]), boundary_theta=call.angle(theta[top]),
         centreline_p_p0=frozen_array(p_p0[top - counts + 1]), shocks=shocks, net=call.net(net),
+        geometry=geometry,
     )

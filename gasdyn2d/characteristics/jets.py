@@ -9,6 +9,7 @@ upper boundary, to the first shock.
 from __future__ import annotations
 
 import dataclasses
+import math
 
 import numpy as np
 
@@ -20,7 +21,8 @@ from .unit_processes import ROUND_LINE_LIMIT, CharacteristicNet, check_geometry
 from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
 
-__all__ = ["underexpanded_slot_jet", "SlotJet", "linear_cell_length", "ROUND_JET_WIDEST_POINT"]
+__all__ = ["underexpanded_slot_jet", "SlotJet", "linear_cell_length", "ROUND_JET_WIDEST_POINT",
+           "ROUND_JET_WIDEST_POINTS", "ROUND_JET_NARROWEST_POINTS", "linear_extrema"]
 
 
 #: first zero of the Bessel function J0 (Abramowitz & Stegun 1964, Table 9.5)
@@ -30,6 +32,14 @@ _J0_FIRST_ZERO = 2.404825557695773
 #: solution of the linearised potential; computed with 10^5 zeros and Lanczos factors,
 #: 1.43634071 to 8 digits; a planar jet's is 2, half its cell)
 ROUND_JET_WIDEST_POINT = 1.43634071
+#: linear theory of a round under-expanded jet, in units of R√(Mj² - 1): where its boundary
+#: is widest and narrowest, the roots of Σ sin(j_k ξ)/j_k where it falls and where it rises
+#: (computed as above with 2·10^5 zeros and Lanczos factors, to 1e-7). The modes are not
+#: harmonics, so these are not multiples of one cell length; an over-expanded jet swaps them.
+ROUND_JET_WIDEST_POINTS = (1.43634071, 3.99999898, 6.35006999, 9.16422312, 11.99999672,
+                           14.21022706, 16.89911518, 19.90544414)
+ROUND_JET_NARROWEST_POINTS = (2.44712834, 5.30401364, 7.99999792, 10.27195797, 13.02682933,
+                              15.99999518, 18.16190383, 20.78442935)
 
 
 def linear_cell_length(M_jet, slot_width, geometry="planar"):
@@ -63,6 +73,35 @@ def linear_cell_length(M_jet, slot_width, geometry="planar"):
     if check_geometry(geometry):
         return np.pi * np.asarray(slot_width, dtype=float) * root / _J0_FIRST_ZERO
     return 2.0 * np.asarray(slot_width, dtype=float) * root
+
+
+def linear_extrema(M_jet, slot_half_height, count, under_expanded=True, geometry="planar"):
+    """Plain core: where linear theory puts the first ``count`` narrowest and widest points
+    of a jet's boundary [m] (NaN beyond those tabulated for a round jet).
+
+    Planar (``slot_half_height`` b): narrowest at k·L and widest at (k - 1/2)·L, L =
+    4b√(Mj² - 1), for an under-expanded jet; swapped for an over-expanded one. Round
+    (exit radius R): :data:`ROUND_JET_NARROWEST_POINTS` and :data:`ROUND_JET_WIDEST_POINTS`
+    times R√(Mj² - 1).
+
+    Examples
+    --------
+    >>> from gasdyn2d.characteristics.jets import linear_extrema
+    >>> [round(float(v), 4) for v in linear_extrema(2.0, 1.0, 2)[0]]   # 4√3 k
+    [6.9282, 13.8564]
+    """
+    scale = float(slot_half_height) * math.sqrt((M_jet - 1.0) * (M_jet + 1.0))
+    if check_geometry(geometry):
+        table = [np.array(t[:count]) for t in (ROUND_JET_NARROWEST_POINTS,
+                                                ROUND_JET_WIDEST_POINTS)]
+        narrowest, widest = (np.pad(t, (0, count - t.size), constant_values=np.nan)
+                             for t in table)
+    else:
+        narrowest = 4.0 * np.arange(1, count + 1)
+        widest = narrowest - 2.0
+    if not under_expanded:
+        narrowest, widest = widest, narrowest
+    return scale * narrowest, scale * widest
 
 
 @dataclasses.dataclass(frozen=True, repr=False)
