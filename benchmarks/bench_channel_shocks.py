@@ -33,18 +33,10 @@ import numpy as np
 from gasdyn2d.characteristics.channels import channel_flow
 from gasdyn2d.characteristics.unit_processes import WallContour
 
+from timing import best_time
+
 TARGET_SECONDS = 0.5
 FLOOR = WallContour.straight(0.0)
-
-
-def best_time(func, repeats, clock=time.perf_counter):
-    """Best time [s] of ``repeats`` calls on ``clock``, and the last result."""
-    best, result = math.inf, None
-    for _ in range(repeats):
-        start = clock()
-        result = func()
-        best = min(best, clock() - start)
-    return best, result
 
 
 def cases(quick):
@@ -94,7 +86,7 @@ def main(argv=None):
     for label, run in cases(args.quick):
         run()  # warm up: first calls pay for lazy imports
         seconds, result = best_time(run, repeats)
-        cpu, _ = best_time(run, repeats, time.process_time)
+        cpu, _ = best_time(run, repeats, clock=time.process_time)
         nodes = result.net.x.size
         net_seconds, net_nodes = baseline(nodes, repeats)
         ratio = (seconds / nodes) / (net_seconds / net_nodes)

@@ -42,21 +42,13 @@ from gasdyn2d.characteristics.jets import underexpanded_slot_jet
 from gasdyn2d.characteristics.nozzles import minimum_length_nozzle, rounded_throat_nozzle
 from gasdyn2d.relations.isentropic import pressure_ratio
 
+from timing import best_time
+
 TARGET_N100_SECONDS = 0.1
 #: issue 12 targets [s]: round minimum-length nozzle n = 100 and n = 400, performance sweep
 ROUND_TARGETS = {"round minimum_length n=100": 0.1, "round minimum_length n=400": 1.0}
 SWEEP_TARGET_SECONDS = 0.010
 SWEEP_POINTS = 10_000
-
-
-def best_time(func, repeats):
-    """Best wall time [s] of ``repeats`` calls, and the last result."""
-    best, result = math.inf, None
-    for _ in range(repeats):
-        start = time.perf_counter()
-        result = func()
-        best = min(best, time.perf_counter() - start)
-    return best, result
 
 
 def best_cpu_time(func, repeats):

@@ -42,18 +42,10 @@ from gasdyn2d.relations.conical_flow import (cone_detachment_angles, cone_flow_f
                                              cone_flow_from_wave_angle)
 from gasdyn2d.relations.oblique_shocks import detachment_angles, wave_angle_from_deflection
 
+from timing import shortest_time
+
 GAMMA = 1.4
 TARGET_RATIO = 100.0  # issue 11
-
-
-def best_time(function, repeats):
-    """Shortest wall time of ``repeats`` calls [s]."""
-    best = math.inf
-    for _ in range(repeats):
-        start = time.perf_counter()
-        function()
-        best = min(best, time.perf_counter() - start)
-    return best
 
 
 # ------------------------------------------------------------------ the baseline
@@ -116,13 +108,13 @@ def main(argv=None):
     repeats = 1 if args.quick else 3
     M, theta, beta_hi = make_cases(n)
 
-    t_core = best_time(lambda: cone_flow_from_cone_angle(M, theta, GAMMA), repeats) / n
-    t_api = best_time(lambda: cone_flow(M, cone_angle=theta), repeats) / n
+    t_core = shortest_time(lambda: cone_flow_from_cone_angle(M, theta, GAMMA), repeats) / n
+    t_api = shortest_time(lambda: cone_flow(M, cone_angle=theta), repeats) / n
     flow = cone_flow_from_cone_angle(M, theta, GAMMA)
-    t_forward = best_time(lambda: cone_flow_from_wave_angle(M, flow.wave_angle, GAMMA),
+    t_forward = shortest_time(lambda: cone_flow_from_wave_angle(M, flow.wave_angle, GAMMA),
                           repeats) / n
     n_det = min(n, 1000)
-    t_detach = best_time(lambda: cone_detachment_angles(M[:n_det], GAMMA), 1) / n_det
+    t_detach = shortest_time(lambda: cone_detachment_angles(M[:n_det], GAMMA), 1) / n_det
 
     start = time.perf_counter()
     baseline = [baseline_wave_angle(float(M[i]), float(theta[i]), float(beta_hi[i]))
@@ -131,8 +123,8 @@ def main(argv=None):
     worst = float(np.max(np.abs(np.array(baseline) / flow.wave_angle[:n_loop] - 1.0)))
 
     m0, t0 = float(M[0]), float(theta[0])
-    t_scalar = best_time(lambda: cone_flow_from_cone_angle(m0, t0, GAMMA), 5)
-    t_one = best_time(lambda: cone_flow_from_cone_angle(M[:1], theta[:1], GAMMA), 3)
+    t_scalar = shortest_time(lambda: cone_flow_from_cone_angle(m0, t0, GAMMA), 5)
+    t_one = shortest_time(lambda: cone_flow_from_cone_angle(M[:1], theta[:1], GAMMA), 3)
 
     ratio = t_loop / t_core
     rows = [

@@ -27,7 +27,6 @@ import argparse
 import math
 import platform
 import sys
-import time
 
 import numpy as np
 from scipy.optimize import brentq
@@ -48,22 +47,14 @@ from gasdyn2d.relations import expansion_fans as expansion
 from gasdyn2d.relations import isentropic, normal_shocks, oblique_shocks
 from gasdyn2d.relations import simple_waves as waves
 
+from timing import shortest_time
+
 GAMMA = 1.4
 TARGET_LOOP_SPEEDUP = 100.0  # issue 2: the vectorised solve must beat a brentq loop 100x
 TARGET_PM_INVERSE_RATIO = 10.0  # issue 2: ν⁻¹ within 10x the cost of ν
 
 
 # ------------------------------------------------------------------ timing helpers
-
-
-def best_time(func, repeats):
-    """Best wall time [s] of ``repeats`` calls of ``func()``."""
-    best = math.inf
-    for _ in range(repeats):
-        start = time.perf_counter()
-        func()
-        best = min(best, time.perf_counter() - start)
-    return best
 
 
 def per_call_microseconds(func, calls, repeats):
@@ -73,7 +64,7 @@ def per_call_microseconds(func, calls, repeats):
         for _ in range(calls):
             func()
 
-    return best_time(many, repeats) / calls * 1e6
+    return shortest_time(many, repeats) / calls * 1e6
 
 
 def describe_environment():
@@ -297,7 +288,7 @@ def main(argv=None):
           f"[0.01, 0.99] θmax, γ = {GAMMA}; best of {repeats} repeats")
     cases = make_cases(n)
 
-    baseline = best_time(lambda: isentropic.pressure_ratio(cases["M"]), repeats) / n
+    baseline = shortest_time(lambda: isentropic.pressure_ratio(cases["M"]), repeats) / n
     print()
     print(f"  {'relation':<52s} {'per case':>13s} {'vs p/p0':>11s}")
     print(format_row("baseline: isentropic.pressure_ratio (plain p/p0)", baseline, 1.0))
@@ -307,13 +298,13 @@ def main(argv=None):
         if this_group != group:
             print(f"  -- {this_group}")
             group = this_group
-        times[label] = best_time(func, repeats) / n
+        times[label] = shortest_time(func, repeats) / n
         print(format_row(label, times[label], times[label] / baseline))
 
     # the vectorised oblique-shock solve against a scalar brentq loop, same cases
     M_sub, theta_sub = cases["M"][:n_loop], cases["theta"][:n_loop]
-    loop = best_time(lambda: brentq_loop(M_sub, theta_sub), max(2, repeats // 2)) / n_loop
-    loop_default = best_time(lambda: brentq_loop(M_sub, theta_sub, xtol=2e-12),
+    loop = shortest_time(lambda: brentq_loop(M_sub, theta_sub), max(2, repeats // 2)) / n_loop
+    loop_default = shortest_time(lambda: brentq_loop(M_sub, theta_sub, xtol=2e-12),
                              max(2, repeats // 2)) / n_loop
     vector_beta = cases["beta"][:n_loop]
     agreement = np.max(np.abs(brentq_loop(M_sub, theta_sub) - vector_beta) / vector_beta)
@@ -346,7 +337,7 @@ def main(argv=None):
     print("Issue 10 batch targets (absolute, so a busy machine reads slower; the ratio to the")
     print("hand-written numpy form, timed on the same cases in this run, is the robust figure)")
     M_all, th_all = cases["M"], cases["theta"]
-    hand = best_time(lambda: handwritten_oblique_numpy(M_all, th_all), repeats) / n
+    hand = shortest_time(lambda: handwritten_oblique_numpy(M_all, th_all), repeats) / n
     hand_beta = handwritten_oblique_numpy(M_all, th_all)[0]
     hand_error = np.nanmax(np.abs(hand_beta - cases["beta"]) / cases["beta"])
     print(f"  hand-written numpy oblique solve (cubic + one Newton step): {hand * 1e9:.1f} ns per "

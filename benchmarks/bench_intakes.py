@@ -16,7 +16,6 @@ Run ``python benchmarks/bench_intakes.py`` (full) or with ``--quick`` (a few sec
 
 import argparse
 import math
-import time
 
 import numpy as np
 from scipy import optimize
@@ -25,15 +24,7 @@ from gasdyn2d.design.intake_design import optimal_ramps
 from gasdyn2d.design.intakes import ramp_intake
 from gasdyn2d.relations.isentropic import pressure_ratio
 
-
-def best_time(function, repeats):
-    """Shortest wall time of ``repeats`` calls [s]."""
-    best = math.inf
-    for _ in range(repeats):
-        start = time.perf_counter()
-        function()
-        best = min(best, time.perf_counter() - start)
-    return best
+from timing import shortest_time
 
 
 def scalar_wave_angle(M, theta, gamma=1.4):
@@ -55,14 +46,14 @@ def main(argv=None):
 
     ramps = np.radians([8.0, 9.0])  # an invented two-ramp intake designed for M 2.5
     mach = np.linspace(2.0, 3.2, n_mach)
-    t_vector = best_time(lambda: ramp_intake(mach, ramps, design_mach=2.5), repeats)
-    t_numpy = best_time(lambda: pressure_ratio(mach), repeats)
-    t_loop = best_time(lambda: [ramp_intake(float(m), ramps, design_mach=2.5)
+    t_vector = shortest_time(lambda: ramp_intake(mach, ramps, design_mach=2.5), repeats)
+    t_numpy = shortest_time(lambda: pressure_ratio(mach), repeats)
+    t_loop = shortest_time(lambda: [ramp_intake(float(m), ramps, design_mach=2.5)
                                 for m in mach[:n_loop]], 1) / n_loop
 
     design = np.linspace(2.0, 4.0, n_optimal)
-    t_optimal = best_time(lambda: optimal_ramps(design, 3), 1) / n_optimal
-    t_brentq = best_time(lambda: [scalar_wave_angle(2.5, math.radians(10.0))
+    t_optimal = shortest_time(lambda: optimal_ramps(design, 3), 1) / n_optimal
+    t_brentq = shortest_time(lambda: [scalar_wave_angle(2.5, math.radians(10.0))
                                   for _ in range(200)], repeats) / 200
 
     n_single = 20 if args.quick else 200
@@ -72,7 +63,7 @@ def main(argv=None):
         "isentropic 2nd stage, off design": lambda: ramp_intake(
             2.3, ramps, design_mach=2.5, stages=["shock", "isentropic"]),
     }
-    single_times = {name: best_time(lambda: [f() for _ in range(n_single)], repeats) / n_single
+    single_times = {name: shortest_time(lambda: [f() for _ in range(n_single)], repeats) / n_single
                     for name, f in single.items()}
 
     rows = [

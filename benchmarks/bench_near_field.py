@@ -15,7 +15,6 @@ from __future__ import annotations
 
 import argparse
 import math
-import time
 
 import numpy as np
 
@@ -24,17 +23,9 @@ from gasdyn2d.design.near_fields import section_near_field
 from gasdyn2d.design.section_loads import shock_expansion_loads
 from gasdyn2d.design.sections import Section
 
+from timing import shortest_time
+
 GOAL = 2.0  # [s] per near field to 10 chords (issue 13)
-
-
-def best_time(function, repeats):
-    """Shortest wall time of ``repeats`` calls [s]."""
-    best = np.inf
-    for _ in range(repeats):
-        start = time.perf_counter()
-        function()
-        best = min(best, time.perf_counter() - start)
-    return best
 
 
 def main(argv=None):
@@ -50,11 +41,11 @@ def main(argv=None):
         turn = math.radians(turn_deg)
         field = section_near_field(section, M, alpha, distances, max_line_turn=turn)
         lines = field.x_below.shape[1]
-        t_field = best_time(lambda: section_near_field(section, M, alpha, distances,
+        t_field = shortest_time(lambda: section_near_field(section, M, alpha, distances,
                                                        max_line_turn=turn), repeats)
-        t_loads = best_time(lambda: shock_expansion_loads(section, M, alpha), repeats)
+        t_loads = shortest_time(lambda: shock_expansion_loads(section, M, alpha), repeats)
         mach = np.full(lines, 1.9)
-        t_points = best_time(lambda: shock_point(2.0, 0.0, 1.0, mach, 0.05, 1.3, 1), repeats)
+        t_points = shortest_time(lambda: shock_point(2.0, 0.0, 1.0, mach, 0.05, 1.3, 1), repeats)
         worst = max(worst, t_field)
         print(f"biconvex 5 %, {n} panels a surface, lines {turn_deg}° apart "
               f"(~{lines} samples a signature): near field to 10 chords {t_field * 1e3:8.1f} ms "

@@ -28,7 +28,6 @@ from __future__ import annotations
 import argparse
 import math
 import platform
-import time
 
 import numpy as np
 from scipy.optimize import root
@@ -41,20 +40,11 @@ from gasdyn2d.patterns.reflections import (free_boundary_reflection, reflection_
 from gasdyn2d.relations.oblique_shocks import detachment_angles
 from gasdyn2d.relations.simple_waves import turn_state
 
+from timing import best_time
+
 TARGET_SINGLE_RATIO = 100.0  # single wall_reflection / two math-module oblique solves
 TARGET_MACH_US = 8.0  # Mach reflection, µs per case at 10^4 cases
 TARGET_SPEEDUP = 50.0  # batch against the scipy loop
-
-
-def best_time(func, repeats, number=1):
-    """Best of ``repeats`` timings of ``number`` calls, per call [s]; and the last result."""
-    best, out = math.inf, None
-    for _ in range(repeats):
-        start = time.perf_counter()
-        for _ in range(number):
-            out = func()
-        best = min(best, (time.perf_counter() - start) / number)
-    return best, out
 
 
 # --------------------------------------------------------------- hand-written baselines

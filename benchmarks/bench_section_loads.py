@@ -22,7 +22,6 @@ from __future__ import annotations
 
 import argparse
 import math
-import time
 import tracemalloc
 
 import numpy as np
@@ -31,15 +30,7 @@ from gasdyn2d.relations.isentropic import pressure_ratio
 from gasdyn2d.design.section_loads import linear_loads, second_order_loads, shock_expansion_loads
 from gasdyn2d.design.sections import Section
 
-
-def best_time(function, repeats):
-    """Shortest wall time of ``repeats`` calls [s]."""
-    best = np.inf
-    for _ in range(repeats):
-        start = time.perf_counter()
-        function()
-        best = min(best, time.perf_counter() - start)
-    return best
+from timing import shortest_time
 
 
 def wavy_section(n_panels_per_surface, tau=0.04):
@@ -62,9 +53,9 @@ def single_call_rows(repeats):
         return tan_theta, 1.0 + 2.0 * g / (g + 1.0) * (mn2 - 1.0)
 
     n = 20 if repeats == 1 else 200
-    t_call = best_time(lambda: [shock_expansion_loads(wedge, 2.5, 0.05) for _ in range(n)],
+    t_call = shortest_time(lambda: [shock_expansion_loads(wedge, 2.5, 0.05) for _ in range(n)],
                        max(repeats, 3)) / n
-    t_hand = best_time(lambda: [hand_shock() for _ in range(1000)], max(repeats, 3)) / 1000
+    t_hand = shortest_time(lambda: [hand_shock() for _ in range(1000)], max(repeats, 3)) / 1000
     print(f"single shock_expansion_loads call, double wedge (2+2 panels): "
           f"{t_call * 1e6:9.1f} us = {t_call / t_hand:7.0f} x one hand-written math-module "
           f"oblique shock from its wave angle ({t_hand * 1e6:.2f} us)")
@@ -75,8 +66,8 @@ def panel_sum_rows(repeats, n_cases):
     rng = np.random.default_rng(1)
     cp = rng.normal(size=(n_cases, 200))
     weights = rng.normal(size=200)
-    t_einsum = best_time(lambda: np.einsum("...i,i->...", cp, weights), max(repeats, 5))
-    t_blas = best_time(lambda: cp @ weights, max(repeats, 5))
+    t_einsum = shortest_time(lambda: np.einsum("...i,i->...", cp, weights), max(repeats, 5))
+    t_blas = shortest_time(lambda: cp @ weights, max(repeats, 5))
     print(f"panel sums of {n_cases} x 200 cp: einsum {t_einsum * 1e3:.3f} ms, BLAS matmul "
           f"{t_blas * 1e3:.3f} ms (matmul/einsum {t_blas / t_einsum:.2f}; BLAS threads "
           "compete with other work on a busy machine, einsum's loop does not)")
@@ -119,7 +110,7 @@ def main():
         "flat plate, 1+1 panels": Section.flat_plate(),
     }
 
-    t_isentropic = best_time(lambda: pressure_ratio(M, 1.4), max(repeats, 5))
+    t_isentropic = shortest_time(lambda: pressure_ratio(M, 1.4), max(repeats, 5))
     print(f"gasdyn2d section loads benchmark: {n_cases} (M, alpha) cases, best of {repeats}")
     print(f"baseline: isentropic p/p0 of {n_cases} elements: {t_isentropic * 1e3:.3f} ms")
     print()
@@ -130,14 +121,14 @@ def main():
     for name, section in sections.items():
         n_panels = sum(section.n_panels)
         grid = np.broadcast_to(M[:, None], (n_cases, n_panels))
-        t_panel_floor = best_time(lambda: pressure_ratio(grid, 1.4), repeats)
+        t_panel_floor = shortest_time(lambda: pressure_ratio(grid, 1.4), repeats)
         for theory_name, theory in (("shock-expansion", shock_expansion_loads),
                                     ("second-order", second_order_loads), ("linear", linear_loads)):
-            t_vector = best_time(lambda: theory(section, M, alpha, errors="nan"), repeats)
+            t_vector = shortest_time(lambda: theory(section, M, alpha, errors="nan"), repeats)
             row = (f"{name:<36} {theory_name:<16} {t_vector / n_cases * 1e6:9.3f} "
                    f"{t_vector / t_isentropic:10.1f} {t_vector / t_panel_floor:17.2f}")
             if theory is shock_expansion_loads:
-                t_loop = best_time(lambda: [theory(section, float(m), float(a), errors="nan")
+                t_loop = shortest_time(lambda: [theory(section, float(m), float(a), errors="nan")
                                             for m, a in zip(M[:n_loop], alpha[:n_loop])], 1)
                 per_case = t_loop / n_loop
                 row += f" {per_case * 1e6:13.1f} {per_case / (t_vector / n_cases):12.1f}"

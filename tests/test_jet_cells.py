@@ -1,12 +1,12 @@
-"""Tests of the shock cells of planar slot jets, marched with fitted shocks.
+"""Tests of the shock cells of slot and round jets, marched with fitted shocks.
 
 Sources:
 - Linear theory of the shock-cell length of a planar jet, L = 2h√(Mj² - 1) with h the
   full jet width, and its cells all alike (Prandtl, Phys. Z. 5, 1904; Pack, Q. J. Mech.
   Appl. Math. 3, 1950; as in /work/shared/SOURCES.md). It neglects terms of first order
   in ε = pe/pa - 1, so the computed cells may depart from it by O(ε).
-- mpmath references for ν(M) and the isentropic p/p0 (NACA Report 1135, eqs. 44 and
-  171) and for the normal-shock pressure ratio (eq. 128).
+- mpmath references (tests/reference.py) for ν(M) and the isentropic p/p0 (NACA Report
+  1135, eqs. 44 and 171) and for the normal-shock pressure ratio (eq. 128).
 - The region graph's regular reflection (gasdyn2d.patterns.reflections.wall_reflection,
   itself checked against NACA Report 1135) for the lip shock's reflection from the
   centreline, and its detachment angle (NACA Report 1135, eq. 168) for the Mach disc.
@@ -19,6 +19,8 @@ import mpmath as mp
 import numpy as np
 import pytest
 
+import reference as ref
+
 from gasdyn2d import ureg
 from gasdyn2d.characteristics.jet_cells import slot_jet_cells
 from gasdyn2d.characteristics.jets import underexpanded_slot_jet
@@ -29,20 +31,10 @@ from gasdyn2d.relations.oblique_shocks import max_deflection, oblique_shock
 slot_jet_cells = functools.partial(slot_jet_cells, slot_half_height=1.0)
 
 
-def mp_nu(M, g=1.4):
-    """ν(M) at 40 digits (NACA Report 1135, eq. 171)."""
-    with mp.workdps(40):
-        M, g = mp.mpf(M), mp.mpf(g)
-        k = mp.sqrt((g + 1) / (g - 1))
-        return k * mp.atan(mp.sqrt(M * M - 1) / k) - mp.atan(mp.sqrt(M * M - 1))
-
-
-def mp_jet_mach(M_exit, ratio, g=1.4):
-    """Fully expanded Mach number: p0/pa = (p0/pe)(pe/pa) (NACA Report 1135, eq. 44)."""
-    with mp.workdps(40):
-        M, g, r = mp.mpf(M_exit), mp.mpf(g), mp.mpf(ratio)
-        p0_pa = (1 + (g - 1) / 2 * M * M) ** (g / (g - 1)) * r
-        return mp.sqrt(2 / (g - 1) * (p0_pa ** ((g - 1) / g) - 1))
+def jet_mach(M_exit, ratio, g=1.4):
+    """Fully expanded Mach number, p0/pa = (p0/pe)(pe/pa) (mpmath reference,
+    tests/reference.py; NACA Report 1135, eq. 44)."""
+    return ref.M_from_p_p0(ref.p_p0(M_exit, g) / ratio, g)
 
 
 @pytest.mark.parametrize("eps", [0.005, 0.01, 0.02, 0.05])
@@ -52,7 +44,7 @@ def test_weak_jet_cells_against_linear_theory(eps):
     jet = slot_jet_cells(2.0, 1.0 + eps, n_points=81, n_cells=2)
     assert jet.stop_reason == "cells"
     linear = float(jet.cell_length_linear)
-    assert linear == pytest.approx(4.0 * math.sqrt(float(mp_jet_mach(2.0, 1 + eps)) ** 2 - 1),
+    assert linear == pytest.approx(4.0 * math.sqrt(jet_mach(2.0, 1 + eps) ** 2 - 1),
                                    rel=1e-12)
     first, second = (float(c) for c in jet.cell_lengths)
     assert 0.3 * eps < first / linear - 1.0 < 0.7 * eps
@@ -83,13 +75,10 @@ def test_lip_fan_start_is_the_exact_simple_wave():
     # ν = ν(Me) + 2(ν(Mj) - ν(Me)) (Riemann invariants, a fact of the trade)
     M, ratio = 2.0, 1.3
     jet = slot_jet_cells(M, ratio, n_points=161, n_cells=1)
-    turn = float(mp_nu(mp_jet_mach(M, ratio)) - mp_nu(M))
+    turn = ref.nu(jet_mach(M, ratio), 1.4) - ref.nu(M, 1.4)
     assert float(jet.lip_turn) == pytest.approx(turn, rel=1e-12)
     assert float(jet.boundary_theta[0]) == pytest.approx(turn, rel=1e-12)
-    nu_centre = float(mp_nu(M)) + 2.0 * turn
-    with mp.workdps(30):
-        mach = mp.findroot(lambda m: mp_nu(m) - nu_centre, 2.5)
-        p_expected = float((1 + 0.2 * mach * mach) ** -3.5)
+    p_expected = ref.p_p0(ref.M_from_nu(ref.nu(M, 1.4) + 2.0 * turn, 1.4), 1.4)
     assert float(np.min(jet.centreline_p_p0)) == pytest.approx(p_expected, rel=5e-3)
 
 
@@ -191,7 +180,7 @@ def test_round_jet_boundary_extrema_against_linear_theory():
         linear = np.asarray(getattr(jets[1], field + "_linear"))[:2]
         departure = ((2.0 * fine - coarse) / linear - 1.0) / eps
         assert np.all((0.1 < departure) & (departure < 0.4)), (field, departure)
-    scale = math.sqrt(float(mp_jet_mach(2.0, 1 + eps)) ** 2 - 1)
+    scale = math.sqrt(jet_mach(2.0, 1 + eps) ** 2 - 1)
     assert float(jets[1].narrowest_x_linear[0]) == pytest.approx(2.44712834 * scale, rel=1e-12)
     assert float(jets[1].cell_length_linear) == pytest.approx(
         2 * math.pi * scale / 2.404825557695773, rel=1e-12)  # Pack (1950), πD√(Mj²-1)/j0
