@@ -371,12 +371,12 @@ class _Recorder:
 
 def _crawling(station, walls, n, gamma):
     """Where the march can no longer advance (the flow at M = 1 to within 1e-6, or a
-    characteristic turned across the stream: a CFL step below 1e-7 of the spacing), or
+    characteristic turned across the stream: a CFL step below 1e-3 of the spacing), or
     None."""
     _, mu, _ = flow_properties(station.lp, station.lp0, gamma)
     spread = np.tan(station.th + mu) - np.tan(station.th - mu)
     h = float(walls[1].height(station.x) - walls[0].height(station.x)) / (n - 1)
-    if float(np.max(spread)) * 1e-7 * h < 2.0 * h * CFL_NUMBER:
+    if float(np.max(spread)) * 1e-3 * h < 2.0 * h * CFL_NUMBER:
         return None
     k = int(np.argmax(spread))
     return (station.x, float(station.y[k]))

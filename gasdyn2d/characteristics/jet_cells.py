@@ -154,6 +154,10 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.
     cells = call.count("n_cells", n_cells, 1, 20)
     if call.nan_inputs:  # NaN in, NaN out: no stations
         return _cells_result(_NAN_JET, M, math.nan, ratio, b, call, "planar")
+    sonic = pressure_ratio(M, g) / (2.0 / (g + 1.0)) ** (g / (g - 1.0))
+    call.check(ratio > sonic, "p_exit_p_ambient", ratio,
+               f"above {sonic:.10g}: the ambient pressure must lie below the sonic pressure "
+               "of the stream, so that the fully expanded jet is supersonic")
     M_jet = float(mach_from_pressure_ratio(pressure_ratio(M, g) / ratio, g))
     call.check(np.isfinite(M_jet), "p_exit_p_ambient", ratio,
                "small enough that the jet does not expand to vacuum")

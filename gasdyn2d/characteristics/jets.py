@@ -123,7 +123,9 @@ class SlotJet(ResultTable):
     boundary_nodes: object = unit_field("")  #: indices of the boundary nodes in ``net``
     max_half_width: object = unit_field("m")  #: widest half-width of the first cell
     max_width_x: object = unit_field("m")  #: where the boundary is widest
-    cell_length: object = unit_field("m")  #: twice the distance to the widest point (planar)
+    #: twice the distance to the widest point (planar; linear theory's estimate from the
+    #: first half-cell: ``slot_jet_cells`` computes the cells)
+    cell_length: object = unit_field("m")
     #: linear theory: 2h√(Mj² - 1), h the full width (round: 1.3064 D√(Mj² - 1))
     cell_length_linear: object = unit_field("m")
     shock_formed: bool = unit_field("")  #: compressions coalesced within the marched length
@@ -146,8 +148,9 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
     there and the march stops. In a planar jet that happens within the first
     cell however weak the jet (see Notes). With ``geometry="axisymmetric"``
     the jet is round (``slot_half_height`` is its exit radius) and the march
-    carries the axisymmetric source term, to the first shock as well (fitting
-    that shock and marching the cells beyond is left to shock fitting).
+    carries the axisymmetric source term, to the first shock as well. For the
+    cells beyond the first shock, computed with fitted shocks, see
+    :func:`gasdyn2d.characteristics.jet_cells.slot_jet_cells`.
 
     Parameters
     ----------
