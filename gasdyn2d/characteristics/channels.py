@@ -48,8 +48,8 @@ class ChannelFlow(ResultTable):
 
     ``stop_reason`` is ``"length"`` (the march reached ``length``),
     ``"mach_reflection"`` (a shock reached a wall at a turn beyond detachment, where
-    only a Mach reflection exists, or the axis of a round duct, where a converging
-    shock cannot reflect regularly), ``"shock_crossing"`` (fitted shocks met beyond
+    only a Mach reflection exists, or a shock converging on the axis of a round duct
+    grew that strong), ``"shock_crossing"`` (fitted shocks met beyond
     detachment, where no regular crossing exists; regular crossings are carried on,
     with their slip line, and a shock overtaking another of its family merges with it),
     ``"sonic"`` (a compression, or a shock, slowed the stream to M <= 1) or

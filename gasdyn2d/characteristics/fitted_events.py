@@ -91,8 +91,6 @@ def reflect_from_wall(station, hit, walls, gamma, finished):
     k, wall_index = hit
     shocks = list(station.shocks)
     incident = shocks[k]
-    incident.end = "wall"
-    finished.append(incident)
     counts = station.counts.copy()
     _, _, start, stop = zone_layout(counts)
     wall = walls[wall_index]
@@ -113,6 +111,8 @@ def reflect_from_wall(station, hit, walls, gamma, finished):
             return station, ("sonic", (station.x, y_wall))
     else:  # the incident shock has died out before the wall: a Mach wave reflects
         beta, ratio, p0_ratio = math.asin(1.0 / mach2), 1.0, 1.0
+    incident.end = "wall"
+    finished.append(incident)
     reflected = Interface(family, station.x, y_wall, th2 + family * beta, beta, ratio)
     state = (lp2 + math.log(ratio), theta_wall, lp02 + math.log(p0_ratio))
     # the zone between the wall and the incident shock has closed; a zone between the wall

@@ -19,17 +19,18 @@ boundary moves along the mean of its old and new directions.
 - Over-expanded: the lip shock (family -1) brings the exit flow to ambient pressure:
   Mn1² = 1 + (γ + 1)(pa/pe - 1)/(2γ) (NACA Report 1135, eq. 128) and the deflection from
   θ-β-M; the march starts at the lip.
-- Compressions: a shock is inserted between two neighbouring nodes inside a zone where
-  their characteristics of one family would cross within :data:`FOLD_STEPS` marching
-  steps (:func:`insert_at_folds`). The march's interpolation keeps a steepening
-  compression a few nodes wide, so characteristics never cross exactly; four steps
-  catches strong compressions (the barrel shock of a strongly under-expanded jet) while
-  leaving the gentle compression of a weakly under-expanded one as waves. Shocks of one
-  family that meet merge.
+- Compressions: the first shock of an under-expanded jet starts where the characteristic
+  net (which resolves the convergence of the reflected compression better than this
+  march) first folds (``first_fold``; :func:`start_shock_near`). Later ones are inserted
+  between two neighbouring nodes inside a zone where their characteristics of one family
+  would cross within :data:`FOLD_STEPS` marching steps (:func:`insert_at_folds`): the
+  march's interpolation keeps a steepening compression a few nodes wide, so
+  characteristics never cross exactly; four steps catches strong compressions while
+  leaving gentle ones as waves. Shocks of one family that meet merge.
 - A shock reaching the centreline of a planar jet reflects regularly
   (:func:`~gasdyn2d.characteristics.fitted_events.reflect_from_wall`); where only a Mach
-  reflection exists, where a shock reaches the axis of a round jet (no regular reflection
-  there), or where a shock grows so strong that the flow behind it would be subsonic, the
+  reflection exists (in a round jet, after the shock has strengthened converging on the
+  axis), or where a shock grows so strong that the flow behind it would be subsonic, the
   march stops (``"mach_disc"``: the Mach disc and the subsonic core behind it are not
   modelled).
 - Round jets (``geometry="axisymmetric"``): the compatibility relations carry the
@@ -64,7 +65,8 @@ from .fitted_events import CFL_NUMBER, Interface, Station, flow_properties, zone
 from .fitted_shocks import FittedMarch, march_fitted_channel
 from .walls import WallContour
 
-__all__ = ["FreeBoundary", "JetMarch", "march_fitted_jet", "insert_at_folds", "FOLD_STEPS"]
+__all__ = ["FreeBoundary", "JetMarch", "march_fitted_jet", "insert_at_folds", "start_shock_near",
+           "FOLD_STEPS"]
 
 #: a shock is inserted where neighbouring characteristics of one family would cross within
 #: this many marching steps
@@ -94,8 +96,9 @@ class FreeBoundary:
     is_free = True
     corners_x = ()
 
-    def __init__(self, log_pressure, station, cells):
+    def __init__(self, log_pressure, station, cells, first_fold=None):
         self.log_pressure = log_pressure
+        self.first_fold = first_fold  # (x, y) where the first shock forms, or None
         self.cells = cells
         self.x, self.y, self.theta = station.x, float(station.y[-1]), float(station.th[-1])
         self.corner = False  # a shock ended here on the last station: the next step turns
@@ -140,7 +143,8 @@ class FreeBoundary:
 
     def follow(self, station, n, gamma):
         """Take the station's boundary node as the boundary's latest point; record a narrowest
-        or widest point passed; insert a shock where the boundary turns compressive."""
+        or widest point passed; insert a shock where the first one forms, or where the
+        characteristics are about to fold."""
         x, y, theta = station.x, float(station.y[-1]), float(station.th[-1])
         hit_here = bool(self.hits) and self.hits[-1] == x
         if self.theta <= 0.0 < theta and self.x > 0.0:  # turned outward: narrowest
@@ -151,6 +155,9 @@ class FreeBoundary:
             self.widest.append(self.x + w * (x - self.x))
             self.widest_y.append(self.y + w * (y - self.y))
         self.x, self.y, self.theta, self.corner = x, y, theta, hit_here
+        if self.first_fold is not None and x >= self.first_fold[0]:
+            y_fold, self.first_fold = self.first_fold[1], None
+            return start_shock_near(station, y_fold, n, gamma)
         return insert_at_folds(station, n, gamma)
 
     def cells_done(self):
@@ -182,6 +189,28 @@ def insert_at_folds(station, n, gamma):
         if folds.size:
             return _split_zone(station, int(folds[0]), family, mach, gamma, n)
     return station
+
+
+def start_shock_near(station, y, n, gamma):
+    """Insert a shock near height ``y``: between the two neighbouring nodes (within three
+    of ``y``, in one zone) whose characteristics of one family would cross soonest, of that
+    family. Used where the characteristic net, which resolves the convergence of a
+    compression better than the march, says the first shock forms."""
+    mach, mu, _ = flow_properties(station.lp, station.lp0, gamma)
+    k = int(np.clip(np.searchsorted(station.y, y) - 1, 0, station.y.size - 2))
+    pairs = np.arange(max(k - 3, 0), min(k + 4, station.y.size - 1))
+    pairs = pairs[station.zone[pairs] == station.zone[pairs + 1]]
+    best = (math.inf, 0, 0)
+    for family in (-1, 1):
+        slope = np.tan(station.th + family * mu)
+        closing = slope[pairs] - slope[pairs + 1]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            reach = np.where(closing > 0.0, np.diff(station.y)[pairs] / closing, np.inf)
+        if reach.size and float(np.min(reach)) < best[0]:
+            best = (float(np.min(reach)), family, int(pairs[np.argmin(reach)]))
+    if not math.isfinite(best[0]):  # nothing converges there (a coarse mesh): no shock yet
+        return insert_at_folds(station, n, gamma)
+    return _split_zone(station, best[2], best[1], mach, gamma, n)
 
 
 def _split_zone(station, j, family, mach, gamma, n):
@@ -226,7 +255,8 @@ def _zero_crossing(x0, x1, f0, f1):
     return x0 + f0 / (f0 - f1) * (x1 - x0)
 
 
-def march_fitted_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells, geometry="planar"):
+def march_fitted_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells, geometry="planar",
+                     first_fold=None):
     """Plain core: march the upper half of a planar jet from a slot, with fitted shocks.
 
     Parameters
@@ -245,6 +275,11 @@ def march_fitted_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells, geometry="plan
     geometry : {"planar", "axisymmetric"}, optional
         A slot jet (default) or a round jet (lengths in exit radii); a round
         under-expanded jet starts at the lip, its lip fan captured by the march.
+    first_fold : tuple, optional
+        (x, y) where the first shock forms, from the characteristic net
+        (:func:`~gasdyn2d.characteristics.jets.underexpanded_slot_jet`'s ``shock_x``,
+        ``shock_y`` in slot half-heights): a shock is started there
+        (:func:`start_shock_near`).
 
     Returns
     -------
@@ -258,10 +293,10 @@ def march_fitted_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells, geometry="plan
     ('cells', [(-1, 'wall'), (1, 'free boundary')])
     """
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        return _march_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells, geometry)
+        return _march_jet(M_exit, p_exit_p_ambient, gamma, n, n_cells, geometry, first_fold)
 
 
-def _march_jet(M, ratio, gamma, n, n_cells, geometry):
+def _march_jet(M, ratio, gamma, n, n_cells, geometry, first_fold):
     p_exit = float(pressure_ratio(M, gamma))
     log_ambient = math.log(p_exit / ratio)
     axis = WallContour.straight(0.0)
@@ -278,7 +313,7 @@ def _march_jet(M, ratio, gamma, n, n_cells, geometry):
         if start is None:  # the lip shock cannot turn the flow to ambient pressure
             march = FittedMarch(np.array([0.0]), [], [], [], [], [], [], "sonic", (0.0, 1.0))
             return JetMarch(march, np.empty(0), np.empty(0), np.empty(0), math.nan)
-    boundary = FreeBoundary(log_ambient, start, cells)
+    boundary = FreeBoundary(log_ambient, start, cells, first_fold)
     beta = math.sqrt((M - 1.0) * (M + 1.0))
     cap = 8.0 * (n_cells + 1) * beta * max(ratio, 1.0 / ratio)  # well past the cells asked
     march = march_fitted_channel(M, gamma, axis, boundary, cap, n, start=start,
@@ -286,7 +321,9 @@ def _march_jet(M, ratio, gamma, n, n_cells, geometry):
     if march.reason in ("mach_reflection", "sonic"):
         # a shock that cannot reflect regularly on the centreline, or one so strong that the
         # flow behind it would be subsonic: where the Mach disc stands
-        march = march._replace(reason="mach_disc")
+        shocks = [shock[:-1] + ("mach_disc" if shock[-1] == march.reason else shock[-1],)
+                  for shock in march.shocks]
+        march = march._replace(reason="mach_disc", shocks=shocks)
     return JetMarch(march, np.array(boundary.narrowest), np.array(boundary.widest),
                     np.array(boundary.widest_y), turn)
 

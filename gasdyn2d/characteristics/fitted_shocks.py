@@ -71,10 +71,13 @@ its shock point makes them consistent (the weak reflected wave and slip line of 
 exact merging, third order in the turns, are not fitted; the merged shock matches the
 exact one of :func:`gasdyn2d.patterns.interactions.merging_shocks` to 2e-8).
 
-The axis of a round flow: a shock converging on it strengthens (the turn is spread
-over a shrinking circumference) and cannot reflect regularly there (from memory); the
-march stops with ``"mach_reflection"`` where a shock reaches the axis, or where the
-flow behind it turns subsonic within two mesh spacings of it.
+The axis of a round flow: a shock converging on it strengthens (its turn is spread over
+a shrinking circumference). Where it reaches the axis with a turn that an attached shock
+can still reverse, it reflects regularly (the Mach disc that theory puts there is then
+smaller than the mesh resolves); where the strengthened shock has passed detachment, or
+turns the flow behind it subsonic within two mesh spacings of the axis, the march stops
+with ``"mach_reflection"``. Near that transition the outcome depends on how close to the
+axis the mesh resolves the strengthening: refine.
 
 Where it stops (``"shock_crossing"``): a crossing or a refraction beyond detachment
 (no regular solution), or two slip lines meeting; flow compressed to M = 1, or a
@@ -299,11 +302,6 @@ def _march(M, gamma, lower_wall, upper_wall, length, n, start=None, round_=False
             for wall_hit in hit[1]:
                 if wall_hit[1] == 1 and free:  # a shock reaching a jet's boundary ends there
                     new, status = upper_wall.end_shock(new, wall_hit[0], finished)
-                elif wall_hit[1] == 0 and round_ and float(lower_wall.height(new.x)) == 0.0:
-                    # on the axis of a round flow a shock cannot reflect regularly: it
-                    # strengthens as it converges and a Mach disc forms (see _march's notes)
-                    new.shocks[wall_hit[0]].end = "mach_reflection"
-                    status = ("mach_reflection", (new.x, 0.0))
                 else:
                     new, status = reflect_from_wall(new, wall_hit, walls, gamma, finished)
                 if status != "ok":

@@ -17,8 +17,8 @@ from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
 from .design_calls import DesignCall, frozen_array
 from .fitted_jets import JetMarch, march_fitted_jet
 from .fitted_shocks import FittedMarch, FittedShock
-from .jets import linear_cell_length, linear_extrema
-from .unit_processes import CharacteristicNet, check_geometry
+from .jets import linear_cell_length, linear_extrema, underexpanded_slot_jet
+from .unit_processes import ROUND_LINE_LIMIT, CharacteristicNet, check_geometry
 
 __all__ = ["slot_jet_cells", "SlotJetCells"]
 
@@ -71,6 +71,11 @@ class SlotJetCells(ResultTable):
                                                       repr=False)
     geometry: str = unit_field("", "'planar' (a slot) or 'axisymmetric' (a round jet)",
                                default="planar")
+    #: where the first shock of an under-expanded jet forms: the first fold of its
+    #: characteristic net (``underexpanded_slot_jet``'s ``shock_x``, ``shock_y``); the march
+    #: starts a shock there (NaN for an over-expanded jet, whose lip shocks start at the lip)
+    shock_forms_x: float = unit_field("m", default=float("nan"))
+    shock_forms_y: float = unit_field("m", default=float("nan"))
 
 
 def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.4,
@@ -114,12 +119,12 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.
     an over-expanded jet that cannot bring the flow to ambient pressure with supersonic
     flow behind it. ``"shock_crossing"``: shocks of one family merging.
 
-    Compressions reflected from the boundary are carried as waves until neighbouring
-    characteristics would cross within one step; only there is a shock inserted. In a
-    weakly under-expanded jet the march's interpolation keeps the reflected compression
-    spread over a few nodes, so no shock is fitted in it (the characteristic net of
-    :func:`~gasdyn2d.characteristics.jets.underexpanded_slot_jet` locates where it first
-    folds); the cells are still computed. Lip shocks of over-expanded jets are fitted
+    The first shock of an under-expanded jet starts where the characteristic net of
+    :func:`~gasdyn2d.characteristics.jets.underexpanded_slot_jet` first folds
+    (``shock_forms_x``, ``shock_forms_y``) and gathers the compression from behind; later
+    ones where neighbouring characteristics of the march would cross within four steps.
+    A weak compression stays partly a steep isentropic wave beside its shock (the march's
+    interpolation keeps it a few nodes wide). Lip shocks of over-expanded jets are fitted
     from the lip. The fan that a shock reflects from the boundary is captured by the
     march (first order there). Inviscid: the mixing layer at the jet boundary, which
     in a real jet grows and damps the cells downstream, is not modelled.
@@ -137,7 +142,7 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.
     >>> from gasdyn2d.characteristics.jet_cells import slot_jet_cells
     >>> jet = slot_jet_cells(2.0, 1.05, slot_half_height=0.002)
     >>> jet.stop_reason, [round(float(c) * 1e3, 2) for c in jet.cell_lengths]
-    ('cells', [14.49, 14.52])
+    ('cells', [14.53, 14.56])
     >>> round(float(jet.cell_length_linear) * 1e3, 2)
     14.15
     """
@@ -153,7 +158,7 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.
     n = call.count("n_points", n_points, 5, 2000)
     cells = call.count("n_cells", n_cells, 1, 20)
     if call.nan_inputs:  # NaN in, NaN out: no stations
-        return _cells_result(_NAN_JET, M, math.nan, ratio, b, call, "planar")
+        return _cells_result(_NAN_JET, M, math.nan, ratio, b, call, "planar", None)
     sonic = pressure_ratio(M, g) / (2.0 / (g + 1.0)) ** (g / (g - 1.0))
     call.check(ratio > sonic, "p_exit_p_ambient", ratio,
                f"above {sonic:.10g}: the ambient pressure must lie below the sonic pressure "
@@ -163,11 +168,16 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=41, n_cells=2, gamma=1.
                "small enough that the jet does not expand to vacuum")
     round_ = check_geometry(geometry)
     geometry = "axisymmetric" if round_ else "planar"
-    jet = march_fitted_jet(M, ratio, g, n, cells, geometry)
-    return _cells_result(jet, M, M_jet, ratio, b, call, geometry)
+    fold = None
+    if ratio > 1.0:  # where the first shock forms: the characteristic net's first fold
+        net = underexpanded_slot_jet(M, ratio, n_characteristics=min(n - 1, ROUND_LINE_LIMIT),
+                                     gamma=g, slot_half_height=1.0, geometry=geometry)
+        fold = (float(net.shock_x), float(net.shock_y)) if net.shock_formed else None
+    jet = march_fitted_jet(M, ratio, g, n, cells, geometry, first_fold=fold)
+    return _cells_result(jet, M, M_jet, ratio, b, call, geometry, fold)
 
 
-def _cells_result(jet, M, M_jet, ratio, b, call, geometry):
+def _cells_result(jet, M, M_jet, ratio, b, call, geometry, fold):
     march = jet.march
     counts = np.array([y.size for y in march.y], dtype=np.intp)
     top = np.cumsum(counts) - 1
@@ -202,5 +212,6 @@ def _cells_result(jet, M, M_jet, ratio, b, call, geometry):
         widest_half_width=length(jet.widest_y), boundary_x=length(x[top]),
         boundary_y=length(y[top]), boundary_theta=call.angle(theta[top]),
         centreline_p_p0=frozen_array(p_p0[top - counts + 1]), shocks=shocks, net=call.net(net),
-        geometry=geometry,
+        geometry=geometry, shock_forms_x=length(fold[0] if fold else math.nan),
+        shock_forms_y=length(fold[1] if fold else math.nan),
     )
