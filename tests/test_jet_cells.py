@@ -266,6 +266,24 @@ def test_any_jet_ends_with_a_stated_reason(M, log_ratio, round_):
     sonic_limit = ref.p_p0(M, 1.4) / 0.5282817877171742  # p*/p0 at γ = 1.4
     assume(ratio > sonic_limit * (1 + 1e-9) and abs(ratio - 1.0) > 1e-6)
     jet = slot_jet_cells(M, ratio, n_points=11, geometry="axisymmetric" if round_ else "planar")
-    assert jet.stop_reason in ("cells", "mach_disc", "sonic", "shock_crossing")
+    assert jet.stop_reason in ("cells", "mach_disc", "sonic", "shock_crossing", "slip_line")
     if jet.stop_reason == "cells":
         assert jet.cell_lengths.size == 2 and np.all(jet.cell_lengths > 0.0)
+
+
+def test_a_slip_line_reaching_the_centreline_stops_the_march():
+    # on a coarse mesh the strong Mach 3 jet's shocks cross off the centreline, and the slip
+    # line they leave runs down to it: a wall cannot carry two streams, so the march stops
+    # there with its own reason (finer meshes reflect the shocks regularly instead)
+    jet = slot_jet_cells(3.0, 5.0, n_points=11)
+    assert jet.stop_reason == "slip_line"
+    assert float(jet.stop_y) == pytest.approx(0.0, abs=1e-12)
+    assert any(shock.end == "crossing" for shock in jet.shocks)
+
+
+def test_a_lip_shock_turning_the_flow_subsonic_is_not_called_a_mach_disc():
+    # a round over-expanded jet at pe/pa = 0.3 (Mach 2): the lip shock nearly detaches and
+    # the flow behind it turns subsonic a step from the lip, far from the axis: "sonic"
+    jet = slot_jet_cells(2.0, 0.3, geometry="axisymmetric")
+    assert jet.stop_reason == "sonic"
+    assert float(jet.stop_y) > 0.9 and float(jet.stop_x) < 0.05

@@ -1,4 +1,5 @@
-"""Shock-fitted march of a planar jet: the constant-pressure boundary as a zone boundary.
+"""Shock-fitted march of a jet, planar or round: the constant-pressure boundary as a zone
+boundary.
 
 Plain core of :func:`gasdyn2d.characteristics.jets.underexpanded_slot_jet` and
 :func:`~gasdyn2d.characteristics.jets.overexpanded_slot_jet` (planar): the march of
@@ -10,8 +11,10 @@ exit stagnation pressure.
 Method
 ------
 The boundary node takes the ambient pressure; the C+ arriving from the jet gives its
-direction (dθ + B dp/p = 0 with B averaged between the foot and the node), and the
-boundary moves along the mean of its old and new directions.
+direction (θ - ν constant along it, ν at the mean stagnation pressure of its ends: exact
+where the flow is homentropic, so a strong fan centred at the boundary turns in one step;
+:meth:`FreeBoundary.turn_to_ambient`), and the boundary moves along the mean of its old
+and new directions.
 
 - Under-expanded: the march starts at x0 = b√(Me² - 1), where the head of the lip fan
   reaches the centreline, from the exact centred simple wave (each node's flow angle
@@ -30,9 +33,10 @@ boundary moves along the mean of its old and new directions.
 - A shock reaching the centreline of a planar jet reflects regularly
   (:func:`~gasdyn2d.characteristics.fitted_events.reflect_from_wall`); where only a Mach
   reflection exists (in a round jet, after the shock has strengthened converging on the
-  axis), or where a shock grows so strong that the flow behind it would be subsonic, the
-  march stops (``"mach_disc"``: the Mach disc and the subsonic core behind it are not
-  modelled).
+  axis, or where it turns the flow behind it subsonic within two spacings of the axis),
+  the march stops (``"mach_disc"``: the Mach disc and the subsonic core behind it are not
+  modelled). A shock so strong elsewhere that the flow behind it would be subsonic stops
+  it with ``"sonic"``.
 - Round jets (``geometry="axisymmetric"``): the compatibility relations carry the
   axisymmetric source term; an under-expanded round jet starts at the lip, its lip fan
   captured by the march (first order there: the first cell end moves by 0.24 % from
@@ -88,9 +92,10 @@ class FreeBoundary:
     """A jet's constant-pressure boundary as the upper boundary of a fitted march.
 
     Known up to the last station marched, straight beyond it (``height``, ``slope``);
-    it follows the march (:meth:`follow`), ends the shocks that reach it
-    (:meth:`end_shock`), inserts a shock where it turns compressive, and records where it
-    is narrowest and widest.
+    it follows the march (:meth:`follow`, which also starts the shocks: where the
+    characteristic net first folds, and where the march's characteristics are about to
+    fold), ends the shocks that reach it (:meth:`end_shock`), and records where it is
+    narrowest and widest.
     """
 
     is_free = True
@@ -199,7 +204,8 @@ def start_shock_near(station, y, n, gamma):
     mach, mu, _ = flow_properties(station.lp, station.lp0, gamma)
     k = int(np.clip(np.searchsorted(station.y, y) - 1, 0, station.y.size - 2))
     pairs = np.arange(max(k - 3, 0), min(k + 4, station.y.size - 1))
-    pairs = pairs[station.zone[pairs] == station.zone[pairs + 1]]
+    pairs = pairs[(station.zone[pairs] == station.zone[pairs + 1])
+                  & (station.y[pairs + 1] > station.y[pairs])]  # not in a collapsed zone
     best = (math.inf, 0, 0)
     for family in (-1, 1):
         slope = np.tan(station.th + family * mu)
@@ -318,9 +324,7 @@ def _march_jet(M, ratio, gamma, n, n_cells, geometry, first_fold):
     cap = 8.0 * (n_cells + 1) * beta * max(ratio, 1.0 / ratio)  # well past the cells asked
     march = march_fitted_channel(M, gamma, axis, boundary, cap, n, start=start,
                                  geometry=geometry)
-    if march.reason in ("mach_reflection", "sonic"):
-        # a shock that cannot reflect regularly on the centreline, or one so strong that the
-        # flow behind it would be subsonic: where the Mach disc stands
+    if march.reason == "mach_reflection":  # on the centreline: where the Mach disc stands
         shocks = [shock[:-1] + ("mach_disc" if shock[-1] == march.reason else shock[-1],)
                   for shock in march.shocks]
         march = march._replace(reason="mach_disc", shocks=shocks)

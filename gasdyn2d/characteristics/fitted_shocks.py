@@ -81,7 +81,8 @@ axis the mesh resolves the strengthening: refine.
 
 Where it stops (``"shock_crossing"``): a crossing or a refraction beyond detachment
 (no regular solution), or two slip lines meeting; flow compressed to M = 1, or a
-shock so strong the flow behind it is subsonic (``"sonic"``).
+shock so strong the flow behind it is subsonic (``"sonic"``); a slip line reaching a
+wall or a jet's boundary (``"slip_line"``: the wall would have to carry two streams).
 
 Accuracy: the averaged-coefficient rule is second order; the limited interpolation
 at the feet keeps smooth regions close to that, but centred fans, the strengthening
@@ -281,7 +282,7 @@ def _march(M, gamma, lower_wall, upper_wall, length, n, start=None, round_=False
             reason, where = "sonic", crawl
             break
         if meet is not None:
-            reason, where = "shock_crossing", meet
+            reason, where = meet
             break
         new, status = _advance(station, dx, hit, walls, n, gamma, round_)
         if status != "ok":
@@ -396,7 +397,8 @@ def _shock_strengths(station, gamma):
 
 def _step_length(station, walls, length, starts, n, gamma):
     """The next step: CFL length, cut to land on the channel end, a shock's wall hit or
-    a shock's start; or the point where two shocks meet."""
+    a shock's start; or (reason, point) where the march must stop: two interfaces meeting
+    without a carried event, or a slip line reaching a wall."""
     x = station.x
     height = float(walls[1].height(x) - walls[0].height(x))
     h = height / (n - 1)
@@ -415,10 +417,14 @@ def _step_length(station, walls, length, starts, n, gamma):
     if shocks:
         for k, wall_index, family in ((0, 0, -1), (len(shocks) - 1, 1, +1)):
             shock = shocks[k]
-            if shock.family != family:
+            if shock.family not in (family, 0):
                 continue
             d = _wall_hit(shock, walls[wall_index], x, reach, wall_index)
-            if d is not None:
+            if d is not None and shock.family == 0:  # a slip line cannot end on a wall
+                if d <= dx:
+                    return dx, None, ("slip_line", (x + d, shock.y + d * math.tan(
+                        shock.direction)))
+            elif d is not None:
                 found.append((d, k, wall_index))
     if found:  # the first wall hit, and any other at the same x (a symmetric channel)
         first = min(d for d, _, _ in found)
@@ -443,11 +449,12 @@ def _step_length(station, walls, length, starts, n, gamma):
         event = ("cross", i - 1, 2)
     elif (below > 0 and above == 0) or (below == 0 and above < 0):
         event = ("refract", i, 1)  # a shock passes through a slip line
-    elif below == above:  # one shock overtaking another of its family: they merge
+    elif below == above != 0:  # one shock overtaking another of its family: they merge
         event = ("merge", i, 1)
-    else:  # a slip line meeting a slip line: not carried on
+    else:  # two slip lines, or a slip line overtaking a shock: not carried on
         if d <= dx:
-            return dx, None, (x + d, shocks[i].y + d * math.tan(shocks[i].direction))
+            return dx, None, ("shock_crossing",
+                              (x + d, shocks[i].y + d * math.tan(shocks[i].direction)))
         return dx, hit, None
     if d < dx or hit is None:
         dx, hit = d, event  # land a station where they meet

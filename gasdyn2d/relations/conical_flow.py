@@ -125,9 +125,10 @@ def reject_detached(theta, M1, gamma, failed, check):
     limit[idx] = cone_detachment_angles(M1_f, g_f)[0]
     limit = limit.reshape(theta_a.shape)
     with np.errstate(invalid="ignore"):
-        beyond = failed_a & (theta_a > limit)
-        # at the detachment angle itself (to rounding), the root of θc(β) = θ is double and
-        # may be missed: those cases take the detachment solution (see cone_core)
+        # at the detachment angle itself (to rounding, either side: θc,max is computed to
+        # the last bit only for a given batch), the root of θc(β) = θ is double and may be
+        # missed: those cases take the detachment solution (see cone_core)
+        beyond = failed_a & (theta_a > limit * (1.0 + DETACHMENT_EDGE))
         unexplained = (failed_a & ~beyond & ~np.isnan(theta_a)
                        & (theta_a < limit * (1.0 - DETACHMENT_EDGE)))
     if scalar:
@@ -210,18 +211,24 @@ DETACHMENT_EDGE = 1e-9
 
 def _at_detachment(fields, M1, value, gamma):
     """``fields`` with the unsolved cases at the detachment angle (to rounding: the double
-    root of θc(β) = θ that a bracketing solve can miss) replaced by the detachment flow."""
+    root of θc(β) = θ that a bracketing solve can miss) replaced by the detachment flow;
+    their ``cone_angle`` stays the one given (θc,max to within 1e-9)."""
     with np.errstate(invalid="ignore"):
         edge = np.isnan(np.asarray(fields.wave_angle, dtype=float)) & ~np.isnan(value) \
             & ~np.isnan(M1) & ~np.isnan(gamma)
     if not np.any(edge):
         return fields
-    beta_star = cone_detachment_angles(M1, gamma)[1]
-    at_edge = cone_flow_from_wave_angle(M1, beta_star, gamma)
     if type(fields.wave_angle) is float:
-        return at_edge
-    return type(fields)(*(np.where(edge, np.broadcast_to(e, np.shape(f)), f)
-                          for f, e in zip(fields, at_edge)))
+        beta_star = cone_detachment_angles(M1, gamma)[1]
+        return cone_flow_from_wave_angle(M1, beta_star, gamma)._replace(cone_angle=value)
+    shape = np.shape(fields.wave_angle)
+    mach, g = (np.broadcast_to(v, shape)[edge] for v in (M1, gamma))
+    at_edge = cone_flow_from_wave_angle(mach, cone_detachment_angles(mach, g)[1], g)
+    out = [np.array(np.broadcast_to(f, shape), dtype=float) for f in fields]
+    for field, edge_value in zip(out, at_edge):
+        field[edge] = edge_value
+    out[0][edge] = np.broadcast_to(value, shape)[edge]  # the cone angle given
+    return type(fields)(*out)
 
 
 def cone_flow(M1: ArrayInput, *, cone_angle: ArrayInput = None, wave_angle: ArrayInput = None,
