@@ -52,7 +52,8 @@ class ChannelFlow(ResultTable):
     grew that strong), ``"shock_crossing"`` (fitted shocks met beyond
     detachment, where no regular crossing exists; regular crossings are carried on,
     with their slip line, and a shock overtaking another of its family merges with it),
-    ``"sonic"`` (a compression, or a shock, slowed the stream to M <= 1) or
+    ``"sonic"`` (a compression, or a shock, slowed the stream to M <= 1), ``"slip_line"``
+    (a slip line reached a wall) or
     ``"nan"`` (a flow input was NaN: no nodes, NaN values); ``stop_x``, ``stop_y``
     is where the march stopped short. The last complete row of the characteristic
     net before the fold (``handover_*``), a line across the channel from the lower
@@ -63,7 +64,7 @@ class ChannelFlow(ResultTable):
     """
 
     mach_inlet: float = unit_field("")  #: uniform Mach number at the inlet x = 0
-    #: "length", "mach_reflection", "shock_crossing", "sonic" or "nan"
+    #: "length", "mach_reflection", "shock_crossing", "sonic", "slip_line" or "nan"
     stop_reason: str = unit_field("")
     shock_x: float = unit_field("m")  #: where the net folds or the stream reaches M = 1 (else NaN)
     shock_y: float = unit_field("m")

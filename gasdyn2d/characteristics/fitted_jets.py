@@ -34,9 +34,10 @@ and new directions.
   (:func:`~gasdyn2d.characteristics.fitted_events.reflect_from_wall`); where only a Mach
   reflection exists (in a round jet, after the shock has strengthened converging on the
   axis, or where it turns the flow behind it subsonic within two spacings of the axis),
-  the march stops (``"mach_disc"``: the Mach disc and the subsonic core behind it are not
-  modelled). A shock so strong elsewhere that the flow behind it would be subsonic stops
-  it with ``"sonic"``.
+  or where a shock in the inner half of the jet grows so strong that the flow behind it
+  would be subsonic, the march stops (``"mach_disc"``: the Mach disc and the subsonic
+  core behind it are not modelled). A shock that does so in the outer half (a lip shock
+  near detachment) stops it with ``"sonic"``.
 - Round jets (``geometry="axisymmetric"``): the compatibility relations carry the
   axisymmetric source term; an under-expanded round jet starts at the lip, its lip fan
   captured by the march (first order there: the first cell end moves by 0.24 % from
@@ -324,7 +325,10 @@ def _march_jet(M, ratio, gamma, n, n_cells, geometry, first_fold):
     cap = 8.0 * (n_cells + 1) * beta * max(ratio, 1.0 / ratio)  # well past the cells asked
     march = march_fitted_channel(M, gamma, axis, boundary, cap, n, start=start,
                                  geometry=geometry)
-    if march.reason == "mach_reflection":  # on the centreline: where the Mach disc stands
+    near_centre = march.stop_position[1] < 0.5 * boundary.y
+    if march.reason == "mach_reflection" or (march.reason == "sonic" and near_centre):
+        # on the centreline, or a shock near it that can no longer leave supersonic flow
+        # behind it: where the Mach disc stands
         shocks = [shock[:-1] + ("mach_disc" if shock[-1] == march.reason else shock[-1],)
                   for shock in march.shocks]
         march = march._replace(reason="mach_disc", shocks=shocks)

@@ -116,13 +116,12 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=81, n_cells=2, gamma=1.
     Notes
     -----
     Where the march stops short: ``"mach_disc"``, a shock reaching the centreline at
-    a turn beyond detachment, where only a Mach reflection (a Mach disc) exists (in a
-    round jet also a shock turning the flow behind it subsonic within two mesh spacings
-    of the axis); the disc and the subsonic flow behind it are not modelled.
-    ``"sonic"``: a shock so strong that the flow behind it would be subsonic elsewhere
-    (a lip shock of an over-expanded jet that cannot bring the flow to ambient pressure
-    with supersonic flow behind it; the barrel shock of a strongly under-expanded jet
-    near where its Mach disc stands). ``"shock_crossing"``: shocks crossing beyond
+    a turn beyond detachment, where only a Mach reflection (a Mach disc) exists, or a
+    shock in the inner half of the jet grown so strong that the flow behind it would be
+    subsonic (the barrel shock of a strongly under-expanded round jet); the disc and the
+    subsonic flow behind it are not modelled. ``"sonic"``: the same in the outer half of
+    the jet (a lip shock of an over-expanded jet that cannot bring the flow to ambient
+    pressure with supersonic flow behind it, or nearly so). ``"shock_crossing"``: shocks crossing beyond
     detachment; ``"slip_line"``: a slip line reaching the centreline or the boundary;
     ``"length"``: the cells asked for not complete within 8(n_cells + 1) linear cells.
     Near the transition from regular reflection to a Mach disc the outcome depends on the
