@@ -287,3 +287,20 @@ def test_a_lip_shock_turning_the_flow_subsonic_is_not_called_a_mach_disc():
     jet = slot_jet_cells(2.0, 0.3, geometry="axisymmetric")
     assert jet.stop_reason == "sonic"
     assert float(jet.stop_y) > 0.9 and float(jet.stop_x) < 0.05
+
+
+def test_round_jet_linear_extrema_against_an_independent_reference():
+    # the tabulated widest and narrowest points of linear theory (jets.ROUND_JET_*_POINTS)
+    # against an independent mpmath evaluation of Σ sin(j_k ξ)/j_k (tests/round_jet_reference.py:
+    # McMahon's expansion summed in closed form by Clausen functions): the sum changes sign
+    # across each tabulated root, + to - at the widest points and - to + at the narrowest
+    # (at ξ = 4, 8, 12, 16 by a jump of exactly ±1, the step of the twice-focused lip wave)
+    from round_jet_reference import boundary_slope_sum
+    from gasdyn2d.characteristics.jets import ROUND_JET_NARROWEST_POINTS, ROUND_JET_WIDEST_POINTS
+    for roots, sign in ((ROUND_JET_WIDEST_POINTS, 1.0), (ROUND_JET_NARROWEST_POINTS, -1.0)):
+        for xi in roots:
+            step = 1e-9 if xi == round(xi) else 2e-8  # the table's 8 decimals
+            before, after = boundary_slope_sum(xi - step), boundary_slope_sum(xi + step)
+            assert sign * before > 0.0 > sign * after, (xi, before, after)
+            if xi == round(xi):
+                assert after - before == pytest.approx(-sign, abs=1e-6)

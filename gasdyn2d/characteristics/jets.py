@@ -33,13 +33,18 @@ _J0_FIRST_ZERO = 2.404825557695773
 #: 1.43634071 to 8 digits; a planar jet's is 2, half its cell)
 ROUND_JET_WIDEST_POINT = 1.43634071
 #: linear theory of a round under-expanded jet, in units of R√(Mj² - 1): where its boundary
-#: is widest and narrowest, the roots of Σ sin(j_k ξ)/j_k where it falls and where it rises
-#: (computed as above with 2·10^5 zeros and Lanczos factors, to 1e-7). The modes are not
-#: harmonics, so these are not multiples of one cell length; an over-expanded jet swaps them.
-ROUND_JET_WIDEST_POINTS = (1.43634071, 3.99999898, 6.35006999, 9.16422312, 11.99999672,
-                           14.21022706, 16.89911518, 19.90544414)
-ROUND_JET_NARROWEST_POINTS = (2.44712834, 5.30401364, 7.99999792, 10.27195797, 13.02682933,
-                              15.99999518, 18.16190383, 20.78442935)
+#: is widest and narrowest, where Σ sin(j_k ξ)/j_k changes sign from + to - and from - to +
+#: (computed here twice: with 2·10^5 zeros and Lanczos factors, and independently with
+#: mpmath, the zeros beyond the 400th from McMahon's expansion and the sum of its leading
+#: terms in closed form by Clausen functions, to 5e-12). At ξ = 4, 8, 12, 16 the sum jumps
+#: across zero by exactly ±1: the lip wave, back after focusing twice on the axis, arrives
+#: as a step, and the linear boundary has a corner there, not a smooth extremum. The modes
+#: are not harmonics, so these are not multiples of one cell; an over-expanded jet swaps
+#: them.
+ROUND_JET_WIDEST_POINTS = (1.43634071, 4.0, 6.35006999, 9.16422312, 12.0, 14.21022706,
+                           16.89911518, 19.90544414)
+ROUND_JET_NARROWEST_POINTS = (2.44712834, 5.30401364, 8.0, 10.27195797, 13.02682933, 16.0,
+                              18.16190383, 20.78442935)
 
 
 def linear_cell_length(M_jet, slot_width, geometry="planar"):
