@@ -17,7 +17,7 @@ from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
 from .design_calls import DesignCall, frozen_array
 from .fitted_jets import JetMarch, march_fitted_jet
 from .fitted_shocks import FittedMarch, FittedShock
-from .jets import linear_cell_length, linear_extrema, underexpanded_slot_jet
+from .jets import jet_inputs, linear_cell_length, linear_extrema, underexpanded_slot_jet
 from .unit_processes import ROUND_LINE_LIMIT, CharacteristicNet, check_geometry
 
 __all__ = ["slot_jet_cells", "SlotJetCells"]
@@ -155,11 +155,7 @@ def slot_jet_cells(M_exit, p_exit_p_ambient, *, n_points=81, n_cells=2, gamma=1.
     14.15
     """
     call = DesignCall("slot_jet_cells")
-    M = call.scalar("M_exit", M_exit, nan="record")
-    ratio = call.scalar("p_exit_p_ambient", p_exit_p_ambient, nan="record")
-    g = call.scalar("gamma", gamma, nan="record")
-    b = call.positive("slot_half_height", slot_half_height, "m")
-    call.check(1.0 < g < np.inf, "gamma", g, "a finite ratio of specific heats > 1")
+    M, ratio, g, b = jet_inputs(call, M_exit, p_exit_p_ambient, gamma, slot_half_height)
     call.check(1.0 < M < np.inf, "M_exit", M, "finite and > 1")
     call.check(0.0 < ratio < np.inf and ratio != 1.0, "p_exit_p_ambient", ratio,
                "finite, > 0 and not 1 (a jet at ambient pressure has no cells)")

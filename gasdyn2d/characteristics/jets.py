@@ -22,7 +22,7 @@ from ..relations.expansion_fans import prandtl_meyer_angle
 from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
 
 __all__ = ["underexpanded_slot_jet", "SlotJet", "linear_cell_length", "ROUND_JET_WIDEST_POINT",
-           "ROUND_JET_WIDEST_POINTS", "ROUND_JET_NARROWEST_POINTS", "linear_extrema"]
+           "ROUND_JET_WIDEST_POINTS", "ROUND_JET_NARROWEST_POINTS", "linear_extrema", "jet_inputs"]
 
 
 #: first zero of the Bessel function J0 (Abramowitz & Stegun 1964, Table 9.5)
@@ -229,11 +229,7 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
     (True, 8.44)
     """
     call = DesignCall("underexpanded_slot_jet")
-    M = call.scalar("M_exit", M_exit, nan="record")
-    ratio = call.scalar("p_exit_p_ambient", p_exit_p_ambient, nan="record")
-    g = call.scalar("gamma", gamma, nan="record")
-    b = call.positive("slot_half_height", slot_half_height, "m")
-    call.check(1.0 < g < np.inf, "gamma", g, "a finite ratio of specific heats > 1")
+    M, ratio, g, b = jet_inputs(call, M_exit, p_exit_p_ambient, gamma, slot_half_height)
     call.check(1.0 <= M < np.inf, "M_exit", M, "finite and >= 1")
     call.check(1.0 < ratio < np.inf, "p_exit_p_ambient", ratio,
                "finite and > 1 (an under-expanded jet; an over-expanded one starts with lip "
@@ -267,6 +263,17 @@ def underexpanded_slot_jet(M_exit, p_exit_p_ambient, *, n_characteristics=50, ga
                               upstream_lines=(x_start, y_start, 0.0 * y_start,
                                               np.full(n, nu_exit)))
     return _jet_result(band, n, M, M_jet, ratio, turn, b, call, g, geometry_name)
+
+
+def jet_inputs(call, M_exit, p_exit_p_ambient, gamma, slot_half_height):
+    """The inputs every jet function takes, through the boundary: (M, pe/pa, γ, b), NaN
+    recorded (a NaN flow input gives a NaN result), γ checked."""
+    M = call.scalar("M_exit", M_exit, nan="record")
+    ratio = call.scalar("p_exit_p_ambient", p_exit_p_ambient, nan="record")
+    g = call.scalar("gamma", gamma, nan="record")
+    b = call.positive("slot_half_height", slot_half_height, "m")
+    call.check(1.0 < g < np.inf, "gamma", g, "a finite ratio of specific heats > 1")
+    return M, ratio, g, b
 
 
 def _jet_result(band, n, M, M_jet, ratio, turn, b, call, gamma, geometry="planar"):
