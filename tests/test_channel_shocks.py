@@ -205,18 +205,19 @@ def test_round_duct_shock_converging_on_the_axis_ends_in_a_mach_reflection():
     # shock strengthens as it converges on the axis (a fact of axisymmetric flow: the same
     # turn is spread over a shrinking circumference) until the flow behind it turns
     # subsonic; the march stops with a Mach reflection near the axis, at an x that
-    # converges as the mesh is refined (0.20818, 0.20714, 0.20713 m at n = 21, 41, 81)
+    # converges as the mesh is refined (0.20819, 0.20710, 0.20668 m at n = 21, 41, 81)
     stops = []
     for n in (41, 81):
         flow = channel_flow(M1, lower_wall=None, upper_wall=_roof(1e-4, turn=math.radians(-4.0)),
                             length=0.5, n_points=n, geometry="axisymmetric")
-        assert flow.stop_reason == "mach_reflection" and float(flow.stop_y) == 0.0
+        assert flow.stop_reason == "mach_reflection"
+        assert float(flow.stop_y) < 2.0 * 0.1 / (n - 1)  # within two spacings of the axis
         shock = flow.shocks[0]
         assert shock.p2_p1[0] == pytest.approx(float(oblique_shock(
             M1, deflection=math.radians(4.0)).p2_p1), rel=1e-12)  # NACA Report 1135, eq. 128
         assert np.all(np.diff(shock.p2_p1[2:]) > 0.0) and shock.p2_p1[-1] > 2.0
         stops.append(float(flow.stop_x))
-    assert stops[1] == pytest.approx(stops[0], abs=2e-4)
+    assert stops[1] == pytest.approx(stops[0], abs=6e-4)
 
 
 def test_round_duct_centre_body_cone_approaches_taylor_maccoll():
@@ -225,7 +226,8 @@ def test_round_duct_centre_body_cone_approaches_taylor_maccoll():
     # The shock starts as the wedge's and relaxes to the conical one: surface pressure and
     # wave angle approach Taylor–Maccoll (gasdyn2d.relations.conical_flow.cone_flow, checked
     # against NACA Report 1135 charts in tests/test_conical_flow.py). Measured surface
-    # pressure error at x = 0.9 m: 4.4e-3, 5.7e-4, 5.7e-4, 3.4e-4 for n = 41 ... 321.
+    # pressure error at x = 0.9 m: 3.4e-5, 2.1e-4, 1.0e-4, 8.7e-5 for n = 41 ... 321, and
+    # 3.1e-4, 6.5e-4, 2.9e-4, 9.6e-5 at x = 0.5 m; wave angle at the end 0.014° off at 161.
     M, cone = 2.0, math.radians(10.0)
     exact = cone_flow(M, cone_angle=cone)
     p_cone = float(exact.p_cone_p1) * float(pressure_ratio(M))
@@ -234,10 +236,11 @@ def test_round_duct_centre_body_cone_approaches_taylor_maccoll():
                                  geometry="axisymmetric")
     assert march.reason == "length"
     wall_p = np.array([p[0] for p in march.p_p0])
-    assert float(np.interp(0.9, march.station_x, wall_p)) == pytest.approx(p_cone, rel=1.5e-3)
+    assert float(np.interp(0.9, march.station_x, wall_p)) == pytest.approx(p_cone, rel=5e-4)
+    assert float(np.interp(0.5, march.station_x, wall_p)) == pytest.approx(p_cone, rel=1e-3)
     family, x, y, beta, ratio, end = march.shocks[0]
     assert family == 1 and end == "length"
-    assert float(beta[-1]) == pytest.approx(float(exact.wave_angle), abs=math.radians(0.15))
+    assert float(beta[-1]) == pytest.approx(float(exact.wave_angle), abs=math.radians(0.05))
 
 
 @pytest.mark.parametrize("lower_deg, upper_deg", [(4.0, 4.0), (3.0, 5.0)])

@@ -544,14 +544,14 @@ def _advance(old, dx, hit, walls, n, gamma, round_=False):
         if feet_slopes is not None:
             slopes = 0.5 * (slopes + feet_slopes)
         new = (y, lp, th, lp0)
-        all_lp, all_th, all_lp0 = _foot(old, new, slopes, geometry)  # rows: a, b, s
+        all_lp, all_th, all_lp0, span = _foot(old, new, slopes, geometry)  # rows: a, b, s
         (lpa, lpb, _), (tha, thb, ths), (lp0a, lp0b, lp0s) = all_lp, all_th, all_lp0
         _, mu_ab, b_ab = flow_properties(all_lp[:2], all_lp0[:2], gamma)
         (mua, mub), (ba, bb) = mu_ab, b_ab
         feet_slopes = np.tan(np.array([tha + mua, thb - mub, ths]))
         bp, bm = 0.5 * (ba + b), 0.5 * (bb + b)
         if round_:  # the source term, folded into the feet's θ (see _source_terms)
-            tha, thb = _source_terms(tha, thb, mua, mub, th, mu, y, slopes, dx)
+            tha, thb = _source_terms(tha, thb, mua, mub, th, mu, y, slopes, dx * span)
         rp, rm = tha + bp * lpa, thb - bm * lpb
         lp_new = np.where(interior, (rp - rm) / (bp + bm), lp)
         th_new = np.where(interior, rp - bp * lp_new, th)
@@ -606,7 +606,7 @@ def _advance(old, dx, hit, walls, n, gamma, round_=False):
     return Station(x, counts, y, lp, th, lp0, list(shocks)), "ok"
 
 
-def _source_terms(tha, thb, mua, mub, th, mu, y, slopes, dx):
+def _source_terms(tha, thb, mua, mub, th, mu, y, slopes, lengths):
     """The feet's θ with the axisymmetric source term of each C± integrated to the node.
 
     Along C+: dθ + B dp/p + Q+ dx = 0, along C-: dθ - B dp/p - Q- dx = 0, with
@@ -616,10 +616,12 @@ def _source_terms(tha, thb, mua, mub, th, mu, y, slopes, dx):
     θa - Q+ dx and θb + Q- dx in place of the feet's θ. Q is taken at the midpoint of the
     trace (θ, μ and y averaged between foot and node: second order), where y > 0 unless
     both ends lie on the axis; there the C+ is not used (the axis node takes its C-).
+    ``lengths`` (rows C+, C-) is each trace's length in x: the step, or less where the
+    trace meets its zone's boundary path.
     """
     terms = []
-    for theta_foot, mu_foot, slope, sign in ((tha, mua, slopes[0], 1.0),
-                                             (thb, mub, slopes[1], -1.0)):
+    for theta_foot, mu_foot, slope, dx, sign in ((tha, mua, slopes[0], lengths[0], 1.0),
+                                                 (thb, mub, slopes[1], lengths[1], -1.0)):
         y_mid = 0.5 * (y + np.maximum(y - dx * slope, 0.0))
         t, m = 0.5 * (theta_foot + th), 0.5 * (mu_foot + mu)
         q = np.sin(t) * np.sin(m) / (np.where(y_mid > 0.0, y_mid, 1.0) * np.cos(t + sign * m))
@@ -681,7 +683,8 @@ def _foot(old, new, slope, geometry):
     previous station, or, where they leave their zone first, the zone's boundary path.
 
     ``slope`` has shape (k, n): k families of lines at once (C+, C-, streamline); each
-    returned array has that shape.
+    returned array has that shape. The last one is the length of each trace as a fraction
+    of the step (1, or less where the trace meets its zone's boundary path).
     """
     zone, own_lo, own_hi, start, stop, dx = geometry
     y, lp, th, lp0 = new
@@ -692,6 +695,7 @@ def _foot(old, new, slope, geometry):
     above = (y_foot > hi_old) & ~own_hi
     eta = np.where(thick > 0.0, (y_foot - lo_old) / np.where(thick > 0.0, thick, 1.0), 0.5)
     values = _interpolate(old, zone, np.minimum(np.maximum(eta, 0.0), 1.0))
+    span = np.ones_like(slope)
     n = y.size
     for mask, new_index, old_index in ((below, start, old.start), (above, stop, old.stop)):
         if not mask.any():
@@ -704,4 +708,5 @@ def _foot(old, new, slope, geometry):
         t = np.where(t >= 0.0, np.minimum(t, 1.0), np.where(t < 0.0, 0.0, 1.0))  # NaN: 1
         for value, now, before in zip(values, (lp, th, lp0), (old.lp, old.th, old.lp0)):
             value.ravel()[k] = (1.0 - t) * now[new_index[z]] + t * before[old_index[z]]
-    return values
+        span.ravel()[k] = t
+    return (*values, span)
