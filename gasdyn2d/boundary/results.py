@@ -19,7 +19,8 @@ from typing import NamedTuple
 
 import numpy as np
 
-__all__ = ["FieldInfo", "ResultTable", "pint_unit", "result_fields", "unit_field"]
+__all__ = ["FieldInfo", "ResultTable", "optional_xarray", "pint_unit", "result_fields",
+           "unit_field"]
 
 #: pint spellings of the field unit texts, for DataArray "units" attributes.
 _PINT_UNITS = {"rad": "rad", "Pa": "Pa", "K": "K", "m": "m", "m/s": "m/s",
@@ -386,10 +387,7 @@ class ResultTable:
         for more. Units are in each variable's ``units`` attribute (or in the data,
         for Quantities, as pint-xarray keeps them); descriptions in ``long_name``.
         """
-        try:
-            import xarray as xr
-        except ImportError as exc:  # pragma: no cover - depends on the environment
-            raise ImportError("to_xarray needs xarray: pip install xarray") from exc
+        xr = optional_xarray()
         variables = {}
         for info in result_fields(type(self)):
             value = getattr(self, info.name)
@@ -407,6 +405,16 @@ class ResultTable:
                     yield f"{field.name}.{inner.name}", inner, getattr(value, inner.name)
             else:
                 yield field.name, field, value
+
+
+def optional_xarray():
+    """The xarray module, imported when a result is turned into a Dataset (an optional
+    dependency), or an ImportError saying how to get it."""
+    try:
+        import xarray as xr
+    except ImportError as exc:  # pragma: no cover - depends on the environment
+        raise ImportError("to_xarray needs xarray: pip install xarray") from exc
+    return xr
 
 
 def _as_variable(value, info, xr):

@@ -24,6 +24,7 @@ import math
 
 import numpy as np
 
+from ..relations.normal_shock_inverses import mach_from_pressure_jump
 from ..relations.oblique_shocks import oblique_shock_ratios
 from ..relations.theta_beta_mach import (
     detachment_angles,
@@ -33,7 +34,7 @@ from ..relations.theta_beta_mach import (
 
 __all__ = ["Station", "Interface", "zone_layout", "flow_properties", "insert_shocks",
            "reflect_from_wall", "cross_shocks", "refract_through_slip_line", "merge_shocks",
-           "CFL_NUMBER"]
+           "CFL_NUMBER", "cfl_step", "zone_node_count", "wave_angle_of_jump"]
 
 CFL_NUMBER = 1.0  #: feet of C± about one target spacing from the node
 
@@ -66,6 +67,26 @@ class Station:
         self.shocks = shocks  # list of Interface, len(counts) - 1, between zone i and i + 1
         self.zone, self.eta, self.start, self.stop = zone_layout(self.counts)
         self.xi = 2.0 * self.zone + self.eta  # increasing: one interpolation for all zones
+
+
+def cfl_step(theta, mu, h):
+    """The marching step [m] that puts the feet of C± about ``CFL_NUMBER`` target spacings
+    ``h`` from their node, for the steepest pair of characteristics among θ, μ."""
+    return CFL_NUMBER * 2.0 * h / float(np.max(np.tan(theta + mu) - np.tan(theta - mu)))
+
+
+def zone_node_count(thickness, h):
+    """Nodes of a zone of ``thickness`` (array or float): as many as keep the spacing at
+    most ``h``, at least its two boundary nodes."""
+    return np.maximum(2, np.ceil(np.asarray(thickness) / h - 1e-9).astype(np.intp) + 1)
+
+
+def wave_angle_of_jump(mach, p2_p1, gamma):
+    """Wave angle β [rad] of the shock with pressure ratio ``p2_p1`` (>= 1) in a stream of
+    Mach number ``mach``: Mn1 from p2/p1 (NACA Report 1135, eq. 93 inverted,
+    :func:`~gasdyn2d.relations.normal_shock_inverses.mach_from_pressure_jump`), β = asin(Mn1/M)
+    (π/2 where Mn1 >= M)."""
+    return np.arcsin(np.minimum(mach_from_pressure_jump(p2_p1, gamma) / mach, 1.0))
 
 
 def zone_layout(counts):
@@ -255,8 +276,7 @@ def merge_shocks(station, i, span, gamma, finished):
     ahead, behind = (above, below) if family > 0 else (below, above)
     ratio = max(float(np.exp(station.lp[behind] - station.lp[ahead])), 1.0)
     mach = float(flow_properties(station.lp[ahead], station.lp0[ahead], gamma)[0])
-    mn = math.sqrt(1.0 + (ratio - 1.0) * (gamma + 1.0) / (2.0 * gamma))
-    beta = math.asin(min(mn / mach, 1.0))
+    beta = float(wave_angle_of_jump(mach, ratio, gamma))
     y_meet = float(station.y[below + 1])
     for shock in (lower, upper):
         shock.end = "merged"
@@ -290,7 +310,7 @@ def insert_shocks(station, starts, walls, n, gamma):
         mach, mu, _ = (float(v) for v in flow_properties(lp, lp0, gamma))
         family = 1 if lower else -1
         h = float(walls[1].height(station.x) - walls[0].height(station.x)) / (n - 1)
-        step = CFL_NUMBER * 2.0 * h / (math.tan(th + mu) - math.tan(th - mu))
+        step = cfl_step(th, mu, h)
         ahead, after = x_start - 1e-9 * step, x_end + 1e-9 * step  # either side of a corner
         turn = family * float(np.arctan(wall.slope(after)) - np.arctan(wall.slope(ahead)))
         beta, ratio, p0_ratio = mu, 1.0, 1.0

@@ -63,10 +63,12 @@ from typing import NamedTuple
 import numpy as np
 
 from ..relations.isentropic import mach_from_pressure_ratio, pressure_ratio
+from ..relations.normal_shock_inverses import mach_from_pressure_jump
 from ..relations.oblique_shocks import oblique_shock_ratios
 from ..relations.prandtl_meyer_function import mach_from_prandtl_meyer_angle, prandtl_meyer_angle
 from ..relations.theta_beta_mach import sonic_angles
-from .fitted_events import CFL_NUMBER, Interface, Station, flow_properties, zone_layout
+from .fitted_events import (Interface, Station, cfl_step, flow_properties, wave_angle_of_jump,
+                            zone_layout, zone_node_count)
 from .fitted_shocks import FittedMarch, march_fitted_channel
 from .walls import WallContour
 
@@ -180,9 +182,7 @@ def insert_at_folds(station, n, gamma):
     the shock point of the next step makes it consistent with the oblique-shock relations.
     """
     mach, mu, _ = flow_properties(station.lp, station.lp0, gamma)
-    h = float(station.y[-1] - station.y[0]) / (n - 1)
-    spread = np.tan(station.th + mu) - np.tan(station.th - mu)
-    reach = FOLD_STEPS * CFL_NUMBER * 2.0 * h / float(np.max(spread))
+    reach = FOLD_STEPS * cfl_step(station.th, mu, float(station.y[-1] - station.y[0]) / (n - 1))
     for family in (-1, 1):
         slope = np.tan(station.th + family * mu)
         gap = np.diff(station.y)
@@ -227,8 +227,7 @@ def _split_zone(station, j, family, mach, gamma, n):
     y_s = 0.5 * (station.y[j] + station.y[j + 1])
     ahead, behind = (j, j + 1) if family < 0 else (j + 1, j)
     ratio = max(float(np.exp(station.lp[behind] - station.lp[ahead])), 1.0)
-    mn2 = 1.0 + (ratio - 1.0) * (gamma + 1.0) / (2.0 * gamma)  # NACA Report 1135, eq. 128
-    beta = math.asin(min(math.sqrt(mn2) / float(mach[ahead]), 1.0))
+    beta = float(wave_angle_of_jump(float(mach[ahead]), ratio, gamma))
     shock = Interface(family, station.x, y_s, float(station.th[ahead]) + family * beta, beta,
                       ratio)
     values = (station.lp, station.th, station.lp0)
@@ -236,7 +235,7 @@ def _split_zone(station, j, family, mach, gamma, n):
     pieces = []
     for lo, hi, known in ((station.y[first], y_s, np.arange(first, j + 1)),
                           (y_s, station.y[last], np.arange(j + 1, last + 1))):
-        count = max(2, int(math.ceil((hi - lo) / h - 1e-9)) + 1)
+        count = int(zone_node_count(hi - lo, h))
         y_new = np.linspace(lo, hi, count)
         y_known = station.y[known]
         y_known = np.concatenate([[lo], y_known]) if known[0] > j else \
@@ -369,8 +368,8 @@ def _lip_shock_station(M, ratio, gamma, n, p_exit):
     shock (family -1) that brings it to ambient pressure; None if that shock has no
     supersonic flow behind it."""
     rise = 1.0 / ratio
-    mn = math.sqrt(1.0 + (gamma + 1.0) * (rise - 1.0) / (2.0 * gamma))
-    beta = math.asin(min(mn / M, 1.0))
+    mn = float(mach_from_pressure_jump(rise, gamma))  # NACA Report 1135, eq. 93 inverted
+    beta = float(wave_angle_of_jump(M, rise, gamma))
     if mn >= M or beta >= float(sonic_angles(M, gamma)[1]):
         return None, math.nan
     after = oblique_shock_ratios(M, beta, gamma)

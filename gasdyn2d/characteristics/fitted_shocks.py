@@ -106,13 +106,16 @@ from ..relations.isentropic import pressure_ratio
 from .fitted_events import (
     CFL_NUMBER,
     Station,
+    cfl_step,
     cross_shocks,
     flow_properties,
     insert_shocks,
     merge_shocks,
     reflect_from_wall,
     refract_through_slip_line,
+    wave_angle_of_jump,
     zone_layout,
+    zone_node_count,
 )
 from .shock_points import shock_point
 
@@ -389,9 +392,7 @@ def _shock_strengths(station, gamma):
         return [], []
     ratio = np.exp(station.lp[behind] - station.lp[ahead])
     mach = flow_properties(station.lp[ahead], station.lp0[ahead], gamma)[0]
-    # β from the normal Mach number: p2/p1 = 1 + 2γ(Mn² - 1)/(γ + 1) (NACA Report 1135, eq. 128)
-    mn2 = 1.0 + np.maximum(ratio - 1.0, 0.0) * (gamma + 1.0) / (2.0 * gamma)
-    beta = np.arcsin(np.minimum(np.sqrt(mn2) / mach, 1.0))
+    beta = wave_angle_of_jump(mach, np.maximum(ratio, 1.0), gamma)
     return list(ratio), list(beta)
 
 
@@ -403,8 +404,7 @@ def _step_length(station, walls, length, starts, n, gamma):
     height = float(walls[1].height(x) - walls[0].height(x))
     h = height / (n - 1)
     _, mu, _ = flow_properties(station.lp, station.lp0, gamma)
-    spread = np.tan(station.th + mu) - np.tan(station.th - mu)
-    dx_cfl = CFL_NUMBER * 2.0 * h / float(np.max(spread))
+    dx_cfl = cfl_step(station.th, mu, h)
     limit = length - x
     corners = [c for wall in walls for c in getattr(wall, "corners_x", ())]
     for x_mark in [start[0] for start in starts] + corners:
@@ -509,7 +509,7 @@ def _advance(old, dx, hit, walls, n, gamma, round_=False):
         return None, ("shock_crossing", (x, float(bounds[k])))
     bounds = np.maximum.accumulate(bounds)
     thick = np.diff(bounds)
-    counts = np.maximum(2, np.ceil(thick / h - 1e-9).astype(np.intp) + 1)
+    counts = zone_node_count(thick, h)
     zone, eta, start, stop = zone_layout(counts)
     kind, ahead, behind = _kinds(counts, shocks)
     is_shock = np.array([s.is_shock for s in shocks], dtype=bool)

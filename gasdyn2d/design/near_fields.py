@@ -40,7 +40,7 @@ import math
 import numpy as np
 
 from ..boundary import is_quantity
-from ..boundary.results import ResultTable, result_fields, unit_field
+from ..boundary.results import ResultTable, optional_xarray, result_fields, unit_field
 from ..characteristics.design_calls import DesignCall, frozen_array
 from ..characteristics.shock_points import shock_point
 from ..errors import DetachedShockError, InvalidInputError, NoSolutionError
@@ -117,10 +117,7 @@ class SectionNearField(ResultTable):
         ``sample_above``, ``panel_upper``, ``panel_lower``, and one ``<shock>_point`` per
         shock (its fields as ``<shock>.<field>``); each variable's unit in its ``units``
         attribute ("chord" for lengths in chords). Needs xarray."""
-        try:
-            import xarray as xr
-        except ImportError as exc:  # pragma: no cover - depends on the environment
-            raise ImportError("to_xarray needs xarray: pip install xarray") from exc
+        xr = optional_xarray()
         variables = {}
         for info in result_fields(type(self)):
             value = getattr(self, info.name)
