@@ -164,6 +164,9 @@ def test_lengths_take_the_slot_unit():
     ((1.0, 1.2), "M_exit"),
     ((2.0, 1.2, {"n_cells": 0}), "n_cells"),
     ((2.0, 1.2, {"n_points": 3}), "n_points"),
+    ((2.0, 1.2, {"gamma": 1.0}), "gamma"),
+    ((2.0, 1.2, {"geometry": "annular"}), "geometry"),
+    ((2.0, 1.2, {"slot_half_height": -1.0}), "slot_half_height"),
 ])
 def test_bad_inputs_name_the_argument(args, name):
     *values, = args
